@@ -1,0 +1,39 @@
+import type { ReactNode } from 'react';
+import { Navigate, useLocation } from 'react-router';
+import { useSession, useSignedInUser } from '../features/auth/api/session';
+import { Loading } from '../components/ui/Spinner';
+import { ErrorState } from '../components/ui/ErrorState';
+import { NotAllowedPage } from './routes/NotAllowedPage';
+import type { Role } from '../../../shared/schemas/users';
+
+/** Where the sign-in page sends the user afterwards: the page they asked for. */
+export interface SignInState {
+  from?: string;
+}
+
+/** Renders its children only for a signed-in user; everyone else goes to sign-in and comes back. */
+export function RequireAuth({ children }: { children: ReactNode }) {
+  const session = useSession();
+  const location = useLocation();
+
+  if (session.isPending) return <Loading label="Checking your session…" className="justify-center py-24" />;
+  if (session.isError) {
+    return (
+      <div className="mx-auto max-w-xl p-6">
+        <ErrorState title="Could not check your session" error={session.error} onRetry={() => session.refetch()} />
+      </div>
+    );
+  }
+  if (!session.data) {
+    const state: SignInState = { from: location.pathname + location.search + location.hash };
+    return <Navigate to="/sign-in" replace state={state} />;
+  }
+  return children;
+}
+
+/** Client-side role check for a route; the API refuses the data to other roles in any case. */
+export function RequireRole({ roles, children }: { roles: readonly Role[]; children: ReactNode }) {
+  const user = useSignedInUser();
+  if (!roles.includes(user.role)) return <NotAllowedPage />;
+  return children;
+}

@@ -1,0 +1,106 @@
+import type { Role } from '../../../shared/schemas/users';
+
+/** Every area of the app. The router builds its routes from this list and the menu shows it by role. */
+export type AreaId = 'overview' | 'charts' | 'results' | 'alarms' | 'ncrs' | 'reports' | 'users' | 'catalogue';
+
+export interface Area {
+  id: AreaId;
+  path: string;
+  /** Menu label and page heading. */
+  label: string;
+  /** One sentence of what the area is for, shown until the area is built. */
+  purpose: string;
+  /** Who may open the area. The server checks roles on every request too; this only shapes the menu and routes. */
+  roles: readonly Role[];
+  group: 'work' | 'administration';
+}
+
+const everyone: readonly Role[] = ['technician', 'quality_manager', 'auditor', 'admin'];
+
+export const areas: readonly Area[] = [
+  {
+    id: 'overview',
+    path: '/',
+    label: 'Plant overview',
+    purpose: 'The state of each line and product at a glance: open alarms, lots on hold and the latest results.',
+    roles: everyone,
+    group: 'work',
+  },
+  {
+    id: 'charts',
+    path: '/charts',
+    label: 'Control charts',
+    purpose:
+      'Control charts per product and characteristic, with centre line, control limits, run-rule signals and capability indices (Cp, Cpk, Pp, Ppk).',
+    roles: everyone,
+    group: 'work',
+  },
+  {
+    id: 'results',
+    path: '/results',
+    label: 'Results & uploads',
+    purpose:
+      "Enter a shift's test results by hand or upload them as CSV from lab instruments or a spreadsheet, and correct rejected rows.",
+    roles: ['technician', 'quality_manager', 'admin'],
+    group: 'work',
+  },
+  {
+    id: 'alarms',
+    path: '/alarms',
+    label: 'Alarms',
+    purpose:
+      'What the nightly SPC run flagged — out-of-control signals, out-of-specification results and falling capability — for review and a decision on assignable cause.',
+    roles: ['quality_manager', 'auditor', 'admin'],
+    group: 'work',
+  },
+  {
+    id: 'ncrs',
+    path: '/ncrs',
+    label: 'Nonconformance reports',
+    purpose:
+      'Raise and follow nonconformance reports from containment and lot hold through root cause and CAPA to disposition.',
+    roles: ['quality_manager', 'auditor', 'admin'],
+    group: 'work',
+  },
+  {
+    id: 'reports',
+    path: '/reports',
+    label: 'Reports & audit trail',
+    purpose:
+      'Capability reports for a period and the audit trail of who entered or changed which record, and when — evidence for factory production control audits.',
+    roles: ['quality_manager', 'auditor', 'admin'],
+    group: 'work',
+  },
+  {
+    id: 'users',
+    path: '/admin/users',
+    label: 'Users',
+    purpose: 'Who may sign in to Prismline and in which role.',
+    roles: ['admin'],
+    group: 'administration',
+  },
+  {
+    id: 'catalogue',
+    path: '/admin/catalogue',
+    label: 'Products, lines & characteristics',
+    purpose:
+      'The products made on each production line and the characteristics the lab tests on them.',
+    roles: ['admin'],
+    group: 'administration',
+  },
+];
+
+export function canOpen(area: Area, role: Role): boolean {
+  return area.roles.includes(role);
+}
+
+/** The menu for one role, in menu order. */
+export function areasFor(role: Role): Area[] {
+  return areas.filter((area) => canOpen(area, role));
+}
+
+export function areaById(id: AreaId): Area {
+  const area = areas.find((candidate) => candidate.id === id);
+  if (!area) throw new Error(`No area with id ${id}`);
+  return area;
+}

@@ -1,0 +1,56 @@
+import { lazy, Suspense, type ComponentType, type LazyExoticComponent } from 'react';
+import { createBrowserRouter, Navigate, type RouteObject } from 'react-router';
+import { areas, type AreaId } from './navigation';
+import { AppLayout } from './layouts/AppLayout';
+import { RequireAuth, RequireRole } from './guards';
+import { AreaPlaceholder } from './routes/AreaPlaceholder';
+import { NotFoundPage } from './routes/NotFoundPage';
+import { RouteErrorPage } from './routes/RouteErrorPage';
+import { Loading } from '../components/ui/Spinner';
+
+/**
+ * The page of each area that is built. Each loads on first visit (React.lazy), so the charts and
+ * tables of one feature never weigh on the start of another. An area not listed shows its placeholder.
+ */
+const pages: Partial<Record<AreaId, LazyExoticComponent<ComponentType>>> = {
+  users: lazy(() => import('../features/users/routes/UsersPage')),
+};
+
+// Its form library and schemas are not needed by someone already signed in.
+const SignInPage = lazy(() => import('../features/auth/routes/SignInPage'));
+
+const areaRoutes: RouteObject[] = areas.map((area) => {
+  const Page = pages[area.id];
+  return {
+    path: area.path,
+    element: <RequireRole roles={area.roles}>{Page ? <Page /> : <AreaPlaceholder area={area} />}</RequireRole>,
+  };
+});
+
+export const routes: RouteObject[] = [
+  {
+    path: '/sign-in',
+    element: (
+      <Suspense fallback={<Loading className="justify-center py-24" />}>
+        <SignInPage />
+      </Suspense>
+    ),
+    errorElement: <RouteErrorPage />,
+  },
+  {
+    element: (
+      <RequireAuth>
+        <AppLayout />
+      </RequireAuth>
+    ),
+    errorElement: <RouteErrorPage />,
+    children: [
+      {
+        errorElement: <RouteErrorPage />,
+        children: [...areaRoutes, { path: '/admin', element: <Navigate to="/admin/users" replace /> }, { path: '*', element: <NotFoundPage /> }],
+      },
+    ],
+  },
+];
+
+export const router = createBrowserRouter(routes);

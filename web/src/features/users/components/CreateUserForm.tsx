@@ -1,0 +1,68 @@
+import { useForm } from 'react-hook-form';
+import { zodResolver } from '@hookform/resolvers/zod';
+import { createUserSchema, roleLabels, roles, type PublicUser } from '../../../../../shared/schemas/users';
+import { ApiError, errorMessage } from '../../../lib/http';
+import { showServerFieldErrors } from '../../../lib/forms';
+import { useCreateUser } from '../api/users';
+import { Field, Input, Select } from '../../../components/ui/Field';
+import { Alert } from '../../../components/ui/Alert';
+import { Button } from '../../../components/ui/Button';
+
+const fields = ['name', 'email', 'role', 'password'] as const;
+
+export function CreateUserForm({ onCreated }: { onCreated: (user: PublicUser) => void }) {
+  const createUser = useCreateUser();
+  const {
+    register,
+    handleSubmit,
+    setError,
+    reset,
+    formState: { errors },
+  } = useForm({
+    resolver: zodResolver(createUserSchema),
+    defaultValues: { name: '', email: '', role: 'technician' as const, password: '' },
+  });
+
+  const onSubmit = handleSubmit((input) =>
+    createUser.mutate(input, {
+      onSuccess: (user) => {
+        reset();
+        onCreated(user);
+      },
+      onError: (error) => {
+        // 409: the address belongs to someone already; say so where it was typed.
+        if (error instanceof ApiError && error.status === 409) setError('email', { message: error.message });
+        else if (!showServerFieldErrors(error, setError, fields)) setError('root', { message: errorMessage(error) });
+      },
+    }),
+  );
+
+  return (
+    <form onSubmit={onSubmit} noValidate className="space-y-4" aria-label="Add a user">
+      {errors.root && <Alert tone="error">{errors.root.message}</Alert>}
+      <Field label="Full name" hint="As it should appear in records and the audit trail." error={errors.name?.message}>
+        {(control) => <Input {...control} autoComplete="off" {...register('name')} />}
+      </Field>
+      <Field label="E-mail" error={errors.email?.message}>
+        {(control) => <Input {...control} type="email" autoComplete="off" {...register('email')} />}
+      </Field>
+      <Field label="Role" error={errors.role?.message}>
+        {(control) => (
+          <Select {...control} {...register('role')}>
+            {roles.map((role) => (
+              <option key={role} value={role}>
+                {roleLabels[role]}
+              </option>
+            ))}
+          </Select>
+        )}
+      </Field>
+      <Field label="First password" hint="At least 10 characters. Hand it over in person." error={errors.password?.message}>
+        {(control) => <Input {...control} type="password" autoComplete="new-password" {...register('password')} />}
+      </Field>
+      <Button type="submit" busy={createUser.isPending}>
+        Add user
+      </Button>
+    </form>
+  );
+}

@@ -1,0 +1,117 @@
+/** One field-level problem reported by the API, e.g. `{ path: 'email', message: 'Enter a valid e-mail address' }`. */
+export interface ApiErrorDetail {
+  path: string;
+  message: string;
+}
+
+/**
+ * Every failed request ends here, so screens handle one error type. `status` is the HTTP status,
+ * or 0 when the server could not be reached at all.
+ */
+export class ApiError extends Error {
+  readonly status: number;
+  readonly details: ApiErrorDetail[];
+
+  constructor(status: number, message: string, details: ApiErrorDetail[] = []) {
+    super(message);
+    this.name = 'ApiError';
+    this.status = status;
+    this.details = details;
+  }
+}
+
+export interface RequestOptions {
+  method?: 'GET' | 'POST' | 'PATCH' | 'PUT' | 'DELETE';
+  /** Sent as JSON. */
+  body?: unknown;
+  signal?: AbortSignal;
+  /**
+   * Whether a 401 means "the session has ended" and should send the user back to sign-in.
+   * The sign-in and session probes answer 401 as an ordinary result and turn this off.
+   */
+  endsSessionOn401?: boolean;
+}
+
+type UnauthorizedListener = () => void;
+let unauthorizedListener: UnauthorizedListener | null = null;
+
+/** The app registers one listener that returns to sign-in; returns the function that removes it. */
+export function onUnauthorized(listener: UnauthorizedListener): () => void {
+  unauthorizedListener = listener;
+  return () => {
+    if (unauthorizedListener === listener) unauthorizedListener = null;
+  };
+}
+
+const UNREACHABLE = 'Cannot reach the Prismline server. Check the network connection and try again.';
+
+/**
+ * Fetches JSON from the API on the same origin. The session travels in the httpOnly cookie the
+ * server sets at sign-in, so no token is kept in the page.
+ */
+export async function http<T>(path: string, options: RequestOptions = {}): Promise<T> {
+  const { method = 'GET', body, signal, endsSessionOn401 = true } = options;
+  const headers: Record<string, string> = { Accept: 'application/json' };
+  if (body !== undefined) headers['Content-Type'] = 'application/json';
+
+  let response: Response;
+  try {
+    response = await fetch(path, {
+      method,
+      headers,
+      body: body === undefined ? undefined : JSON.stringify(body),
+      credentials: 'same-origin',
+      signal,
+    });
+  } catch (cause) {
+    if (signal?.aborted) throw cause;
+    throw new ApiError(0, UNREACHABLE);
+  }
+
+  if (response.ok) {
+    if (response.status === 204) return undefined as T;
+    const text = await response.text();
+    return (text ? JSON.parse(text) : undefined) as T;
+  }
+
+  const payload = await readErrorPayload(response);
+  const error = new ApiError(
+    response.status,
+    payload.error ?? `The server answered ${response.status} ${response.statusText}`.trim(),
+    payload.details,
+  );
+  if (response.status === 401 && endsSessionOn401) unauthorizedListener?.();
+  throw error;
+}
+
+async function readErrorPayload(response: Response): Promise<{ error?: string; details?: ApiErrorDetail[] }> {
+  try {
+    const payload: unknown = await response.json();
+    if (payload && typeof payload === 'object') {
+      const { error, details } = payload as { error?: unknown; details?: unknown };
+      return {
+        error: typeof error === 'string' && error ? error : undefined,
+        details: Array.isArray(details) ? details.filter(isDetail) : undefined,
+      };
+    }
+  } catch {
+    // A proxy or crash page answered with HTML or nothing; the status line has to do.
+  }
+  return {};
+}
+
+function isDetail(value: unknown): value is ApiErrorDetail {
+  return (
+    !!value &&
+    typeof value === 'object' &&
+    typeof (value as ApiErrorDetail).path === 'string' &&
+    typeof (value as ApiErrorDetail).message === 'string'
+  );
+}
+
+/** A message fit for the screen from anything a query or mutation threw. */
+export function errorMessage(error: unknown): string {
+  if (error instanceof ApiError) return error.message;
+  if (error instanceof Error) return error.message;
+  return 'Something went wrong.';
+}
