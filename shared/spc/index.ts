@@ -1,0 +1,49 @@
+/**
+ * Prismline SPC engine: pure functions, no DOM, database or I/O, shared by the jobs, the API and the
+ * web app. Every number it returns is finite or null; a null comes with a reason in plain words.
+ *
+ * Control charts
+ *   computeChart({ subgroups } | { values, subgroupSize? | sizes? }, chart?, excluded?, frozen?, rules?)
+ *     → ChartResult
+ *     - subgroups: number[][] in time order, or values (a Float64Array is used without copying) with a
+ *       common subgroupSize (default 1 = individuals) or per-subgroup sizes.
+ *     - chart: 'xbar-r' | 'xbar-s' | 'imr'; default I–MR for single values, X̄–R for subgroups up to
+ *       10, X̄–S above 10.
+ *     - excluded: point positions with an assignable cause, left out of the phase I estimate and of
+ *       the run rules (still plotted).
+ *     - frozen: { chart, center, sigmaWithin } from an earlier result's `frozen` → phase II.
+ *     - rules: 'we' (default, Western Electric 1–4), 'extended' (adds trend, alternating, hugging,
+ *       mixture) or a list of RuleId.
+ *     The result gives `location` and `dispersion` limits { center, ucl, lcl, sigma } (location also
+ *     zone lines at ±1σ, ±2σ) for `limitsSubgroupSize`, `sigmaWithin`, `sigmaOverall`, `mean`,
+ *     the columns in `points` (typed arrays; per-point limits in `points.perPoint` when subgroup sizes
+ *     vary), `violations` [{ rule, chart: 'location'|'dispersion', index, points }] and `reasons`.
+ *   pointAt(result, i) / pointList(result) → ChartPoint: one point as plain values, null where absent.
+ *
+ * Capability
+ *   computeCapability({ values, sigmaWithin, lsl?, usl?, target?, subgroupCount?, normality? })
+ *     → CapabilityResult: cp, cpk, cpl, cpu, pp, ppk, ppl, ppu, cpm, 95 % intervals, ppmExpected
+ *       (overall), ppmExpectedWithin, ppmObserved, the Anderson–Darling result, `preliminary` and
+ *       plain-words `notes`.
+ *   andersonDarling(values) → NormalityResult { test, n, statistic, adjusted, p, reason }.
+ *
+ * Run rules
+ *   ruleDescriptions: Record<RuleId, string>; WESTERN_ELECTRIC_RULES, EXTENDED_RULES; resolveRules.
+ *
+ * Constants (any subgroup size from 2): d2, d3, c4 from their definitions; A2, A3, B3, B4, D3, D4, E2.
+ * Distributions: normalCdf, normalQuantile, chiSquareCdf, chiSquareQuantile, lnGamma.
+ *
+ * Programming errors (non-finite values, impossible sizes, bad exclusion indices) throw SpcInputError;
+ * properties of the data (too few points, no variation, missing specification) never throw.
+ */
+export { computeChart, pointAt, pointList } from './charts';
+export type { ChartInput, ChartPoint, ChartResult, ChartType, FrozenLimits, Limits, LocationLimits, PointColumns, Reason, ReasonCode } from './charts';
+export { computeCapability, CAPABILITY_MIN_SUBGROUPS, CAPABILITY_MIN_VALUES } from './capability';
+export type { CapabilityInput, CapabilityNote, CapabilityNoteCode, CapabilityResult, Interval } from './capability';
+export { andersonDarling, andersonDarlingPValue, NORMALITY_MIN_VALUES } from './normality';
+export type { NormalityResult } from './normality';
+export { EXTENDED_RULES, WESTERN_ELECTRIC_RULES, resolveRules, ruleDescriptions } from './rules';
+export type { ChartPart, RuleId, RuleSelection, Violation } from './rules';
+export { A2, A3, B3, B4, c4, d2, d3, D3, D4, E2 } from './constants';
+export { chiSquareCdf, chiSquareQuantile, lnGamma, normalCdf, normalQuantile } from './distributions';
+export { SpcInputError } from './errors';
