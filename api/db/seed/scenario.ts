@@ -187,7 +187,7 @@ const plans: readonly CharacteristicPlan[] = [
 
   fresh('HVLF', 'FLOW', 'FLOW', 'flow diameter', 2, 'extended', { lsl: 140, usl: 160, target: 150 }, { mean: 150, sigmaWithin: 2, sigmaLot: 0.5, offsetMinutes: 0 }),
   fresh('HVLF', 'FLOW30', 'FLOW', 'flow diameter after 30 min', 2, 'extended', { lsl: 133, usl: 155, target: 144 }, { mean: 144, sigmaWithin: 2.2, sigmaLot: 0.5, offsetMinutes: 30 }),
-  fresh('HVLF', 'AIR', 'AIR', 'air content', 1, 'extended', { usl: 4.3, target: 2.5 }, { mean: 2.5, sigmaWithin: 0.32, sigmaLot: 0, offsetMinutes: 5 }),
+  fresh('HVLF', 'AIR', 'AIR', 'air content', 1, 'extended', { usl: 4.3, target: 2.5 }, { mean: 2.5, sigmaWithin: 0.34, sigmaLot: 0, offsetMinutes: 5 }),
   fresh('HVLF', 'DENS', 'DENS', 'fresh density', 1, 'we', { lsl: 1800, usl: 1900, target: 1850 }, { mean: 1850, sigmaWithin: 10, sigmaLot: 0, offsetMinutes: 8 }),
   fresh('HVLF', 'SET', 'SET', 'initial setting time', 1, 'we', { lsl: 130, usl: 220, target: 170 }, { mean: 170, sigmaWithin: 9, sigmaLot: 0, sampling: shiftSet, offsetMinutes: 170 }),
   hardened('HVLF', 'RF', 1, 'flexural strength', 3, { lsl: 2.5 }, { mean: 3.5, sigmaWithin: 0.2, sigmaLot: 0.05, sampling: shiftSet, offsetMinutes: 0 }),
@@ -209,6 +209,8 @@ const plans: readonly CharacteristicPlan[] = [
   fresh('HVR3', 'AIR', 'AIR', 'air content', 1, 'we', { usl: 6, target: 4 }, { mean: 4, sigmaWithin: 0.4, sigmaLot: 0, offsetMinutes: 5 }),
   hardened('HVR3', 'RF', 1, 'flexural strength', 3, { lsl: 2 }, { mean: 2.9, sigmaWithin: 0.2, sigmaLot: 0.05, sampling: shiftSet, offsetMinutes: 0 }),
   hardened('HVR3', 'RC', 1, 'compressive strength', 6, { lsl: 8 }, { mean: 12, sigmaWithin: 0.7, sigmaLot: 0.1, sampling: shiftSet, offsetMinutes: 10 }),
+  hardened('HVR3', 'RF', 7, 'flexural strength', 3, { lsl: 4 }, { mean: 5.1, sigmaWithin: 0.25, sigmaLot: 0.05, sampling: shiftSet, offsetMinutes: 0 }),
+  hardened('HVR3', 'RC', 7, 'compressive strength', 6, { lsl: 19 }, { mean: 24, sigmaWithin: 1.1, sigmaLot: 0.15, sampling: shiftSet, offsetMinutes: 10 }),
   hardened('HVR3', 'RF', 28, 'flexural strength', 3, { lsl: 5 }, { mean: 6.5, sigmaWithin: 0.3, sigmaLot: 0.05, sampling: shiftSet, offsetMinutes: 0 }),
   hardened('HVR3', 'RC', 28, 'compressive strength', 6, { lsl: 25 }, { mean: 32, sigmaWithin: 1.4, sigmaLot: 0.25, sampling: shiftSet, offsetMinutes: 10 }),
   hardened('HVR3', 'ADH', 28, 'tensile adhesion strength', 3, { lsl: 1.5 }, { mean: 2.1, sigmaWithin: 0.12, sigmaLot: 0.02, sampling: daySet, offsetMinutes: 0 }),
