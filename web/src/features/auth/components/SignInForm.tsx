@@ -9,13 +9,12 @@ import { Alert } from '../../../components/ui/Alert';
 import { Button } from '../../../components/ui/Button';
 
 /** Says why sign-in failed in words a technician at the end of a shift can act on. */
-export function signInFailure(error: unknown): string {
+function signInFailure(error: unknown): string {
   if (!(error instanceof ApiError)) return 'Sign-in failed. Try again.';
-  if (error.status === 429) return 'Too many sign-in attempts. Wait a few minutes, then try again.';
   if (error.status >= 500) {
     return `The server could not sign you in (error ${error.status}). Try again; if it keeps happening, tell your administrator.`;
   }
-  // Wrong credentials, a deactivated account, a malformed request or no connection: the message says which.
+  // Wrong credentials, a deactivated account, too many attempts or no connection: the message says which.
   return error.message;
 }
 

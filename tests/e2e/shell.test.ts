@@ -1,0 +1,187 @@
+// The web app shell in a real browser against the real server started by scripts/run-tests.ts:
+// sign-in, the role-aware menu and route guards, user administration, sign-out and not-found.
+import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { baseUrl, launchBrowser, screenshot, type TestBrowser } from '../support/browser';
+import { DEMO_PASSWORD, demoUsers } from '../../api/db/seed';
+import type { Role } from '../../shared/schemas/users';
+
+const demoEmail = (role: Role) => {
+  const user = demoUsers.find((candidate) => candidate.role === role);
+  if (!user) throw new Error(`The demo seed has no ${role}`);
+  return user.email;
+};
+
+let browser: TestBrowser;
+let page: Page;
+
+beforeAll(async () => {
+  browser = await launchBrowser();
+});
+
+afterAll(async () => {
+  await browser?.close();
+});
+
+beforeEach(async () => {
+  await browser.context.clearCookies();
+  page = browser.context.pages()[0] ?? (await browser.context.newPage());
+});
+
+async function signIn(email: string, password: string) {
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+}
+
+const mainMenu = () => page.getByRole('navigation', { name: 'Main menu' });
+const heading = (name: string) => page.getByRole('heading', { level: 1, name });
+
+describe('web app shell', () => {
+  it('shows the server’s reason when the password is wrong and stays on sign-in', async () => {
+    await page.goto(`${baseUrl()}/`);
+    await page.waitForURL('**/sign-in');
+    await screenshot(page, 'shell-sign-in');
+
+    await signIn(demoEmail('admin'), 'not-the-password');
+    const alert = page.getByRole('alert');
+    await alert.waitFor();
+    expect(await alert.textContent()).toContain('Wrong e-mail or password');
+    expect(new URL(page.url()).pathname).toBe('/sign-in');
+  });
+
+  it('checks the form before asking the server', async () => {
+    await page.goto(`${baseUrl()}/sign-in`);
+    await signIn('not-an-address', '');
+    await page.getByText('Enter a valid e-mail address').waitFor();
+    await page.getByText('Password is required').waitFor();
+  });
+
+  it('lets the administrator add a user, change the role and deactivate it', async () => {
+    await page.goto(`${baseUrl()}/`);
+    await signIn(demoEmail('admin'), DEMO_PASSWORD);
+    await heading('Plant overview').waitFor();
+    expect(await page.getByTestId('user-role').textContent()).toBe('Administrator');
+    expect(await mainMenu().getByText('Administration').isVisible()).toBe(true);
+    await screenshot(page, 'shell-layout-admin');
+
+    await mainMenu().getByRole('link', { name: 'Users' }).click();
+    await heading('Users').waitFor();
+    await page.getByRole('row').filter({ hasText: demoEmail('technician') }).waitFor();
+
+    const stamp = Date.now();
+    const email = `shift.tester.${stamp}@harrowvale.example`;
+    const name = `Shift Tester ${stamp}`;
+    const form = page.getByRole('form', { name: 'Add a user' });
+    const addUser = async (userEmail: string) => {
+      await form.getByLabel('Full name').fill(name);
+      await form.getByLabel('E-mail').fill(userEmail);
+      await form.getByLabel('Role').selectOption('technician');
+      await form.getByLabel('First password').fill('first-shift-2024');
+      await form.getByRole('button', { name: 'Add user' }).click();
+    };
+
+    await addUser(email);
+    const row = page.getByRole('row').filter({ hasText: email });
+    await row.waitFor();
+    expect(await row.textContent()).toContain('QC technician');
+    expect(await row.textContent()).toContain('Active');
+
+    // The same address again: the server's 409 lands under the e-mail field.
+    await addUser(email.toUpperCase());
+    await form.getByText(`A user with e-mail ${email} already exists`).waitFor();
+
+    await row.getByLabel(`Role of ${name}`).selectOption('quality_manager');
+    await page.getByText(`${name} is now Quality manager.`).waitFor();
+    expect(await row.getByLabel(`Role of ${name}`).inputValue()).toBe('quality_manager');
+
+    await row.getByRole('button', { name: 'Deactivate' }).click();
+    const dialog = page.getByRole('dialog', { name: `Deactivate ${name}?` });
+    await dialog.getByRole('button', { name: 'Deactivate' }).click();
+    await row.getByText('Deactivated').waitFor();
+    expect(await row.getByRole('button', { name: 'Reactivate' }).isVisible()).toBe(true);
+
+    // The filter narrows the list to the new user.
+    await page.getByLabel('Filter').fill(`shift.tester.${stamp}`);
+    await page.getByText(/^1 of \d+ users$/).waitFor();
+    await screenshot(page, 'shell-users');
+
+    // What the screen shows is what the server stored: the deactivated user cannot sign in.
+    const attempt = await page.request.post(`${baseUrl()}/api/v1/auth/login`, { data: { email, password: 'first-shift-2024' } });
+    expect(attempt.status()).toBe(401);
+  });
+
+  it('sorts the user list by a column header', async () => {
+    await page.goto(`${baseUrl()}/admin/users`);
+    await signIn(demoEmail('admin'), DEMO_PASSWORD);
+    await heading('Users').waitFor();
+    const nameHeader = page.getByRole('columnheader', { name: 'Name' });
+    const firstName = () => page.locator('tbody tr').first().locator('td').first().textContent();
+
+    expect(await nameHeader.getAttribute('aria-sort')).toBe('ascending');
+    const ascendingFirst = await firstName();
+    await nameHeader.getByRole('button').click();
+    expect(await nameHeader.getAttribute('aria-sort')).toBe('descending');
+    const descendingFirst = await firstName();
+    expect(descendingFirst).not.toBe(ascendingFirst);
+    expect(descendingFirst!.localeCompare(ascendingFirst!)).toBeGreaterThan(0);
+  });
+
+  it('keeps administration from a technician, in the menu and by address', async () => {
+    await page.goto(`${baseUrl()}/charts`);
+    await page.waitForURL('**/sign-in');
+    await signIn(demoEmail('technician'), DEMO_PASSWORD);
+
+    // Back on the page asked for before signing in.
+    await heading('Control charts').waitFor();
+    expect(new URL(page.url()).pathname).toBe('/charts');
+    const labels = await mainMenu().getByRole('link').allTextContents();
+    expect(labels).toEqual(['Plant overview', 'Control charts', 'Results & uploads']);
+
+    await page.goto(`${baseUrl()}/admin/users`);
+    await heading('Not allowed for your role').waitFor();
+    expect(await page.getByText('QC technician', { exact: true }).first().isVisible()).toBe(true);
+    await screenshot(page, 'shell-not-allowed');
+  });
+
+  it('shows not-found inside the layout, and sign-out returns to sign-in for good', async () => {
+    await page.goto(`${baseUrl()}/no-such-page`);
+    await signIn(demoEmail('auditor'), DEMO_PASSWORD);
+    await heading('Page not found').waitFor();
+    expect(await page.getByText('/no-such-page').isVisible()).toBe(true);
+    const labels = await mainMenu().getByRole('link').allTextContents();
+    expect(labels).toEqual(['Plant overview', 'Control charts', 'Alarms', 'Nonconformance reports', 'Reports & audit trail']);
+
+    await page.getByRole('button', { name: 'Sign out' }).click();
+    await page.waitForURL('**/sign-in');
+    await page.getByRole('heading', { name: 'Sign in' }).waitFor();
+
+    // The server forgot the session too: a reload does not sign back in.
+    await page.goto(`${baseUrl()}/`);
+    await page.waitForURL('**/sign-in');
+    const me = await page.request.get(`${baseUrl()}/api/v1/auth/me`);
+    expect(me.status()).toBe(401);
+  });
+
+  it('folds the menu behind a button on a narrow screen', async () => {
+    await page.setViewportSize({ width: 768, height: 1024 });
+    try {
+      await page.goto(`${baseUrl()}/`);
+      await signIn(demoEmail('quality_manager'), DEMO_PASSWORD);
+      await heading('Plant overview').waitFor();
+      expect(await mainMenu().count()).toBe(0);
+
+      await page.getByRole('button', { name: 'Menu' }).click();
+      await mainMenu().getByRole('link', { name: 'Alarms' }).click();
+      await heading('Alarms').waitFor();
+      expect(await page.getByText('Not available yet').isVisible()).toBe(true);
+      // Choosing a page closes the menu again.
+      expect(await mainMenu().count()).toBe(0);
+      await page.getByRole('button', { name: 'Menu' }).click();
+      await screenshot(page, 'shell-narrow-menu');
+      expect(await mainMenu().getByRole('link').allTextContents()).not.toContain('Users');
+    } finally {
+      await page.setViewportSize({ width: 1366, height: 900 });
+    }
+  });
+});
