@@ -105,7 +105,7 @@ interface ProcessModel {
   /** Lot-to-lot standard deviation, kept small so the charts are in control outside planted causes. */
   sigmaLot: number;
   sampling: Sampling;
-  /** Minutes after the fresh test (fresh) or after casting + age (hardened). */
+  /** Test time: minutes after the sample is mixed (fresh) or after casting plus the age (hardened). */
   offsetMinutes: number;
 }
 
@@ -222,6 +222,8 @@ function chartTypeFor(replicates: number): ChartType {
   return replicates >= 10 ? 'xbar-s' : 'xbar-r';
 }
 
+const productByCode = new Map(products.map((p) => [p.code, p]));
+
 // The pull-off method has one standard per product family.
 const adhesionStandard: Record<ProductFamily, string> = {
   levelling: 'EN 13892-8',
@@ -230,8 +232,7 @@ const adhesionStandard: Record<ProductFamily, string> = {
 };
 
 function samplingPlanText(p: CharacteristicPlan): string {
-  const family = products.find((x) => x.code === p.productCode)?.family ?? 'levelling';
-  const standard = p.testMethodCode === 'ADH' ? adhesionStandard[family] : testMethod(p.testMethodCode).standard;
+  const standard = p.testMethodCode === 'ADH' ? adhesionStandard[productByCode.get(p.productCode)!.family] : testMethod(p.testMethodCode).standard;
   const what =
     p.ageDays === null
       ? `${p.replicates === 1 ? 'one reading' : `${p.replicates} readings`} on one mix`
@@ -243,14 +244,13 @@ function samplingPlanText(p: CharacteristicPlan): string {
   return `${samplingText[p.model.sampling]}; ${what}. Method: ${standard}.`;
 }
 
-const productName = new Map(products.map((p) => [p.code, p.name]));
 
 export const characteristics: readonly Characteristic[] = plans.map((p) => ({
   code: p.code,
   productCode: p.productCode,
   testMethodCode: p.testMethodCode,
   ageDays: p.ageDays,
-  name: `${productName.get(p.productCode)} · ${p.label}`,
+  name: `${productByCode.get(p.productCode)!.name} · ${p.label}`,
   unit: testMethod(p.testMethodCode).unit,
   replicates: p.replicates,
   chartType: chartTypeFor(p.replicates),
