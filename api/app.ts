@@ -1,0 +1,54 @@
+import { existsSync } from 'node:fs';
+import { resolve } from 'node:path';
+import cookieParser from 'cookie-parser';
+import express, { type Express } from 'express';
+import helmet from 'helmet';
+import { pinoHttp } from 'pino-http';
+import type { Config } from './config';
+import type { Database } from './db/client';
+import { logger } from './logger';
+import { configurePassport } from './auth/session';
+import { errorHandler, notFoundApi } from './http/errors';
+import { healthRouter } from './routes/health/router';
+import { authRouter } from './routes/auth/router';
+import { usersRouter } from './routes/users/router';
+
+export const webDist = resolve(import.meta.dirname, '..', 'web', 'dist');
+
+export interface AppDeps {
+  db: Database;
+  config: Pick<Config, 'jwtSecret' | 'loginAttemptsPer15Min'>;
+  /** Serve the built web app (off in API-only tests). */
+  serveWeb?: boolean;
+}
+
+export function createApp({ db, config, serveWeb = true }: AppDeps): Express {
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: { 'img-src': ["'self'", 'data:', 'blob:'], 'upgrade-insecure-requests': null },
+      },
+    }),
+  );
+  app.use(pinoHttp({ logger, autoLogging: { ignore: (req) => req.url === '/api/health' } }));
+  app.use(express.json({ limit: '1mb' }));
+  app.use(cookieParser());
+  app.use(configurePassport(db, config.jwtSecret).initialize());
+
+  app.use('/api/health', healthRouter(db));
+  app.use('/api/v1/auth', authRouter(db, config));
+  app.use('/api/v1/users', usersRouter(db));
+  app.use('/api', notFoundApi);
+
+  if (serveWeb && existsSync(webDist)) {
+    app.use(express.static(webDist, { index: false, maxAge: '1h' }));
+    // Client-side routes: every other GET gets the app shell.
+    app.get(/.*/, (_req, res) => res.sendFile(resolve(webDist, 'index.html')));
+  }
+
+  app.use(errorHandler);
+  return app;
+}

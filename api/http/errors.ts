@@ -1,0 +1,56 @@
+import type { ErrorRequestHandler, RequestHandler } from 'express';
+import { ZodError, type ZodType } from 'zod';
+import { logger } from '../logger';
+
+/** An error whose message is meant for the user. */
+export class HttpError extends Error {
+  constructor(
+    readonly status: number,
+    message: string,
+    readonly details?: unknown,
+  ) {
+    super(message);
+  }
+}
+
+export const badRequest = (message: string, details?: unknown) => new HttpError(400, message, details);
+export const notFound = (what: string) => new HttpError(404, `${what} not found`);
+export const conflict = (message: string) => new HttpError(409, message);
+
+/** Parses with a shared zod schema; a failure becomes a 400 naming each field. */
+export function parseBody<T>(schema: ZodType<T>, input: unknown): T {
+  const result = schema.safeParse(input);
+  if (!result.success) throw zodToHttp(result.error);
+  return result.data;
+}
+
+function zodToHttp(error: ZodError): HttpError {
+  const details = error.issues.map((i) => ({ path: i.path.join('.'), message: i.message }));
+  const first = details[0];
+  const message = first ? (first.path ? `${first.path}: ${first.message}` : first.message) : 'Invalid request';
+  return new HttpError(400, message, details);
+}
+
+export const notFoundApi: RequestHandler = (req, res) => {
+  res.status(404).json({ error: `No API endpoint ${req.method} ${req.path}` });
+};
+
+/** Last handler: the user sees a clear message, never a stack trace or SQL. */
+export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
+  if (err instanceof ZodError) err = zodToHttp(err);
+  if (err instanceof HttpError) {
+    res.status(err.status).json(err.details ? { error: err.message, details: err.details } : { error: err.message });
+    return;
+  }
+  const status = typeof err?.status === 'number' && err.status >= 400 && err.status < 500 ? err.status : 500;
+  if (status === 413) {
+    res.status(413).json({ error: 'The request is too large' });
+    return;
+  }
+  if (status < 500) {
+    res.status(status).json({ error: err.expose && err.message ? err.message : 'The request could not be read' });
+    return;
+  }
+  logger.error({ err, path: req.path }, 'unhandled error');
+  res.status(500).json({ error: 'Something went wrong on the server; the error has been logged' });
+};

@@ -1,0 +1,120 @@
+// npm test: a throw-away PostgreSQL cluster and database, the demo seed, a real server, then every test.
+// Ends with one line "N passed, N failed".
+import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
+import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
+import { createServer } from 'node:net';
+import { resolve } from 'node:path';
+import { dataRoot } from '../api/config';
+import { destroyCluster, ensureDatabase, initCluster, startCluster, type Cluster } from './lib/cluster';
+import { buildWebIfStale } from './lib/web-build';
+
+const root = resolve(import.meta.dirname, '..');
+const cluster: Cluster = { root: resolve(dataRoot, 'test-postgres'), port: Number(process.env.PRISMLINE_TEST_PG_PORT ?? 54339) };
+const resultsFile = resolve(dataRoot, 'test-results.json');
+const JWT_SECRET = 'test-secret-that-is-long-enough-for-hs256-signing';
+
+function freePort(): Promise<number> {
+  return new Promise((res, rej) => {
+    const s = createServer();
+    s.listen(0, '127.0.0.1', () => {
+      const port = (s.address() as { port: number }).port;
+      s.close(() => res(port));
+    });
+    s.on('error', rej);
+  });
+}
+
+async function waitForHealth(url: string, child: ChildProcess): Promise<void> {
+  const deadline = Date.now() + 120_000;
+  while (Date.now() < deadline) {
+    if (child.exitCode !== null) throw new Error(`The test server exited with code ${child.exitCode}`);
+    try {
+      const r = await fetch(`${url}/api/health`);
+      if (r.ok) return;
+    } catch {
+      // not listening yet
+    }
+    await new Promise((r) => setTimeout(r, 250));
+  }
+  throw new Error('The test server did not become healthy within 120 s');
+}
+
+let server: ChildProcess | undefined;
+function cleanUp() {
+  // The server runs in its own process group so that tsx's child goes down with it.
+  if (server?.pid && server.exitCode === null) {
+    try {
+      process.kill(-server.pid, 'SIGTERM');
+    } catch {
+      // already gone
+    }
+  }
+  destroyCluster(cluster);
+}
+
+async function main(): Promise<number> {
+  destroyCluster(cluster);
+  initCluster(cluster);
+  startCluster(cluster);
+  const databaseUrl = await ensureDatabase(cluster, 'prismline_test');
+  buildWebIfStale();
+
+  const port = await freePort();
+  const baseUrl = `http://127.0.0.1:${port}`;
+  const env = {
+    ...process.env,
+    DATABASE_URL: databaseUrl,
+    PRISMLINE_MODE: 'demo',
+    JWT_SECRET,
+    LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn',
+    PRISMLINE_BASE_URL: baseUrl,
+    PRISMLINE_TEST_PG_ROOT: cluster.root,
+    PRISMLINE_TEST_PG_PORT: String(cluster.port),
+  };
+  mkdirSync(resolve(root, 'test-artifacts'), { recursive: true });
+  server = spawn(resolve(root, 'node_modules/.bin/tsx'), ['api/server.ts'], {
+    cwd: root,
+    env: { ...env, PORT: String(port) },
+    stdio: ['ignore', 'inherit', 'inherit'],
+    detached: true,
+  });
+  await waitForHealth(baseUrl, server);
+
+  rmSync(resultsFile, { force: true });
+  const vitest = spawnSync(
+    'npx',
+    ['vitest', 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${resultsFile}`, ...process.argv.slice(2)],
+    { cwd: root, env, stdio: 'inherit' },
+  );
+
+  let passed = 0;
+  let failed = 0;
+  if (existsSync(resultsFile)) {
+    const r = JSON.parse(readFileSync(resultsFile, 'utf8'));
+    passed = r.numPassedTests ?? 0;
+    // A file that fails to load has no tests of its own but is a failure all the same.
+    const brokenFiles = (r.testResults ?? []).filter((f: { status: string; assertionResults: unknown[] }) => f.status === 'failed' && f.assertionResults.length === 0).length;
+    failed = (r.numFailedTests ?? 0) + brokenFiles;
+  } else {
+    failed = 1;
+  }
+  if (vitest.status !== 0 && failed === 0) failed = 1;
+  console.log(`\n${passed} passed, ${failed} failed`);
+  return failed === 0 && passed > 0 ? 0 : 1;
+}
+
+process.on('SIGINT', () => {
+  cleanUp();
+  process.exit(130);
+});
+main()
+  .then((code) => {
+    cleanUp();
+    process.exit(code);
+  })
+  .catch((err) => {
+    console.error(`\nThe test set-up failed: ${err.message}`);
+    cleanUp();
+    console.log('\n0 passed, 1 failed');
+    process.exit(1);
+  });
