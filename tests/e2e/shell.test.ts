@@ -41,6 +41,7 @@ describe('web app shell', () => {
   it('shows the server’s reason when the password is wrong and stays on sign-in', async () => {
     await page.goto(`${baseUrl()}/`);
     await page.waitForURL('**/sign-in');
+    await page.getByRole('heading', { name: 'Sign in' }).waitFor();
     await screenshot(page, 'shell-sign-in');
 
     await signIn(demoEmail('admin'), 'not-the-password');
@@ -69,17 +70,25 @@ describe('web app shell', () => {
     await heading('Users').waitFor();
     await page.getByRole('row').filter({ hasText: demoEmail('technician') }).waitFor();
 
-    const stamp = Date.now();
-    const email = `shift.tester.${stamp}@harrowvale.example`;
+    const stamp = Date.now().toString(36);
+    const email = `tester.${stamp}@harrowvale.example`;
     const name = `Shift Tester ${stamp}`;
     const form = page.getByRole('form', { name: 'Add a user' });
     const addUser = async (userEmail: string) => {
+      await page.getByRole('button', { name: 'Add a user' }).click();
       await form.getByLabel('Full name').fill(name);
       await form.getByLabel('E-mail').fill(userEmail);
       await form.getByLabel('Role').selectOption('technician');
       await form.getByLabel('First password').fill('first-shift-2024');
       await form.getByRole('button', { name: 'Add user' }).click();
     };
+
+    // The form checks with the shared schema before anything is sent.
+    await page.getByRole('button', { name: 'Add a user' }).click();
+    await form.getByLabel('First password').fill('short');
+    await form.getByRole('button', { name: 'Add user' }).click();
+    await form.getByText('Use at least 10 characters for a password').waitFor();
+    await form.getByRole('button', { name: 'Cancel' }).click();
 
     await addUser(email);
     const row = page.getByRole('row').filter({ hasText: email });
@@ -90,6 +99,8 @@ describe('web app shell', () => {
     // The same address again: the server's 409 lands under the e-mail field.
     await addUser(email.toUpperCase());
     await form.getByText(`A user with e-mail ${email} already exists`).waitFor();
+    await screenshot(page, 'shell-users-add');
+    await form.getByRole('button', { name: 'Cancel' }).click();
 
     await row.getByLabel(`Role of ${name}`).selectOption('quality_manager');
     await page.getByText(`${name} is now Quality manager.`).waitFor();
@@ -102,7 +113,7 @@ describe('web app shell', () => {
     expect(await row.getByRole('button', { name: 'Reactivate' }).isVisible()).toBe(true);
 
     // The filter narrows the list to the new user.
-    await page.getByLabel('Filter').fill(`shift.tester.${stamp}`);
+    await page.getByLabel('Filter').fill(`tester.${stamp}`);
     await page.getByText(/^1 of \d+ users$/).waitFor();
     await screenshot(page, 'shell-users');
 
@@ -115,8 +126,8 @@ describe('web app shell', () => {
     await page.goto(`${baseUrl()}/admin/users`);
     await signIn(demoEmail('admin'), DEMO_PASSWORD);
     await heading('Users').waitFor();
-    const nameHeader = page.getByRole('columnheader', { name: 'Name' });
-    const firstName = () => page.locator('tbody tr').first().locator('td').first().textContent();
+    const nameHeader = page.getByRole('columnheader', { name: 'Name and e-mail' });
+    const firstName = () => page.locator('tbody tr').first().locator('td span').first().textContent();
 
     expect(await nameHeader.getAttribute('aria-sort')).toBe('ascending');
     const ascendingFirst = await firstName();

@@ -52,6 +52,8 @@ export function baseUrl(): string {
 export async function screenshot(page: Page, name: string): Promise<string> {
   mkdirSync(artifacts, { recursive: true });
   const path = join(artifacts, `${name}.png`);
+  // A sticky header lands mid-page in a full-page capture taken while scrolled.
+  await page.evaluate(() => window.scrollTo(0, 0));
   await page.screenshot({ path, fullPage: true });
   return path;
 }

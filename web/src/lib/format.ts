@@ -1,7 +1,7 @@
-const dateTime = new Intl.DateTimeFormat('en-GB', { day: '2-digit', month: 'short', year: 'numeric', hour: '2-digit', minute: '2-digit' });
+const date = new Intl.DateTimeFormat('en-GB', { day: '2-digit', month: 'short', year: 'numeric' });
 
-/** A timestamp from the API (ISO 8601) in the plant's local time, e.g. "01 Dec 2025, 21:52". */
-export function formatDateTime(iso: string): string {
-  const date = new Date(iso);
-  return Number.isNaN(date.getTime()) ? iso : dateTime.format(date);
+/** A timestamp from the API (ISO 8601) as a day in the plant's local time, e.g. "01 Dec 2025". */
+export function formatDate(iso: string): string {
+  const value = new Date(iso);
+  return Number.isNaN(value.getTime()) ? iso : date.format(value);
 }

@@ -68,13 +68,13 @@ export function AppLayout() {
           )}
         </header>
 
-        <main id="main" className="flex-1 px-4 py-6 sm:px-6 lg:px-10 lg:py-8">
+        <main id="main" className="flex-1 px-4 py-6 sm:px-6 lg:px-8 lg:py-8">
           <Suspense fallback={<Loading />}>
             <Outlet />
           </Suspense>
         </main>
 
-        <footer className="border-t border-zinc-200 px-4 py-4 sm:px-6 lg:px-10">
+        <footer className="border-t border-zinc-200 px-4 py-4 sm:px-6 lg:px-8">
           <SafetyNote />
         </footer>
       </div>

@@ -38,7 +38,7 @@ export function Field({ label, error, hint, className, children }: FieldProps) {
         </p>
       )}
       {error && (
-        <p id={errorId} className="text-sm text-red-700">
+        <p id={errorId} className="text-sm text-red-700 [overflow-wrap:anywhere]">
           {error}
         </p>
       )}

@@ -21,7 +21,7 @@ export function DataTable<T>({ table, caption, empty }: { table: TableInstance<T
                   key={header.id}
                   scope="col"
                   aria-sort={ariaSort(header)}
-                  className={cx('border-b border-zinc-200 px-4 py-2.5 font-semibold whitespace-nowrap', isNumeric(header) && 'text-right')}
+                  className={cx('border-b border-zinc-200 px-3 py-2.5 font-semibold whitespace-nowrap', isNumeric(header) && 'text-right')}
                 >
                   {header.isPlaceholder ? null : <HeaderLabel header={header} />}
                 </th>
@@ -35,7 +35,7 @@ export function DataTable<T>({ table, caption, empty }: { table: TableInstance<T
               {row.getVisibleCells().map((cell) => (
                 <td
                   key={cell.id}
-                  className={cx('px-4 py-2.5 align-middle', (cell.column.columnDef.meta as ColumnMeta | undefined)?.numeric && 'text-right font-mono')}
+                  className={cx('px-3 py-2 align-middle', (cell.column.columnDef.meta as ColumnMeta | undefined)?.numeric && 'text-right font-mono')}
                 >
                   {flexRender(cell.column.columnDef.cell, cell.getContext())}
                 </td>

@@ -10,7 +10,7 @@ import { Button } from '../../../components/ui/Button';
 
 const fields = ['name', 'email', 'role', 'password'] as const;
 
-export function CreateUserForm({ onCreated }: { onCreated: (user: PublicUser) => void }) {
+export function CreateUserForm({ onCreated, onCancel }: { onCreated: (user: PublicUser) => void; onCancel: () => void }) {
   const createUser = useCreateUser();
   const {
     register,
@@ -38,31 +38,38 @@ export function CreateUserForm({ onCreated }: { onCreated: (user: PublicUser) =>
   );
 
   return (
-    <form onSubmit={onSubmit} noValidate className="space-y-4" aria-label="Add a user">
+    <form onSubmit={onSubmit} noValidate className="space-y-5" aria-label="Add a user">
       {errors.root && <Alert tone="error">{errors.root.message}</Alert>}
-      <Field label="Full name" hint="As it should appear in records and the audit trail." error={errors.name?.message}>
-        {(control) => <Input {...control} autoComplete="off" {...register('name')} />}
-      </Field>
-      <Field label="E-mail" error={errors.email?.message}>
-        {(control) => <Input {...control} type="email" autoComplete="off" {...register('email')} />}
-      </Field>
-      <Field label="Role" error={errors.role?.message}>
-        {(control) => (
-          <Select {...control} {...register('role')}>
-            {roles.map((role) => (
-              <option key={role} value={role}>
-                {roleLabels[role]}
-              </option>
-            ))}
-          </Select>
-        )}
-      </Field>
-      <Field label="First password" hint="At least 10 characters. Hand it over in person." error={errors.password?.message}>
-        {(control) => <Input {...control} type="password" autoComplete="new-password" {...register('password')} />}
-      </Field>
-      <Button type="submit" busy={createUser.isPending}>
-        Add user
-      </Button>
+      <div className="grid gap-x-5 gap-y-4 sm:grid-cols-2">
+        <Field label="Full name" hint="As it should appear in records and the audit trail." error={errors.name?.message}>
+          {(control) => <Input {...control} autoComplete="off" {...register('name')} />}
+        </Field>
+        <Field label="E-mail" error={errors.email?.message}>
+          {(control) => <Input {...control} type="email" autoComplete="off" {...register('email')} />}
+        </Field>
+        <Field label="Role" error={errors.role?.message}>
+          {(control) => (
+            <Select {...control} {...register('role')}>
+              {roles.map((role) => (
+                <option key={role} value={role}>
+                  {roleLabels[role]}
+                </option>
+              ))}
+            </Select>
+          )}
+        </Field>
+        <Field label="First password" hint="At least 10 characters. Hand it over in person." error={errors.password?.message}>
+          {(control) => <Input {...control} type="password" autoComplete="new-password" {...register('password')} />}
+        </Field>
+      </div>
+      <div className="flex gap-2">
+        <Button type="submit" busy={createUser.isPending}>
+          Add user
+        </Button>
+        <Button variant="secondary" onClick={onCancel}>
+          Cancel
+        </Button>
+      </div>
     </form>
   );
 }

@@ -18,12 +18,9 @@ export interface Notice {
 
 type Open = 'none' | 'activity' | 'password';
 
-/** Role, activity and password of one user. An administrator cannot lock themselves out here. */
-export function UserActions({ user, isSelf, onNotice }: { user: PublicUser; isSelf: boolean; onNotice: (notice: Notice) => void }) {
+/** The role of one user, changed on the spot. An administrator cannot demote themselves here. */
+export function RoleSelect({ user, isSelf, onNotice }: { user: PublicUser; isSelf: boolean; onNotice: (notice: Notice) => void }) {
   const update = useUpdateUser();
-  const [open, setOpen] = useState<Open>('none');
-  const selfHint = isSelf ? 'You cannot change the role or activity of your own account' : undefined;
-
   const changeRole = (role: Role) =>
     update.mutate(
       { id: user.id, changes: { role } },
@@ -32,6 +29,30 @@ export function UserActions({ user, isSelf, onNotice }: { user: PublicUser; isSe
         onError: (error) => onNotice({ tone: 'error', text: `Could not change the role of ${user.name}: ${errorMessage(error)}` }),
       },
     );
+  return (
+    <div className="w-48">
+      <Select
+        aria-label={`Role of ${user.name}`}
+        title={isSelf ? 'You cannot change the role of your own account' : undefined}
+        value={user.role}
+        disabled={isSelf || update.isPending}
+        onChange={(event) => changeRole(event.target.value as Role)}
+        className="h-9 text-sm"
+      >
+        {roles.map((role) => (
+          <option key={role} value={role}>
+            {roleLabels[role]}
+          </option>
+        ))}
+      </Select>
+    </div>
+  );
+}
+
+/** Activity and password of one user. An administrator cannot lock themselves out here. */
+export function UserActions({ user, isSelf, onNotice }: { user: PublicUser; isSelf: boolean; onNotice: (notice: Notice) => void }) {
+  const update = useUpdateUser();
+  const [open, setOpen] = useState<Open>('none');
 
   const changeActivity = () =>
     update.mutate(
@@ -45,22 +66,8 @@ export function UserActions({ user, isSelf, onNotice }: { user: PublicUser; isSe
     );
 
   return (
-    <div className="flex flex-wrap items-center gap-2">
-      <Select
-        aria-label={`Role of ${user.name}`}
-        title={selfHint}
-        value={user.role}
-        disabled={isSelf || update.isPending}
-        onChange={(event) => changeRole(event.target.value as Role)}
-        className="h-8 w-auto text-sm"
-      >
-        {roles.map((role) => (
-          <option key={role} value={role}>
-            {roleLabels[role]}
-          </option>
-        ))}
-      </Select>
-      <Button variant="secondary" size="sm" title={selfHint} disabled={isSelf || update.isPending} onClick={() => setOpen('activity')}>
+    <div className="flex items-center gap-2">
+      <Button variant="secondary" size="sm" title={isSelf ? 'You cannot deactivate your own account' : undefined} disabled={isSelf || update.isPending} onClick={() => setOpen('activity')}>
         {user.active ? 'Deactivate' : 'Reactivate'}
       </Button>
       <Button variant="secondary" size="sm" disabled={update.isPending} onClick={() => setOpen('password')}>

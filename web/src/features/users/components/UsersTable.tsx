@@ -8,14 +8,20 @@ import {
   type SortingState,
 } from '@tanstack/react-table';
 import { roleLabels, type PublicUser } from '../../../../../shared/schemas/users';
-import { formatDateTime } from '../../../lib/format';
+import { formatDate } from '../../../lib/format';
 import { DataTable } from '../../../components/ui/Table';
 import { Badge } from '../../../components/ui/Badge';
 import { Input } from '../../../components/ui/Field';
 import { EmptyState } from '../../../components/ui/EmptyState';
-import { UserActions, type Notice } from './UserActions';
+import { RoleSelect, UserActions, type Notice } from './UserActions';
 
 const column = createColumnHelper<PublicUser>();
+
+/** The filter looks at what identifies a person; not at the status, since "active" is part of "deactivated". */
+function matches(user: PublicUser, query: string): boolean {
+  const needle = query.trim().toLowerCase();
+  return [user.name, user.email, roleLabels[user.role]].some((text) => text.toLowerCase().includes(needle));
+}
 
 export function UsersTable({ users, currentUserId, onNotice }: { users: PublicUser[]; currentUserId: number; onNotice: (notice: Notice) => void }) {
   const [sorting, setSorting] = useState<SortingState>([{ id: 'name', desc: false }]);
@@ -23,21 +29,29 @@ export function UsersTable({ users, currentUserId, onNotice }: { users: PublicUs
 
   const columns = useMemo(
     () => [
-      column.accessor('name', { header: 'Name', cell: (info) => <span className="font-medium">{info.getValue()}</span> }),
-      column.accessor('email', { header: 'E-mail', cell: (info) => <span className="break-all">{info.getValue()}</span> }),
-      // Sorted and filtered by the words people read, not the stored codes.
-      column.accessor((user) => roleLabels[user.role], { id: 'role', header: 'Role' }),
+      column.accessor('name', {
+        header: 'Name and e-mail',
+        cell: (info) => (
+          <>
+            <span className="block font-medium">{info.getValue()}</span>
+            <span className="block text-sm text-zinc-600">{info.row.original.email}</span>
+          </>
+        ),
+      }),
+      // Sorted by the words people read, not the stored codes.
+      column.accessor((user) => roleLabels[user.role], {
+        id: 'role',
+        header: 'Role',
+        cell: (info) => <RoleSelect user={info.row.original} isSelf={info.row.original.id === currentUserId} onNotice={onNotice} />,
+      }),
       column.accessor((user) => (user.active ? 'Active' : 'Deactivated'), {
         id: 'status',
         header: 'Status',
-        // "active" is part of "deactivated", so a text filter on this column would mislead.
-        enableGlobalFilter: false,
         cell: (info) => <Badge tone={info.row.original.active ? 'positive' : 'neutral'}>{info.getValue()}</Badge>,
       }),
       column.accessor('createdAt', {
         header: 'Created',
-        enableGlobalFilter: false,
-        cell: (info) => <span className="font-mono text-sm whitespace-nowrap">{formatDateTime(info.getValue())}</span>,
+        cell: (info) => <span className="font-mono text-sm whitespace-nowrap">{formatDate(info.getValue())}</span>,
       }),
       column.display({
         id: 'actions',
@@ -54,7 +68,7 @@ export function UsersTable({ users, currentUserId, onNotice }: { users: PublicUs
     state: { sorting, globalFilter: filter },
     onSortingChange: setSorting,
     onGlobalFilterChange: setFilter,
-    globalFilterFn: 'includesString',
+    globalFilterFn: (row, _columnId, query: string) => matches(row.original, query),
     getCoreRowModel: getCoreRowModel(),
     getSortedRowModel: getSortedRowModel(),
     getFilteredRowModel: getFilteredRowModel(),

@@ -6,6 +6,7 @@ import { CreateUserForm } from '../components/CreateUserForm';
 import type { Notice } from '../components/UserActions';
 import { PageHeader } from '../../../components/ui/PageHeader';
 import { Card } from '../../../components/ui/Card';
+import { Button } from '../../../components/ui/Button';
 import { Alert } from '../../../components/ui/Alert';
 import { Loading } from '../../../components/ui/Spinner';
 import { ErrorState } from '../../../components/ui/ErrorState';
@@ -15,29 +16,41 @@ export default function UsersPage() {
   const me = useSignedInUser();
   const users = useUsers();
   const [notice, setNotice] = useState<Notice | null>(null);
+  const [adding, setAdding] = useState(false);
 
   return (
     <>
       <PageHeader
         title="Users"
         description="Who may sign in to Prismline and in which role. Deactivated users keep their name on the records they made."
+        actions={
+          <Button onClick={() => setAdding(true)} disabled={adding}>
+            Add a user
+          </Button>
+        }
       />
-      <div className="grid gap-6 xl:grid-cols-[minmax(0,1fr)_22rem]">
-        <div className="min-w-0 space-y-4">
-          {notice && <Alert tone={notice.tone}>{notice.text}</Alert>}
-          {users.isPending ? (
-            <Loading label="Loading users…" />
-          ) : users.isError ? (
-            <ErrorState title="Could not load the users" error={users.error} onRetry={() => users.refetch()} />
-          ) : users.data.length === 0 ? (
-            <EmptyState title="No users yet">Add the first one with the form.</EmptyState>
-          ) : (
-            <UsersTable users={users.data} currentUserId={me.id} onNotice={setNotice} />
-          )}
-        </div>
-        <Card title="Add a user" className="self-start">
-          <CreateUserForm onCreated={(user) => setNotice({ tone: 'success', text: `${user.name} can now sign in as ${user.email}.` })} />
-        </Card>
+      <div className="space-y-4">
+        {adding && (
+          <Card title="Add a user">
+            <CreateUserForm
+              onCancel={() => setAdding(false)}
+              onCreated={(user) => {
+                setAdding(false);
+                setNotice({ tone: 'success', text: `${user.name} can now sign in as ${user.email}.` });
+              }}
+            />
+          </Card>
+        )}
+        {notice && <Alert tone={notice.tone}>{notice.text}</Alert>}
+        {users.isPending ? (
+          <Loading label="Loading users…" />
+        ) : users.isError ? (
+          <ErrorState title="Could not load the users" error={users.error} onRetry={() => users.refetch()} />
+        ) : users.data.length === 0 ? (
+          <EmptyState title="No users yet">Add the first one with “Add a user”.</EmptyState>
+        ) : (
+          <UsersTable users={users.data} currentUserId={me.id} onNotice={setNotice} />
+        )}
       </div>
     </>
   );
