@@ -90,17 +90,7 @@ export const areas: readonly Area[] = [
   },
 ];
 
-export function canOpen(area: Area, role: Role): boolean {
-  return area.roles.includes(role);
-}
-
 /** The menu for one role, in menu order. */
 export function areasFor(role: Role): Area[] {
-  return areas.filter((area) => canOpen(area, role));
-}
-
-export function areaById(id: AreaId): Area {
-  const area = areas.find((candidate) => candidate.id === id);
-  if (!area) throw new Error(`No area with id ${id}`);
-  return area;
+  return areas.filter((area) => area.roles.includes(role));
 }

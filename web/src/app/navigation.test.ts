@@ -1,0 +1,22 @@
+import { describe, expect, it } from 'vitest';
+import { areas, areasFor } from './navigation';
+import { roles } from '../../../shared/schemas/users';
+
+// The role rules of the foundation issue: who sees which area of the app.
+const expected = {
+  technician: ['overview', 'charts', 'results'],
+  quality_manager: ['overview', 'charts', 'results', 'alarms', 'ncrs', 'reports'],
+  auditor: ['overview', 'charts', 'alarms', 'ncrs', 'reports'],
+  admin: ['overview', 'charts', 'results', 'alarms', 'ncrs', 'reports', 'users', 'catalogue'],
+} as const;
+
+describe('navigation', () => {
+  it.each(roles)('gives the %s exactly their areas', (role) => {
+    expect(areasFor(role).map((area) => area.id)).toEqual(expected[role]);
+  });
+
+  it('gives every area its own address', () => {
+    const paths = areas.map((area) => area.path);
+    expect(new Set(paths).size).toBe(paths.length);
+  });
+});

@@ -1,0 +1,66 @@
+import { afterEach, describe, expect, it, vi } from 'vitest';
+import { ApiError, http, onUnauthorized } from './http';
+
+// Responses are built with the WHATWG Response class that Node 20 ships, as a browser would receive them.
+function answer(status: number, body?: unknown, init: ResponseInit = {}) {
+  const text = body === undefined ? null : typeof body === 'string' ? body : JSON.stringify(body);
+  vi.stubGlobal('fetch', vi.fn(async () => new Response(text, { status, ...init })));
+}
+
+afterEach(() => {
+  vi.unstubAllGlobals();
+});
+
+describe('http', () => {
+  it('sends JSON with the same-origin cookie and returns the parsed body', async () => {
+    answer(201, { id: 7 });
+    const result = await http<{ id: number }>('/api/v1/users', { method: 'POST', body: { name: 'Shift Tester' } });
+    expect(result).toEqual({ id: 7 });
+    const [path, init] = vi.mocked(fetch).mock.calls[0];
+    expect(path).toBe('/api/v1/users');
+    expect(init).toMatchObject({ method: 'POST', credentials: 'same-origin', body: '{"name":"Shift Tester"}' });
+    expect((init!.headers as Record<string, string>)['Content-Type']).toBe('application/json');
+  });
+
+  it('returns undefined for 204 No Content', async () => {
+    answer(204);
+    expect(await http('/api/v1/auth/logout', { method: 'POST' })).toBeUndefined();
+  });
+
+  it("throws ApiError with the status, the server's message and its field details", async () => {
+    answer(400, { error: 'Invalid input', details: [{ path: 'email', message: 'Enter a valid e-mail address' }, { bogus: 1 }] });
+    const error = await http('/api/v1/users').catch((e: unknown) => e);
+    expect(error).toBeInstanceOf(ApiError);
+    expect(error).toMatchObject({ status: 400, message: 'Invalid input', details: [{ path: 'email', message: 'Enter a valid e-mail address' }] });
+  });
+
+  it('falls back to the status line when the error body is not JSON', async () => {
+    answer(502, '<html>Bad gateway</html>', { statusText: 'Bad Gateway' });
+    await expect(http('/api/health')).rejects.toMatchObject({ status: 502, message: 'The server answered 502 Bad Gateway' });
+  });
+
+  it('reports an unreachable server as status 0', async () => {
+    vi.stubGlobal('fetch', vi.fn(async () => Promise.reject(new TypeError('fetch failed'))));
+    await expect(http('/api/health')).rejects.toMatchObject({ status: 0, message: expect.stringContaining('Cannot reach') });
+  });
+
+  it('tells the app a 401 ended the session, unless the caller expects 401', async () => {
+    const ended = vi.fn();
+    const stop = onUnauthorized(ended);
+    try {
+      answer(401, { error: 'Sign in first' });
+      await expect(http('/api/v1/users')).rejects.toMatchObject({ status: 401, message: 'Sign in first' });
+      expect(ended).toHaveBeenCalledTimes(1);
+
+      answer(401, { error: 'Wrong e-mail or password' });
+      await expect(http('/api/v1/auth/login', { method: 'POST', body: {}, endsSessionOn401: false })).rejects.toMatchObject({ status: 401 });
+      expect(ended).toHaveBeenCalledTimes(1);
+
+      answer(403, { error: 'Administrators only' });
+      await expect(http('/api/v1/users')).rejects.toMatchObject({ status: 403 });
+      expect(ended).toHaveBeenCalledTimes(1);
+    } finally {
+      stop();
+    }
+  });
+});
