@@ -183,12 +183,8 @@ function layoutOf(input: ChartInput): Layout {
   return { values, count: values.length / size, size, offsets: null };
 }
 
-function checkFinite(values: Float64Array): void {
-  for (let i = 0; i < values.length; i++) {
-    const v = values[i];
-    // v - v is 0 for finite numbers and NaN for NaN and ±Infinity.
-    if (v - v !== 0) throw new SpcInputError(`value ${i} is ${v}; every value must be a finite number`);
-  }
+function notFinite(values: Float64Array, i: number): SpcInputError {
+  return new SpcInputError(`value ${i} is ${values[i]}; every value must be a finite number`);
 }
 
 function sizeAt(layout: Layout, g: number): number {
@@ -258,7 +254,6 @@ const STDEV_MODEL: DispersionModel = {
  */
 export function computeChart(input: ChartInput): ChartResult {
   let layout = layoutOf(input);
-  checkFinite(layout.values);
   const chart = chooseChart(layout, input);
   const reasons: Reason[] = [];
   if (chart === 'imr' && (layout.size !== 1 || layout.offsets !== null)) {
@@ -422,19 +417,25 @@ function individualsStats(layout: Layout, excluded: Uint8Array | null): Stats {
   let mrSum = 0;
   let mrCount = 0;
   if (excluded === null) {
-    if (n > 0) sum = x[0];
+    let previous = n > 0 ? x[0] : 0;
+    sum = previous;
+    if (previous - previous !== 0) throw notFinite(x, 0);
     for (let i = 1; i < n; i++) {
       const v = x[i];
-      const r = Math.abs(v - x[i - 1]);
+      // v − v is 0 for a finite number and NaN for NaN and ±Infinity.
+      if (v - v !== 0) throw notFinite(x, i);
+      const r = Math.abs(v - previous);
       mr[i] = r;
       has[i] = 1;
       mrSum += r;
       sum += v;
+      previous = v;
     }
     kept = n;
     mrCount = Math.max(0, n - 1);
   } else {
     for (let i = 0; i < n; i++) {
+      if (x[i] - x[i] !== 0) throw notFinite(x, i);
       if (i > 0) {
         mr[i] = Math.abs(x[i] - x[i - 1]);
         has[i] = 1;
@@ -472,7 +473,11 @@ function subgroupStats(layout: Layout, chart: ChartType, excluded: Uint8Array | 
     const n = layout.offsets === null ? layout.size : layout.offsets[g + 1] - start;
     const end = start + n;
     let sum = 0;
-    for (let j = start; j < end; j++) sum += x[j];
+    for (let j = start; j < end; j++) {
+      const v = x[j];
+      if (v - v !== 0) throw notFinite(x, j);
+      sum += v;
+    }
     const m = sum / n;
     means[g] = m;
     const kept = excluded === null || excluded[g] === 0;

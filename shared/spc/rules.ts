@@ -56,23 +56,19 @@ export function compareViolations(a: Violation, b: Violation): number {
   return a.index - b.index || (a.chart === b.chart ? 0 : a.chart === 'location' ? -1 : 1) || RULE_ORDER[a.rule] - RULE_ORDER[b.rule];
 }
 
-const POPCOUNT = new Uint8Array(32);
-for (let i = 1; i < 32; i++) POPCOUNT[i] = (i & 1) + POPCOUNT[i >> 1];
+/** A comparison result used as a 0/1 number without a branch (a branch on random data would
+ *  mispredict at every other point). */
+const bit = (b: boolean): number => +b;
 
-function lastJudged(ring: Int32Array, count: number, length: number): number[] {
-  const out = new Array<number>(length);
-  for (let j = 0; j < length; j++) out[j] = ring[(count - length + j) & 15];
-  return out;
-}
+/**
+ * The flags of the points `k` places back (1 ≤ k ≤ 31). In a block word the oldest point of the block
+ * is bit 31 and each later point one bit lower, so the points before the block come from the low
+ * bits of the previous block's word `prev`.
+ */
+const back = (w: number, prev: number, k: number): number => (w >>> k) | (prev << (32 - k));
 
-/** Span (in judged points, ending at the newest) holding the newest `needed` set bits of `window`. */
-function spanOfNewest(window: number, needed: number): number {
-  let seen = 0;
-  for (let bit = 0; ; bit++) {
-    if (window & (1 << bit)) seen++;
-    if (seen === needed) return bit + 1;
-  }
-}
+/** At least three of four bit vectors set, bit by bit. */
+const atLeastThree = (a: number, b: number, c: number, d: number): number => (a & b & (c | d)) | (c & d & (a | b));
 
 export interface LocationSeries {
   /** The plotted statistic: subgroup means or individual values. */
@@ -84,21 +80,31 @@ export interface LocationSeries {
   skip: ArrayLike<number> | null;
 }
 
-/** Appends the location-chart violations of the selected rules to `out`, in point order. */
+/** The judged points ending at `index`, `length` of them. */
+function patternPoints(index: number, length: number, skip: ArrayLike<number> | null): number[] {
+  const out = new Array<number>(length);
+  let i = index;
+  for (let k = length - 1; k >= 0; k--, i--) {
+    if (skip !== null) while (skip[i] === 1) i--;
+    out[k] = i;
+  }
+  return out;
+}
+
+/**
+ * Appends the location-chart violations of the selected rules to `out`, in point order.
+ *
+ * The judged points are taken 32 at a time. One pass sets, per block, a bit word for each point
+ * property (above or below the centre line, beyond ±1σ or ±2σ, a step up or down from the previous
+ * point); every pattern is then a handful of shifts and ANDs of those words, with the previous
+ * block's words supplying the points before the block.
+ */
 export function locationViolations(series: LocationSeries, rules: readonly RuleId[], out: Violation[]): void {
   const on = new Set(rules);
-  const r1 = on.has('we1');
-  const r2 = on.has('we2');
-  const r3 = on.has('we3');
-  const r4 = on.has('we4');
-  const rTrend = on.has('trend');
-  const rAlt = on.has('alternating');
-  const rHug = on.has('hugging');
-  const rMix = on.has('mixture');
+  if (on.size === 0) return;
   const { values, center: c, skip } = series;
-  const perPoint = typeof series.sigma !== 'number';
-  const sigmas = perPoint ? (series.sigma as ArrayLike<number>) : null;
-  const constSigma = perPoint ? 0 : (series.sigma as number);
+  const sigmas = typeof series.sigma === 'number' ? null : series.sigma;
+  const constSigma = typeof series.sigma === 'number' ? series.sigma : 0;
   // The zone lines are computed with the same expressions as the reported limits, so that a point
   // lying exactly on a reported limit compares equal to it.
   let plus1 = c + constSigma;
@@ -107,74 +113,117 @@ export function locationViolations(series: LocationSeries, rules: readonly RuleI
   let minus1 = c - constSigma;
   let minus2 = c - 2 * constSigma;
   let minus3 = c - 3 * constSigma;
+  const masks = {
+    we1: on.has('we1') ? -1 : 0, we2: on.has('we2') ? -1 : 0, we3: on.has('we3') ? -1 : 0, we4: on.has('we4') ? -1 : 0,
+    trend: on.has('trend') ? -1 : 0, alternating: on.has('alternating') ? -1 : 0, hugging: on.has('hugging') ? -1 : 0, mixture: on.has('mixture') ? -1 : 0,
+  };
 
-  const ring = new Int32Array(16);
-  let count = 0;
-  let high2 = 0;
-  let low2 = 0;
-  let high1 = 0;
-  let low1 = 0;
-  let side = 0;
-  let sideRun = 0;
-  let rising = 0;
-  let falling = 0;
-  let lastStep = 0;
-  let alternating = 0;
-  let inside = 0;
-  let outside = 0;
-  let previous = 0;
+  const position = new Int32Array(32); // k-th judged point of the block → point index (bit 31 − k)
+  // Previous block's words (and the partial ANDs the patterns reuse).
+  let pA = 0, pB = 0, pA2 = 0, pB2 = 0, pA4 = 0, pB4 = 0;
+  let pH1 = 0, pL1 = 0, pH2 = 0, pL2 = 0;
+  let pU = 0, pD = 0, pU2 = 0, pD2 = 0, pZ = 0, pZ2 = 0, pZ4 = 0;
+  let pI = 0, pI2 = 0, pI4 = 0, pO = 0, pO2 = 0, pO4 = 0;
+  let previous = NaN;
   const n = values.length;
-  for (let i = 0; i < n; i++) {
-    if (skip !== null && skip[i] === 1) continue;
-    const x = values[i];
-    if (sigmas !== null) {
-      const s = sigmas[i];
-      plus1 = c + s;
-      plus2 = c + 2 * s;
-      plus3 = c + 3 * s;
-      minus1 = c - s;
-      minus2 = c - 2 * s;
-      minus3 = c - 3 * s;
+  let i = 0;
+  while (i < n) {
+    let A = 0, B = 0, H1 = 0, L1 = 0, H2 = 0, L2 = 0, U = 0, D = 0, E1 = 0;
+    let j = 0;
+    for (; j < 32 && i < n; i++) {
+      if (skip !== null && skip[i] === 1) continue;
+      const x = values[i];
+      if (sigmas !== null) {
+        const s = sigmas[i];
+        plus1 = c + s;
+        plus2 = c + 2 * s;
+        plus3 = c + 3 * s;
+        minus1 = c - s;
+        minus2 = c - 2 * s;
+        minus3 = c - 3 * s;
+      }
+      // Shifting by a constant is markedly cheaper than setting bit j.
+      A = (A << 1) | bit(x > c);
+      B = (B << 1) | bit(x < c);
+      H1 = (H1 << 1) | bit(x > plus1);
+      L1 = (L1 << 1) | bit(x < minus1);
+      H2 = (H2 << 1) | bit(x > plus2);
+      L2 = (L2 << 1) | bit(x < minus2);
+      U = (U << 1) | bit(x > previous);
+      D = (D << 1) | bit(x < previous);
+      E1 = (E1 << 1) | bit(x > plus3) | bit(x < minus3);
+      previous = x;
+      position[j++] = i;
     }
-    ring[count & 15] = i;
-    count++;
-
-    if (r1 && (x > plus3 || x < minus3)) out.push({ rule: 'we1', chart: 'location', index: i, points: [i] });
-
-    high2 = ((high2 << 1) | (x > plus2 ? 1 : 0)) & 7;
-    low2 = ((low2 << 1) | (x < minus2 ? 1 : 0)) & 7;
-    if (r2) {
-      const w = (high2 & 1) === 1 ? high2 : (low2 & 1) === 1 ? low2 : 0;
-      if (POPCOUNT[w] >= 2) out.push({ rule: 'we2', chart: 'location', index: i, points: lastJudged(ring, count, spanOfNewest(w, 2)) });
+    if (j === 0) break;
+    let valid = -1;
+    if (j < 32) {
+      // Only the last block can be short: align its oldest point with bit 31 like a full block's.
+      const gap = 32 - j;
+      A <<= gap; B <<= gap; H1 <<= gap; L1 <<= gap; H2 <<= gap; L2 <<= gap; U <<= gap; D <<= gap; E1 <<= gap;
+      valid = ~((1 << gap) - 1);
     }
 
-    high1 = ((high1 << 1) | (x > plus1 ? 1 : 0)) & 31;
-    low1 = ((low1 << 1) | (x < minus1 ? 1 : 0)) & 31;
-    if (r3) {
-      const w = (high1 & 1) === 1 ? high1 : (low1 & 1) === 1 ? low1 : 0;
-      if (POPCOUNT[w] >= 4) out.push({ rule: 'we3', chart: 'location', index: i, points: lastJudged(ring, count, spanOfNewest(w, 4)) });
+    const A2 = A & back(A, pA, 1), B2 = B & back(B, pB, 1);
+    const A4 = A2 & back(A2, pA2, 2), B4 = B2 & back(B2, pB2, 2);
+    const we4 = (A4 & back(A4, pA4, 4)) | (B4 & back(B4, pB4, 4));
+
+    const we2 = (H2 & (back(H2, pH2, 1) | back(H2, pH2, 2))) | (L2 & (back(L2, pL2, 1) | back(L2, pL2, 2)));
+    const we3 = (H1 & atLeastThree(back(H1, pH1, 1), back(H1, pH1, 2), back(H1, pH1, 3), back(H1, pH1, 4))) |
+      (L1 & atLeastThree(back(L1, pL1, 1), back(L1, pL1, 2), back(L1, pL1, 3), back(L1, pL1, 4)));
+
+    const U2 = U & back(U, pU, 1), D2 = D & back(D, pD, 1);
+    const trend = ((U2 & back(U2, pU2, 2)) & back(U, pU, 4)) | ((D2 & back(D2, pD2, 2)) & back(D, pD, 4));
+    // Z: this step goes the other way from the step before; thirteen alternating steps are twelve Z in a row.
+    const Z = (U & back(D, pD, 1)) | (D & back(U, pU, 1));
+    const Z2 = Z & back(Z, pZ, 1);
+    const Z4 = Z2 & back(Z2, pZ2, 2);
+    const alternating = Z4 & back(Z4, pZ4, 4) & back(Z4, pZ4, 8);
+
+    const I = ~(H1 | L1) & valid; // within ±1σ
+    const I2 = I & back(I, pI, 1);
+    const I4 = I2 & back(I2, pI2, 2);
+    const hugging = I4 & back(I4, pI4, 4) & back(I4, pI4, 8) & back(I2, pI2, 12) & back(I, pI, 14);
+    const O = H1 | L1; // beyond ±1σ
+    const O2 = O & back(O, pO, 1);
+    const O4 = O2 & back(O2, pO2, 2);
+    const mixture = O4 & back(O4, pO4, 4);
+
+    const hit = {
+      we1: E1 & masks.we1, we2: we2 & masks.we2, we3: we3 & masks.we3, we4: we4 & masks.we4,
+      trend: trend & masks.trend, alternating: alternating & masks.alternating, hugging: hugging & masks.hugging, mixture: mixture & masks.mixture,
+    };
+    let any = (hit.we1 | hit.we2 | hit.we3 | hit.we4 | hit.trend | hit.alternating | hit.hugging | hit.mixture) & valid;
+    while (any !== 0) {
+      const b = 31 - Math.clz32(any); // the oldest point first
+      any ^= 1 << b;
+      const index = position[31 - b];
+      const chart = 'location';
+      if ((hit.we1 >>> b) & 1) out.push({ rule: 'we1', chart, index, points: [index] });
+      if ((hit.we2 >>> b) & 1) {
+        const side = (H2 >>> b) & 1 ? H2 : L2;
+        const span = (back(side, side === H2 ? pH2 : pL2, 1) >>> b) & 1 ? 2 : 3;
+        out.push({ rule: 'we2', chart, index, points: patternPoints(index, span, skip) });
+      }
+      if ((hit.we3 >>> b) & 1) {
+        const upper = (H1 >>> b) & 1;
+        const w = upper ? H1 : L1;
+        const pw = upper ? pH1 : pL1;
+        let span = 1;
+        for (let seen = 1; seen < 4; span++) seen += (back(w, pw, span) >>> b) & 1;
+        out.push({ rule: 'we3', chart, index, points: patternPoints(index, span, skip) });
+      }
+      if ((hit.we4 >>> b) & 1) out.push({ rule: 'we4', chart, index, points: patternPoints(index, 8, skip) });
+      if ((hit.trend >>> b) & 1) out.push({ rule: 'trend', chart, index, points: patternPoints(index, 6, skip) });
+      if ((hit.alternating >>> b) & 1) out.push({ rule: 'alternating', chart, index, points: patternPoints(index, 14, skip) });
+      if ((hit.hugging >>> b) & 1) out.push({ rule: 'hugging', chart, index, points: patternPoints(index, 15, skip) });
+      if ((hit.mixture >>> b) & 1) out.push({ rule: 'mixture', chart, index, points: patternPoints(index, 8, skip) });
     }
 
-    const s = x > c ? 1 : x < c ? -1 : 0;
-    sideRun = s !== 0 && s === side ? sideRun + 1 : s !== 0 ? 1 : 0;
-    side = s;
-    if (r4 && sideRun >= 8) out.push({ rule: 'we4', chart: 'location', index: i, points: lastJudged(ring, count, 8) });
-
-    if (count > 1) {
-      const step = x > previous ? 1 : x < previous ? -1 : 0;
-      rising = step === 1 ? rising + 1 : 0;
-      falling = step === -1 ? falling + 1 : 0;
-      alternating = step !== 0 && step === -lastStep ? alternating + 1 : step !== 0 ? 1 : 0;
-      lastStep = step;
-      if (rTrend && (rising >= 5 || falling >= 5)) out.push({ rule: 'trend', chart: 'location', index: i, points: lastJudged(ring, count, 6) });
-      if (rAlt && alternating >= 13) out.push({ rule: 'alternating', chart: 'location', index: i, points: lastJudged(ring, count, 14) });
-    }
-    previous = x;
-
-    inside = x <= plus1 && x >= minus1 ? inside + 1 : 0;
-    if (rHug && inside >= 15) out.push({ rule: 'hugging', chart: 'location', index: i, points: lastJudged(ring, count, 15) });
-    outside = x > plus1 || x < minus1 ? outside + 1 : 0;
-    if (rMix && outside >= 8) out.push({ rule: 'mixture', chart: 'location', index: i, points: lastJudged(ring, count, 8) });
+    pA = A; pB = B; pA2 = A2; pB2 = B2; pA4 = A4; pB4 = B4;
+    pH1 = H1; pL1 = L1; pH2 = H2; pL2 = L2;
+    pU = U; pD = D; pU2 = U2; pD2 = D2; pZ = Z; pZ2 = Z2; pZ4 = Z4;
+    pI = I; pI2 = I2; pI4 = I4; pO = O; pO2 = O2; pO4 = O4;
   }
 }
 
@@ -190,15 +239,20 @@ export interface DispersionSeries {
 /** Rule we1 on the dispersion chart: a range, standard deviation or moving range outside its limits. */
 export function dispersionViolations(series: DispersionSeries, out: Violation[]): void {
   const { values, judged } = series;
-  const uclArr = typeof series.ucl === 'number' ? null : series.ucl;
-  const lclArr = typeof series.lcl === 'number' ? null : series.lcl;
-  const uclConst = typeof series.ucl === 'number' ? series.ucl : 0;
-  const lclConst = typeof series.lcl === 'number' ? series.lcl : 0;
-  for (let i = 0; i < values.length; i++) {
-    if (judged[i] !== 1) continue;
+  const n = values.length;
+  if (typeof series.ucl === 'number' && typeof series.lcl === 'number') {
+    const ucl = series.ucl;
+    const lcl = series.lcl;
+    for (let i = 0; i < n; i++) {
+      const v = values[i];
+      if ((bit(v > ucl) | bit(v < lcl)) !== 0 && judged[i] === 1) out.push({ rule: 'we1', chart: 'dispersion', index: i, points: [i] });
+    }
+    return;
+  }
+  for (let i = 0; i < n; i++) {
     const v = values[i];
-    const ucl = uclArr === null ? uclConst : uclArr[i];
-    const lcl = lclArr === null ? lclConst : lclArr[i];
-    if (v > ucl || v < lcl) out.push({ rule: 'we1', chart: 'dispersion', index: i, points: [i] });
+    const ucl = typeof series.ucl === 'number' ? series.ucl : series.ucl[i];
+    const lcl = typeof series.lcl === 'number' ? series.lcl : series.lcl[i];
+    if ((v > ucl || v < lcl) && judged[i] === 1) out.push({ rule: 'we1', chart: 'dispersion', index: i, points: [i] });
   }
 }
