@@ -12,6 +12,10 @@ import { errorHandler, notFoundApi } from './http/errors';
 import { healthRouter } from './routes/health/router';
 import { authRouter } from './routes/auth/router';
 import { usersRouter } from './routes/users/router';
+import { uploadsRouter } from './routes/uploads/router';
+import { catalogueRouter } from './routes/catalogue/router';
+import { measurementsRouter } from './routes/measurements/router';
+import { noIngestHooks, type IngestHooks } from './ingest/hooks';
 
 export const webDist = resolve(import.meta.dirname, '..', 'web', 'dist');
 
@@ -20,9 +24,11 @@ export interface AppDeps {
   config: Pick<Config, 'jwtSecret' | 'loginAttemptsPer15Min'>;
   /** Serve the built web app (off in API-only tests). */
   serveWeb?: boolean;
+  /** Follow-up work after results are stored (alarms, SPC runs). */
+  ingestHooks?: IngestHooks;
 }
 
-export function createApp({ db, config, serveWeb = true }: AppDeps): Express {
+export function createApp({ db, config, serveWeb = true, ingestHooks = noIngestHooks }: AppDeps): Express {
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
@@ -41,6 +47,9 @@ export function createApp({ db, config, serveWeb = true }: AppDeps): Express {
   app.use('/api/health', healthRouter(db));
   app.use('/api/v1/auth', authRouter(db, config));
   app.use('/api/v1/users', usersRouter(db));
+  app.use('/api/v1/uploads', uploadsRouter(db, ingestHooks));
+  app.use('/api/v1/measurements', measurementsRouter(db, ingestHooks));
+  app.use('/api/v1', catalogueRouter(db));
   app.use('/api', notFoundApi);
 
   if (serveWeb && existsSync(webDist)) {

@@ -1,8 +1,11 @@
 import bcrypt from 'bcryptjs';
-import { sql } from 'drizzle-orm';
+import { eq, sql } from 'drizzle-orm';
+import { testMethods as methodCatalogue } from '../../../shared/lab';
 import type { Role } from '../../../shared/schemas/users';
 import type { Database } from '../client';
-import { users } from '../schema';
+import { characteristics, plants, processEvents, productionLines, products, specLimits, testMethods, users } from '../schema';
+import { importResults } from '../../ingest/import';
+import * as scenario from './scenario';
 
 /** The demo sign-ins printed in the README. Demo mode only. */
 export const DEMO_PASSWORD = 'prismline-demo';
@@ -13,11 +16,109 @@ export const demoUsers: { email: string; name: string; role: Role }[] = [
   { email: 'auditor@harrowvale.example', name: 'Demo Auditor', role: 'auditor' },
 ];
 
+/** The test-method catalogue of shared/lab is reference data: kept in step on every start. */
+export async function ensureReferenceData(db: Database): Promise<void> {
+  for (const m of methodCatalogue) {
+    const values = {
+      code: m.code,
+      name: m.name,
+      standard: m.standard,
+      unit: m.unit,
+      state: m.state,
+      physicalMin: m.physicalRange.min,
+      physicalMax: m.physicalRange.max,
+      physicalMaxExclusive: m.physicalRange.maxExclusive,
+      decimals: m.decimals,
+      rawLoad: m.rawLoad,
+    };
+    await db.insert(testMethods).values(values).onConflictDoUpdate({ target: testMethods.code, set: values });
+  }
+}
+
+/** Where the demo history ends: today 06:00 UTC, so a restart the same day rebuilds the same data. */
+export function demoEndDate(now = new Date()): Date {
+  return new Date(Date.UTC(now.getUTCFullYear(), now.getUTCMonth(), now.getUTCDate(), 6));
+}
+
 /** Seeds the invented Harrow Vale plant when the database is empty; never touches existing data. */
-export async function seedDemo(db: Database): Promise<void> {
+export async function seedDemo(db: Database, now = new Date()): Promise<void> {
+  await ensureReferenceData(db);
   const [{ count }] = await db.select({ count: sql<number>`count(*)::int` }).from(users);
   if (count === 0) {
     const passwordHash = await bcrypt.hash(DEMO_PASSWORD, 10);
     await db.insert(users).values(demoUsers.map((u) => ({ ...u, passwordHash })));
+  }
+  const [existingPlant] = await db.select({ id: plants.id }).from(plants).limit(1);
+  if (existingPlant) return;
+
+  const endDate = demoEndDate(now);
+  const months = 6;
+  const [admin] = await db.select({ id: users.id }).from(users).where(eq(users.email, demoUsers[0].email));
+  const windowStart = new Date(endDate.getTime() - 200 * 86_400_000);
+
+  await db.transaction(async (tx) => {
+    const [plant] = await tx.insert(plants).values({ code: scenario.plant.code, name: scenario.plant.name, timeZone: scenario.plant.timeZone }).returning();
+    const lineRows = await tx
+      .insert(productionLines)
+      .values(scenario.lines.map((l) => ({ plantId: plant.id, code: l.code, name: l.name })))
+      .returning();
+    const lineId = new Map(lineRows.map((l) => [l.code, l.id]));
+    const productRows = await tx
+      .insert(products)
+      .values(scenario.products.map((p) => ({ plantId: plant.id, code: p.code, name: p.name, family: p.family, declaredClass: p.declaredClass, lineId: lineId.get(p.lineCode)! })))
+      .returning();
+    const productId = new Map(productRows.map((p) => [p.code, p.id]));
+    const methodRows = await tx.select({ id: testMethods.id, code: testMethods.code }).from(testMethods);
+    const methodId = new Map(methodRows.map((m) => [m.code, m.id]));
+    const chRows = await tx
+      .insert(characteristics)
+      .values(
+        scenario.characteristics.map((c) => ({
+          code: c.code,
+          productId: productId.get(c.productCode)!,
+          testMethodId: methodId.get(c.testMethodCode)!,
+          ageDays: c.ageDays,
+          name: c.name,
+          unit: c.unit,
+          subgroupSize: c.replicates,
+          chartType: c.chartType,
+          ruleSet: c.ruleSet,
+          samplingPlan: c.samplingPlan,
+        })),
+      )
+      .returning();
+    const chId = new Map(chRows.map((c) => [c.code, c.id]));
+    await tx.insert(specLimits).values(
+      scenario.characteristics.map((c) => ({
+        characteristicId: chId.get(c.code)!,
+        revision: 1,
+        lsl: c.spec.lsl ?? null,
+        usl: c.spec.usl ?? null,
+        target: c.spec.target ?? null,
+        effectiveFrom: windowStart,
+        reason: 'Initial specification from the product data sheet',
+        createdBy: admin?.id ?? null,
+      })),
+    );
+    const events = scenario.processEventsFor({ endDate, months });
+    if (events.length) {
+      await tx.insert(processEvents).values(
+        events.map((e) => ({
+          plantId: plant.id,
+          lineId: e.lineCode ? lineId.get(e.lineCode)! : null,
+          productId: e.productCode ? productId.get(e.productCode)! : null,
+          occurredAt: new Date(e.at),
+          title: e.title,
+          description: e.description,
+          createdBy: admin?.id ?? null,
+        })),
+      );
+    }
+  });
+
+  const csv = scenario.toCanonicalCsv(scenario.generateDemoResults({ endDate, months }));
+  const outcome = await importResults(db, { fileName: 'harrow-vale-history.csv', content: Buffer.from(csv), actorId: admin?.id ?? null, source: 'upload' });
+  if (outcome.kind !== 'imported') {
+    throw new Error(`The demo history did not import: ${outcome.kind === 'rejected' ? JSON.stringify(outcome.errors.slice(0, 3)) : outcome.kind}`);
   }
 }

@@ -1,0 +1,42 @@
+import { eq } from 'drizzle-orm';
+import type { IngestCatalogue } from '../../shared/ingest';
+import type { Database } from '../db/client';
+import { characteristics, plants, productionLines, products, testMethods } from '../db/schema';
+
+export interface LoadedCatalogue extends IngestCatalogue {
+  lineIds: Map<string, number>;
+  productIds: Map<string, number>;
+  characteristicIds: Map<string, number>;
+}
+
+/** The plant's configuration as validation needs it: codes, subgroup sizes, physical ranges. */
+export async function loadCatalogue(db: Pick<Database, 'select'>): Promise<LoadedCatalogue> {
+  const [plant] = await db.select({ timeZone: plants.timeZone }).from(plants).orderBy(plants.id).limit(1);
+  const lineRows = await db.select({ id: productionLines.id, code: productionLines.code }).from(productionLines);
+  const productRows = await db.select({ id: products.id, code: products.code }).from(products).where(eq(products.active, true));
+  const chRows = await db
+    .select({
+      id: characteristics.id,
+      code: characteristics.code,
+      name: characteristics.name,
+      unit: characteristics.unit,
+      subgroupSize: characteristics.subgroupSize,
+      productCode: products.code,
+      physicalMin: testMethods.physicalMin,
+      physicalMax: testMethods.physicalMax,
+      physicalMaxExclusive: testMethods.physicalMaxExclusive,
+    })
+    .from(characteristics)
+    .innerJoin(products, eq(products.id, characteristics.productId))
+    .innerJoin(testMethods, eq(testMethods.id, characteristics.testMethodId))
+    .where(eq(characteristics.active, true));
+  return {
+    timeZone: plant?.timeZone ?? 'UTC',
+    lineCodes: new Set(lineRows.map((l) => l.code)),
+    productCodes: new Set(productRows.map((p) => p.code)),
+    characteristics: new Map(chRows.map((c) => [c.code, c])),
+    lineIds: new Map(lineRows.map((l) => [l.code, l.id])),
+    productIds: new Map(productRows.map((p) => [p.code, p.id])),
+    characteristicIds: new Map(chRows.map((c) => [c.code, c.id])),
+  };
+}

@@ -1,0 +1,141 @@
+import { Router, type RequestHandler } from 'express';
+import multer from 'multer';
+import { and, desc, eq, sql } from 'drizzle-orm';
+import { canonicalColumns, looksLikeFormula, type RowError } from '../../../shared/ingest';
+import type { Database } from '../../db/client';
+import { measurements, uploads, users } from '../../db/schema';
+import { recordAudit } from '../../db/audit';
+import { badRequest, HttpError, notFound, parseBody } from '../../http/errors';
+import { requireRole, requireSession } from '../../auth/session';
+import { importResults, type ImportOutcome } from '../../ingest/import';
+import type { IngestHooks } from '../../ingest/hooks';
+import { listUploadsQuerySchema, uploadFieldsSchema, uploadIdParamsSchema, voidUploadSchema } from './schema';
+
+export const MAX_UPLOAD_BYTES = 20 * 1024 * 1024;
+
+const receiveFile: RequestHandler = (req, res, next) => {
+  multer({ storage: multer.memoryStorage(), limits: { fileSize: MAX_UPLOAD_BYTES, files: 1, fields: 10 } }).single('file')(req, res, (err: unknown) => {
+    if ((err as { code?: string })?.code === 'LIMIT_FILE_SIZE') return next(new HttpError(413, `The file is larger than ${MAX_UPLOAD_BYTES / 1024 / 1024} MB; split it into shifts or weeks`));
+    if (err) return next(badRequest(`The upload could not be read: ${(err as Error).message}`));
+    if (!req.file) return next(badRequest('Attach the CSV file in the form field "file"'));
+    next();
+  });
+};
+
+/** A CSV cell that a spreadsheet will not run as a formula. */
+const csvCell = (v: unknown) => {
+  const text = v == null ? '' : String(v);
+  const safe = looksLikeFormula(text) ? `'${text}` : text;
+  return /[",\r\n;]/.test(safe) ? `"${safe.replace(/"/g, '""')}"` : safe;
+};
+
+export const errorReportCsv = (errors: RowError[]) => ['row,column,message', ...errors.map((e) => [e.row, e.column, e.message].map(csvCell).join(','))].join('\r\n') + '\r\n';
+
+const uploadColumns = {
+  id: uploads.id,
+  fileName: uploads.fileName,
+  sha256: uploads.sha256,
+  uploadedAt: uploads.uploadedAt,
+  status: uploads.status,
+  format: uploads.format,
+  rowsTotal: uploads.rowsTotal,
+  rowsImported: uploads.rowsImported,
+  rowsRejected: uploads.rowsRejected,
+  voidedAt: uploads.voidedAt,
+  voidReason: uploads.voidReason,
+  uploadedById: uploads.uploadedBy,
+  uploadedByName: users.name,
+};
+
+export function respondToImport(res: Parameters<RequestHandler>[1], outcome: ImportOutcome): void {
+  if (outcome.kind === 'duplicate-file') {
+    res.status(409).json({ error: `This file was already imported as upload ${outcome.uploadId} on ${outcome.uploadedAt.toISOString()}`, uploadId: outcome.uploadId });
+  } else if (outcome.kind === 'rejected') {
+    const rows = new Set(outcome.errors.map((e) => e.row)).size;
+    res.status(422).json({
+      error: `Nothing was imported: ${rows} row${rows === 1 ? '' : 's'} need${rows === 1 ? 's' : ''} correcting`,
+      errors: outcome.errors,
+      id: outcome.uploadId,
+    });
+  } else {
+    res.status(201).json({ id: outcome.uploadId, rowsImported: outcome.rowsImported });
+  }
+}
+
+export function uploadsRouter(db: Database, hooks: IngestHooks): Router {
+  const router = Router();
+  router.use(requireSession);
+
+  router.get('/template.csv', (_req, res) => {
+    res.type('text/csv').attachment('prismline-results-template.csv');
+    res.send(`${canonicalColumns.join(',')}\r\nL1-261130-E1,HVL25,L1,2026-11-30T06:40,HVL25-FLOW,146,early,1,2026-11-30T07:15,AT,\r\n`);
+  });
+
+  router.get('/', async (req, res) => {
+    const q = parseBody(listUploadsQuerySchema, req.query);
+    const rows = await db
+      .select(uploadColumns)
+      .from(uploads)
+      .leftJoin(users, eq(users.id, uploads.uploadedBy))
+      .where(q.status ? eq(uploads.status, q.status) : undefined)
+      .orderBy(desc(uploads.uploadedAt), desc(uploads.id))
+      .limit(q.limit);
+    res.json({ items: rows });
+  });
+
+  router.post('/', requireRole('technician', 'quality_manager', 'admin'), receiveFile, async (req, res) => {
+    const fields = parseBody(uploadFieldsSchema, req.body);
+    const outcome = await importResults(db, {
+      fileName: req.file!.originalname.slice(0, 255),
+      content: req.file!.buffer,
+      actorId: req.user!.id,
+      source: 'upload',
+      mapping: fields.mapping,
+    });
+    if (outcome.kind === 'imported') await hooks.afterImport(outcome);
+    respondToImport(res, outcome);
+  });
+
+  router.get('/:id', async (req, res) => {
+    const { id } = parseBody(uploadIdParamsSchema, req.params);
+    const [row] = await db.select({ ...uploadColumns, errors: uploads.errors }).from(uploads).leftJoin(users, eq(users.id, uploads.uploadedBy)).where(eq(uploads.id, id));
+    if (!row) throw notFound('Upload');
+    res.json(row);
+  });
+
+  router.get('/:id/errors.csv', async (req, res) => {
+    const { id } = parseBody(uploadIdParamsSchema, req.params);
+    const [row] = await db.select({ errors: uploads.errors, fileName: uploads.fileName }).from(uploads).where(eq(uploads.id, id));
+    if (!row) throw notFound('Upload');
+    res.type('text/csv').attachment(`errors-upload-${id}.csv`).send(errorReportCsv((row.errors as RowError[] | null) ?? []));
+  });
+
+  router.get('/:id/file', async (req, res) => {
+    const { id } = parseBody(uploadIdParamsSchema, req.params);
+    const [row] = await db.select({ content: uploads.content, fileName: uploads.fileName }).from(uploads).where(eq(uploads.id, id));
+    if (!row) throw notFound('Upload');
+    res.type('application/octet-stream').attachment(row.fileName).send(row.content);
+  });
+
+  router.post('/:id/void', requireRole('quality_manager', 'admin'), async (req, res) => {
+    const { id } = parseBody(uploadIdParamsSchema, req.params);
+    const { reason } = parseBody(voidUploadSchema, req.body);
+    const result = await db.transaction(async (tx) => {
+      const [upload] = await tx.select({ id: uploads.id, status: uploads.status }).from(uploads).where(eq(uploads.id, id)).for('update');
+      if (!upload) throw notFound('Upload');
+      if (upload.status !== 'imported') throw new HttpError(409, `Upload ${id} is ${upload.status}; only an imported upload can be voided`);
+      const voided = await tx
+        .update(measurements)
+        .set({ voidedAt: sql`now()` })
+        .where(and(eq(measurements.uploadId, id), sql`${measurements.voidedAt} is null`))
+        .returning({ characteristicId: measurements.characteristicId });
+      await tx.update(uploads).set({ status: 'voided', voidedAt: sql`now()`, voidedBy: req.user!.id, voidReason: reason }).where(eq(uploads.id, id));
+      await recordAudit(tx, { actorId: req.user!.id, action: 'void', entity: 'upload', entityId: id, reason, after: { measurementsVoided: voided.length } });
+      return { measurementsVoided: voided.length, characteristicIds: [...new Set(voided.map((v) => v.characteristicId))] };
+    });
+    await hooks.afterVoid({ uploadId: id, characteristicIds: result.characteristicIds });
+    res.json({ id, status: 'voided', measurementsVoided: result.measurementsVoided });
+  });
+
+  return router;
+}

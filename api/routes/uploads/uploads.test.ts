@@ -1,0 +1,264 @@
+import request from 'supertest';
+import { afterAll, describe, expect, it } from 'vitest';
+import { and, eq, isNull, sql } from 'drizzle-orm';
+import { createTestApi } from '../../../tests/support/api';
+import { auditEvents, lots, measurements, uploads } from '../../db/schema';
+import type { Role } from '../../../shared/schemas/users';
+
+const api = createTestApi();
+afterAll(() => api.close());
+
+const as = async (role: Role) => ({ authorization: `Bearer ${await api.tokenFor(role)}` });
+const run = `${Date.now() % 1_000_000}`;
+let lotCounter = 0;
+const newLot = () => `T${run}-${++lotCounter}`;
+const header = 'lot,product,line,produced_at,characteristic,value,shift,replicate,tested_at,operator,note';
+
+function upload(role: Role, body: string | Buffer, name = 'shift.csv', mapping?: unknown) {
+  return as(role).then((h) => {
+    const r = request(api.app).post('/api/v1/uploads').set(h).attach('file', Buffer.isBuffer(body) ? body : Buffer.from(body), name);
+    return mapping ? r.field('mapping', JSON.stringify(mapping)) : r;
+  });
+}
+
+const liveCount = async () => (await api.db.select({ n: sql<number>`count(*)::int` }).from(measurements).where(isNull(measurements.voidedAt)))[0].n;
+
+describe('catalogue', () => {
+  it('lists the demo products and characteristics, each with a code and the specification in force', async () => {
+    const h = await as('auditor');
+    const products = await request(api.app).get('/api/v1/products').set(h);
+    expect(products.status).toBe(200);
+    expect(products.body.items.map((p: { code: string }) => p.code).sort()).toEqual(['HVFX', 'HVL25', 'HVLF', 'HVR3']);
+    const chars = await request(api.app).get('/api/v1/characteristics').set(h);
+    const flow = chars.body.items.find((c: { code: string }) => c.code === 'HVL25-FLOW');
+    expect(flow).toMatchObject({ productCode: 'HVL25', unit: 'mm', subgroupSize: 2, chartType: 'xbar-r', spec: { lsl: 135, usl: 155, target: 145, revision: 1 } });
+  });
+
+  it('holds six months of demo history, imported through the upload path', async () => {
+    const [history] = await api.db.select().from(uploads).where(eq(uploads.fileName, 'harrow-vale-history.csv'));
+    expect(history.status).toBe('imported');
+    expect(history.rowsImported).toBeGreaterThan(20_000);
+    const [{ n }] = await api.db.select({ n: sql<number>`count(*)::int` }).from(lots);
+    expect(n).toBeGreaterThan(1000);
+  });
+
+  it('shows every test method with its standard and the handling cautions', async () => {
+    const res = await request(api.app).get('/api/v1/test-methods').set(await as('technician'));
+    const rc = res.body.items.find((m: { code: string }) => m.code === 'RC');
+    expect(rc.standard).toMatch(/EN 196-1|EN 13892-2/);
+    expect(rc.cautions.join(' ')).toMatch(/safety data sheet/i);
+  });
+});
+
+describe('POST /api/v1/uploads', () => {
+  it('imports a valid long-format file (201) and stores every row against its lot', async () => {
+    const lot = newLot();
+    const csv = `${header}\n${lot},HVL25,L1,2026-11-02T06:30:00Z,HVL25-FLOW,146,early,1,2026-11-02T07:00:00Z,AT,\n${lot},HVL25,L1,2026-11-02T06:30:00Z,HVL25-FLOW,147,early,2,2026-11-02T07:00:00Z,AT,second ring\n`;
+    const before = await liveCount();
+    const res = await upload('technician', csv);
+    expect(res.status).toBe(201);
+    expect(res.body).toEqual({ id: expect.any(Number), rowsImported: 2 });
+    expect(await liveCount()).toBe(before + 2);
+    const detail = await request(api.app).get(`/api/v1/lots/${lot}`).set(await as('auditor'));
+    expect(detail.body.results.map((r: { value: number }) => r.value)).toEqual([146, 147]);
+    expect(detail.body.producedAt).toBe('2026-11-02T06:30:00.000Z');
+  });
+
+  it('refuses the same bytes a second time (409) and stores nothing twice', async () => {
+    const lot = newLot();
+    const csv = `${header}\n${lot},HVL25,L1,2026-11-03T06:30:00Z,HVL25-AIR,3.1,early,1,,,\n`;
+    expect((await upload('technician', csv)).status).toBe(201);
+    const before = await liveCount();
+    const again = await upload('quality_manager', csv, 'renamed.csv');
+    expect(again.status).toBe(409);
+    expect(again.body.error).toMatch(/already imported as upload/);
+    expect(await liveCount()).toBe(before);
+  });
+
+  it('imports nothing when one row among good ones is bad (422 naming row and column)', async () => {
+    const lot = newLot();
+    const rows = Array.from({ length: 5 }, (_, i) => `${lot}-${i},HVL25,L1,2026-11-04T06:30:00Z,HVL25-DENS,${1950 + i},early,1,,,`);
+    rows.splice(3, 0, `${lot}-x,HVL25,L1,2026-11-04T06:30:00Z,HVL25-DENS,heavy,early,1,,,`);
+    const before = await liveCount();
+    const res = await upload('technician', `${header}\n${rows.join('\n')}\n`);
+    expect(res.status).toBe(422);
+    expect(res.body.errors).toEqual([{ row: 5, column: 'value', message: expect.stringMatching(/"heavy" is not a number/) }]);
+    expect(await liveCount()).toBe(before);
+    const stored = await api.db.select().from(lots).where(eq(lots.lotNumber, `${lot}-0`));
+    expect(stored).toHaveLength(0);
+
+    const report = await request(api.app).get(`/api/v1/uploads/${res.body.id}/errors.csv`).set(await as('technician'));
+    expect(report.text.split('\r\n')[0]).toBe('row,column,message');
+    expect(report.text).toMatch(/^5,value,/m);
+    const history = await request(api.app).get('/api/v1/uploads?status=rejected').set(await as('auditor'));
+    expect(history.body.items.find((u: { id: number }) => u.id === res.body.id)).toMatchObject({ status: 'rejected', rowsTotal: 6, rowsRejected: 1, rowsImported: 0 });
+  });
+
+  it('reads European exports: ";" delimiter, decimal comma and dd.mm.yyyy HH:MM in plant time', async () => {
+    const lot = newLot();
+    const csv = `lot;product;line;produced_at;characteristic;value;replicate\n${lot};HVL25;L1;15.07.2026 08:00;HVL25-RF28;7,45;1\n${lot};HVL25;L1;15.07.2026 08:00;HVL25-RF28;7,6;2\n${lot}-w;HVL25;L1;15.01.2026 08:00;HVL25-AIR;2,95;1\n`;
+    const res = await upload('technician', csv, 'press-export.csv');
+    expect(res.status).toBe(201);
+    const summer = await request(api.app).get(`/api/v1/lots/${lot}`).set(await as('auditor'));
+    expect(summer.body.results.map((r: { value: number }) => r.value)).toEqual([7.45, 7.6]);
+    // Europe/London is UTC+1 in July and UTC+0 in January (IANA time zone database; UK summer time rules).
+    expect(summer.body.producedAt).toBe('2026-07-15T07:00:00.000Z');
+    const winter = await request(api.app).get(`/api/v1/lots/${lot}-w`).set(await as('auditor'));
+    expect(winter.body.producedAt).toBe('2026-01-15T08:00:00.000Z');
+  });
+
+  it('gives a precise message for each kind of bad row and keeps formula-looking cells as plain data', async () => {
+    const lot = newLot();
+    const csv = [
+      header,
+      `${lot}-a,NOPE,L1,2026-11-05T06:00:00Z,HVL25-FLOW,146,,1,,,`,
+      `${lot}-b,HVL25,L1,2026-11-05T06:00:00Z,HVL25-XYZ,146,,1,,,`,
+      `${lot}-c,HVL25,L1,31.02.2026 06:00,HVL25-FLOW,146,,1,,,`,
+      `${lot}-d,HVL25,L1,2026-11-05T06:00:00Z,HVL25-RC28,-3,,1,,,`,
+      `${lot}-e,HVL25,L1,2026-11-05T06:00:00Z,HVL25-AIR,104,,1,,,`,
+      `${lot}-f,HVL25,L1,2026-11-05T06:00:00Z,HVL25-FLOW,=1+1,,1,,,`,
+      `${lot}-g,HVL25,L1,2026-11-05T06:00:00Z,HVL25-FLOW,146,,3,,,`,
+      `${lot}-h,HVL25,L1,2026-11-05T06:00:00Z,HVFX-SLIP,0.2,,1,,,`,
+      `${lot}-i,HVL25,L1,2026-11-05T06:00:00Z,HVL25-FLOW,146,,1,,,`,
+      `${lot}-i,HVL25,L1,2026-11-05T06:00:00Z,HVL25-FLOW,147,,1,,,`,
+      `${lot}-j,HVL25,L1,2026-11-05T06:00:00Z,HVL25-FLOW,146,,1,2026-11-04T06:00:00Z,,`,
+    ].join('\n');
+    const res = await upload('technician', csv);
+    expect(res.status).toBe(422);
+    const byRow = Object.fromEntries(res.body.errors.map((e: { row: number; column: string; message: string }) => [e.row, `${e.column}: ${e.message}`]));
+    expect(byRow[2]).toMatch(/^product: Unknown product code "NOPE"/);
+    expect(byRow[3]).toMatch(/^characteristic: Unknown characteristic code "HVL25-XYZ"/);
+    expect(byRow[4]).toMatch(/^produced_at: "31.02.2026 06:00" is not a date/);
+    expect(byRow[5]).toMatch(/^value: -3 MPa is not a possible/);
+    expect(byRow[6]).toMatch(/^value: 104 % is not a possible/);
+    expect(byRow[7]).toMatch(/^value: "=1\+1" is not a number/);
+    expect(byRow[8]).toMatch(/^replicate: HVL25-FLOW takes 2 replicates per lot/);
+    expect(byRow[9]).toMatch(/^characteristic: Characteristic HVFX-SLIP belongs to product HVFX/);
+    expect(byRow[11]).toMatch(/^replicate: Duplicate: row 10 already gives/);
+    expect(byRow[12]).toMatch(/^tested_at: Test time is before the lot was produced/);
+    const report = await request(api.app).get(`/api/v1/uploads/${res.body.id}/errors.csv`).set(await as('technician'));
+    expect(report.text).not.toMatch(/(^|,)=1\+1/m);
+  });
+
+  it('stores a formula-looking note verbatim as text', async () => {
+    const lot = newLot();
+    const res = await upload('technician', `${header}\n${lot},HVL25,L1,2026-11-05T06:00:00Z,HVL25-AIR,3.2,,1,,AT,"=HYPERLINK(""x"")"\n`);
+    expect(res.status).toBe(201);
+    const detail = await request(api.app).get(`/api/v1/lots/${lot}`).set(await as('auditor'));
+    expect(detail.body.results[0].note).toBe('=HYPERLINK("x")');
+  });
+
+  it('refuses a measurement that is already stored (same lot, characteristic, replicate) instead of overwriting it', async () => {
+    const lot = newLot();
+    expect((await upload('technician', `${header}\n${lot},HVL25,L1,2026-11-06T06:00:00Z,HVL25-AIR,3.0,,1,,,\n`)).status).toBe(201);
+    const res = await upload('technician', `${header}\n${lot},HVL25,L1,2026-11-06T06:00:00Z,HVL25-AIR,3.9,,1,,,corrected\n`);
+    expect(res.status).toBe(422);
+    expect(res.body.errors[0]).toMatchObject({ row: 2, column: 'replicate', message: expect.stringMatching(/already stored/) });
+    const detail = await request(api.app).get(`/api/v1/lots/${lot}`).set(await as('auditor'));
+    expect(detail.body.results.map((r: { value: number }) => r.value)).toEqual([3.0]);
+  });
+
+  it('names missing columns and empty files', async () => {
+    const missing = await upload('technician', 'lot,product,value\nA,HVL25,1\n');
+    expect(missing.status).toBe(422);
+    expect(missing.body.errors[0]).toMatchObject({ row: 1, message: 'Missing columns: line, produced_at, characteristic' });
+    const empty = await upload('technician', '');
+    expect(empty.status).toBe(422);
+    expect(empty.body.errors[0].message).toMatch(/empty/);
+  });
+
+  it('imports a wide file (one row per lot) through a column mapping', async () => {
+    const lot = newLot();
+    const csv = `Batch;Product;Line;Made;Flow A;Flow B;Air\n${lot};HVL25;L1;2026-11-07 06:10;145;147;3,1\n`;
+    const mapping = {
+      format: 'wide',
+      columns: { lot: 'Batch', product: 'Product', line: 'Line', produced_at: 'Made' },
+      characteristicColumns: { 'Flow A': 'HVL25-FLOW', 'Flow B': 'HVL25-FLOW', Air: 'HVL25-AIR' },
+    };
+    const res = await upload('technician', csv, 'wide.csv', mapping);
+    expect(res.status).toBe(201);
+    expect(res.body.rowsImported).toBe(3);
+    const detail = await request(api.app).get(`/api/v1/lots/${lot}`).set(await as('auditor'));
+    expect(detail.body.results.map((r: { characteristicCode: string; replicate: number; value: number }) => [r.characteristicCode, r.replicate, r.value])).toEqual([
+      ['HVL25-FLOW', 1, 145],
+      ['HVL25-FLOW', 2, 147],
+      ['HVL25-AIR', 1, 3.1],
+    ]);
+  });
+
+  it('answers 413 for a file over 20 MB and 403 for auditors', async () => {
+    const big = Buffer.alloc(20 * 1024 * 1024 + 1, 'a');
+    expect((await upload('technician', big, 'huge.csv')).status).toBe(413);
+    const forbidden = await upload('auditor', `${header}\n`);
+    expect(forbidden.status).toBe(403);
+  });
+});
+
+describe('POST /api/v1/uploads/:id/void', () => {
+  it('takes the upload out of every calculation but keeps its rows for the record', async () => {
+    const lot = newLot();
+    const csv = `${header}\n${lot},HVL25,L1,2026-11-08T06:00:00Z,HVL25-AIR,9.9,,1,,,wrong mix water\n`;
+    const imported = await upload('technician', csv);
+    expect(imported.status).toBe(201);
+    expect((await request(api.app).post(`/api/v1/uploads/${imported.body.id}/void`).set(await as('technician')).send({ reason: 'wrong file' })).status).toBe(403);
+    expect((await request(api.app).post(`/api/v1/uploads/${imported.body.id}/void`).set(await as('quality_manager')).send({})).status).toBe(400);
+    const voided = await request(api.app).post(`/api/v1/uploads/${imported.body.id}/void`).set(await as('quality_manager')).send({ reason: 'Samples mixed with the wrong water dose' });
+    expect(voided.status).toBe(200);
+    expect(voided.body).toMatchObject({ status: 'voided', measurementsVoided: 1 });
+
+    const detail = await request(api.app).get(`/api/v1/lots/${lot}`).set(await as('auditor'));
+    expect(detail.body.results).toEqual([]);
+    const kept = await api.db.select().from(measurements).where(eq(measurements.uploadId, imported.body.id));
+    expect(kept).toHaveLength(1);
+    expect(kept[0].voidedAt).not.toBeNull();
+    const trail = await api.db.select().from(auditEvents).where(and(eq(auditEvents.entity, 'upload'), eq(auditEvents.entityId, String(imported.body.id)), eq(auditEvents.action, 'void')));
+    expect(trail[0].reason).toBe('Samples mixed with the wrong water dose');
+
+    expect((await request(api.app).post(`/api/v1/uploads/${imported.body.id}/void`).set(await as('quality_manager')).send({ reason: 'again please' })).status).toBe(409);
+    const retest = await upload('technician', `${header}\n${lot},HVL25,L1,2026-11-08T06:00:00Z,HVL25-AIR,3.3,,1,,,retest\n`);
+    expect(retest.status).toBe(201);
+  });
+});
+
+describe('manual entry and corrections', () => {
+  it('turns raw breaking loads into strengths by the EN 196-1 formulas before storing', async () => {
+    const lot = newLot();
+    const res = await request(api.app)
+      .post('/api/v1/measurements')
+      .set(await as('technician'))
+      .send({
+        lot,
+        product: 'HVL25',
+        line: 'L1',
+        producedAt: '2026-11-09T06:20',
+        shift: 'early',
+        operator: 'AT',
+        results: [
+          // EN 196-1: Rc = Fc / 1600 mm² → 40 kN gives 25.0 MPa, 48 kN gives 30.0 MPa.
+          { characteristic: 'HVL25-RC28', entryUnit: 'kN', replicates: [40, 48, 44, 44, 46, 46] },
+          // EN 196-1: Rf = 1.5 · Ff · l / b³ = 1.5 · 3200 N · 100 mm / 40³ mm³ = 7.5 MPa.
+          { characteristic: 'HVL25-RF28', entryUnit: 'N', replicates: [3200, 3200, 3200] },
+        ],
+      });
+    expect(res.status).toBe(201);
+    expect(res.body.rowsImported).toBe(9);
+    const detail = await request(api.app).get(`/api/v1/lots/${lot}`).set(await as('auditor'));
+    const values = (code: string) => detail.body.results.filter((r: { characteristicCode: string }) => r.characteristicCode === code).map((r: { value: number }) => r.value);
+    expect(values('HVL25-RC28')).toEqual([25, 30, 27.5, 27.5, 28.75, 28.75]);
+    expect(values('HVL25-RF28')).toEqual([7.5, 7.5, 7.5]);
+  });
+
+  it('corrects a stored value only with a reason, and the audit trail keeps before and after', async () => {
+    const lot = newLot();
+    await upload('technician', `${header}\n${lot},HVL25,L1,2026-11-10T06:00:00Z,HVL25-DENS,1590,,1,,,\n`);
+    const detail = await request(api.app).get(`/api/v1/lots/${lot}`).set(await as('auditor'));
+    const id = detail.body.results[0].id;
+    expect((await request(api.app).patch(`/api/v1/measurements/${id}`).set(await as('technician')).send({ value: 1950 })).status).toBe(400);
+    const fixed = await request(api.app).patch(`/api/v1/measurements/${id}`).set(await as('technician')).send({ value: 1950, reason: 'Digits swapped when typing' });
+    expect(fixed.status).toBe(200);
+    expect(fixed.body.value).toBe(1950);
+    const [entry] = await api.db.select().from(auditEvents).where(and(eq(auditEvents.entity, 'measurement'), eq(auditEvents.entityId, String(id))));
+    expect(entry).toMatchObject({ action: 'correct', before: { value: 1590 }, after: { value: 1950 }, reason: 'Digits swapped when typing' });
+    expect((await request(api.app).patch(`/api/v1/measurements/${id}`).set(await as('auditor')).send({ value: 1, reason: 'auditor try' })).status).toBe(403);
+  });
+});

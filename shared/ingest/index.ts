@@ -1,0 +1,5 @@
+export * from './values';
+export * from './dialect';
+export * from './mapping';
+export * from './validate';
+export * from './manual-entry';
