@@ -1,6 +1,6 @@
 // The web app shell in a real browser against the real server started by scripts/run-tests.ts:
 // sign-in, the role-aware menu and route guards, user administration, sign-out and not-found.
-import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
+import { afterAll, afterEach, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { baseUrl, launchBrowser, screenshot, type TestBrowser } from '../support/browser';
 import { DEMO_PASSWORD, demoUsers } from '../../api/db/seed';
@@ -23,9 +23,16 @@ afterAll(async () => {
   await browser?.close();
 });
 
+// Each test starts signed out in a page of its own, so one failure does not leak into the next.
 beforeEach(async () => {
   await browser.context.clearCookies();
-  page = browser.context.pages()[0] ?? (await browser.context.newPage());
+  page = await browser.context.newPage();
+  // Well inside the test timeout, so a missing element fails with Playwright's message.
+  page.setDefaultTimeout(10_000);
+});
+
+afterEach(async () => {
+  await page?.close();
 });
 
 async function signIn(email: string, password: string) {
