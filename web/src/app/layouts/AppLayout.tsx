@@ -48,8 +48,8 @@ export function AppLayout() {
             </Button>
             <Brand className="lg:hidden" compact />
             <div className="ml-auto flex items-center gap-4">
-              <div className="text-right leading-tight">
-                <p className="font-medium text-zinc-900" data-testid="user-name">
+              <div className="hidden text-right leading-tight sm:block">
+                <p className="font-medium text-zinc-900">
                   {user.name}
                 </p>
                 <p className="text-sm text-zinc-600" data-testid="user-role">
@@ -63,6 +63,9 @@ export function AppLayout() {
           </div>
           {menuOpen && (
             <div id="narrow-menu" className="border-t border-zinc-200 bg-white px-3 py-3 lg:hidden">
+              <p className="px-3 pb-3 text-sm text-zinc-600 sm:hidden">
+                Signed in as <span className="font-medium text-zinc-900">{user.name}</span>, {roleLabels[user.role]}
+              </p>
               <Menu areas={menu} onNavigate={() => setMenuOpen(false)} />
             </div>
           )}

@@ -7,7 +7,7 @@ export function AreaPlaceholder({ area }: { area: Area }) {
   return (
     <>
       <PageHeader title={area.label} description={area.purpose} />
-      <div className="flex items-center gap-3 rounded-lg border border-dashed border-zinc-300 bg-white px-5 py-6">
+      <div className="flex flex-wrap items-center gap-3 rounded-lg border border-dashed border-zinc-300 bg-white px-5 py-6">
         <Badge>Not available yet</Badge>
         <p className="text-zinc-600">This area is planned and will appear here in a later release.</p>
       </div>

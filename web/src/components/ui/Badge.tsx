@@ -14,7 +14,7 @@ const tones: Record<Tone, string> = {
 /** A short state word; the word carries the meaning, the tone only supports it. */
 export function Badge({ tone = 'neutral', children }: { tone?: Tone; children: ReactNode }) {
   return (
-    <span className={cx('inline-flex items-center rounded-full px-2.5 py-0.5 text-sm font-medium ring-1 ring-inset', tones[tone])}>
+    <span className={cx('inline-flex shrink-0 items-center rounded-full whitespace-nowrap px-2.5 py-0.5 text-sm font-medium ring-1 ring-inset', tones[tone])}>
       {children}
     </span>
   );
