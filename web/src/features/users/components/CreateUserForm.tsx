@@ -1,12 +1,13 @@
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { createUserSchema, roleLabels, roles, type PublicUser } from '../../../../../shared/schemas/users';
+import { createUserSchema, type PublicUser } from '../../../../../shared/schemas/users';
 import { ApiError, errorMessage } from '../../../lib/http';
 import { showServerFieldErrors } from '../../../lib/forms';
 import { useCreateUser } from '../api/users';
 import { Field, Input, Select } from '../../../components/ui/Field';
 import { Alert } from '../../../components/ui/Alert';
 import { Button } from '../../../components/ui/Button';
+import { RoleOptions } from './RoleOptions';
 
 const fields = ['name', 'email', 'role', 'password'] as const;
 
@@ -50,11 +51,7 @@ export function CreateUserForm({ onCreated, onCancel }: { onCreated: (user: Publ
         <Field label="Role" error={errors.role?.message}>
           {(control) => (
             <Select {...control} {...register('role')}>
-              {roles.map((role) => (
-                <option key={role} value={role}>
-                  {roleLabels[role]}
-                </option>
-              ))}
+              <RoleOptions />
             </Select>
           )}
         </Field>

@@ -1,12 +1,13 @@
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { createUserSchema, roleLabels, roles, type PublicUser, type Role } from '../../../../../shared/schemas/users';
+import { createUserSchema, roleLabels, type PublicUser, type Role } from '../../../../../shared/schemas/users';
 import { errorMessage } from '../../../lib/http';
 import { showServerFieldErrors } from '../../../lib/forms';
 import { useUpdateUser } from '../api/users';
 import { Alert } from '../../../components/ui/Alert';
 import { Button } from '../../../components/ui/Button';
+import { RoleOptions } from './RoleOptions';
 import { Dialog } from '../../../components/ui/Dialog';
 import { Field, Input, Select } from '../../../components/ui/Field';
 
@@ -39,11 +40,7 @@ export function RoleSelect({ user, isSelf, onNotice }: { user: PublicUser; isSel
         onChange={(event) => changeRole(event.target.value as Role)}
         className="h-9 text-sm"
       >
-        {roles.map((role) => (
-          <option key={role} value={role}>
-            {roleLabels[role]}
-          </option>
-        ))}
+        <RoleOptions />
       </Select>
     </div>
   );
