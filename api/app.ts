@@ -15,6 +15,7 @@ import { usersRouter } from './routes/users/router';
 import { uploadsRouter } from './routes/uploads/router';
 import { catalogueRouter } from './routes/catalogue/router';
 import { measurementsRouter } from './routes/measurements/router';
+import { columnMappingsRouter } from './routes/column-mappings/router';
 import { noIngestHooks, type IngestHooks } from './ingest/hooks';
 
 export const webDist = resolve(import.meta.dirname, '..', 'web', 'dist');
@@ -49,6 +50,7 @@ export function createApp({ db, config, serveWeb = true, ingestHooks = noIngestH
   app.use('/api/v1/users', usersRouter(db));
   app.use('/api/v1/uploads', uploadsRouter(db, ingestHooks));
   app.use('/api/v1/measurements', measurementsRouter(db, ingestHooks));
+  app.use('/api/v1/column-mappings', columnMappingsRouter(db));
   app.use('/api/v1', catalogueRouter(db));
   app.use('/api', notFoundApi);
 
