@@ -1,7 +1,7 @@
 // npm test: a throw-away PostgreSQL cluster and database, the demo seed, a real server, then every test.
 // Ends with one line "N passed, N failed".
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
-import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync, readFileSync } from 'node:fs';
 import { createServer } from 'node:net';
 import { resolve } from 'node:path';
 import { dataRoot } from '../api/config';
@@ -9,8 +9,10 @@ import { destroyCluster, ensureDatabase, initCluster, startCluster, type Cluster
 import { buildWebIfStale } from './lib/web-build';
 
 const root = resolve(import.meta.dirname, '..');
-const cluster: Cluster = { root: resolve(dataRoot, 'test-postgres'), port: Number(process.env.PRISMLINE_TEST_PG_PORT ?? 54339) };
-const resultsFile = resolve(dataRoot, 'test-results.json');
+// Each run gets its own cluster folder and port, so runs started side by side never meet.
+const testClusters = resolve(dataRoot, 'test-postgres');
+const cluster: Cluster = { root: resolve(testClusters, String(process.pid)), port: 0 };
+const resultsFile = resolve(cluster.root, 'test-results.json');
 const JWT_SECRET = 'test-secret-that-is-long-enough-for-hs256-signing';
 
 function freePort(): Promise<number> {
@@ -52,8 +54,24 @@ function cleanUp() {
   destroyCluster(cluster);
 }
 
+/** Removes clusters left by runs that were killed. */
+function removeStaleClusters() {
+  if (!existsSync(testClusters)) return;
+  for (const pid of readdirSync(testClusters)) {
+    let alive = false;
+    try {
+      process.kill(Number(pid), 0);
+      alive = true;
+    } catch {
+      // no such process
+    }
+    if (!alive) destroyCluster({ root: resolve(testClusters, pid), port: 0 });
+  }
+}
+
 async function main(): Promise<number> {
-  destroyCluster(cluster);
+  removeStaleClusters();
+  cluster.port = Number(process.env.PRISMLINE_TEST_PG_PORT ?? (await freePort()));
   initCluster(cluster);
   startCluster(cluster);
   const databaseUrl = await ensureDatabase(cluster, 'prismline_test');
@@ -80,7 +98,6 @@ async function main(): Promise<number> {
   });
   await waitForHealth(baseUrl, server);
 
-  rmSync(resultsFile, { force: true });
   const vitest = spawnSync(
     'npx',
     ['vitest', 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${resultsFile}`, ...process.argv.slice(2)],

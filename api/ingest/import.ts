@@ -207,13 +207,18 @@ async function upsertLots(tx: Tx, valid: ValidMeasurement[], cat: LoadedCatalogu
   const ids = new Map<string, number>();
   for (let i = 0; i < lots.length; i += BATCH) {
     const chunk = lots.slice(i, i + BATCH);
-    await tx.execute(sql`
-      insert into lots (lot_number, product_id, line_id, produced_at, shift)
-      select * from unnest(${arr(chunk.map((l) => l.lot))}::text[], ${arr(chunk.map((l) => cat.productIds.get(l.product)!))}::int[],
-                           ${arr(chunk.map((l) => cat.lineIds.get(l.line)!))}::int[], ${arr(chunk.map((l) => new Date(l.producedAt).toISOString()))}::timestamptz[],
-                           ${arr(chunk.map((l) => l.shift))}::text[])
-      on conflict (lot_number) do nothing`);
-    const res = await tx.execute<{ id: number; lot_number: string }>(sql`select id, lot_number from lots where lot_number = any(${arr(chunk.map((l) => l.lot))}::text[])`);
+    // New lots come back from the insert; the second select sees the snapshot before it, so only lots stored earlier.
+    const res = await tx.execute<{ id: number; lot_number: string }>(sql`
+      with added as (
+        insert into lots (lot_number, product_id, line_id, produced_at, shift)
+        select * from unnest(${arr(chunk.map((l) => l.lot))}::text[], ${arr(chunk.map((l) => cat.productIds.get(l.product)!))}::int[],
+                             ${arr(chunk.map((l) => cat.lineIds.get(l.line)!))}::int[], ${arr(chunk.map((l) => new Date(l.producedAt).toISOString()))}::timestamptz[],
+                             ${arr(chunk.map((l) => l.shift))}::text[])
+        on conflict (lot_number) do nothing
+        returning id, lot_number)
+      select id, lot_number from added
+      union all
+      select id, lot_number from lots where lot_number = any(${arr(chunk.map((l) => l.lot))}::text[])`);
     for (const r of res.rows) ids.set(r.lot_number, r.id);
   }
   return ids;
