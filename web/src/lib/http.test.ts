@@ -22,6 +22,22 @@ describe('http', () => {
     expect((init!.headers as Record<string, string>)['Content-Type']).toBe('application/json');
   });
 
+  it('sends a FormData as multipart, leaving the Content-Type with its boundary to the browser', async () => {
+    answer(201, { id: 3, rowsImported: 2 });
+    const form = new FormData();
+    form.append('file', new Blob(['lot;value\n']), 'shift.csv');
+    await http('/api/v1/uploads', { method: 'POST', body: form });
+    const [, init] = vi.mocked(fetch).mock.calls[0];
+    expect(init!.body).toBe(form);
+    expect((init!.headers as Record<string, string>)['Content-Type']).toBeUndefined();
+  });
+
+  it('keeps the whole error body for answers that carry more than a message', async () => {
+    const rejected = { error: 'Nothing was imported: 1 row needs correcting', errors: [{ row: 5, column: 'value', message: '"heavy" is not a number' }], id: 41 };
+    answer(422, rejected);
+    await expect(http('/api/v1/uploads', { method: 'POST', body: new FormData() })).rejects.toMatchObject({ status: 422, message: rejected.error, body: rejected });
+  });
+
   it('returns undefined for 204 No Content', async () => {
     answer(204);
     expect(await http('/api/v1/auth/logout', { method: 'POST' })).toBeUndefined();

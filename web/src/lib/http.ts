@@ -11,18 +11,21 @@ export interface ApiErrorDetail {
 export class ApiError extends Error {
   readonly status: number;
   readonly details: ApiErrorDetail[];
+  /** The whole JSON error body, for answers that carry more than a message (e.g. an upload's row errors). */
+  readonly body: unknown;
 
-  constructor(status: number, message: string, details: ApiErrorDetail[] = []) {
+  constructor(status: number, message: string, details: ApiErrorDetail[] = [], body: unknown = undefined) {
     super(message);
     this.name = 'ApiError';
     this.status = status;
     this.details = details;
+    this.body = body;
   }
 }
 
 export interface RequestOptions {
   method?: 'GET' | 'POST' | 'PATCH' | 'PUT' | 'DELETE';
-  /** Sent as JSON. */
+  /** Sent as JSON; a FormData (a file upload) is sent as multipart as it is. */
   body?: unknown;
   signal?: AbortSignal;
   /**
@@ -52,14 +55,16 @@ const UNREACHABLE = 'Cannot reach the Prismline server. Check the network connec
 export async function http<T>(path: string, options: RequestOptions = {}): Promise<T> {
   const { method = 'GET', body, signal, endsSessionOn401 = true } = options;
   const headers: Record<string, string> = { Accept: 'application/json' };
-  if (body !== undefined) headers['Content-Type'] = 'application/json';
+  const multipart = body instanceof FormData;
+  // For multipart the browser writes the Content-Type itself, with the boundary.
+  if (body !== undefined && !multipart) headers['Content-Type'] = 'application/json';
 
   let response: Response;
   try {
     response = await fetch(path, {
       method,
       headers,
-      body: body === undefined ? undefined : JSON.stringify(body),
+      body: body === undefined ? undefined : multipart ? body : JSON.stringify(body),
       credentials: 'same-origin',
       signal,
     });
@@ -79,12 +84,13 @@ export async function http<T>(path: string, options: RequestOptions = {}): Promi
     response.status,
     payload.error ?? `The server answered ${response.status} ${response.statusText}`.trim(),
     payload.details,
+    payload.body,
   );
   if (response.status === 401 && endsSessionOn401) unauthorizedListener?.();
   throw error;
 }
 
-async function readErrorPayload(response: Response): Promise<{ error?: string; details?: ApiErrorDetail[] }> {
+async function readErrorPayload(response: Response): Promise<{ error?: string; details?: ApiErrorDetail[]; body?: unknown }> {
   try {
     const payload: unknown = await response.json();
     if (payload && typeof payload === 'object') {
@@ -92,6 +98,7 @@ async function readErrorPayload(response: Response): Promise<{ error?: string; d
       return {
         error: typeof error === 'string' && error ? error : undefined,
         details: Array.isArray(details) ? details.filter(isDetail) : undefined,
+        body: payload,
       };
     }
   } catch {
