@@ -1,0 +1,567 @@
+// A characteristic's control chart as the chart page, the nightly run and the alarms see it.
+//
+// - One point per lot, in production order (lots.produced_at, then lot number): a 28-day result is
+//   plotted at its lot's position, not at its test date.
+// - The subgroup is the lot's live (not voided) replicates. An I–MR characteristic charts the lot's
+//   result, the mean of its replicates, so that a point is always a lot.
+// - Limits: the frozen revision in force (phase II) when a quality manager froze one for the chart
+//   type in use, else trial limits from every kept point of the window (phase I).
+// - Out of specification: the lot's result — the mean of its replicates, as EN 196-1 reports a
+//   strength set by its mean (from memory) — against the specification revision in force at the lot's
+//   production time. A result exactly on a limit is inside.
+// - Capability: the kept values of the window against the specification in force now, with the
+//   window's own sigma within (even in phase II, so that it describes the period, not the baseline).
+import { createHash } from 'node:crypto';
+import { and, desc, eq, isNull, sql } from 'drizzle-orm';
+import { computeCapability, computeChart, pointAt, ruleDescriptions, type CapabilityResult, type ChartResult, type ChartType, type RuleId } from '../../shared/spc';
+import { recordAudit } from '../db/audit';
+import type { Database } from '../db/client';
+import { controlLimitRevisions, lots, measurements, pointExclusions, users } from '../db/schema';
+import { HttpError, notFound } from '../http/errors';
+import type { Executor } from './db';
+
+/** Fewer subgroups than this give preliminary trial limits (common practice: 20 to 25 subgroups). */
+export const PHASE_ONE_MIN_POINTS = 20;
+
+export interface ChartWindow {
+  from?: Date;
+  to?: Date;
+}
+
+export interface ChartPointJson {
+  index: number;
+  lotId: number;
+  lotNumber: string;
+  producedAt: string;
+  shift: string | null;
+  n: number;
+  values: number[];
+  location: number;
+  dispersion: number | null;
+  ucl: number | null;
+  lcl: number | null;
+  dispersionUcl: number | null;
+  dispersionLcl: number | null;
+  excluded: boolean;
+  exclusionReason: string | null;
+  outOfSpec: boolean;
+  rules: RuleId[];
+}
+
+export interface ChartViolationJson {
+  rule: RuleId;
+  chart: 'location' | 'dispersion';
+  index: number;
+  points: number[];
+  description: string;
+}
+
+export interface CharacteristicChart {
+  characteristic: {
+    id: number;
+    code: string;
+    name: string;
+    unit: string;
+    chartType: ChartType;
+    ruleSet: 'we' | 'extended';
+    subgroupSize: number;
+    productCode: string;
+    productName: string;
+    lineCode: string | null;
+    decimals: number;
+  };
+  spec: { lsl: number | null; usl: number | null; target: number | null; revision: number } | null;
+  limits: {
+    source: 'trial' | 'frozen';
+    revisionId: number | null;
+    baselineFrom: string | null;
+    baselineTo: string | null;
+    frozenAt: string | null;
+    frozenBy: string | null;
+    reason: string | null;
+    location: { center: number | null; ucl: number | null; lcl: number | null; sigma: number | null };
+    dispersion: { center: number | null; ucl: number | null; lcl: number | null };
+    zones: { plus1: number; plus2: number; minus1: number; minus2: number } | null;
+    sigmaWithin: number | null;
+    sigmaOverall: number | null;
+  };
+  points: ChartPointJson[];
+  violations: ChartViolationJson[];
+  events: { id: number; occurredAt: string; title: string; description: string | null }[];
+  capability: CapabilityResult | null;
+  reasons: string[];
+}
+
+type CharacteristicRow = {
+  id: number;
+  code: string;
+  name: string;
+  unit: string;
+  chart_type: ChartType;
+  rule_set: 'we' | 'extended';
+  subgroup_size: number;
+  product_id: number;
+  product_code: string;
+  product_name: string;
+  plant_id: number;
+  line_id: number | null;
+  line_code: string | null;
+  decimals: number;
+};
+
+export interface LotSubgroup {
+  lotId: number;
+  lotNumber: string;
+  producedAt: Date;
+  shift: string | null;
+  values: number[];
+  /** When the newest of the lot's live values was stored. */
+  lastEnteredAt: Date;
+}
+
+interface SpecRevision {
+  revision: number;
+  lsl: number | null;
+  usl: number | null;
+  target: number | null;
+  effectiveFrom: Date;
+}
+
+interface LimitRevisionRow {
+  id: number;
+  chartType: ChartType;
+  center: number;
+  sigmaWithin: number;
+  baselineFrom: Date;
+  baselineTo: Date;
+  createdAt: Date;
+  createdByName: string | null;
+  reason: string;
+}
+
+/** Everything a chart is computed from, read in one go (inside the run's transaction). */
+export interface ChartInputs {
+  characteristic: CharacteristicRow;
+  lots: LotSubgroup[];
+  exclusions: Map<number, string>;
+  revision: LimitRevisionRow | null;
+  specs: SpecRevision[];
+  events: CharacteristicChart['events'];
+  now: Date;
+}
+
+export async function loadChartInputs(db: Executor, characteristicId: number, window: ChartWindow = {}, now = new Date()): Promise<ChartInputs | null> {
+  const ch = await db.execute<CharacteristicRow>(sql`
+    select c.id, c.code, c.name, c.unit, c.chart_type, c.rule_set, c.subgroup_size, p.id as product_id, p.code as product_code,
+           p.name as product_name, p.plant_id, p.line_id, pl.code as line_code, tm.decimals
+    from characteristics c
+    join products p on p.id = c.product_id
+    join test_methods tm on tm.id = c.test_method_id
+    left join production_lines pl on pl.id = p.line_id
+    where c.id = ${characteristicId}`);
+  const characteristic = ch.rows[0];
+  if (!characteristic) return null;
+
+  const from = window.from ? sql`and l.produced_at >= ${window.from.toISOString()}::timestamptz` : sql``;
+  const to = window.to ? sql`and l.produced_at <= ${window.to.toISOString()}::timestamptz` : sql``;
+  const lotRows = await db.execute<{ lot_id: number; lot_number: string; produced_at: Date; shift: string | null; vals: number[]; last_entered_at: Date }>(sql`
+    select l.id as lot_id, l.lot_number, l.produced_at, l.shift, array_agg(m.value order by m.replicate) as vals, max(m.created_at) as last_entered_at
+    from measurements m join lots l on l.id = m.lot_id
+    where m.characteristic_id = ${characteristicId} and m.voided_at is null ${from} ${to}
+    group by l.id
+    order by l.produced_at, l.lot_number collate "C"`);
+
+  const exclusionRows = await db
+    .select({ lotId: pointExclusions.lotId, reason: pointExclusions.reason })
+    .from(pointExclusions)
+    .where(and(eq(pointExclusions.characteristicId, characteristicId), isNull(pointExclusions.removedAt)));
+
+  const [revision] = await db
+    .select({
+      id: controlLimitRevisions.id,
+      chartType: controlLimitRevisions.chartType,
+      center: controlLimitRevisions.center,
+      sigmaWithin: controlLimitRevisions.sigmaWithin,
+      baselineFrom: controlLimitRevisions.baselineFrom,
+      baselineTo: controlLimitRevisions.baselineTo,
+      createdAt: controlLimitRevisions.createdAt,
+      createdByName: users.name,
+      reason: controlLimitRevisions.reason,
+    })
+    .from(controlLimitRevisions)
+    .leftJoin(users, eq(users.id, controlLimitRevisions.createdBy))
+    .where(and(eq(controlLimitRevisions.characteristicId, characteristicId), isNull(controlLimitRevisions.supersededAt)));
+
+  const specRows = await db.execute<{ revision: number; lsl: number | null; usl: number | null; target: number | null; effective_from: Date }>(sql`
+    select revision, lsl, usl, target, effective_from from spec_limits where characteristic_id = ${characteristicId} order by effective_from, revision`);
+
+  const lotsOut: LotSubgroup[] = lotRows.rows.map((r) => ({
+    lotId: r.lot_id,
+    lotNumber: r.lot_number,
+    producedAt: new Date(r.produced_at),
+    shift: r.shift,
+    values: r.vals.map(Number),
+    lastEnteredAt: new Date(r.last_entered_at),
+  }));
+
+  const eventsFrom = window.from ?? lotsOut[0]?.producedAt ?? null;
+  const eventsTo = window.to ?? now;
+  const eventRows = eventsFrom
+    ? await db.execute<{ id: number; occurred_at: Date; title: string; description: string | null }>(sql`
+        select id, occurred_at, title, description from process_events
+        where plant_id = ${characteristic.plant_id}
+          and (line_id is null or line_id = ${characteristic.line_id})
+          and (product_id is null or product_id = ${characteristic.product_id})
+          and occurred_at >= ${eventsFrom.toISOString()}::timestamptz and occurred_at <= ${eventsTo.toISOString()}::timestamptz
+        order by occurred_at, id`)
+    : { rows: [] };
+
+  return {
+    characteristic,
+    lots: lotsOut,
+    exclusions: new Map(exclusionRows.map((e) => [e.lotId, e.reason])),
+    revision: revision ?? null,
+    specs: specRows.rows.map((s) => ({ revision: s.revision, lsl: s.lsl, usl: s.usl, target: s.target, effectiveFrom: new Date(s.effective_from) })),
+    events: eventRows.rows.map((e) => ({ id: e.id, occurredAt: new Date(e.occurred_at).toISOString(), title: e.title, description: e.description })),
+    now,
+  };
+}
+
+/** The revision in force at `at`: the latest effective one, the higher revision on a tie. */
+export function specAt(specs: SpecRevision[], at: Date): SpecRevision | null {
+  let found: SpecRevision | null = null;
+  for (const s of specs) if (s.effectiveFrom.getTime() <= at.getTime()) found = s;
+  return found;
+}
+
+export const lotResult = (values: number[]) => values.reduce((a, b) => a + b, 0) / values.length;
+
+export function isOutOfSpec(result: number, spec: SpecRevision | null): boolean {
+  if (!spec) return false;
+  return (spec.lsl !== null && result < spec.lsl) || (spec.usl !== null && result > spec.usl);
+}
+
+/** Hash of everything the chart depends on: equal hashes mean an identical chart. */
+export function chartFingerprint(inputs: ChartInputs): string {
+  const h = createHash('sha256');
+  const c = inputs.characteristic;
+  h.update(JSON.stringify([c.chart_type, c.rule_set, inputs.revision?.id ?? null, inputs.specs, [...inputs.exclusions.keys()].sort((a, b) => a - b)]));
+  const ids = new Int32Array(inputs.lots.length);
+  let valueCount = 0;
+  for (const lot of inputs.lots) valueCount += lot.values.length + 1;
+  const vals = new Float64Array(valueCount);
+  let at = 0;
+  inputs.lots.forEach((lot, i) => {
+    ids[i] = lot.lotId;
+    vals[at++] = lot.values.length;
+    for (const v of lot.values) vals[at++] = v;
+  });
+  h.update(new Uint8Array(ids.buffer));
+  h.update(new Uint8Array(vals.buffer));
+  return h.digest('hex');
+}
+
+interface Computed {
+  chart: CharacteristicChart;
+  result: ChartResult;
+}
+
+/** Pure part: the chart from its loaded inputs. */
+export function buildChart(inputs: ChartInputs): Computed {
+  const c = inputs.characteristic;
+  const reasons: string[] = [];
+  const lotsIn = inputs.lots;
+  const imr = c.chart_type === 'imr';
+  const subgroups = lotsIn.map((l) => (imr ? [lotResult(l.values)] : l.values));
+  const excluded: number[] = [];
+  lotsIn.forEach((l, i) => {
+    if (inputs.exclusions.has(l.lotId)) excluded.push(i);
+  });
+
+  const trial = computeChart({ subgroups, chart: c.chart_type, excluded, rules: c.rule_set });
+  let result = trial;
+  let frozenUsed = false;
+  const rev = inputs.revision;
+  if (rev && rev.chartType !== c.chart_type) {
+    reasons.push(`The frozen limits (revision ${rev.id}) belong to the ${rev.chartType} chart but the characteristic is now charted as ${c.chart_type}, so trial limits are shown until limits are frozen again.`);
+  } else if (rev) {
+    result = computeChart({ subgroups, chart: c.chart_type, excluded, rules: c.rule_set, frozen: { chart: rev.chartType, center: rev.center, sigmaWithin: rev.sigmaWithin } });
+    frozenUsed = true;
+  }
+  for (const r of result.reasons) reasons.push(r.message);
+
+  const keptPoints = lotsIn.length - excluded.length;
+  if (!frozenUsed && lotsIn.length > 0 && keptPoints < PHASE_ONE_MIN_POINTS) {
+    reasons.push(`Only ${keptPoints} kept point(s): trial limits from fewer than ${PHASE_ONE_MIN_POINTS} subgroups are preliminary and may move a lot as results come in.`);
+  }
+
+  const specNow = specAt(inputs.specs, inputs.now);
+  if (!specNow || (specNow.lsl === null && specNow.usl === null)) {
+    reasons.push('No specification limit is in force, so results are not judged against a specification and capability indices are not given.');
+  }
+
+  const ruleAt = new Map<number, RuleId[]>();
+  for (const v of result.violations) {
+    const list = ruleAt.get(v.index) ?? [];
+    if (!list.includes(v.rule)) list.push(v.rule);
+    ruleAt.set(v.index, list);
+  }
+
+  const points: ChartPointJson[] = lotsIn.map((lot, i) => {
+    const p = pointAt(result, i);
+    const location = p.location;
+    return {
+      index: i,
+      lotId: lot.lotId,
+      lotNumber: lot.lotNumber,
+      producedAt: lot.producedAt.toISOString(),
+      shift: lot.shift,
+      n: lot.values.length,
+      values: lot.values,
+      location,
+      dispersion: p.dispersion,
+      ucl: p.locationLimits.ucl,
+      lcl: p.locationLimits.lcl,
+      dispersionUcl: p.dispersionLimits.ucl,
+      dispersionLcl: p.dispersionLimits.lcl,
+      excluded: p.excluded,
+      exclusionReason: inputs.exclusions.get(lot.lotId) ?? null,
+      outOfSpec: isOutOfSpec(lotResult(lot.values), specAt(inputs.specs, lot.producedAt)),
+      rules: ruleAt.get(i) ?? [],
+    };
+  });
+
+  let capability: CapabilityResult | null = null;
+  if (keptPoints > 0) {
+    const kept: number[] = [];
+    lotsIn.forEach((lot, i) => {
+      if (inputs.exclusions.has(lot.lotId)) return;
+      if (imr) kept.push(subgroups[i][0]);
+      else for (const v of lot.values) kept.push(v);
+    });
+    capability = computeCapability({ values: kept, sigmaWithin: trial.sigmaWithin, lsl: specNow?.lsl, usl: specNow?.usl, target: specNow?.target, subgroupCount: keptPoints });
+    for (const n of capability.notes) if (n.code !== 'no-spec' && n.code !== 'no-data') reasons.push(n.message);
+  }
+
+  const z = result.location.zones;
+  const chart: CharacteristicChart = {
+    characteristic: {
+      id: c.id,
+      code: c.code,
+      name: c.name,
+      unit: c.unit,
+      chartType: c.chart_type,
+      ruleSet: c.rule_set,
+      subgroupSize: c.subgroup_size,
+      productCode: c.product_code,
+      productName: c.product_name,
+      lineCode: c.line_code,
+      decimals: c.decimals,
+    },
+    spec: specNow ? { lsl: specNow.lsl, usl: specNow.usl, target: specNow.target, revision: specNow.revision } : null,
+    limits: {
+      source: frozenUsed ? 'frozen' : 'trial',
+      revisionId: frozenUsed ? rev!.id : null,
+      baselineFrom: frozenUsed ? rev!.baselineFrom.toISOString() : (lotsIn[0]?.producedAt.toISOString() ?? null),
+      baselineTo: frozenUsed ? rev!.baselineTo.toISOString() : (lotsIn.at(-1)?.producedAt.toISOString() ?? null),
+      frozenAt: frozenUsed ? rev!.createdAt.toISOString() : null,
+      frozenBy: frozenUsed ? rev!.createdByName : null,
+      reason: frozenUsed ? rev!.reason : null,
+      location: { center: result.location.center, ucl: result.location.ucl, lcl: result.location.lcl, sigma: result.location.sigma },
+      dispersion: { center: result.dispersion.center, ucl: result.dispersion.ucl, lcl: result.dispersion.lcl },
+      zones: z ? { plus1: z.plusOne, plus2: z.plusTwo, minus1: z.minusOne, minus2: z.minusTwo } : null,
+      sigmaWithin: result.sigmaWithin,
+      sigmaOverall: trial.sigmaOverall,
+    },
+    points,
+    violations: result.violations.map((v) => ({ rule: v.rule, chart: v.chart, index: v.index, points: v.points, description: ruleDescriptions[v.rule] })),
+    events: inputs.events,
+    capability,
+    reasons: [...new Set(reasons)],
+  };
+  return { chart, result };
+}
+
+/** The chart of one characteristic over a window of production dates (all of it by default). */
+export async function computeCharacteristicChart(db: Executor, characteristicId: number, window: ChartWindow = {}): Promise<CharacteristicChart> {
+  const inputs = await loadChartInputs(db, characteristicId, window);
+  if (!inputs) throw notFound(`Characteristic ${characteristicId}`);
+  return buildChart(inputs).chart;
+}
+
+export interface LimitRevision {
+  id: number;
+  revision: number;
+  chartType: ChartType;
+  subgroupSize: number;
+  center: number;
+  sigmaWithin: number;
+  locationUcl: number;
+  locationLcl: number;
+  dispersionCenter: number | null;
+  dispersionUcl: number | null;
+  dispersionLcl: number | null;
+  baselineFrom: Date;
+  baselineTo: Date;
+  baselinePoints: number;
+  reason: string;
+  createdBy: number | null;
+  createdByName: string | null;
+  createdAt: Date;
+  supersededAt: Date | null;
+}
+
+/** Every frozen-limit revision of a characteristic, newest first. */
+export async function limitRevisions(db: Executor, characteristicId: number): Promise<LimitRevision[]> {
+  return db
+    .select({
+      id: controlLimitRevisions.id,
+      revision: controlLimitRevisions.revision,
+      chartType: controlLimitRevisions.chartType,
+      subgroupSize: controlLimitRevisions.subgroupSize,
+      center: controlLimitRevisions.center,
+      sigmaWithin: controlLimitRevisions.sigmaWithin,
+      locationUcl: controlLimitRevisions.locationUcl,
+      locationLcl: controlLimitRevisions.locationLcl,
+      dispersionCenter: controlLimitRevisions.dispersionCenter,
+      dispersionUcl: controlLimitRevisions.dispersionUcl,
+      dispersionLcl: controlLimitRevisions.dispersionLcl,
+      baselineFrom: controlLimitRevisions.baselineFrom,
+      baselineTo: controlLimitRevisions.baselineTo,
+      baselinePoints: controlLimitRevisions.baselinePoints,
+      reason: controlLimitRevisions.reason,
+      createdBy: controlLimitRevisions.createdBy,
+      createdByName: users.name,
+      createdAt: controlLimitRevisions.createdAt,
+      supersededAt: controlLimitRevisions.supersededAt,
+    })
+    .from(controlLimitRevisions)
+    .leftJoin(users, eq(users.id, controlLimitRevisions.createdBy))
+    .where(eq(controlLimitRevisions.characteristicId, characteristicId))
+    .orderBy(desc(controlLimitRevisions.revision));
+}
+
+/** Serialises changes to one characteristic's limits and exclusions (and its run job). */
+export const CHARACTERISTIC_LOCK = 727_005;
+
+const requireReason = (reason: string) => {
+  if (!reason || !reason.trim()) throw new HttpError(400, 'reason: say why, for the audit trail');
+  return reason.trim();
+};
+
+export interface FreezeRequest {
+  characteristicId: number;
+  baselineFrom: Date;
+  baselineTo: Date;
+  reason: string;
+  userId: number;
+}
+
+/**
+ * Freezes phase I limits from a baseline window (exclusions left out) as the new revision in force;
+ * the previous revision is superseded, not changed.
+ */
+export async function freezeLimits(db: Database, req: FreezeRequest): Promise<LimitRevision> {
+  const reason = requireReason(req.reason);
+  if (!(req.baselineFrom.getTime() <= req.baselineTo.getTime())) throw new HttpError(400, 'baselineFrom must not be after baselineTo');
+  const id = await db.transaction(async (tx) => {
+    await tx.execute(sql`select pg_advisory_xact_lock(${CHARACTERISTIC_LOCK}, ${req.characteristicId})`);
+    const inputs = await loadChartInputs(tx, req.characteristicId, { from: req.baselineFrom, to: req.baselineTo });
+    if (!inputs) throw notFound(`Characteristic ${req.characteristicId}`);
+    const { result } = buildChart({ ...inputs, revision: null });
+    const kept = inputs.lots.filter((l) => !inputs.exclusions.has(l.lotId)).length;
+    if (kept === 0) throw new HttpError(422, 'The baseline window holds no kept points');
+    if (result.sigmaWithin === null || result.location.center === null || result.location.ucl === null || result.location.lcl === null) {
+      throw new HttpError(422, `Limits cannot be frozen from this baseline: ${result.reasons.map((r) => r.message).join(' ') || 'sigma within cannot be estimated.'}`);
+    }
+    if (result.sigmaWithin === 0) throw new HttpError(422, 'The baseline shows no variation within subgroups, so frozen limits would collapse onto the centre line');
+    const [previous] = await tx
+      .select({ id: controlLimitRevisions.id, revision: controlLimitRevisions.revision, center: controlLimitRevisions.center, sigmaWithin: controlLimitRevisions.sigmaWithin })
+      .from(controlLimitRevisions)
+      .where(eq(controlLimitRevisions.characteristicId, req.characteristicId))
+      .orderBy(desc(controlLimitRevisions.revision))
+      .limit(1);
+    await tx
+      .update(controlLimitRevisions)
+      .set({ supersededAt: sql`now()` })
+      .where(and(eq(controlLimitRevisions.characteristicId, req.characteristicId), isNull(controlLimitRevisions.supersededAt)));
+    const [row] = await tx
+      .insert(controlLimitRevisions)
+      .values({
+        characteristicId: req.characteristicId,
+        revision: (previous?.revision ?? 0) + 1,
+        chartType: result.chart,
+        subgroupSize: result.limitsSubgroupSize,
+        center: result.location.center,
+        sigmaWithin: result.sigmaWithin,
+        locationUcl: result.location.ucl,
+        locationLcl: result.location.lcl,
+        dispersionCenter: result.dispersion.center,
+        dispersionUcl: result.dispersion.ucl,
+        dispersionLcl: result.dispersion.lcl,
+        baselineFrom: req.baselineFrom,
+        baselineTo: req.baselineTo,
+        baselinePoints: kept,
+        reason,
+        createdBy: req.userId,
+      })
+      .returning({ id: controlLimitRevisions.id, revision: controlLimitRevisions.revision });
+    await recordAudit(tx, {
+      actorId: req.userId,
+      action: 'freeze limits',
+      entity: 'characteristic',
+      entityId: req.characteristicId,
+      before: previous ? { revision: previous.revision, center: previous.center, sigmaWithin: previous.sigmaWithin } : null,
+      after: { revision: row.revision, center: result.location.center, sigmaWithin: result.sigmaWithin, ucl: result.location.ucl, lcl: result.location.lcl, baselinePoints: kept },
+      reason,
+    });
+    return row.id;
+  });
+  const all = await limitRevisions(db, req.characteristicId);
+  return all.find((r) => r.id === id)!;
+}
+
+export interface PointRequest {
+  characteristicId: number;
+  lotId: number;
+  reason: string;
+  userId: number;
+}
+
+/** Leaves a lot's point out of the limits and the run rules of one characteristic (still plotted). */
+export async function excludePoint(db: Database, req: PointRequest): Promise<{ id: number }> {
+  const reason = requireReason(req.reason);
+  return db.transaction(async (tx) => {
+    await tx.execute(sql`select pg_advisory_xact_lock(${CHARACTERISTIC_LOCK}, ${req.characteristicId})`);
+    const [live] = await tx
+      .select({ n: sql<number>`count(*)::int` })
+      .from(measurements)
+      .innerJoin(lots, eq(lots.id, measurements.lotId))
+      .where(and(eq(measurements.characteristicId, req.characteristicId), eq(measurements.lotId, req.lotId), isNull(measurements.voidedAt)));
+    if (!live || live.n === 0) throw notFound(`A point of lot ${req.lotId} on characteristic ${req.characteristicId}`);
+    const [existing] = await tx
+      .select({ id: pointExclusions.id })
+      .from(pointExclusions)
+      .where(and(eq(pointExclusions.characteristicId, req.characteristicId), eq(pointExclusions.lotId, req.lotId), isNull(pointExclusions.removedAt)));
+    if (existing) throw new HttpError(409, 'This point is already excluded');
+    const [row] = await tx.insert(pointExclusions).values({ characteristicId: req.characteristicId, lotId: req.lotId, reason, createdBy: req.userId }).returning({ id: pointExclusions.id });
+    await recordAudit(tx, { actorId: req.userId, action: 'exclude point', entity: 'characteristic', entityId: req.characteristicId, after: { lotId: req.lotId, exclusionId: row.id }, reason });
+    return row;
+  });
+}
+
+/** Takes an excluded point back into the limits and run rules; the exclusion stays on record. */
+export async function includePoint(db: Database, req: PointRequest): Promise<{ id: number }> {
+  const reason = requireReason(req.reason);
+  return db.transaction(async (tx) => {
+    await tx.execute(sql`select pg_advisory_xact_lock(${CHARACTERISTIC_LOCK}, ${req.characteristicId})`);
+    const [row] = await tx
+      .update(pointExclusions)
+      .set({ removedAt: sql`now()`, removedBy: req.userId, removalReason: reason })
+      .where(and(eq(pointExclusions.characteristicId, req.characteristicId), eq(pointExclusions.lotId, req.lotId), isNull(pointExclusions.removedAt)))
+      .returning({ id: pointExclusions.id, reason: pointExclusions.reason });
+    if (!row) throw notFound(`An exclusion of lot ${req.lotId} on characteristic ${req.characteristicId}`);
+    await recordAudit(tx, { actorId: req.userId, action: 'include point', entity: 'characteristic', entityId: req.characteristicId, before: { lotId: req.lotId, exclusionId: row.id, reason: row.reason }, reason });
+    return { id: row.id };
+  });
+}

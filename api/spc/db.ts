@@ -1,0 +1,9 @@
+import { sql } from 'drizzle-orm';
+import type { Database } from '../db/client';
+
+export type Tx = Parameters<Parameters<Database['transaction']>[0]>[0];
+/** The pool or an open transaction: the chart is read the same way inside a run's transaction. */
+export type Executor = Database | Tx;
+
+/** One array parameter: drizzle would spread a bare JS array into a list of parameters. */
+export const arr = (values: unknown[]) => sql.param(values);
