@@ -1,16 +1,7 @@
 import { z } from 'zod';
+import { roles, type Role } from './roles';
 
-/** The four roles of Prismline, in order of the menus. */
-export const roles = ['technician', 'quality_manager', 'auditor', 'admin'] as const;
-export type Role = (typeof roles)[number];
-
-/** Plain-words names of the roles, for menus and tables. */
-export const roleLabels: Record<Role, string> = {
-  technician: 'QC technician',
-  quality_manager: 'Quality manager',
-  auditor: 'Auditor (read-only)',
-  admin: 'Administrator',
-};
+export { roles, roleLabels, type Role } from './roles';
 
 export const roleSchema = z.enum(roles, { message: 'Choose one of: technician, quality manager, auditor, administrator' });
 

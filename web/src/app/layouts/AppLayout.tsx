@@ -2,7 +2,7 @@ import { Suspense, useState } from 'react';
 import { NavLink, Outlet, useNavigate } from 'react-router';
 import { useSignOut, useSignedInUser } from '../../features/auth/api/session';
 import { areasFor, type Area } from '../navigation';
-import { roleLabels } from '../../../../shared/schemas/users';
+import { roleLabels } from '../../../../shared/schemas/roles';
 import { Button } from '../../components/ui/Button';
 import { Loading } from '../../components/ui/Spinner';
 import { cx } from '../../components/ui/cx';

@@ -1,0 +1,236 @@
+// Requests of the chart and overview endpoints, shared by the API routes and the web forms that post
+// them, and the JSON shapes the endpoints answer with.
+import { z } from 'zod';
+import type { CapabilityResult, ChartPart, ChartType, RuleId } from '../spc';
+
+const reason = z
+  .string({ message: 'Give a reason' })
+  .trim()
+  .min(3, 'Give a reason of at least 3 characters')
+  .max(500, 'Keep the reason under 500 characters');
+
+const instant = (what: string) =>
+  z.coerce.date({ message: `${what}: enter a date` }).refine((d) => !Number.isNaN(d.getTime()), `${what}: enter a valid date`);
+
+/** POST /api/v1/characteristics/:id/exclusions — leave one lot's point out of the limit calculation. */
+export const excludePointSchema = z.object({
+  /** The lot whose point is excluded. */
+  lotId: z.coerce.number({ message: 'Choose a point' }).int('Choose a point').positive('Choose a point'),
+  /** The assignable cause found, in plain words. */
+  reason,
+});
+export type ExcludePointInput = z.infer<typeof excludePointSchema>;
+
+/** DELETE /api/v1/characteristics/:id/exclusions/:lotId — take a point back into the calculation. */
+export const includePointSchema = z.object({
+  /** Why the exclusion no longer holds. */
+  reason,
+});
+export type IncludePointInput = z.infer<typeof includePointSchema>;
+
+/** POST /api/v1/characteristics/:id/limit-revisions — freeze limits from a baseline period. */
+export const freezeLimitsSchema = z
+  .object({
+    /** First production time of the baseline period. */
+    baselineFrom: instant('Baseline from'),
+    /** Last production time of the baseline period (inclusive). */
+    baselineTo: instant('Baseline to'),
+    /** Why the limits are frozen now, e.g. "Process stable after the new sand source". */
+    reason,
+  })
+  .refine((v) => v.baselineFrom.getTime() < v.baselineTo.getTime(), { path: ['baselineTo'], message: 'The baseline must end after it starts' });
+export type FreezeLimitsInput = z.input<typeof freezeLimitsSchema>;
+
+/** :id of /api/v1/characteristics/:id/… */
+export const characteristicParamsSchema = z.object({
+  id: z.coerce.number().int('Characteristic id must be a whole number').positive('Characteristic id must be positive'),
+});
+
+/** :id and :lotId of DELETE /api/v1/characteristics/:id/exclusions/:lotId */
+export const exclusionParamsSchema = characteristicParamsSchema.extend({
+  lotId: z.coerce.number().int('Lot id must be a whole number').positive('Lot id must be positive'),
+});
+
+/** GET /api/v1/characteristics/:id/chart?from=&to= (production time, both optional). */
+export const chartQuerySchema = z
+  .object({
+    from: instant('from').optional(),
+    to: instant('to').optional(),
+  })
+  .refine((v) => !v.from || !v.to || v.from.getTime() <= v.to.getTime(), { path: ['to'], message: 'to must not be before from' });
+
+/** The periods the overview offers, in days back from now. */
+export const overviewPeriods = [7, 30, 90, 182] as const;
+
+/** GET /api/v1/overview?line=&family=&days= */
+export const overviewQuerySchema = z.object({
+  /** Production line code, e.g. "L1". */
+  line: z.string().trim().max(32).optional(),
+  /** Product family, e.g. "levelling". */
+  family: z.string().trim().max(64).optional(),
+  /** Period of production looked at, in days back from now. */
+  days: z.coerce
+    .number()
+    .int()
+    .refine((d) => (overviewPeriods as readonly number[]).includes(d), `days must be one of ${overviewPeriods.join(', ')}`)
+    .default(30),
+});
+export type OverviewQuery = z.infer<typeof overviewQuerySchema>;
+
+// ---------------------------------------------------------------------------------------------
+// Answers
+// ---------------------------------------------------------------------------------------------
+
+export interface ChartLimitLines {
+  center: number | null;
+  ucl: number | null;
+  lcl: number | null;
+}
+
+/** The control limits a chart is judged against: trial (phase I, from the data shown) or frozen. */
+export interface ChartLimits {
+  source: 'trial' | 'frozen';
+  revisionId: number | null;
+  baselineFrom: string | null;
+  baselineTo: string | null;
+  frozenAt: string | null;
+  frozenBy: string | null;
+  reason: string | null;
+  location: ChartLimitLines & { sigma: number | null };
+  dispersion: ChartLimitLines;
+  zones: { plus1: number; plus2: number; minus1: number; minus2: number } | null;
+  sigmaWithin: number | null;
+  sigmaOverall: number | null;
+}
+
+/** One plotted point: one lot's subgroup of replicate results. */
+export interface ChartPointRecord {
+  index: number;
+  lotId: number;
+  lotNumber: string;
+  producedAt: string;
+  shift: string | null;
+  n: number;
+  values: number[];
+  location: number;
+  dispersion: number | null;
+  ucl: number | null;
+  lcl: number | null;
+  dispersionUcl: number | null;
+  dispersionLcl: number | null;
+  excluded: boolean;
+  exclusionReason: string | null;
+  outOfSpec: boolean;
+  rules: RuleId[];
+}
+
+export interface ChartViolation {
+  rule: RuleId;
+  chart: ChartPart;
+  index: number;
+  points: number[];
+  description: string;
+}
+
+export interface ChartProcessEvent {
+  id: number;
+  occurredAt: string;
+  title: string;
+  description: string | null;
+}
+
+/** GET /api/v1/characteristics/:id/chart */
+export interface CharacteristicChart {
+  characteristic: {
+    id: number;
+    code: string;
+    name: string;
+    unit: string;
+    chartType: ChartType;
+    ruleSet: 'we' | 'extended';
+    subgroupSize: number;
+    productCode: string;
+    productName: string;
+    lineCode: string | null;
+    decimals: number;
+  };
+  spec: { lsl: number | null; usl: number | null; target: number | null; revision: number } | null;
+  limits: ChartLimits;
+  points: ChartPointRecord[];
+  violations: ChartViolation[];
+  events: ChartProcessEvent[];
+  capability: CapabilityResult | null;
+  reasons: string[];
+}
+
+/** One frozen-limits revision, newest first in GET /api/v1/characteristics/:id/limit-revisions. */
+export interface LimitRevisionRecord {
+  id: number;
+  revision: number;
+  chartType: ChartType;
+  /** The subgroup size the stored limits are given for. */
+  subgroupSize: number;
+  center: number;
+  sigmaWithin: number;
+  locationUcl: number;
+  locationLcl: number;
+  dispersionCenter: number | null;
+  dispersionUcl: number | null;
+  dispersionLcl: number | null;
+  baselineFrom: string;
+  baselineTo: string;
+  /** Subgroups kept in the baseline estimate. */
+  baselinePoints: number;
+  reason: string;
+  createdByName: string | null;
+  createdAt: string;
+  /** When a later freeze replaced it; null for the revision in force. */
+  supersededAt: string | null;
+}
+
+export type ControlState = 'in-control' | 'signal' | 'not-enough-data';
+
+/** One characteristic on the overview. */
+export interface OverviewItem {
+  id: number;
+  code: string;
+  name: string;
+  unit: string;
+  decimals: number;
+  chartType: ChartType;
+  productCode: string;
+  productName: string;
+  productFamily: string;
+  lineCode: string | null;
+  lineName: string | null;
+  spec: { lsl: number | null; usl: number | null; target: number | null } | null;
+  latest: { lotNumber: string; producedAt: string; location: number; outOfSpec: boolean; index: number } | null;
+  controlState: ControlState;
+  /** Rule signals among the period's points (not excluded). */
+  signals: number;
+  /** Points of the period outside the specification. */
+  outOfSpecCount: number;
+  pointsInPeriod: number;
+  /** Open alarms of the nightly run; null where alarms are not recorded yet. */
+  openAlarms: number | null;
+  limitsSource: 'trial' | 'frozen' | null;
+  cpk: number | null;
+  cpkCi95: [number, number] | null;
+  capabilityPreliminary: boolean;
+  /** The period's most recent locations (oldest first) for the trend line, with their rule flags. */
+  trend: { location: number; signal: boolean; outOfSpec: boolean }[];
+  /** Why the item needs attention, in plain words; empty when it does not. */
+  attention: string[];
+  /** Higher needs attention sooner. */
+  attentionScore: number;
+}
+
+/** GET /api/v1/overview */
+export interface Overview {
+  generatedAt: string;
+  days: number;
+  from: string;
+  lines: { code: string; name: string }[];
+  families: string[];
+  items: OverviewItem[];
+}
