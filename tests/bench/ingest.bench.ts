@@ -1,0 +1,104 @@
+// Ingest benchmark: a 100,000-row long-format CSV through POST /api/v1/uploads, end to end, against
+// `psql \copy` of the same rows into a bare table of the same columns on the same server.
+import { spawn, spawnSync } from 'node:child_process';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { createServer } from 'node:net';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import pg from 'pg';
+import { canonicalCsvHeader } from '../../api/db/seed/scenario';
+
+const root = resolve(import.meta.dirname, '..', '..');
+const ROWS = 100_000;
+
+function freePort(): Promise<number> {
+  return new Promise((res) => {
+    const s = createServer().listen(0, '127.0.0.1', () => {
+      const port = (s.address() as { port: number }).port;
+      s.close(() => res(port));
+    });
+  });
+}
+
+/** 50,000 lots of HV Level 25 with two flow readings each; lot numbers unique to this run. */
+function benchCsv(): string {
+  const tag = Date.now().toString(36).toUpperCase();
+  const lines = [canonicalCsvHeader.join(',')];
+  const start = Date.UTC(2024, 0, 1, 6);
+  for (let i = 0; i < ROWS / 2; i++) {
+    const produced = new Date(start + i * 600_000).toISOString();
+    const tested = new Date(start + i * 600_000 + 1_800_000).toISOString();
+    for (let r = 1; r <= 2; r++) lines.push(`B${tag}-${i},HVL25,L1,${produced},HVL25-FLOW,${140 + ((i * 7 + r * 3) % 11)},early,${r},${tested},AT,`);
+  }
+  return `${lines.join('\n')}\n`;
+}
+
+const peakRssMb = (pid: number) => {
+  const m = /VmHWM:\s+(\d+) kB/.exec(readFileSync(`/proc/${pid}/status`, 'utf8'));
+  return m ? Number(m[1]) / 1024 : NaN;
+};
+
+export async function run() {
+  const databaseUrl = process.env.DATABASE_URL;
+  if (!databaseUrl) throw new Error('DATABASE_URL is not set: run through npm run bench');
+  const dir = mkdtempSync(join(tmpdir(), 'prismline-ingest-'));
+  const csv = benchCsv();
+  const file = join(dir, 'bench.csv');
+  writeFileSync(file, csv);
+
+  const port = await freePort();
+  const server = spawn(process.execPath, ['--import', 'tsx', 'api/server.ts'], {
+    cwd: root,
+    env: { ...process.env, PORT: String(port), PRISMLINE_MODE: 'demo', LOG_LEVEL: 'warn', JWT_SECRET: 'bench-secret-bench-secret-bench-secret-42' },
+    stdio: ['ignore', 'inherit', 'inherit'],
+  });
+  try {
+    const base = `http://127.0.0.1:${port}`;
+    for (let i = 0; i < 240; i++) {
+      if (await fetch(`${base}/api/health`).then((r) => r.ok, () => false)) break;
+      await new Promise((r) => setTimeout(r, 250));
+    }
+    const login = await fetch(`${base}/api/v1/auth/login`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json' },
+      body: JSON.stringify({ email: 'technician@harrowvale.example', password: 'prismline-demo' }),
+    }).then((r) => r.json());
+    const rssBefore = peakRssMb(server.pid!);
+
+    const form = new FormData();
+    form.append('file', new Blob([csv], { type: 'text/csv' }), 'bench.csv');
+    const t0 = performance.now();
+    const res = await fetch(`${base}/api/v1/uploads`, { method: 'POST', headers: { authorization: `Bearer ${login.token}` }, body: form });
+    const uploadMs = performance.now() - t0;
+    const body = await res.json();
+    if (res.status !== 201 || body.rowsImported !== ROWS) throw new Error(`Upload failed: ${res.status} ${JSON.stringify(body).slice(0, 300)}`);
+    const rssPeak = peakRssMb(server.pid!);
+
+    const client = new pg.Client({ connectionString: databaseUrl });
+    await client.connect();
+    await client.query(`drop table if exists bench_copy; create table bench_copy (lot text, product text, line text, produced_at timestamptz,
+      characteristic text, value float8, shift text, replicate int, tested_at timestamptz, operator text, note text)`);
+    await client.end();
+    const t1 = performance.now();
+    const copy = spawnSync('psql', [databaseUrl, '-v', 'ON_ERROR_STOP=1', '-c', `\\copy bench_copy from '${file}' csv header`], { encoding: 'utf8' });
+    const copyMs = performance.now() - t1;
+    if (copy.status !== 0) throw new Error(`psql \\copy failed: ${copy.stderr}`);
+
+    return [
+      {
+        name: 'ingest: 100,000-row upload vs psql \\copy',
+        ratio: uploadMs / copyMs,
+        target: '≤ 3',
+        detail: `upload ${uploadMs.toFixed(0)} ms, \\copy ${copyMs.toFixed(0)} ms`,
+      },
+      {
+        name: 'ingest: server peak memory (MB)',
+        ratio: rssPeak / 300,
+        target: '≤ 1 (300 MB)',
+        detail: `peak RSS ${rssPeak.toFixed(0)} MB (before upload ${rssBefore.toFixed(0)} MB)`,
+      },
+    ];
+  } finally {
+    server.kill('SIGTERM');
+  }
+}
