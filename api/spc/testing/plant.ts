@@ -1,0 +1,71 @@
+// Invented test products and characteristics beside the demo plant, so that a test controls every
+// value of its chart. Used by the SPC, alarm and reliability tests only.
+import { eq, sql } from 'drizzle-orm';
+import type { Database } from '../../db/client';
+import { characteristics, plants, productionLines, products, specLimits, testMethods } from '../../db/schema';
+import { importResults } from '../../ingest/import';
+
+export interface TestCharacteristic {
+  productId: number;
+  productCode: string;
+  lineId: number;
+  characteristicId: number;
+  code: string;
+  /** Imports one lot's values through the one ingest path; returns the outcome's ids. */
+  addLot(lot: string, producedAt: string, values: number[]): Promise<{ characteristicIds: number[]; measurementIds: number[] }>;
+  lotNumber(suffix: string): string;
+}
+
+let counter = 0;
+
+export async function createTestCharacteristic(
+  db: Database,
+  opts: {
+    chartType: 'xbar-r' | 'xbar-s' | 'imr';
+    subgroupSize: number;
+    ruleSet?: 'we' | 'extended';
+    specs?: { lsl: number | null; usl: number | null; target?: number | null; effectiveFrom: string }[];
+    lineCode?: string;
+  },
+): Promise<TestCharacteristic> {
+  const tag = `${process.pid.toString(36)}${Date.now().toString(36)}${(++counter).toString(36)}`.toUpperCase();
+  const productCode = `TP${tag}`;
+  const [plant] = await db.select({ id: plants.id }).from(plants).orderBy(plants.id).limit(1);
+  const [line] = await db.select({ id: productionLines.id, code: productionLines.code }).from(productionLines).where(eq(productionLines.code, opts.lineCode ?? 'L1'));
+  const [method] = await db.select({ id: testMethods.id }).from(testMethods).where(eq(testMethods.code, 'FLOW'));
+  const [product] = await db
+    .insert(products)
+    .values({ plantId: plant.id, code: productCode, name: `Test compound ${tag}`, family: 'levelling', lineId: line.id })
+    .returning({ id: products.id });
+  const code = `${productCode}-FLOW`;
+  const [ch] = await db
+    .insert(characteristics)
+    .values({ code, productId: product.id, testMethodId: method.id, name: 'Flow diameter', unit: 'mm', subgroupSize: opts.subgroupSize, chartType: opts.chartType, ruleSet: opts.ruleSet ?? 'we' })
+    .returning({ id: characteristics.id });
+  if (opts.specs?.length) {
+    await db.insert(specLimits).values(
+      opts.specs.map((s, i) => ({ characteristicId: ch.id, revision: i + 1, lsl: s.lsl, usl: s.usl, target: s.target ?? null, effectiveFrom: new Date(s.effectiveFrom) })),
+    );
+  }
+  return {
+    productId: product.id,
+    productCode,
+    lineId: line.id,
+    characteristicId: ch.id,
+    code,
+    lotNumber: (suffix) => `${productCode}-${suffix}`,
+    async addLot(lot, producedAt, values) {
+      const header = 'lot,product,line,produced_at,characteristic,value,replicate';
+      const rows = values.map((v, i) => `${productCode}-${lot},${productCode},${line.code},${producedAt},${code},${v},${i + 1}`);
+      const outcome = await importResults(db, { fileName: 'test.csv', content: Buffer.from(`${header}\n${rows.join('\n')}\n`), actorId: null, source: 'upload' });
+      if (outcome.kind !== 'imported') throw new Error(`test lot did not import: ${JSON.stringify(outcome)}`);
+      return outcome;
+    },
+  };
+}
+
+/** The demo quality manager's id, for audit rows. */
+export async function userIdByEmail(db: Database, email: string): Promise<number> {
+  const res = await db.execute<{ id: number }>(sql`select id from users where lower(email) = lower(${email})`);
+  return res.rows[0].id;
+}
