@@ -304,6 +304,8 @@ export const spcRunItems = pgTable(
     characteristicId: integer('characteristic_id').notNull().references(() => characteristics.id),
     status: spcRunStatusEnum('status').notNull().default('queued'),
     jobId: text('job_id'),
+    /** host:pid of the worker process of the latest attempt. */
+    worker: text('worker'),
     attempts: integer('attempts').notNull().default(0),
     error: text('error'),
     /** False when the inputs were the same as last time and nothing was written. */

@@ -100,6 +100,7 @@ CREATE TABLE "spc_run_items" (
 	"characteristic_id" integer NOT NULL,
 	"status" "spc_run_status" DEFAULT 'queued' NOT NULL,
 	"job_id" text,
+	"worker" text,
 	"attempts" integer DEFAULT 0 NOT NULL,
 	"error" text,
 	"changed" boolean,
