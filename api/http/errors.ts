@@ -35,6 +35,17 @@ export const notFoundApi: RequestHandler = (req, res) => {
   res.status(404).json({ error: `No API endpoint ${req.method} ${req.path}` });
 };
 
+const outageCodes = new Set(['ECONNREFUSED', 'ECONNRESET', '57P01', '57P03', 'ETIMEDOUT']);
+
+/** The database is down or restarting, as opposed to a fault in a query. */
+function isDatabaseOutage(err: unknown): boolean {
+  for (let e = err as { code?: string; cause?: unknown; message?: string } | undefined, depth = 0; e && depth < 4; e = e.cause as typeof e, depth++) {
+    if (e.code && outageCodes.has(e.code)) return true;
+    if (/Connection terminated|timeout exceeded when trying to connect/i.test(e.message ?? '')) return true;
+  }
+  return false;
+}
+
 /** Last handler: the user sees a clear message, never a stack trace or SQL. */
 export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   if (err instanceof ZodError) err = zodToHttp(err);
@@ -49,6 +60,11 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   }
   if (status < 500) {
     res.status(status).json({ error: err.expose && err.message ? err.message : 'The request could not be read' });
+    return;
+  }
+  if (isDatabaseOutage(err)) {
+    logger.warn({ path: req.path, err: (err as Error).message }, 'database unavailable');
+    res.status(503).json({ error: 'The database is not answering; nothing was changed. Try again in a minute' });
     return;
   }
   logger.error({ err, path: req.path }, 'unhandled error');

@@ -15,6 +15,11 @@ afterAll(() => startCluster(cluster));
 describe('GET /api/health', () => {
   it('answers 200 while PostgreSQL runs, 503 with a reason while it is stopped, and 200 again after a restart', async () => {
     expect(await health()).toEqual({ status: 200, body: { status: 'ok' } });
+    const login = await fetch(`${baseUrl}/api/v1/auth/login`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json' },
+      body: JSON.stringify({ email: 'auditor@harrowvale.example', password: 'prismline-demo' }),
+    }).then((r) => r.json());
 
     stopCluster(cluster);
     const down = await health();
@@ -22,6 +27,12 @@ describe('GET /api/health', () => {
     expect(down.body.status).toBe('unavailable');
     expect(down.body.reason).toMatch(/Database unavailable/);
     expect(down.body.reason).not.toMatch(/\n\s+at /);
+    // Any other request fails plainly too: no stack trace, no SQL, no connection string.
+    const products = await fetch(`${baseUrl}/api/v1/products`, { headers: { authorization: `Bearer ${login.token}` } });
+    expect(products.status).toBe(503);
+    const text = await products.text();
+    expect(JSON.parse(text).error).toMatch(/database is not answering/);
+    expect(text).not.toMatch(/select|ECONNREFUSED|postgres:\/\/|\.ts:\d+/i);
 
     startCluster(cluster);
     let back = await health();
