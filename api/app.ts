@@ -16,6 +16,8 @@ import { uploadsRouter } from './routes/uploads/router';
 import { catalogueRouter } from './routes/catalogue/router';
 import { measurementsRouter } from './routes/measurements/router';
 import { columnMappingsRouter } from './routes/column-mappings/router';
+import { chartsRouter } from './routes/charts/router';
+import { overviewRouter } from './routes/overview/router';
 import { noIngestHooks, type IngestHooks } from './ingest/hooks';
 
 export const webDist = resolve(import.meta.dirname, '..', 'web', 'dist');
@@ -61,6 +63,8 @@ export function createApp({ db, config, serveWeb = true, ingestHooks = noIngestH
   app.use('/api/v1/uploads', uploadsRouter(db, ingestHooks));
   app.use('/api/v1/measurements', measurementsRouter(db, ingestHooks));
   app.use('/api/v1/column-mappings', columnMappingsRouter(db));
+  app.use('/api/v1/characteristics', chartsRouter(db));
+  app.use('/api/v1/overview', overviewRouter(db));
   app.use('/api/v1', catalogueRouter(db));
   app.use('/api', notFoundApi);
 

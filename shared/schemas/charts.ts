@@ -9,8 +9,8 @@ const reason = z
   .min(3, 'Give a reason of at least 3 characters')
   .max(500, 'Keep the reason under 500 characters');
 
-const instant = (what: string) =>
-  z.coerce.date({ message: `${what}: enter a date` }).refine((d) => !Number.isNaN(d.getTime()), `${what}: enter a valid date`);
+/** A date or an ISO 8601 date and time. */
+export const instant = () => z.coerce.date({ message: 'Enter a valid date' });
 
 /** POST /api/v1/characteristics/:id/exclusions — leave one lot's point out of the limit calculation. */
 export const excludePointSchema = z.object({
@@ -32,50 +32,17 @@ export type IncludePointInput = z.infer<typeof includePointSchema>;
 export const freezeLimitsSchema = z
   .object({
     /** First production time of the baseline period. */
-    baselineFrom: instant('Baseline from'),
+    baselineFrom: instant(),
     /** Last production time of the baseline period (inclusive). */
-    baselineTo: instant('Baseline to'),
+    baselineTo: instant(),
     /** Why the limits are frozen now, e.g. "Process stable after the new sand source". */
     reason,
   })
   .refine((v) => v.baselineFrom.getTime() < v.baselineTo.getTime(), { path: ['baselineTo'], message: 'The baseline must end after it starts' });
 export type FreezeLimitsInput = z.input<typeof freezeLimitsSchema>;
 
-/** :id of /api/v1/characteristics/:id/… */
-export const characteristicParamsSchema = z.object({
-  id: z.coerce.number().int('Characteristic id must be a whole number').positive('Characteristic id must be positive'),
-});
-
-/** :id and :lotId of DELETE /api/v1/characteristics/:id/exclusions/:lotId */
-export const exclusionParamsSchema = characteristicParamsSchema.extend({
-  lotId: z.coerce.number().int('Lot id must be a whole number').positive('Lot id must be positive'),
-});
-
-/** GET /api/v1/characteristics/:id/chart?from=&to= (production time, both optional). */
-export const chartQuerySchema = z
-  .object({
-    from: instant('from').optional(),
-    to: instant('to').optional(),
-  })
-  .refine((v) => !v.from || !v.to || v.from.getTime() <= v.to.getTime(), { path: ['to'], message: 'to must not be before from' });
-
 /** The periods the overview offers, in days back from now. */
 export const overviewPeriods = [7, 30, 90, 182] as const;
-
-/** GET /api/v1/overview?line=&family=&days= */
-export const overviewQuerySchema = z.object({
-  /** Production line code, e.g. "L1". */
-  line: z.string().trim().max(32).optional(),
-  /** Product family, e.g. "levelling". */
-  family: z.string().trim().max(64).optional(),
-  /** Period of production looked at, in days back from now. */
-  days: z.coerce
-    .number()
-    .int()
-    .refine((d) => (overviewPeriods as readonly number[]).includes(d), `days must be one of ${overviewPeriods.join(', ')}`)
-    .default(30),
-});
-export type OverviewQuery = z.infer<typeof overviewQuerySchema>;
 
 // ---------------------------------------------------------------------------------------------
 // Answers
@@ -211,8 +178,8 @@ export interface OverviewItem {
   /** Points of the period outside the specification. */
   outOfSpecCount: number;
   pointsInPeriod: number;
-  /** Open alarms of the nightly run; null where alarms are not recorded yet. */
-  openAlarms: number | null;
+  /** Alarms of the nightly run still open (not acknowledged or closed). */
+  openAlarms: number;
   limitsSource: 'trial' | 'frozen' | null;
   cpk: number | null;
   cpkCi95: [number, number] | null;

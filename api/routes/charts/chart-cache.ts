@@ -1,0 +1,111 @@
+// Charts computed once per state of their data. Building a chart reads every live value of the
+// characteristic and runs the engine twice (trial and frozen limits); checking whether the data
+// changed is one small query over indexes. So a chart is kept, with its JSON text, under a version
+// made of:
+// - the newest audit-trail row: every change through the API (uploads, corrections, voids,
+//   exclusions, freezes) writes one in its own transaction;
+// - the characteristic's newest measurement id and live count, exclusion and limit-revision rows,
+//   specification revisions and the newest process event, so that a writer that forgot the audit
+//   row still invalidates the chart.
+// A version is read per request; a chart is also dropped after MAX_AGE_MS, because the
+// specification "in force now" can change with the clock alone.
+import { createHash } from 'node:crypto';
+import { sql } from 'drizzle-orm';
+import type { Database } from '../../db/client';
+import { computeCharacteristicChart, type ChartWindow } from '../../spc/characteristic-chart';
+import type { CharacteristicChart } from '../../../shared/schemas/charts';
+
+const MAX_ENTRIES = 96;
+const MAX_AGE_MS = 5 * 60_000;
+
+export interface CachedChart {
+  chart: CharacteristicChart;
+  /** The chart as the JSON the endpoint sends, made on first use. */
+  body(): Buffer;
+  etag: string;
+}
+
+interface Entry {
+  version: string;
+  at: number;
+  value: Promise<CachedChart>;
+}
+
+const windowKey = (id: number, w: ChartWindow) => `${id}|${w.from?.toISOString() ?? ''}|${w.to?.toISOString() ?? ''}`;
+
+export class ChartCache {
+  private readonly entries = new Map<string, Entry>();
+
+  constructor(private readonly db: Database) {}
+
+  /** The data version of each characteristic, read in one query. */
+  async versions(ids: number[]): Promise<Map<number, string>> {
+    if (ids.length === 0) return new Map();
+    const result = await this.db.execute<{ id: number; v: string }>(sql`
+      with ids as (select unnest(${sql.param(ids)}::int[]) as id),
+           globals as (
+             select (select coalesce(max(id), 0) from audit_events) as audit,
+                    (select coalesce(max(id), 0) from process_events) as events)
+      select ids.id,
+             concat_ws('.', g.audit, g.events, m.newest, m.live, e.newest, e.active, r.newest, r.active, s.newest, s.total) as v
+      from ids cross join globals g
+      cross join lateral (
+        select coalesce(max(id), 0) as newest, count(*) filter (where voided_at is null) as live
+        from measurements where characteristic_id = ids.id) m
+      cross join lateral (
+        select coalesce(max(id), 0) as newest, count(*) filter (where removed_at is null) as active
+        from point_exclusions where characteristic_id = ids.id) e
+      cross join lateral (
+        select coalesce(max(id), 0) as newest, count(*) filter (where superseded_at is null) as active
+        from control_limit_revisions where characteristic_id = ids.id) r
+      cross join lateral (
+        select coalesce(max(id), 0) as newest, count(*) as total
+        from spec_limits where characteristic_id = ids.id) s`);
+    return new Map(result.rows.map((r) => [Number(r.id), r.v]));
+  }
+
+  async get(id: number, window: ChartWindow = {}, knownVersion?: string): Promise<CachedChart> {
+    const version = knownVersion ?? (await this.versions([id])).get(id) ?? '';
+    const key = windowKey(id, window);
+    const now = Date.now();
+    const hit = this.entries.get(key);
+    if (hit && hit.version === version && now - hit.at < MAX_AGE_MS) {
+      // Most recently used last, so the oldest entry is the first one dropped.
+      this.entries.delete(key);
+      this.entries.set(key, hit);
+      return hit.value;
+    }
+    // Concurrent requests for the same version share one computation.
+    const value = this.compute(id, window, `${key}|${version}`);
+    const entry: Entry = { version, at: now, value };
+    this.entries.delete(key);
+    this.entries.set(key, entry);
+    value.catch(() => {
+      if (this.entries.get(key) === entry) this.entries.delete(key);
+    });
+    while (this.entries.size > MAX_ENTRIES) this.entries.delete(this.entries.keys().next().value as string);
+    return value;
+  }
+
+  private async compute(id: number, window: ChartWindow, versionKey: string): Promise<CachedChart> {
+    const chart: CharacteristicChart = await computeCharacteristicChart(this.db, id, window);
+    let body: Buffer | null = null;
+    return {
+      chart,
+      body: () => (body ??= Buffer.from(JSON.stringify(chart))),
+      etag: `"${createHash('sha1').update(versionKey).digest('base64url')}"`,
+    };
+  }
+}
+
+const caches = new WeakMap<Database, ChartCache>();
+
+/** One cache per database, shared by the chart and overview routes. */
+export function chartCacheFor(db: Database): ChartCache {
+  let cache = caches.get(db);
+  if (!cache) {
+    cache = new ChartCache(db);
+    caches.set(db, cache);
+  }
+  return cache;
+}

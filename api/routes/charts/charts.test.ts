@@ -1,0 +1,269 @@
+// The chart endpoint and the exclusion and freeze routes against the seeded demo plant.
+// Limits are checked against the published control chart factors (ASTM E2587 table of constants,
+// also in the NIST/SEMATECH e-Handbook §6.3.2), capability against simple-statistics.
+import request from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { eq } from 'drizzle-orm';
+import { mean as ssMean, sampleStandardDeviation } from 'simple-statistics';
+import { createTestApi } from '../../../tests/support/api';
+import { characteristics } from '../../db/schema';
+import type { CharacteristicChart, ChartPointRecord, LimitRevisionRecord } from '../../../shared/schemas/charts';
+import type { Role } from '../../../shared/schemas/users';
+
+const api = createTestApi();
+afterAll(() => api.close());
+
+const as = async (role: Role) => ({ authorization: `Bearer ${await api.tokenFor(role)}` });
+
+// ASTM E2587, factors for X̄ and R charts (n = 2, 3) and X̄ and S charts (n = 10), three decimals.
+const A2 = { 2: 1.88, 3: 1.023 } as const;
+const D4 = { 2: 3.267, 3: 2.574 } as const;
+const A3_10 = 0.975;
+const B4_10 = 1.716;
+const C4_10 = 0.9727;
+
+const ids = new Map<string, number>();
+beforeAll(async () => {
+  for (const c of await api.db.select({ id: characteristics.id, code: characteristics.code }).from(characteristics)) ids.set(c.code, c.id);
+});
+const idOf = (code: string) => {
+  const id = ids.get(code);
+  if (!id) throw new Error(`The demo seed has no characteristic ${code}`);
+  return id;
+};
+
+async function chartOf(code: string, role: Role = 'auditor', query = ''): Promise<CharacteristicChart> {
+  const res = await request(api.app).get(`/api/v1/characteristics/${idOf(code)}/chart${query}`).set(await as(role));
+  expect(res.status).toBe(200);
+  return res.body as CharacteristicChart;
+}
+
+const average = (xs: number[]) => xs.reduce((a, b) => a + b, 0) / xs.length;
+const range = (xs: number[]) => Math.max(...xs) - Math.min(...xs);
+const kept = (points: ChartPointRecord[]) => points.filter((p) => !p.excluded);
+
+/** Textbook X̄–R limits from the kept points (A2 and D4 from the ASTM table). */
+function xbarRLimits(points: ChartPointRecord[], n: 2 | 3) {
+  const k = kept(points);
+  const grand = average(k.map((p) => average(p.values)));
+  const rBar = average(k.map((p) => range(p.values)));
+  return { center: grand, ucl: grand + A2[n] * rBar, lcl: grand - A2[n] * rBar, rBar, rUcl: D4[n] * rBar };
+}
+
+describe('GET /api/v1/characteristics/:id/chart', () => {
+  it('charts HV Level 25 flow as X̄–R with the textbook limits, zones and the planted step change', async () => {
+    const chart = await chartOf('HVL25-FLOW');
+    expect(chart.characteristic).toMatchObject({ code: 'HVL25-FLOW', chartType: 'xbar-r', subgroupSize: 2, unit: 'mm', productName: 'HV Level 25' });
+    expect(chart.spec).toMatchObject({ lsl: 135, usl: 155, target: 145 });
+    expect(chart.points.length).toBeGreaterThan(300);
+
+    // One point per lot, in production order, its statistics from its own replicates.
+    for (let i = 1; i < chart.points.length; i++) expect(Date.parse(chart.points[i].producedAt)).toBeGreaterThanOrEqual(Date.parse(chart.points[i - 1].producedAt));
+    for (const p of chart.points.slice(0, 50)) {
+      expect(p.values).toHaveLength(2);
+      expect(p.location).toBeCloseTo(average(p.values), 9);
+      expect(p.dispersion).toBeCloseTo(range(p.values), 9);
+    }
+
+    const book = xbarRLimits(chart.points, 2);
+    expect(chart.limits.source).toBe('trial');
+    expect(chart.limits.location.center).toBeCloseTo(book.center, 6);
+    // The table's factors carry three decimals: agreement to a hundredth of a millimetre.
+    expect(Math.abs(chart.limits.location.ucl! - book.ucl)).toBeLessThan(0.01);
+    expect(Math.abs(chart.limits.location.lcl! - book.lcl)).toBeLessThan(0.01);
+    expect(Math.abs(chart.limits.dispersion.ucl! - book.rUcl)).toBeLessThan(0.01);
+    expect(chart.limits.dispersion.lcl).toBe(0);
+    // Zone lines split each side into thirds (ISO 7870-2 zones C, B, A).
+    const third = (chart.limits.location.ucl! - chart.limits.location.center!) / 3;
+    expect(chart.limits.zones!.plus1).toBeCloseTo(chart.limits.location.center! + third, 9);
+    expect(chart.limits.zones!.minus2).toBeCloseTo(chart.limits.location.center! - 2 * third, 9);
+
+    // The new sand source is an event, and the lots after it sit below the centre line for long runs.
+    const sand = chart.events.find((e) => e.title === 'New sand source');
+    expect(sand).toBeDefined();
+    const after = chart.points.filter((p) => Date.parse(p.producedAt) >= Date.parse(sand!.occurredAt));
+    expect(average(after.map((p) => p.location))).toBeLessThan(chart.limits.location.center!);
+    const runs = chart.violations.filter((v) => v.rule === 'we4' && v.index >= after[0].index);
+    expect(runs.length).toBeGreaterThan(5);
+    // Every violation is explained in words and marked on its point.
+    for (const v of chart.violations) {
+      expect(v.description.length).toBeGreaterThan(20);
+      expect(chart.points[v.index].rules).toContain(v.rule);
+    }
+    const eightInARow = runs[0];
+    expect(eightInARow.points).toHaveLength(8);
+    const side = eightInARow.points.map((i) => Math.sign(chart.points[i].location - chart.limits.location.center!));
+    expect(new Set(side)).toEqual(new Set([-1]));
+  });
+
+  it('answers a browser that holds the same state of the chart with 304', async () => {
+    const h = await as('technician');
+    const url = `/api/v1/characteristics/${idOf('HVL25-FLOW')}/chart`;
+    const first = await request(api.app).get(url).set(h);
+    expect(first.status).toBe(200);
+    expect(first.headers.etag).toBeTruthy();
+    const again = await request(api.app).get(url).set(h).set('If-None-Match', first.headers.etag);
+    expect(again.status).toBe(304);
+  });
+
+  it('restricts the chart to a window of production time', async () => {
+    const all = await chartOf('HVL25-DENS');
+    const from = all.points[100].producedAt;
+    const to = all.points[199].producedAt;
+    const part = await chartOf('HVL25-DENS', 'auditor', `?from=${encodeURIComponent(from)}&to=${encodeURIComponent(to)}`);
+    expect(part.points).toHaveLength(100);
+    expect(part.points[0].lotNumber).toBe(all.points[100].lotNumber);
+    expect(part.characteristic.chartType).toBe('imr');
+    // I–MR: centre ± 2.660 · MR̄ (E2 = 3/d2 with d2 = 1.128, ASTM E2587), from the window's own values.
+    const x = part.points.map((p) => p.location);
+    const mrBar = average(x.slice(1).map((v, i) => Math.abs(v - x[i])));
+    expect(Math.abs(part.limits.location.ucl! - (average(x) + 2.66 * mrBar))).toBeLessThan(0.05);
+  });
+
+  it('refuses unknown characteristics and unreadable dates in plain words', async () => {
+    const h = await as('auditor');
+    const missing = await request(api.app).get('/api/v1/characteristics/999999/chart').set(h);
+    expect(missing.status).toBe(404);
+    expect(missing.body.error).toMatch(/Characteristic 999999 not found/);
+    const bad = await request(api.app).get(`/api/v1/characteristics/${idOf('HVL25-FLOW')}/chart?from=yesterday-ish`).set(h);
+    expect(bad.status).toBe(400);
+    expect(bad.body.error).toBe('from: Enter a valid date');
+    const unsigned = await request(api.app).get(`/api/v1/characteristics/${idOf('HVL25-FLOW')}/chart`);
+    expect(unsigned.status).toBe(401);
+  });
+
+  it('gives capability that agrees with an independent computation (X̄–S, n = 10)', async () => {
+    const chart = await chartOf('HVFX-ADH28');
+    expect(chart.characteristic.chartType).toBe('xbar-s');
+    const k = kept(chart.points);
+    const values = k.flatMap((p) => p.values);
+    const lsl = chart.spec!.lsl!;
+    const m = ssMean(values);
+    const s = sampleStandardDeviation(values);
+    const cap = chart.capability!;
+    expect(cap.n).toBe(values.length);
+    expect(cap.ppk).toBeCloseTo((m - lsl) / (3 * s), 6);
+    // Sigma within S̄/c4 with c4(10) = 0.9727 (ASTM E2587); one-sided specification: Cpk = Cpl.
+    const sBar = average(k.map((p) => sampleStandardDeviation(p.values)));
+    expect(Math.abs(cap.cpk! - (m - lsl) / (3 * (sBar / C4_10)))).toBeLessThan(0.005);
+    expect(cap.cp).toBeNull();
+    // X̄ limits X̿ ± A3·S̄ and S limit B4·S̄.
+    const grand = average(k.map((p) => p.location));
+    expect(Math.abs(chart.limits.location.ucl! - (grand + A3_10 * sBar))).toBeLessThan(0.002);
+    expect(Math.abs(chart.limits.dispersion.ucl! - B4_10 * sBar)).toBeLessThan(0.002);
+  });
+});
+
+describe('exclusions', () => {
+  it('lets a quality manager exclude a point with a reason, recomputes the limits, and takes it back', async () => {
+    const code = 'HVLF-FLOW';
+    const before = await chartOf(code);
+    const center = before.limits.location.center!;
+    const farthest = kept(before.points).reduce((a, b) => (Math.abs(b.location - center) > Math.abs(a.location - center) ? b : a));
+    const url = `/api/v1/characteristics/${idOf(code)}/exclusions`;
+
+    const technician = await request(api.app).post(url).set(await as('technician')).send({ lotId: farthest.lotId, reason: 'Mixer fault' });
+    expect(technician.status).toBe(403);
+    const auditor = await request(api.app).post(url).set(await as('auditor')).send({ lotId: farthest.lotId, reason: 'Mixer fault' });
+    expect(auditor.status).toBe(403);
+
+    const h = await as('quality_manager');
+    const noReason = await request(api.app).post(url).set(h).send({ lotId: farthest.lotId, reason: ' ' });
+    expect(noReason.status).toBe(400);
+    expect(noReason.body.details).toContainEqual({ path: 'reason', message: 'Give a reason of at least 3 characters' });
+
+    const reason = 'Water dosing valve stuck open during this lot';
+    const done = await request(api.app).post(url).set(h).send({ lotId: farthest.lotId, reason });
+    expect(done.status).toBe(201);
+    const twice = await request(api.app).post(url).set(h).send({ lotId: farthest.lotId, reason });
+    expect(twice.status).toBe(409);
+
+    const after = await chartOf(code);
+    const point = after.points.find((p) => p.lotId === farthest.lotId)!;
+    expect(point).toMatchObject({ excluded: true, exclusionReason: reason, rules: [] });
+    const book = xbarRLimits(after.points, 2);
+    expect(kept(after.points)).toHaveLength(kept(before.points).length - 1);
+    expect(after.limits.location.center).toBeCloseTo(book.center, 6);
+    expect(after.limits.location.center).not.toBeCloseTo(center, 6);
+    expect(Math.abs(after.limits.location.ucl! - book.ucl)).toBeLessThan(0.01);
+
+    const noBackReason = await request(api.app).delete(`${url}/${farthest.lotId}`).set(h).send({});
+    expect(noBackReason.status).toBe(400);
+    const back = await request(api.app).delete(`${url}/${farthest.lotId}`).set(h).send({ reason: 'Valve checked: it worked, cause not confirmed' });
+    expect(back.status).toBe(200);
+    const restored = await chartOf(code);
+    expect(restored.limits.location.center).toBeCloseTo(center, 9);
+    expect(restored.points.find((p) => p.lotId === farthest.lotId)!.excluded).toBe(false);
+  });
+
+  it('refuses to exclude a lot that has no point on the chart', async () => {
+    const res = await request(api.app)
+      .post(`/api/v1/characteristics/${idOf('HVLF-FLOW')}/exclusions`)
+      .set(await as('admin'))
+      .send({ lotId: 999999, reason: 'No such lot' });
+    expect(res.status).toBe(404);
+  });
+});
+
+describe('limit revisions', () => {
+  it('freezes limits from a baseline, judges the chart against them and keeps the history', async () => {
+    const code = 'HVR3-RF7';
+    const url = `/api/v1/characteristics/${idOf(code)}/limit-revisions`;
+    const trial = await chartOf(code);
+    expect(trial.limits.source).toBe('trial');
+    const baseline = trial.points.slice(0, 30);
+    const baselineFrom = baseline[0].producedAt;
+    const baselineTo = baseline.at(-1)!.producedAt;
+
+    const h = await as('quality_manager');
+    const backwards = await request(api.app).post(url).set(h).send({ baselineFrom: baselineTo, baselineTo: baselineFrom, reason: 'Stable period' });
+    expect(backwards.status).toBe(400);
+    expect(backwards.body.details).toContainEqual({ path: 'baselineTo', message: 'The baseline must end after it starts' });
+    const technician = await request(api.app).post(url).set(await as('technician')).send({ baselineFrom, baselineTo, reason: 'Stable period' });
+    expect(technician.status).toBe(403);
+
+    const reason = 'First 30 sets after the mixer service: stable, no assignable cause';
+    const res = await request(api.app).post(url).set(h).send({ baselineFrom, baselineTo, reason });
+    expect(res.status).toBe(201);
+    const revision = res.body as LimitRevisionRecord;
+    const book = xbarRLimits(baseline, 3);
+    expect(revision).toMatchObject({ chartType: 'xbar-r', subgroupSize: 3, baselinePoints: 30, reason, createdByName: 'Demo Quality Manager', supersededAt: null });
+    expect(revision.center).toBeCloseTo(book.center, 6);
+    expect(Math.abs(revision.locationUcl - book.ucl)).toBeLessThan(0.01);
+
+    const frozen = await chartOf(code);
+    expect(frozen.limits).toMatchObject({ source: 'frozen', revisionId: revision.id, reason, frozenBy: 'Demo Quality Manager' });
+    expect(frozen.limits.location.ucl).toBeCloseTo(revision.locationUcl, 9);
+    // Every point, the later ones too, is judged against the frozen limits.
+    expect(frozen.points.at(-1)!.ucl).toBeCloseTo(revision.locationUcl, 9);
+    for (const v of frozen.violations.filter((x) => x.rule === 'we1' && x.chart === 'location')) {
+      const p = frozen.points[v.index];
+      expect(p.location > revision.locationUcl || p.location < revision.locationLcl).toBe(true);
+    }
+
+    const second = await request(api.app).post(url).set(h).send({ baselineFrom, baselineTo: trial.points[59].producedAt, reason: 'Longer baseline of 60 sets' });
+    expect(second.status).toBe(201);
+    const history = await request(api.app).get(url).set(await as('auditor'));
+    expect(history.status).toBe(200);
+    const items = history.body.items as LimitRevisionRecord[];
+    expect(items.map((r) => r.revision)).toEqual([revision.revision + 1, revision.revision]);
+    expect(items[0].supersededAt).toBeNull();
+    expect(items[1].supersededAt).not.toBeNull();
+    expect(items[1].baselineFrom).toBe(new Date(baselineFrom).toISOString());
+  });
+
+  it('answers 404 for the history of an unknown characteristic', async () => {
+    const res = await request(api.app).get('/api/v1/characteristics/999999/limit-revisions').set(await as('auditor'));
+    expect(res.status).toBe(404);
+  });
+});
+
+describe('characteristic list still answers beside the chart routes', () => {
+  it('GET /api/v1/characteristics', async () => {
+    const res = await request(api.app).get('/api/v1/characteristics').set(await as('technician'));
+    expect(res.status).toBe(200);
+    expect(res.body.items.length).toBe(ids.size);
+    const [flow] = await api.db.select().from(characteristics).where(eq(characteristics.code, 'HVL25-FLOW'));
+    expect(res.body.items.some((c: { id: number }) => c.id === flow.id)).toBe(true);
+  });
+});

@@ -1,0 +1,88 @@
+import { Router } from 'express';
+import { eq } from 'drizzle-orm';
+import type { Database } from '../../db/client';
+import { characteristics } from '../../db/schema';
+import { excludePoint, freezeLimits, includePoint, limitRevisions, type LimitRevision } from '../../spc/characteristic-chart';
+import { notFound, parseBody } from '../../http/errors';
+import { requireRole, requireSession } from '../../auth/session';
+import type { LimitRevisionRecord } from '../../../shared/schemas/charts';
+import { chartCacheFor } from './chart-cache';
+import { characteristicParamsSchema, chartQuerySchema, excludePointSchema, exclusionParamsSchema, freezeLimitsSchema, includePointSchema } from './schema';
+
+function revisionJson(r: LimitRevision): LimitRevisionRecord {
+  return {
+    id: r.id,
+    revision: r.revision,
+    chartType: r.chartType,
+    subgroupSize: r.subgroupSize,
+    center: r.center,
+    sigmaWithin: r.sigmaWithin,
+    locationUcl: r.locationUcl,
+    locationLcl: r.locationLcl,
+    dispersionCenter: r.dispersionCenter,
+    dispersionUcl: r.dispersionUcl,
+    dispersionLcl: r.dispersionLcl,
+    baselineFrom: r.baselineFrom.toISOString(),
+    baselineTo: r.baselineTo.toISOString(),
+    baselinePoints: r.baselinePoints,
+    reason: r.reason,
+    createdByName: r.createdByName,
+    createdAt: r.createdAt.toISOString(),
+    supersededAt: r.supersededAt ? r.supersededAt.toISOString() : null,
+  };
+}
+
+/**
+ * One characteristic's control chart, its exclusions and its frozen-limit revisions. Every role
+ * reads; quality managers and administrators change what the limits are computed from.
+ */
+export function chartsRouter(db: Database): Router {
+  const router = Router();
+  const cache = chartCacheFor(db);
+  const managers = requireRole('quality_manager', 'admin');
+  router.use(requireSession);
+
+  router.get('/:id/chart', async (req, res) => {
+    const { id } = parseBody(characteristicParamsSchema, req.params);
+    const window = parseBody(chartQuerySchema, req.query);
+    const cached = await cache.get(id, window);
+    // The version tag lets a browser that already holds this state of the chart revalidate for free.
+    res.set({ 'Content-Type': 'application/json; charset=utf-8', 'Cache-Control': 'private, no-cache', ETag: cached.etag });
+    if (req.fresh) {
+      res.status(304).end();
+      return;
+    }
+    res.end(cached.body());
+  });
+
+  router.post('/:id/exclusions', managers, async (req, res) => {
+    const { id } = parseBody(characteristicParamsSchema, req.params);
+    const { lotId, reason } = parseBody(excludePointSchema, req.body);
+    const row = await excludePoint(db, { characteristicId: id, lotId, reason, userId: req.user!.id });
+    res.status(201).json({ id: row.id, characteristicId: id, lotId });
+  });
+
+  router.delete('/:id/exclusions/:lotId', managers, async (req, res) => {
+    const { id, lotId } = parseBody(exclusionParamsSchema, req.params);
+    const { reason } = parseBody(includePointSchema, req.body ?? {});
+    const row = await includePoint(db, { characteristicId: id, lotId, reason, userId: req.user!.id });
+    res.json({ id: row.id, characteristicId: id, lotId });
+  });
+
+  router.get('/:id/limit-revisions', async (req, res) => {
+    const { id } = parseBody(characteristicParamsSchema, req.params);
+    // An unknown characteristic is a 404, not an empty history.
+    const [found] = await db.select({ id: characteristics.id }).from(characteristics).where(eq(characteristics.id, id));
+    if (!found) throw notFound(`Characteristic ${id}`);
+    res.json({ items: (await limitRevisions(db, id)).map(revisionJson) });
+  });
+
+  router.post('/:id/limit-revisions', managers, async (req, res) => {
+    const { id } = parseBody(characteristicParamsSchema, req.params);
+    const input = parseBody(freezeLimitsSchema, req.body);
+    const revision = await freezeLimits(db, { characteristicId: id, ...input, userId: req.user!.id });
+    res.status(201).json(revisionJson(revision));
+  });
+
+  return router;
+}

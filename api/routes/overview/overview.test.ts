@@ -1,0 +1,122 @@
+// The overview endpoint against the seeded demo plant.
+import request from 'supertest';
+import { afterAll, describe, expect, it } from 'vitest';
+import { and, eq, sql } from 'drizzle-orm';
+import { createTestApi } from '../../../tests/support/api';
+import { alarms, characteristics, lots, products } from '../../db/schema';
+import { plantedCausesFor } from '../../db/seed/scenario';
+import { demoEndDate } from '../../db/seed';
+import type { CharacteristicChart, Overview } from '../../../shared/schemas/charts';
+import type { Role } from '../../../shared/schemas/users';
+
+const api = createTestApi();
+afterAll(() => api.close());
+
+const as = async (role: Role) => ({ authorization: `Bearer ${await api.tokenFor(role)}` });
+
+async function overview(query = '', role: Role = 'quality_manager'): Promise<Overview> {
+  const res = await request(api.app).get(`/api/v1/overview${query}`).set(await as(role));
+  expect(res.status).toBe(200);
+  return res.body as Overview;
+}
+
+describe('GET /api/v1/overview', () => {
+  it('lists every active characteristic with its line, product, latest lot and control state', async () => {
+    const body = await overview('?days=30', 'technician');
+    const [{ n }] = await api.db
+      .select({ n: sql<number>`count(*)::int` })
+      .from(characteristics)
+      .innerJoin(products, eq(products.id, characteristics.productId))
+      .where(and(eq(characteristics.active, true), eq(products.active, true)));
+    expect(body.items).toHaveLength(n);
+    expect(body.days).toBe(30);
+    expect(body.lines.map((l) => l.code)).toEqual(['L1', 'L2']);
+    expect(body.families).toEqual(['levelling', 'repair', 'tile-adhesive']);
+
+    const flow = body.items.find((i) => i.code === 'HVL25-FLOW')!;
+    expect(flow).toMatchObject({ lineCode: 'L1', productName: 'HV Level 25', productFamily: 'levelling', chartType: 'xbar-r', unit: 'mm' });
+    // The planted step change after the new sand source keeps the flow below the centre line.
+    expect(flow.controlState).toBe('signal');
+    expect(flow.signals).toBeGreaterThan(0);
+    expect(flow.attention.join(' ')).toMatch(/Run-rule signal/);
+    expect(flow.trend.length).toBeGreaterThan(10);
+    expect(flow.trend.some((t) => t.signal)).toBe(true);
+
+    // The latest lot is the newest lot of the product that has a flow result.
+    const [newest] = await api.db.execute<{ lot_number: string }>(sql`
+      select l.lot_number from lots l join measurements m on m.lot_id = l.id
+      where m.characteristic_id = ${flow.id} and m.voided_at is null order by l.produced_at desc, l.lot_number desc limit 1`).then((r) => r.rows);
+    expect(flow.latest?.lotNumber).toBe(newest.lot_number);
+  });
+
+  it('gives the Cpk of the period, the same figure the chart of that period shows', async () => {
+    const body = await overview('?days=90');
+    const density = body.items.find((i) => i.code === 'HVL25-DENS')!;
+    const chartRes = await request(api.app)
+      .get(`/api/v1/characteristics/${density.id}/chart?from=${encodeURIComponent(body.from)}`)
+      .set(await as('auditor'));
+    const chart = chartRes.body as CharacteristicChart;
+    expect(density.cpk).not.toBeNull();
+    expect(density.cpk).toBeCloseTo(chart.capability!.cpk!, 9);
+    expect(density.cpkCi95).toEqual(chart.capability!.cpkCi95);
+    // The period starts 90 days back, on the hour.
+    expect(Date.now() - Date.parse(body.from)).toBeGreaterThanOrEqual(90 * 86_400_000);
+    expect(Date.now() - Date.parse(body.from)).toBeLessThan(90 * 86_400_000 + 3_600_000);
+  });
+
+  it('narrows by line and by product family', async () => {
+    const line2 = await overview('?line=L2');
+    expect(line2.items.length).toBeGreaterThan(0);
+    expect(new Set(line2.items.map((i) => i.productCode))).toEqual(new Set(['HVFX', 'HVR3']));
+    const levelling = await overview('?family=levelling');
+    expect(new Set(levelling.items.map((i) => i.productCode))).toEqual(new Set(['HVL25', 'HVLF']));
+    const none = await overview('?line=L9');
+    expect(none.items).toEqual([]);
+  });
+
+  it('counts open alarms per characteristic and ranks them for attention', async () => {
+    const body = await overview('?days=182');
+    const target = body.items.find((i) => i.code === 'HVR3-AIR')!;
+    const [lot] = await api.db.select({ id: lots.id }).from(lots).where(eq(lots.lotNumber, (await latestLot(target.id))!));
+    const inserted = await api.db
+      .insert(alarms)
+      .values([
+        { characteristicId: target.id, lotId: lot.id, rule: 'we1', chart: 'overview-test', pointIndex: 0, statistic: 1, values: [1], description: 'test alarm one', source: 'test', status: 'open' },
+        { characteristicId: target.id, lotId: lot.id, rule: 'we2', chart: 'overview-test', pointIndex: 0, statistic: 1, values: [1], description: 'test alarm two', source: 'test', status: 'open' },
+        { characteristicId: target.id, lotId: lot.id, rule: 'we3', chart: 'overview-test', pointIndex: 0, statistic: 1, values: [1], description: 'test alarm closed', source: 'test', status: 'closed' },
+      ])
+      .returning({ id: alarms.id });
+    try {
+      const again = await overview('?days=182');
+      const item = again.items.find((i) => i.id === target.id)!;
+      expect(item.openAlarms).toBe(target.openAlarms + 2);
+      expect(item.attention).toContain(`${target.openAlarms + 2} open alarms`);
+      expect(item.attentionScore).toBeGreaterThan(target.attentionScore);
+    } finally {
+      for (const { id } of inserted) await api.db.delete(alarms).where(eq(alarms.id, id));
+    }
+  });
+
+  it('marks the planted out-of-specification lots of the period', async () => {
+    const causes = plantedCausesFor({ endDate: demoEndDate() }).filter((c) => c.kind === 'out-of-spec-lot');
+    const body = await overview('?days=182');
+    for (const cause of causes) {
+      const item = body.items.find((i) => i.code === cause.characteristicCodes[0])!;
+      expect(item.outOfSpecCount, cause.id).toBeGreaterThanOrEqual(1);
+      expect(item.attention.join(' '), cause.id).toMatch(/outside the specification/);
+    }
+  });
+
+  it('refuses a period it does not offer', async () => {
+    const res = await request(api.app).get('/api/v1/overview?days=5').set(await as('auditor'));
+    expect(res.status).toBe(400);
+    expect(res.body.error).toBe('days: days must be one of 7, 30, 90, 182');
+  });
+});
+
+async function latestLot(characteristicId: number): Promise<string | undefined> {
+  const res = await api.db.execute<{ lot_number: string }>(sql`
+    select l.lot_number from lots l join measurements m on m.lot_id = l.id
+    where m.characteristic_id = ${characteristicId} order by l.produced_at desc limit 1`);
+  return res.rows[0]?.lot_number;
+}

@@ -1,0 +1,98 @@
+// What the overview says about one characteristic, from its chart over the whole history (control
+// state against the limits the nightly run uses) and over the period (capability of recent production).
+import type { CharacteristicChart, ControlState, OverviewItem } from '../../../shared/schemas/charts';
+import { PHASE_ONE_MIN_POINTS } from '../../spc/characteristic-chart';
+
+/** Points of the period drawn in the overview's trend line. */
+export const TREND_POINTS = 40;
+
+/** Common practice: Cpk of at least 1.33 for a capable process, below 1.00 not capable. */
+const CPK_CAPABLE = 1.33;
+const CPK_MINIMUM = 1.0;
+
+export interface OverviewBase {
+  id: number;
+  code: string;
+  name: string;
+  unit: string;
+  decimals: number;
+  chartType: OverviewItem['chartType'];
+  productCode: string;
+  productName: string;
+  productFamily: string;
+  lineCode: string | null;
+  lineName: string | null;
+}
+
+export function summarise(base: OverviewBase, full: CharacteristicChart, recent: CharacteristicChart, from: Date, openAlarms: number): OverviewItem {
+  const fromMs = from.getTime();
+  const points = full.points;
+  let firstInPeriod = points.length;
+  while (firstInPeriod > 0 && Date.parse(points[firstInPeriod - 1].producedAt) >= fromMs) firstInPeriod--;
+  const period = points.slice(firstInPeriod);
+  const firstIndex = period.length ? period[0].index : Infinity;
+
+  const signalAt = new Set<number>();
+  for (const v of full.violations) if (v.index >= firstIndex) signalAt.add(v.index);
+
+  const kept = points.reduce((n, p) => n + (p.excluded ? 0 : 1), 0);
+  const limitsKnown = full.limits.location.ucl !== null && full.limits.location.lcl !== null;
+  const enough = limitsKnown && (full.limits.source === 'frozen' || kept >= PHASE_ONE_MIN_POINTS);
+  const controlState: ControlState = !enough || period.length === 0 ? 'not-enough-data' : signalAt.size > 0 ? 'signal' : 'in-control';
+
+  const outOfSpecCount = period.reduce((n, p) => n + (p.outOfSpec ? 1 : 0), 0);
+  const latestPoint = points.at(-1) ?? null;
+  const capability = recent.capability;
+  const cpk = capability?.cpk ?? null;
+
+  const attention: string[] = [];
+  let score = 0;
+  if (latestPoint?.outOfSpec) {
+    attention.push(`Latest lot ${latestPoint.lotNumber} is outside the specification`);
+    score += 100;
+  }
+  if (openAlarms) {
+    attention.push(`${openAlarms} open alarm${openAlarms === 1 ? '' : 's'}`);
+    score += 20 * Math.min(openAlarms, 5);
+  }
+  if (controlState === 'signal') {
+    attention.push(`Run-rule signal at ${signalAt.size} point${signalAt.size === 1 ? '' : 's'} in the period`);
+    score += 40 + Math.min(signalAt.size, 20);
+  }
+  const earlierOutOfSpec = outOfSpecCount - (latestPoint?.outOfSpec && period.includes(latestPoint) ? 1 : 0);
+  if (earlierOutOfSpec > 0) {
+    attention.push(`${earlierOutOfSpec} ${latestPoint?.outOfSpec ? 'more ' : ''}lot${earlierOutOfSpec === 1 ? '' : 's'} outside the specification in the period`);
+    score += 30;
+  }
+  if (cpk !== null && cpk < CPK_MINIMUM) {
+    attention.push(`Cpk ${cpk.toFixed(2)} is below ${CPK_MINIMUM.toFixed(2)}`);
+    score += 30;
+  } else if (cpk !== null && cpk < CPK_CAPABLE) {
+    attention.push(`Cpk ${cpk.toFixed(2)} is below ${CPK_CAPABLE.toFixed(2)}`);
+    score += 15;
+  }
+  if (controlState === 'not-enough-data') {
+    attention.push(period.length === 0 ? 'No lot in the period' : 'Not enough data for control limits');
+    score += 5;
+  }
+
+  return {
+    ...base,
+    spec: full.spec ? { lsl: full.spec.lsl, usl: full.spec.usl, target: full.spec.target } : null,
+    latest: latestPoint
+      ? { lotNumber: latestPoint.lotNumber, producedAt: latestPoint.producedAt, location: latestPoint.location, outOfSpec: latestPoint.outOfSpec, index: latestPoint.index }
+      : null,
+    controlState,
+    signals: signalAt.size,
+    outOfSpecCount,
+    pointsInPeriod: period.length,
+    openAlarms,
+    limitsSource: limitsKnown ? full.limits.source : null,
+    cpk,
+    cpkCi95: capability?.cpkCi95 ?? null,
+    capabilityPreliminary: capability?.preliminary ?? true,
+    trend: period.slice(-TREND_POINTS).map((p) => ({ location: p.location, signal: signalAt.has(p.index), outOfSpec: p.outOfSpec })),
+    attention,
+    attentionScore: score,
+  };
+}
