@@ -364,6 +364,8 @@ export const alarms = pgTable(
     description: text('description').notNull(),
     /** The point lies before later points that were already charted (a late result or changed limits). */
     late: boolean('late').notNull().default(false),
+    /** Why a late alarm sits at an earlier position: a late result, or recalculated limits. */
+    lateReason: text('late_reason'),
     source: text('source').notNull(),
     runId: integer('run_id').references(() => spcRuns.id),
     status: alarmStatusEnum('status').notNull().default('open'),

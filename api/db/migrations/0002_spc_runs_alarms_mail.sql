@@ -26,6 +26,7 @@ CREATE TABLE "alarms" (
 	"limit_value" double precision,
 	"description" text NOT NULL,
 	"late" boolean DEFAULT false NOT NULL,
+	"late_reason" text,
 	"source" text NOT NULL,
 	"run_id" integer,
 	"status" "alarm_status" DEFAULT 'open' NOT NULL,
