@@ -132,6 +132,56 @@ function indices(mean: number, sigma: number | null, lsl: number | null, usl: nu
   return { whole, lower, upper, worst };
 }
 
+interface Summary {
+  sum: number;
+  shift: number;
+  /** Sums of (x − shift) and (x − shift)², shift being the first value. */
+  d1: number;
+  d2: number;
+  outside: number;
+}
+
+// The pass over the values is a small function of its own with nothing after the loop, so that the
+// optimiser compiles it whole; code after a long loop would be compiled without type information
+// and fall back to the interpreter on every call.
+function summarise(values: ArrayLike<number>, low: number, high: number): Summary {
+  const n = values.length;
+  const shift = n > 0 ? values[0] : 0;
+  let sum = 0;
+  let d1 = 0;
+  let d2 = 0;
+  let outside = 0;
+  for (let i = 0; i < n; i++) {
+    const v = values[i];
+    sum += v;
+    const d = v - shift;
+    d1 += d;
+    d2 += d * d;
+    outside += +(v < low) + +(v > high);
+  }
+  return { sum, shift, d1, d2, outside };
+}
+
+/**
+ * Sample variance from the sums about the first value while it lies within a hundred standard
+ * deviations of the mean; otherwise from a second pass about the mean.
+ */
+function variance(values: ArrayLike<number>, s: Summary, mean: number): number {
+  const n = values.length;
+  const v = Math.max(0, (s.d2 - (s.d1 * s.d1) / n) / (n - 1));
+  const offset = mean - s.shift;
+  return offset * offset <= 1e4 * v ? v : squaredDeviations(values, mean) / (n - 1);
+}
+
+function squaredDeviations(values: ArrayLike<number>, mean: number): number {
+  let ss = 0;
+  for (let i = 0; i < values.length; i++) {
+    const e = values[i] - mean;
+    ss += e * e;
+  }
+  return ss;
+}
+
 /** Capability and performance indices with intervals, ppm and a normality check. */
 export function computeCapability(input: CapabilityInput): CapabilityResult {
   const lsl = specValue('lsl', input.lsl);
@@ -155,28 +205,21 @@ export function computeCapability(input: CapabilityInput): CapabilityResult {
     notes,
   };
 
-  let sum = 0;
-  let outside = 0;
-  const low = lsl ?? -Infinity;
-  const high = usl ?? Infinity;
-  for (let i = 0; i < n; i++) {
-    const v = values[i];
-    if (v - v !== 0) throw new SpcInputError(`value ${i} is ${v}; every value must be a finite number`);
-    sum += v;
-    if (v < low || v > high) outside++;
+  const pass = summarise(values, lsl ?? -Infinity, usl ?? Infinity);
+  // NaN and ±Infinity carry through the sums, so one test finds them.
+  if (!Number.isFinite(pass.sum + pass.d2)) {
+    for (let i = 0; i < n; i++) {
+      if (!Number.isFinite(values[i])) throw new SpcInputError(`value ${i} is ${values[i]}; every value must be a finite number`);
+    }
   }
   if (n === 0) {
     notes.push({ code: 'no-data', message: 'No values were given, so capability cannot be computed.' });
     return result;
   }
-  const mean = sum / n;
+  const outside = pass.outside;
+  const mean = pass.sum / n;
   result.mean = mean;
-  let ss = 0;
-  for (let i = 0; i < n; i++) {
-    const e = values[i] - mean;
-    ss += e * e;
-  }
-  const sigmaOverall = n >= 2 ? Math.sqrt(ss / (n - 1)) : null;
+  const sigmaOverall = n >= 2 ? Math.sqrt(variance(values, pass, mean)) : null;
   result.sigmaOverall = sigmaOverall;
 
   if (result.preliminary) {

@@ -8,7 +8,7 @@
 // (lower limits of R, S and MR never below zero); MR uses the R formulas with n = 2.
 import { c4 as c4Of, d2 as d2Of, d3 as d3Of } from './constants';
 import { SpcInputError } from './errors';
-import { compareViolations, dispersionViolations, locationViolations, resolveRules, type RuleId, type RuleSelection, type Violation } from './rules';
+import { findViolations, resolveRules, type DispersionSeries, type RuleId, type RuleSelection, type Violation } from './rules';
 
 export type ChartType = 'xbar-r' | 'xbar-s' | 'imr';
 
@@ -183,8 +183,14 @@ function layoutOf(input: ChartInput): Layout {
   return { values, count: values.length / size, size, offsets: null };
 }
 
-function notFinite(values: Float64Array, i: number): SpcInputError {
-  return new SpcInputError(`value ${i} is ${values[i]}; every value must be a finite number`);
+/**
+ * Throws for the first value that is not a finite number. Called when a sum over the values is not
+ * finite: NaN and ±Infinity carry through sums, so the hot loops need no test of their own.
+ */
+function rejectNonFinite(values: Float64Array): void {
+  for (let i = 0; i < values.length; i++) {
+    if (!Number.isFinite(values[i])) throw new SpcInputError(`value ${i} is ${values[i]}; every value must be a finite number`);
+  }
 }
 
 function sizeAt(layout: Layout, g: number): number {
@@ -272,13 +278,14 @@ export function computeChart(input: ChartInput): ChartResult {
   }
 
   const stats = chart === 'imr' ? individualsStats(layout, excluded) : subgroupStats(layout, chart, excluded);
+  if (!Number.isFinite(stats.finiteCheck)) rejectNonFinite(layout.values);
   const keptValues = stats.keptValues;
   if (count === 0) reasons.push({ code: 'no-data', message: 'No values were given, so there is nothing to chart.' });
   else if (keptValues === 0) reasons.push({ code: 'all-excluded', message: 'Every point is excluded; the limits need at least one point that is kept.' });
 
   const mean = keptValues > 0 ? stats.keptSum / keptValues : null;
   let sigmaOverall: number | null = null;
-  if (mean !== null && keptValues >= 2) sigmaOverall = finiteOrNull(Math.sqrt(sumSquaredDeviations(layout, excluded, mean) / (keptValues - 1)));
+  if (mean !== null && keptValues >= 2) sigmaOverall = finiteOrNull(Math.sqrt(overallVariance(stats, layout, excluded, mean)));
   else if (count > 0) reasons.push({ code: 'no-sigma-overall', message: 'The overall standard deviation needs at least two values that are kept.' });
 
   let center: number | null;
@@ -334,17 +341,15 @@ export function computeChart(input: ChartInput): ChartResult {
   const violations: Violation[] = [];
   if (judged && count > 0) {
     const sigma = perPoint !== null ? perPoint.locationSigma : (location.sigma as number);
-    locationViolations({ values: stats.location, center: center as number, sigma, skip: excluded }, activeRules, violations);
-    if (activeRules.includes('we1')) {
-      const dispersionJudged = judgedDispersion(stats.hasDispersion, excluded, chart === 'imr');
-      const ucl = perPoint !== null ? perPoint.dispersionUcl : dispersion.ucl;
-      const lcl = perPoint !== null ? perPoint.dispersionLcl : dispersion.lcl;
-      if (ucl !== null && lcl !== null) {
-        const dispersionFound: Violation[] = [];
-        dispersionViolations({ values: stats.dispersion, ucl, lcl, judged: dispersionJudged }, dispersionFound);
-        if (dispersionFound.length > 0) mergeInto(violations, dispersionFound);
-      }
+    const ucl = perPoint !== null ? perPoint.dispersionUcl : dispersion.ucl;
+    const lcl = perPoint !== null ? perPoint.dispersionLcl : dispersion.lcl;
+    let spread: DispersionSeries | null = null;
+    if (ucl !== null && lcl !== null) {
+      spread = stats.dispersion === null || stats.hasDispersion === null
+        ? { values: null, ucl, lcl, judged: null }
+        : { values: stats.dispersion, ucl, lcl, judged: judgedDispersion(stats.hasDispersion, excluded) };
     }
+    findViolations({ values: stats.location, center: center as number, sigma, skip: excluded }, spread, activeRules, violations);
   }
 
   let sizeColumn: Int32Array | null = null;
@@ -367,40 +372,32 @@ export function computeChart(input: ChartInput): ChartResult {
     mean,
     frozen: center !== null && sigmaWithin !== null ? { chart, center, sigmaWithin } : null,
     rules: judged ? activeRules : [],
-    points: { count, size: sizeColumn, location: stats.location, dispersion: stats.dispersion, hasDispersion: stats.hasDispersion, excluded, perPoint },
+    points: pointColumns(count, sizeColumn, stats, excluded, perPoint),
     violations,
     reasons,
   };
 }
 
-function mergeInto(target: Violation[], extra: Violation[]): void {
-  const merged: Violation[] = new Array(target.length + extra.length);
-  let i = 0;
-  let j = 0;
-  let k = 0;
-  while (i < target.length && j < extra.length) merged[k++] = compareViolations(target[i], extra[j]) <= 0 ? target[i++] : extra[j++];
-  while (i < target.length) merged[k++] = target[i++];
-  while (j < extra.length) merged[k++] = extra[j++];
-  target.length = 0;
-  for (const v of merged) target.push(v);
-}
-
-function judgedDispersion(has: Uint8Array, excluded: Uint8Array | null, movingRange: boolean): Uint8Array {
+function judgedDispersion(has: Uint8Array, excluded: Uint8Array | null): Uint8Array {
   if (excluded === null) return has;
   const judged = new Uint8Array(has.length);
-  for (let i = 0; i < has.length; i++) {
-    // A moving range spans two points: an excluded neighbour taints it too.
-    judged[i] = has[i] === 1 && excluded[i] === 0 && !(movingRange && i > 0 && excluded[i - 1] === 1) ? 1 : 0;
-  }
+  for (let i = 0; i < has.length; i++) judged[i] = has[i] === 1 && excluded[i] === 0 ? 1 : 0;
   return judged;
 }
 
 interface Stats {
   location: Float64Array;
-  dispersion: Float64Array;
-  hasDispersion: Uint8Array;
+  /** Null for I–MR: the moving ranges follow from the values and are computed when first read. */
+  dispersion: Float64Array | null;
+  hasDispersion: Uint8Array | null;
   keptValues: number;
   keptSum: number;
+  /** Sums of (x − shift) and (x − shift)² over the kept values, shift being the first value. */
+  shift: number;
+  shiftedSum: number;
+  shiftedSquares: number;
+  /** Not finite when a value is NaN or ±Infinity (they carry through sums). */
+  finiteCheck: number;
   /** Sum and count of the per-point sigma estimates (Rᵢ/d2, Sᵢ/c4 or MRᵢ/d2(2)). */
   withinSum: number;
   withinCount: number;
@@ -409,49 +406,102 @@ interface Stats {
 
 function individualsStats(layout: Layout, excluded: Uint8Array | null): Stats {
   const x = layout.values;
+  const sums = excluded === null ? individualSums(x) : individualSumsExcluding(x, excluded);
+  const d2 = sums.mrCount > 0 ? d2Of(2) : 1;
+  return {
+    location: x, dispersion: null, hasDispersion: null, keptValues: sums.kept, keptSum: sums.sum, shift: sums.shift,
+    shiftedSum: sums.d1, shiftedSquares: sums.d2, finiteCheck: sums.sum + sums.d2,
+    withinSum: sums.mrSum / d2, withinCount: sums.mrCount, singleValueSubgroups: 0,
+  };
+}
+
+interface IndividualSums {
+  kept: number;
+  sum: number;
+  shift: number;
+  d1: number;
+  d2: number;
+  mrSum: number;
+  mrCount: number;
+}
+
+// The passes over the values are functions with nothing after their loop: code after a long loop
+// would be optimised without type information and fall back to the interpreter on every call.
+function individualSums(x: Float64Array): IndividualSums {
   const n = x.length;
-  const mr = new Float64Array(n);
-  const has = new Uint8Array(n);
+  const shift = n > 0 ? x[0] : 0;
+  let sum = shift;
+  let d1 = 0;
+  let d2 = 0;
+  let mrSum = 0;
+  let previous = shift;
+  for (let i = 1; i < n; i++) {
+    const v = x[i];
+    mrSum += Math.abs(v - previous);
+    const d = v - shift;
+    sum += v;
+    d1 += d;
+    d2 += d * d;
+    previous = v;
+  }
+  return { kept: n, sum, shift, d1, d2, mrSum, mrCount: Math.max(0, n - 1) };
+}
+
+function individualSumsExcluding(x: Float64Array, excluded: Uint8Array): IndividualSums {
+  const n = x.length;
+  const shift = n > 0 ? x[0] : 0;
   let sum = 0;
+  let d1 = 0;
+  let d2 = 0;
   let kept = 0;
   let mrSum = 0;
   let mrCount = 0;
-  if (excluded === null) {
-    let previous = n > 0 ? x[0] : 0;
-    sum = previous;
-    if (previous - previous !== 0) throw notFinite(x, 0);
-    for (let i = 1; i < n; i++) {
-      const v = x[i];
-      // v − v is 0 for a finite number and NaN for NaN and ±Infinity.
-      if (v - v !== 0) throw notFinite(x, i);
-      const r = Math.abs(v - previous);
-      mr[i] = r;
-      has[i] = 1;
-      mrSum += r;
-      sum += v;
-      previous = v;
+  for (let i = 0; i < n; i++) {
+    const v = x[i];
+    if (excluded[i] === 1) {
+      sum += v - v; // carries NaN and ±Infinity into the finiteness check
+      continue;
     }
-    kept = n;
-    mrCount = Math.max(0, n - 1);
-  } else {
-    for (let i = 0; i < n; i++) {
-      if (x[i] - x[i] !== 0) throw notFinite(x, i);
-      if (i > 0) {
-        mr[i] = Math.abs(x[i] - x[i - 1]);
-        has[i] = 1;
-        if (excluded[i] === 0 && excluded[i - 1] === 0) {
-          mrSum += mr[i];
-          mrCount++;
-        }
-      }
-      if (excluded[i] === 0) {
-        sum += x[i];
-        kept++;
-      }
+    if (i > 0 && excluded[i - 1] === 0) {
+      mrSum += Math.abs(v - x[i - 1]);
+      mrCount++;
     }
+    const d = v - shift;
+    sum += v;
+    d1 += d;
+    d2 += d * d;
+    kept++;
   }
-  const d2 = mrCount > 0 ? d2Of(2) : 1;
-  return { location: x, dispersion: mr, hasDispersion: has, keptValues: kept, keptSum: sum, withinSum: mrSum / d2, withinCount: mrCount, singleValueSubgroups: 0 };
+  return { kept, sum, shift, d1, d2, mrSum, mrCount };
+}
+
+function pointColumns(count: number, size: Int32Array | null, stats: Stats, excluded: Uint8Array | null, perPoint: PointColumns['perPoint']): PointColumns {
+  const { location, dispersion, hasDispersion } = stats;
+  if (dispersion !== null && hasDispersion !== null) return { count, size, location, dispersion, hasDispersion, excluded, perPoint };
+  // I–MR: the moving ranges are a function of the values, so they are only built when read.
+  let movingRange: Float64Array | undefined;
+  let has: Uint8Array | undefined;
+  return {
+    count, size, location, excluded, perPoint,
+    get dispersion() {
+      movingRange ??= movingRanges(location);
+      return movingRange;
+    },
+    get hasDispersion() {
+      if (has === undefined) {
+        has = new Uint8Array(count).fill(1);
+        if (count > 0) has[0] = 0;
+      }
+      return has;
+    },
+  };
+}
+
+/** |xᵢ − xᵢ₋₁| for i ≥ 1; entry 0 has no moving range and holds 0. */
+function movingRanges(x: Float64Array): Float64Array {
+  const mr = new Float64Array(x.length);
+  for (let i = 1; i < x.length; i++) mr[i] = Math.abs(x[i] - x[i - 1]);
+  return mr;
 }
 
 function subgroupStats(layout: Layout, chart: ChartType, excluded: Uint8Array | null): Stats {
@@ -463,6 +513,10 @@ function subgroupStats(layout: Layout, chart: ChartType, excluded: Uint8Array | 
   const useRange = chart === 'xbar-r';
   let keptValues = 0;
   let keptSum = 0;
+  const shift = x.length > 0 ? x[0] : 0;
+  let shiftedSum = 0;
+  let shiftedSquares = 0;
+  let finiteCheck = 0;
   let withinSum = 0;
   let withinCount = 0;
   let singles = 0;
@@ -473,17 +527,24 @@ function subgroupStats(layout: Layout, chart: ChartType, excluded: Uint8Array | 
     const n = layout.offsets === null ? layout.size : layout.offsets[g + 1] - start;
     const end = start + n;
     let sum = 0;
+    let d1 = 0;
+    let d2 = 0;
     for (let j = start; j < end; j++) {
       const v = x[j];
-      if (v - v !== 0) throw notFinite(x, j);
       sum += v;
+      const d = v - shift;
+      d1 += d;
+      d2 += d * d;
     }
     const m = sum / n;
+    finiteCheck += d2;
     means[g] = m;
     const kept = excluded === null || excluded[g] === 0;
     if (kept) {
       keptSum += sum;
       keptValues += n;
+      shiftedSum += d1;
+      shiftedSquares += d2;
     }
     if (n < 2) {
       singles++;
@@ -518,7 +579,20 @@ function subgroupStats(layout: Layout, chart: ChartType, excluded: Uint8Array | 
       withinCount++;
     }
   }
-  return { location: means, dispersion: spread, hasDispersion: has, keptValues, keptSum, withinSum, withinCount, singleValueSubgroups: singles };
+  return { location: means, dispersion: spread, hasDispersion: has, keptValues, keptSum, shift, finiteCheck, shiftedSum, shiftedSquares, withinSum, withinCount, singleValueSubgroups: singles };
+}
+
+/**
+ * Sample variance of the kept values from the sums about the first value, taken in the same pass as
+ * the chart statistics. That is exact enough while the first value lies within a hundred standard
+ * deviations of the mean; otherwise a second pass about the mean is made.
+ */
+function overallVariance(stats: Stats, layout: Layout, excluded: Uint8Array | null, mean: number): number {
+  const n = stats.keptValues;
+  const variance = Math.max(0, (stats.shiftedSquares - (stats.shiftedSum * stats.shiftedSum) / n) / (n - 1));
+  const offset = mean - stats.shift;
+  if (offset * offset <= 1e4 * variance) return variance;
+  return sumSquaredDeviations(layout, excluded, mean) / (n - 1);
 }
 
 function sumSquaredDeviations(layout: Layout, excluded: Uint8Array | null, mean: number): number {

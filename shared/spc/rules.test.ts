@@ -5,13 +5,13 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { computeChart } from './charts';
-import { EXTENDED_RULES, locationViolations, resolveRules, ruleDescriptions, type RuleId, type Violation } from './rules';
+import { EXTENDED_RULES, findViolations, resolveRules, ruleDescriptions, type RuleId, type Violation } from './rules';
 
 /** Violations of a sequence judged against centre 0 and sigma 1. */
 function judge(values: number[], rules: readonly RuleId[] = EXTENDED_RULES, skip: number[] | null = null): Violation[] {
   const out: Violation[] = [];
   const mask = skip === null ? null : Uint8Array.from(values, (_, i) => (skip.includes(i) ? 1 : 0));
-  locationViolations({ values: Float64Array.from(values), center: 0, sigma: 1, skip: mask }, rules, out);
+  findViolations({ values: Float64Array.from(values), center: 0, sigma: 1, skip: mask }, null, rules, out);
   return out;
 }
 

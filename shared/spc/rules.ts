@@ -51,11 +51,6 @@ export function resolveRules(selection: RuleSelection | undefined): RuleId[] {
   return [...new Set(selection)].sort((a, b) => RULE_ORDER[a] - RULE_ORDER[b]);
 }
 
-/** Orders violations by point, then location before dispersion, then rule. */
-export function compareViolations(a: Violation, b: Violation): number {
-  return a.index - b.index || (a.chart === b.chart ? 0 : a.chart === 'location' ? -1 : 1) || RULE_ORDER[a.rule] - RULE_ORDER[b.rule];
-}
-
 /** A comparison result used as a 0/1 number without a branch (a branch on random data would
  *  mispredict at every other point). */
 const bit = (b: boolean): number => +b;
@@ -80,89 +75,166 @@ export interface LocationSeries {
   skip: ArrayLike<number> | null;
 }
 
+export interface DispersionSeries {
+  /** Ranges or standard deviations; null for the moving ranges of the location values, which are
+   *  then computed on the way. */
+  values: ArrayLike<number> | null;
+  ucl: number | ArrayLike<number>;
+  lcl: number | ArrayLike<number>;
+  /** 1 marks a point that has a dispersion value and is judged. Null with moving ranges: a moving
+   *  range is judged when both of its points are. */
+  judged: ArrayLike<number> | null;
+}
+
 /** The judged points ending at `index`, `length` of them. */
 function patternPoints(index: number, length: number, skip: ArrayLike<number> | null): number[] {
   const out = new Array<number>(length);
+  if (skip === null) {
+    for (let k = 0, i = index - length + 1; k < length; k++, i++) out[k] = i;
+    return out;
+  }
   let i = index;
   for (let k = length - 1; k >= 0; k--, i--) {
-    if (skip !== null) while (skip[i] === 1) i--;
+    while (skip[i] === 1) i--;
     out[k] = i;
   }
   return out;
 }
 
+/** State of the pass over the points, carried from one block to the next. */
+interface Scan {
+  values: ArrayLike<number>;
+  skip: ArrayLike<number> | null;
+  center: number;
+  sigma: number;
+  sigmas: ArrayLike<number> | null;
+  /** Dispersion chart: judged by we1 when `hasSpread`; `spreadValues` null for moving ranges. */
+  hasSpread: boolean;
+  spreadValues: ArrayLike<number> | null;
+  spreadJudged: ArrayLike<number> | null;
+  ucl: number;
+  lcl: number;
+  uclArray: ArrayLike<number> | null;
+  lclArray: ArrayLike<number> | null;
+  /** Next point to read, the previous judged value and its index. */
+  next: number;
+  previous: number;
+  lastIndex: number;
+}
+
+const WORDS = 10;
+const [W_A, W_B, W_H1, W_L1, W_H2, W_L2, W_U, W_D, W_E1, W_R1] = [0, 1, 2, 3, 4, 5, 6, 7, 8, 9];
+
 /**
- * Appends the location-chart violations of the selected rules to `out`, in point order.
+ * Reads the next (up to) 32 judged points and sets the block's bit words: above / below the centre
+ * line, beyond ±1σ, beyond ±2σ, a step up / down, beyond a control limit, and a dispersion value
+ * beyond its limits. Returns how many points the block holds. A function of its own, called once per
+ * block, so that the optimiser compiles it whole.
+ */
+function scanBlock(st: Scan, words: Int32Array, position: Int32Array): number {
+  const { values, skip, center: c, sigmas, hasSpread, spreadValues, spreadJudged, uclArray, lclArray } = st;
+  const n = values.length;
+  // The zone lines use the same expressions as the reported limits, so that a point lying exactly on
+  // a reported limit compares equal to it.
+  let s = st.sigma;
+  let plus1 = c + s, plus2 = c + 2 * s, plus3 = c + 3 * s, minus1 = c - s, minus2 = c - 2 * s, minus3 = c - 3 * s;
+  let ucl = st.ucl;
+  let lcl = st.lcl;
+  let previous = st.previous;
+  let lastIndex = st.lastIndex;
+  let i = st.next;
+  let A = 0, B = 0, H1 = 0, L1 = 0, H2 = 0, L2 = 0, U = 0, D = 0, E1 = 0, R1 = 0;
+  let j = 0;
+  for (; j < 32 && i < n; i++) {
+    if (skip !== null && skip[i] === 1) continue;
+    const x = values[i];
+    if (sigmas !== null) {
+      s = sigmas[i];
+      plus1 = c + s; plus2 = c + 2 * s; plus3 = c + 3 * s; minus1 = c - s; minus2 = c - 2 * s; minus3 = c - 3 * s;
+    }
+    // Shifting by a constant is markedly cheaper than setting bit j.
+    A = (A << 1) | bit(x > c);
+    B = (B << 1) | bit(x < c);
+    H1 = (H1 << 1) | bit(x > plus1);
+    L1 = (L1 << 1) | bit(x < minus1);
+    H2 = (H2 << 1) | bit(x > plus2);
+    L2 = (L2 << 1) | bit(x < minus2);
+    U = (U << 1) | bit(x > previous);
+    D = (D << 1) | bit(x < previous);
+    E1 = (E1 << 1) | bit(x > plus3) | bit(x < minus3);
+    if (hasSpread) {
+      if (uclArray !== null) ucl = uclArray[i];
+      if (lclArray !== null) lcl = lclArray[i];
+      if (spreadValues !== null && spreadJudged !== null) {
+        const d = spreadValues[i];
+        R1 = (R1 << 1) | ((bit(d > ucl) | bit(d < lcl)) & spreadJudged[i]);
+      } else {
+        const d = Math.abs(x - previous);
+        R1 = (R1 << 1) | ((bit(d > ucl) | bit(d < lcl)) & bit(lastIndex === i - 1));
+      }
+    }
+    previous = x;
+    lastIndex = i;
+    position[j++] = i;
+  }
+  if (j < 32) {
+    // Only the last block can be short: align its oldest point with bit 31 like a full block's.
+    const gap = 32 - j;
+    A <<= gap; B <<= gap; H1 <<= gap; L1 <<= gap; H2 <<= gap; L2 <<= gap; U <<= gap; D <<= gap; E1 <<= gap; R1 <<= gap;
+  }
+  words[W_A] = A; words[W_B] = B; words[W_H1] = H1; words[W_L1] = L1; words[W_H2] = H2;
+  words[W_L2] = L2; words[W_U] = U; words[W_D] = D; words[W_E1] = E1; words[W_R1] = R1;
+  st.next = i;
+  st.previous = previous;
+  st.lastIndex = lastIndex;
+  return j;
+}
+
+/**
+ * Appends the violations of the selected rules to `out`, ordered by point, location chart before
+ * dispersion chart, then rule. The dispersion chart, when given, is judged by rule we1 only.
  *
  * The judged points are taken 32 at a time. One pass sets, per block, a bit word for each point
- * property (above or below the centre line, beyond ±1σ or ±2σ, a step up or down from the previous
- * point); every pattern is then a handful of shifts and ANDs of those words, with the previous
+ * property; every pattern is then a handful of shifts and ANDs of those words, with the previous
  * block's words supplying the points before the block.
  */
-export function locationViolations(series: LocationSeries, rules: readonly RuleId[], out: Violation[]): void {
+export function findViolations(series: LocationSeries, dispersion: DispersionSeries | null, rules: readonly RuleId[], out: Violation[]): void {
   const on = new Set(rules);
   if (on.size === 0) return;
-  const { values, center: c, skip } = series;
-  const sigmas = typeof series.sigma === 'number' ? null : series.sigma;
-  const constSigma = typeof series.sigma === 'number' ? series.sigma : 0;
-  // The zone lines are computed with the same expressions as the reported limits, so that a point
-  // lying exactly on a reported limit compares equal to it.
-  let plus1 = c + constSigma;
-  let plus2 = c + 2 * constSigma;
-  let plus3 = c + 3 * constSigma;
-  let minus1 = c - constSigma;
-  let minus2 = c - 2 * constSigma;
-  let minus3 = c - 3 * constSigma;
+  const { values, skip } = series;
+  const spread = on.has('we1') ? dispersion : null;
+  const st: Scan = {
+    values, skip, center: series.center,
+    sigma: typeof series.sigma === 'number' ? series.sigma : 0,
+    sigmas: typeof series.sigma === 'number' ? null : series.sigma,
+    hasSpread: spread !== null,
+    spreadValues: spread === null ? null : spread.values,
+    spreadJudged: spread === null ? null : spread.judged,
+    ucl: spread !== null && typeof spread.ucl === 'number' ? spread.ucl : 0,
+    lcl: spread !== null && typeof spread.lcl === 'number' ? spread.lcl : 0,
+    uclArray: spread === null || typeof spread.ucl === 'number' ? null : spread.ucl,
+    lclArray: spread === null || typeof spread.lcl === 'number' ? null : spread.lcl,
+    next: 0, previous: NaN, lastIndex: -2,
+  };
   const masks = {
     we1: on.has('we1') ? -1 : 0, we2: on.has('we2') ? -1 : 0, we3: on.has('we3') ? -1 : 0, we4: on.has('we4') ? -1 : 0,
     trend: on.has('trend') ? -1 : 0, alternating: on.has('alternating') ? -1 : 0, hugging: on.has('hugging') ? -1 : 0, mixture: on.has('mixture') ? -1 : 0,
   };
 
+  const words = new Int32Array(WORDS);
   const position = new Int32Array(32); // k-th judged point of the block → point index (bit 31 − k)
   // Previous block's words (and the partial ANDs the patterns reuse).
   let pA = 0, pB = 0, pA2 = 0, pB2 = 0, pA4 = 0, pB4 = 0;
   let pH1 = 0, pL1 = 0, pH2 = 0, pL2 = 0;
   let pU = 0, pD = 0, pU2 = 0, pD2 = 0, pZ = 0, pZ2 = 0, pZ4 = 0;
   let pI = 0, pI2 = 0, pI4 = 0, pO = 0, pO2 = 0, pO4 = 0;
-  let previous = NaN;
   const n = values.length;
-  let i = 0;
-  while (i < n) {
-    let A = 0, B = 0, H1 = 0, L1 = 0, H2 = 0, L2 = 0, U = 0, D = 0, E1 = 0;
-    let j = 0;
-    for (; j < 32 && i < n; i++) {
-      if (skip !== null && skip[i] === 1) continue;
-      const x = values[i];
-      if (sigmas !== null) {
-        const s = sigmas[i];
-        plus1 = c + s;
-        plus2 = c + 2 * s;
-        plus3 = c + 3 * s;
-        minus1 = c - s;
-        minus2 = c - 2 * s;
-        minus3 = c - 3 * s;
-      }
-      // Shifting by a constant is markedly cheaper than setting bit j.
-      A = (A << 1) | bit(x > c);
-      B = (B << 1) | bit(x < c);
-      H1 = (H1 << 1) | bit(x > plus1);
-      L1 = (L1 << 1) | bit(x < minus1);
-      H2 = (H2 << 1) | bit(x > plus2);
-      L2 = (L2 << 1) | bit(x < minus2);
-      U = (U << 1) | bit(x > previous);
-      D = (D << 1) | bit(x < previous);
-      E1 = (E1 << 1) | bit(x > plus3) | bit(x < minus3);
-      previous = x;
-      position[j++] = i;
-    }
+  while (st.next < n) {
+    const j = scanBlock(st, words, position);
     if (j === 0) break;
-    let valid = -1;
-    if (j < 32) {
-      // Only the last block can be short: align its oldest point with bit 31 like a full block's.
-      const gap = 32 - j;
-      A <<= gap; B <<= gap; H1 <<= gap; L1 <<= gap; H2 <<= gap; L2 <<= gap; U <<= gap; D <<= gap; E1 <<= gap;
-      valid = ~((1 << gap) - 1);
-    }
+    const A = words[W_A], B = words[W_B], H1 = words[W_H1], L1 = words[W_L1], H2 = words[W_H2];
+    const L2 = words[W_L2], U = words[W_U], D = words[W_D], E1 = words[W_E1], R1 = words[W_R1];
+    const valid = j === 32 ? -1 : ~((1 << (32 - j)) - 1);
 
     const A2 = A & back(A, pA, 1), B2 = B & back(B, pB, 1);
     const A4 = A2 & back(A2, pA2, 2), B4 = B2 & back(B2, pB2, 2);
@@ -193,7 +265,7 @@ export function locationViolations(series: LocationSeries, rules: readonly RuleI
       we1: E1 & masks.we1, we2: we2 & masks.we2, we3: we3 & masks.we3, we4: we4 & masks.we4,
       trend: trend & masks.trend, alternating: alternating & masks.alternating, hugging: hugging & masks.hugging, mixture: mixture & masks.mixture,
     };
-    let any = (hit.we1 | hit.we2 | hit.we3 | hit.we4 | hit.trend | hit.alternating | hit.hugging | hit.mixture) & valid;
+    let any = (hit.we1 | hit.we2 | hit.we3 | hit.we4 | hit.trend | hit.alternating | hit.hugging | hit.mixture | R1) & valid;
     while (any !== 0) {
       const b = 31 - Math.clz32(any); // the oldest point first
       any ^= 1 << b;
@@ -218,41 +290,12 @@ export function locationViolations(series: LocationSeries, rules: readonly RuleI
       if ((hit.alternating >>> b) & 1) out.push({ rule: 'alternating', chart, index, points: patternPoints(index, 14, skip) });
       if ((hit.hugging >>> b) & 1) out.push({ rule: 'hugging', chart, index, points: patternPoints(index, 15, skip) });
       if ((hit.mixture >>> b) & 1) out.push({ rule: 'mixture', chart, index, points: patternPoints(index, 8, skip) });
+      if ((R1 >>> b) & 1) out.push({ rule: 'we1', chart: 'dispersion', index, points: [index] });
     }
 
     pA = A; pB = B; pA2 = A2; pB2 = B2; pA4 = A4; pB4 = B4;
     pH1 = H1; pL1 = L1; pH2 = H2; pL2 = L2;
     pU = U; pD = D; pU2 = U2; pD2 = D2; pZ = Z; pZ2 = Z2; pZ4 = Z4;
     pI = I; pI2 = I2; pI4 = I4; pO = O; pO2 = O2; pO4 = O4;
-  }
-}
-
-export interface DispersionSeries {
-  /** Ranges, standard deviations or moving ranges. */
-  values: ArrayLike<number>;
-  ucl: number | ArrayLike<number>;
-  lcl: number | ArrayLike<number>;
-  /** 1 marks a point that has a dispersion value and is judged. */
-  judged: ArrayLike<number>;
-}
-
-/** Rule we1 on the dispersion chart: a range, standard deviation or moving range outside its limits. */
-export function dispersionViolations(series: DispersionSeries, out: Violation[]): void {
-  const { values, judged } = series;
-  const n = values.length;
-  if (typeof series.ucl === 'number' && typeof series.lcl === 'number') {
-    const ucl = series.ucl;
-    const lcl = series.lcl;
-    for (let i = 0; i < n; i++) {
-      const v = values[i];
-      if ((bit(v > ucl) | bit(v < lcl)) !== 0 && judged[i] === 1) out.push({ rule: 'we1', chart: 'dispersion', index: i, points: [i] });
-    }
-    return;
-  }
-  for (let i = 0; i < n; i++) {
-    const v = values[i];
-    const ucl = typeof series.ucl === 'number' ? series.ucl : series.ucl[i];
-    const lcl = typeof series.lcl === 'number' ? series.lcl : series.lcl[i];
-    if ((v > ucl || v < lcl) && judged[i] === 1) out.push({ rule: 'we1', chart: 'dispersion', index: i, points: [i] });
   }
 }
