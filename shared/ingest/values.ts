@@ -42,9 +42,10 @@ export function localToUtcMs(y: number, mo: number, d: number, h: number, mi: nu
 const isoPattern = /^(\d{4})-(\d{2})-(\d{2})(?:[T ](\d{2}):(\d{2})(?::(\d{2})(?:\.\d+)?)?)?\s*(Z|[+-]\d{2}:?\d{2})?$/i;
 const europeanPattern = /^(\d{1,2})\.(\d{1,2})\.(\d{4})(?:\s+(\d{1,2}):(\d{2})(?::(\d{2}))?)?$/;
 
+const daysInMonth = (y: number, mo: number) => (mo === 2 ? (y % 4 === 0 && (y % 100 !== 0 || y % 400 === 0) ? 29 : 28) : [4, 6, 9, 11].includes(mo) ? 30 : 31);
+
 function validDate(y: number, mo: number, d: number, h: number, mi: number, s: number): boolean {
-  const t = new Date(Date.UTC(y, mo - 1, d, h, mi, s));
-  return t.getUTCFullYear() === y && t.getUTCMonth() === mo - 1 && t.getUTCDate() === d && h < 24 && mi < 60 && s < 60;
+  return y >= 1900 && y <= 2999 && mo >= 1 && mo <= 12 && d >= 1 && d <= daysInMonth(y, mo) && h < 24 && mi < 60 && s < 60;
 }
 
 /**
@@ -53,16 +54,19 @@ function validDate(y: number, mo: number, d: number, h: number, mi: number, s: n
  */
 export function parsePlantDateTime(cell: string, timeZone: string): number | null {
   const text = cell.trim();
-  let y: number, mo: number, d: number, h: number, mi: number, s: number, zone: string | undefined;
   const iso = isoPattern.exec(text);
   const eu = iso ? null : europeanPattern.exec(text);
-  if (iso) {
-    [y, mo, d, h, mi, s] = [iso[1], iso[2], iso[3], iso[4] ?? '0', iso[5] ?? '0', iso[6] ?? '0'].map(Number) as [number, number, number, number, number, number];
-    zone = iso[7];
-  } else if (eu) {
-    [d, mo, y, h, mi, s] = [eu[1], eu[2], eu[3], eu[4] ?? '0', eu[5] ?? '0', eu[6] ?? '0'].map(Number) as [number, number, number, number, number, number];
-  } else return null;
+  const m = iso ?? eu;
+  if (!m) return null;
+  // Group order differs: ISO is year-month-day, the European form day.month.year.
+  const y = Number(iso ? m[1] : m[3]);
+  const mo = Number(m[2]);
+  const d = Number(iso ? m[3] : m[1]);
+  const h = Number(m[4] ?? 0);
+  const mi = Number(m[5] ?? 0);
+  const s = Number(m[6] ?? 0);
   if (!validDate(y, mo, d, h, mi, s)) return null;
+  const zone = iso ? iso[7] : undefined;
   if (zone) {
     const offset = zone.toUpperCase() === 'Z' ? 0 : (zone[0] === '-' ? -1 : 1) * (Number(zone.slice(1, 3)) * 60 + Number(zone.slice(-2)));
     return Date.UTC(y, mo - 1, d, h, mi, s) - offset * 60_000;

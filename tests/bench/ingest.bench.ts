@@ -64,6 +64,8 @@ export async function run() {
       body: JSON.stringify({ email: 'technician@harrowvale.example', password: 'prismline-demo' }),
     }).then((r) => r.json());
     const rssBefore = peakRssMb(server.pid!);
+    // Restart the peak-RSS count (Linux clear_refs 5) so the figure is the upload's, not the demo seed's.
+    writeFileSync(`/proc/${server.pid}/clear_refs`, '5');
 
     const form = new FormData();
     form.append('file', new Blob([csv], { type: 'text/csv' }), 'bench.csv');
@@ -95,7 +97,7 @@ export async function run() {
         name: 'ingest: server peak memory (MB)',
         ratio: rssPeak / 300,
         target: '≤ 1 (300 MB)',
-        detail: `peak RSS ${rssPeak.toFixed(0)} MB (before upload ${rssBefore.toFixed(0)} MB)`,
+        detail: `peak RSS during the upload ${rssPeak.toFixed(0)} MB (peak before it, seeding included: ${rssBefore.toFixed(0)} MB)`,
       },
     ];
   } finally {
