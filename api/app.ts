@@ -18,7 +18,14 @@ import { measurementsRouter } from './routes/measurements/router';
 import { columnMappingsRouter } from './routes/column-mappings/router';
 import { chartsRouter } from './routes/charts/router';
 import { overviewRouter } from './routes/overview/router';
+import { spcRunsRouter } from './routes/spc-runs/router';
+import { alarmsRouter } from './routes/alarms/router';
+import { subscriptionsRouter } from './routes/subscriptions/router';
+import { devRouter } from './routes/dev/router';
 import { noIngestHooks, type IngestHooks } from './ingest/hooks';
+import { lazyQueue, type SpcQueue } from './spc/queue';
+import type { FakeSmtp } from './mail/fake-smtp';
+import { mailSettings } from './mail/settings';
 
 export const webDist = resolve(import.meta.dirname, '..', 'web', 'dist');
 
@@ -29,9 +36,15 @@ export interface AppDeps {
   serveWeb?: boolean;
   /** Follow-up work after results are stored (alarms, SPC runs). */
   ingestHooks?: IngestHooks;
+  /** Queue that SPC runs are started on; by default one on the app's pool, started on first use. */
+  spcQueue?: SpcQueue;
+  /** The local fake SMTP server when it is in use: its messages are listed under /api/v1/dev/outbox. */
+  fakeSmtp?: FakeSmtp | null;
+  /** Address of the web app in alarm links. */
+  publicUrl?: string;
 }
 
-export function createApp({ db, config, serveWeb = true, ingestHooks = noIngestHooks }: AppDeps): Express {
+export function createApp({ db, config, serveWeb = true, ingestHooks = noIngestHooks, spcQueue, fakeSmtp = null, publicUrl = mailSettings().publicUrl }: AppDeps): Express {
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
@@ -65,6 +78,10 @@ export function createApp({ db, config, serveWeb = true, ingestHooks = noIngestH
   app.use('/api/v1/column-mappings', columnMappingsRouter(db));
   app.use('/api/v1/characteristics', chartsRouter(db));
   app.use('/api/v1/overview', overviewRouter(db));
+  app.use('/api/v1/spc-runs', spcRunsRouter(db, spcQueue ?? lazyQueue(db.$client)));
+  app.use('/api/v1/alarms', alarmsRouter(db, publicUrl));
+  app.use('/api/v1/subscriptions', subscriptionsRouter(db));
+  if (fakeSmtp) app.use('/api/v1/dev', devRouter(fakeSmtp));
   app.use('/api/v1', catalogueRouter(db));
   app.use('/api', notFoundApi);
 

@@ -5,6 +5,7 @@ import { migrateDatabase } from './db/migrate';
 import { seedDemo } from './db/seed';
 import { createApp } from './app';
 import { logger } from './logger';
+import { startBackground } from '../jobs/background';
 
 export interface RunningServer {
   server: Server;
@@ -19,7 +20,8 @@ export async function startServer(config: Config = loadConfig()): Promise<Runnin
   const db = createDatabase(config.databaseUrl);
   await migrateDatabase(db.$client);
   if (config.mode === 'demo') await seedDemo(db);
-  const app = createApp({ db, config });
+  const background = await startBackground(db, { databaseUrl: config.databaseUrl, publicUrl: config.publicUrl });
+  const app = createApp({ db, config, ingestHooks: background.ingestHooks, spcQueue: background.queue, fakeSmtp: background.fakeSmtp, publicUrl: config.publicUrl });
   const server = await new Promise<Server>((resolvePromise, reject) => {
     const s = app.listen(config.port, config.host, () => resolvePromise(s));
     s.on('error', reject);
@@ -36,6 +38,7 @@ export async function startServer(config: Config = loadConfig()): Promise<Runnin
     async close() {
       await new Promise<void>((r) => server.close(() => r()));
       server.closeAllConnections();
+      await background.stop();
       await db.$client.end();
     },
   };

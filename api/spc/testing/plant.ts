@@ -69,3 +69,12 @@ export async function userIdByEmail(db: Database, email: string): Promise<number
   const res = await db.execute<{ id: number }>(sql`select id from users where lower(email) = lower(${email})`);
   return res.rows[0].id;
 }
+
+/** A run with its items but no queue jobs, for tests that call runCharacteristic themselves. */
+export async function createRunRow(db: Database, characteristicIds: number[]): Promise<number> {
+  const res = await db.execute<{ id: number }>(sql`
+    insert into spc_runs (kind, trigger, characteristics) values ('incremental', 'manual', ${characteristicIds.length}) returning id`);
+  const runId = res.rows[0].id;
+  await db.execute(sql`insert into spc_run_items (run_id, characteristic_id) select ${runId}, unnest(${sql.param(characteristicIds)}::int[])`);
+  return runId;
+}

@@ -1,0 +1,122 @@
+// Who is told about which alarm: immediate messages go into the outbox in the transaction that
+// raised the alarm; the digest collects a plant's new alarms of the last 24 hours.
+import { sql } from 'drizzle-orm';
+import type { Executor } from '../spc/db';
+import { arr } from '../spc/db';
+import { composeAlarmMail, composeDigest, type AlarmMailFacts, type DigestEntry } from './compose';
+
+type FactsRow = {
+  alarm_id: number;
+  rule: string;
+  characteristic_id: number;
+  code: string;
+  name: string;
+  unit: string;
+  decimals: number;
+  product_code: string;
+  product_name: string;
+  line_code: string | null;
+  lot_number: string;
+  produced_at: Date;
+  shift: string | null;
+  point_index: number;
+  statistic: number;
+  values: number[];
+  limit_name: string | null;
+  limit_value: number | null;
+  description: string;
+  late_reason: string | null;
+  created_at: Date;
+  user_id: number;
+  email: string;
+  scope: string;
+};
+
+const factsOf = (r: FactsRow): AlarmMailFacts => ({
+  alarmId: r.alarm_id,
+  rule: r.rule,
+  characteristicId: r.characteristic_id,
+  characteristicCode: r.code,
+  characteristicName: r.name,
+  unit: r.unit,
+  decimals: r.decimals,
+  productCode: r.product_code,
+  productName: r.product_name,
+  lineCode: r.line_code,
+  lotNumber: r.lot_number,
+  producedAt: new Date(r.produced_at),
+  shift: r.shift,
+  pointIndex: r.point_index,
+  statistic: r.statistic,
+  values: r.values.map(Number),
+  limitName: r.limit_name,
+  limitValue: r.limit_value,
+  description: r.description,
+  lateReason: r.late_reason,
+});
+
+/** Alarms with each active subscriber of their product or line (once per user) who wants `kind`. */
+const subscriberFacts = (kind: 'immediate' | 'digest', where: ReturnType<typeof sql>) => sql`
+  select distinct on (a.id, u.id)
+    a.id as alarm_id, a.rule, a.characteristic_id, c.code, c.name, c.unit, tm.decimals, p.code as product_code, p.name as product_name,
+    pl.code as line_code, l.lot_number, l.produced_at, l.shift, a.point_index, a.statistic, a."values", a.limit_name, a.limit_value,
+    a.description, a.late_reason, a.created_at, u.id as user_id, u.email,
+    case when s.product_id is not null then 'product ' || p.code else 'line ' || pl.code end as scope
+  from alarms a
+  join characteristics c on c.id = a.characteristic_id
+  join test_methods tm on tm.id = c.test_method_id
+  join products p on p.id = c.product_id
+  left join production_lines pl on pl.id = p.line_id
+  join lots l on l.id = a.lot_id
+  join alarm_subscriptions s on s.${sql.raw(kind)} and (s.product_id = p.id or s.line_id = p.line_id)
+  join users u on u.id = s.user_id and u.active
+  where ${where}
+  order by a.id, u.id, s.product_id nulls last`;
+
+/** One message per alarm and subscriber; the dedupe key makes a second call a no-op. */
+export async function queueAlarmMail(tx: Executor, alarmIds: number[], publicUrl: string): Promise<number> {
+  if (!alarmIds.length) return 0;
+  const res = await tx.execute<FactsRow>(subscriberFacts('immediate', sql`a.id = any(${arr(alarmIds)}::int[])`));
+  if (!res.rows.length) return 0;
+  const mails = res.rows.map((r) => ({ r, m: composeAlarmMail(factsOf(r), publicUrl, r.scope) }));
+  const inserted = await tx.execute(sql`
+    insert into mail_outbox (dedupe_key, kind, user_id, to_address, subject, text_body, html_body, alarm_ids)
+    select u.key, 'alarm', u.user_id, u.email, u.subject, u.text_body, u.html_body, array[u.alarm_id]
+    from unnest(${arr(mails.map(({ r }) => `alarm:${r.alarm_id}:user:${r.user_id}`))}::text[], ${arr(mails.map(({ r }) => r.user_id))}::int[],
+                ${arr(mails.map(({ r }) => r.email))}::text[], ${arr(mails.map(({ m }) => m.subject))}::text[], ${arr(mails.map(({ m }) => m.text))}::text[],
+                ${arr(mails.map(({ m }) => m.html))}::text[], ${arr(mails.map(({ r }) => r.alarm_id))}::int[])
+         as u(key, user_id, email, subject, text_body, html_body, alarm_id)
+    on conflict (dedupe_key) do nothing`);
+  return inserted.rowCount ?? 0;
+}
+
+/** The plant's local calendar date of an instant, yyyy-mm-dd. */
+export function localDate(at: Date, timeZone: string): string {
+  return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(at);
+}
+
+/** Queues each digest subscriber's message of the plant's alarms raised in the 24 hours before `now`. */
+export async function queueDigests(db: Executor, opts: { plantId: number; timeZone: string; now: Date; publicUrl: string }): Promise<number> {
+  const from = new Date(opts.now.getTime() - 24 * 3600 * 1000);
+  const day = localDate(opts.now, opts.timeZone);
+  const res = await db.execute<FactsRow>(
+    subscriberFacts('digest', sql`p.plant_id = ${opts.plantId} and a.created_at > ${from.toISOString()}::timestamptz and a.created_at <= ${opts.now.toISOString()}::timestamptz`),
+  );
+  const byUser = new Map<number, { email: string; entries: DigestEntry[] }>();
+  for (const r of res.rows) {
+    const u = byUser.get(r.user_id) ?? { email: r.email, entries: [] };
+    u.entries.push({ ...factsOf(r), createdAt: new Date(r.created_at) });
+    byUser.set(r.user_id, u);
+  }
+  let queued = 0;
+  for (const [userId, u] of byUser) {
+    u.entries.sort((a, b) => a.characteristicCode.localeCompare(b.characteristicCode) || a.pointIndex - b.pointIndex);
+    const m = composeDigest(u.entries, opts.publicUrl, { from, to: opts.now }, day);
+    const r = await db.execute(sql`
+      insert into mail_outbox (dedupe_key, kind, user_id, to_address, subject, text_body, html_body, alarm_ids)
+      values (${`digest:${opts.plantId}:${day}:user:${userId}`}, 'digest', ${userId}, ${u.email}, ${m.subject}, ${m.text}, ${m.html}, ${arr(u.entries.map((e) => e.alarmId))}::int[])
+      on conflict (dedupe_key) do nothing`);
+    queued += r.rowCount ?? 0;
+  }
+  return queued;
+}

@@ -1,0 +1,144 @@
+import { Router } from 'express';
+import { sql } from 'drizzle-orm';
+import { ruleDescriptions, type RuleId } from '../../../shared/spc';
+import type { Database } from '../../db/client';
+import { recordAudit } from '../../db/audit';
+import { HttpError, notFound, parseBody } from '../../http/errors';
+import { requireRole, requireSession } from '../../auth/session';
+import { signalNames, chartLink } from '../../mail/compose';
+import { OUT_OF_SPEC } from '../../spc/alarms';
+import { alarmIdParamsSchema, alarmNoteSchema, listAlarmsQuerySchema } from './schema';
+
+type AlarmRow = {
+  id: number;
+  characteristic_id: number;
+  characteristic_code: string;
+  characteristic_name: string;
+  unit: string;
+  decimals: number;
+  product_code: string;
+  line_code: string | null;
+  lot_id: number;
+  lot_number: string;
+  produced_at: Date;
+  rule: string;
+  chart: string;
+  point_index: number;
+  statistic: number;
+  values: number[];
+  limit_name: string | null;
+  limit_value: number | null;
+  description: string;
+  late: boolean;
+  late_reason: string | null;
+  source: string;
+  run_id: number | null;
+  status: 'open' | 'acknowledged' | 'closed';
+  resolution: string | null;
+  created_at: Date;
+  updated_at: Date;
+  acknowledged_at: Date | null;
+  acknowledged_by: string | null;
+  acknowledge_note: string | null;
+  closed_at: Date | null;
+  closed_by: string | null;
+  close_note: string | null;
+};
+
+const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
+
+function toJson(r: AlarmRow, publicUrl: string) {
+  return {
+    id: r.id,
+    characteristic: { id: r.characteristic_id, code: r.characteristic_code, name: r.characteristic_name, unit: r.unit, decimals: r.decimals, productCode: r.product_code, lineCode: r.line_code },
+    lot: { id: r.lot_id, lotNumber: r.lot_number, producedAt: iso(r.produced_at) },
+    rule: r.rule,
+    signal: signalNames[r.rule] ?? r.rule,
+    ruleDescription: r.rule === OUT_OF_SPEC ? 'The lot’s result lies outside the specification in force when it was produced.' : (ruleDescriptions[r.rule as RuleId] ?? null),
+    chart: r.chart,
+    pointIndex: r.point_index,
+    statistic: r.statistic,
+    values: r.values.map(Number),
+    limitName: r.limit_name,
+    limitValue: r.limit_value,
+    description: r.description,
+    late: r.late,
+    lateReason: r.late_reason,
+    source: r.source,
+    runId: r.run_id,
+    status: r.status,
+    resolution: r.resolution,
+    createdAt: iso(r.created_at),
+    updatedAt: iso(r.updated_at),
+    acknowledgedAt: iso(r.acknowledged_at),
+    acknowledgedBy: r.acknowledged_by,
+    acknowledgeNote: r.acknowledge_note,
+    closedAt: iso(r.closed_at),
+    closedBy: r.closed_by,
+    closeNote: r.close_note,
+    chartUrl: chartLink(publicUrl, r.characteristic_id, r.point_index),
+  };
+}
+export type AlarmJson = ReturnType<typeof toJson>;
+
+const select = sql`
+  select a.id, a.characteristic_id, c.code as characteristic_code, c.name as characteristic_name, c.unit, tm.decimals, p.code as product_code, pl.code as line_code,
+    a.lot_id, l.lot_number, l.produced_at, a.rule, a.chart, a.point_index, a.statistic, a."values", a.limit_name, a.limit_value, a.description, a.late, a.late_reason,
+    a.source, a.run_id, a.status, a.resolution, a.created_at, a.updated_at, a.acknowledged_at, ua.name as acknowledged_by, a.acknowledge_note,
+    a.closed_at, uc.name as closed_by, a.close_note
+  from alarms a
+  join characteristics c on c.id = a.characteristic_id
+  join test_methods tm on tm.id = c.test_method_id
+  join products p on p.id = c.product_id
+  left join production_lines pl on pl.id = p.line_id
+  join lots l on l.id = a.lot_id
+  left join users ua on ua.id = a.acknowledged_by
+  left join users uc on uc.id = a.closed_by`;
+
+/** Alarms: every role reads them; quality managers and admins acknowledge and close them with a note. */
+export function alarmsRouter(db: Database, publicUrl: string): Router {
+  const router = Router();
+  router.use(requireSession);
+
+  router.get('/', async (req, res) => {
+    const q = parseBody(listAlarmsQuerySchema, req.query);
+    const res2 = await db.execute<AlarmRow>(sql`${select}
+      where (${q.status ?? null}::alarm_status is null or a.status = ${q.status ?? null}::alarm_status)
+        and (${q.characteristicId ?? null}::int is null or a.characteristic_id = ${q.characteristicId ?? null}::int)
+      order by a.created_at desc, a.id desc limit ${q.limit}`);
+    const counts = await db.execute<{ status: string; n: number }>(sql`select status, count(*)::int as n from alarms group by status`);
+    res.json({ items: res2.rows.map((r) => toJson(r, publicUrl)), counts: Object.fromEntries(counts.rows.map((c) => [c.status, c.n])) });
+  });
+
+  router.get('/:id', async (req, res) => {
+    const { id } = parseBody(alarmIdParamsSchema, req.params);
+    const r = await db.execute<AlarmRow>(sql`${select} where a.id = ${id}`);
+    if (!r.rows[0]) throw notFound(`Alarm ${id}`);
+    res.json(toJson(r.rows[0], publicUrl));
+  });
+
+  const change = (action: 'acknowledge' | 'close') =>
+    async (req: Parameters<Parameters<Router['post']>[1]>[0], res: Parameters<Parameters<Router['post']>[1]>[1]) => {
+      const { id } = parseBody(alarmIdParamsSchema, req.params);
+      const { note } = parseBody(alarmNoteSchema, req.body);
+      await db.transaction(async (tx) => {
+        const cur = await tx.execute<{ status: string }>(sql`select status from alarms where id = ${id} for update`);
+        if (!cur.rows[0]) throw notFound(`Alarm ${id}`);
+        const status = cur.rows[0].status;
+        if (status === 'closed') throw new HttpError(409, `Alarm ${id} is already closed`);
+        if (action === 'acknowledge' && status !== 'open') throw new HttpError(409, `Alarm ${id} is already acknowledged`);
+        if (action === 'acknowledge') {
+          await tx.execute(sql`update alarms set status = 'acknowledged', acknowledged_at = now(), acknowledged_by = ${req.user!.id}, acknowledge_note = ${note}, updated_at = now() where id = ${id}`);
+        } else {
+          await tx.execute(sql`update alarms set status = 'closed', resolution = 'by-user', closed_at = now(), closed_by = ${req.user!.id}, close_note = ${note}, updated_at = now() where id = ${id}`);
+        }
+        await recordAudit(tx, { actorId: req.user!.id, action, entity: 'alarm', entityId: id, before: { status }, after: { status: action === 'acknowledge' ? 'acknowledged' : 'closed' }, reason: note });
+      });
+      const r = await db.execute<AlarmRow>(sql`${select} where a.id = ${id}`);
+      res.json(toJson(r.rows[0], publicUrl));
+    };
+
+  router.post('/:id/acknowledge', requireRole('quality_manager', 'admin'), change('acknowledge'));
+  router.post('/:id/close', requireRole('quality_manager', 'admin'), change('close'));
+  return router;
+}

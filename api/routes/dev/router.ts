@@ -1,0 +1,13 @@
+import { Router } from 'express';
+import { requireRole, requireSession } from '../../auth/session';
+import type { FakeSmtp } from '../../mail/fake-smtp';
+
+/** Mounted only while the local fake SMTP server is in use: what it has received, newest first. */
+export function devRouter(fake: FakeSmtp): Router {
+  const router = Router();
+  router.use(requireSession, requireRole('admin'));
+  router.get('/outbox', (_req, res) => {
+    res.json({ items: fake.messages().reverse() });
+  });
+  return router;
+}

@@ -1,0 +1,35 @@
+import { Router } from 'express';
+import type { Database } from '../../db/client';
+import { notFound, parseBody } from '../../http/errors';
+import { requireRole, requireSession } from '../../auth/session';
+import { recordAudit } from '../../db/audit';
+import type { SpcQueue } from '../../spc/queue';
+import { getRun, listRuns, startRun } from '../../spc/runs';
+import { listRunsQuerySchema, runIdParamsSchema, startRunSchema } from './schema';
+
+/** SPC runs: every role may watch them; quality managers and admins start them. */
+export function spcRunsRouter(db: Database, queue: SpcQueue): Router {
+  const router = Router();
+  router.use(requireSession);
+
+  router.post('/', requireRole('quality_manager', 'admin'), async (req, res) => {
+    const body = parseBody(startRunSchema, req.body ?? {});
+    const id = await startRun(db, queue, { trigger: 'manual', characteristicIds: body.characteristicIds, requestedBy: req.user!.id });
+    await recordAudit(db, { actorId: req.user!.id, action: 'start', entity: 'spc run', entityId: id, after: { characteristicIds: body.characteristicIds ?? 'all' } });
+    res.status(202).json({ id });
+  });
+
+  router.get('/', async (req, res) => {
+    const { limit } = parseBody(listRunsQuerySchema, req.query);
+    res.json({ items: await listRuns(db, limit) });
+  });
+
+  router.get('/:id', async (req, res) => {
+    const { id } = parseBody(runIdParamsSchema, req.params);
+    const run = await getRun(db, id);
+    if (!run) throw notFound(`SPC run ${id}`);
+    res.json(run);
+  });
+
+  return router;
+}

@@ -1,0 +1,204 @@
+// Alarms: what a chart shows that someone must look at. One row per characteristic, rule, chart and
+// lot (the dedupe key), so a re-run finds the row it raised before instead of raising it again.
+import { sql } from 'drizzle-orm';
+import { ruleDescriptions, type RuleId } from '../../shared/spc';
+import { queueAlarmMail } from '../mail/notify';
+import type { CharacteristicChart, ChartInputs } from './characteristic-chart';
+import { lotResult, specAt } from './characteristic-chart';
+import { arr, type Executor } from './db';
+
+export const OUT_OF_SPEC = 'out-of-spec';
+/** Rules that e-mail subscribers at once; the rest wait for the morning digest. */
+export const IMMEDIATE_RULES: readonly string[] = [OUT_OF_SPEC, 'we1'];
+
+export const DATA_CHANGED_NOTE = 'The data no longer show this signal: a result was voided or corrected, a point was excluded, or the limits changed.';
+
+export interface Finding {
+  lotId: number;
+  rule: RuleId | typeof OUT_OF_SPEC;
+  chart: 'location' | 'dispersion';
+  pointIndex: number;
+  statistic: number;
+  values: number[];
+  limitName: string | null;
+  limitValue: number | null;
+  description: string;
+  /** Set when the point lies before the newest point charted last time. */
+  lateReason: string | null;
+}
+
+const STATISTIC: Record<string, { location: string; dispersion: string }> = {
+  'xbar-r': { location: 'X̄', dispersion: 'R' },
+  'xbar-s': { location: 'X̄', dispersion: 'S' },
+  imr: { location: 'value', dispersion: 'moving range' },
+};
+
+export const lateResultText = (lot: string) =>
+  `Late result: lot ${lot} was tested after later lots were charted, so this signal sits at the lot's earlier position on the chart, not at its end.`;
+export const EARLIER_POSITION_TEXT = 'This signal sits at an earlier position of the chart: the limits were recalculated or earlier data changed.';
+
+export const formatNumber = (v: number, decimals: number) => v.toFixed(Math.max(0, Math.min(6, decimals)));
+const dateOf = (iso: string) => iso.slice(0, 16).replace('T', ' ') + ' UTC';
+
+export interface PreviousSnapshot {
+  /** Production time of the newest lot charted last time. */
+  periodTo: Date | null;
+  computedAt: Date;
+}
+
+/** Everything on the chart that should be an alarm now. */
+export function findingsOf(chart: CharacteristicChart, inputs: ChartInputs, previous: PreviousSnapshot | null): Finding[] {
+  const c = chart.characteristic;
+  const unit = c.unit;
+  const d = c.decimals + 1;
+  const names = STATISTIC[c.chartType];
+  const out: Finding[] = [];
+  const lateReason = (i: number): string | null => {
+    const p = chart.points[i];
+    if (!previous?.periodTo || new Date(p.producedAt).getTime() >= previous.periodTo.getTime()) return null;
+    return inputs.lots[i].lastEnteredAt.getTime() > previous.computedAt.getTime() ? lateResultText(p.lotNumber) : EARLIER_POSITION_TEXT;
+  };
+
+  for (const v of chart.violations) {
+    const p = chart.points[v.index];
+    const isLocation = v.chart === 'location';
+    const statistic = isLocation ? p.location : p.dispersion!;
+    const label = isLocation ? names.location : names.dispersion;
+    let limitName: string | null = null;
+    let limitValue: number | null = null;
+    let what: string;
+    if (v.rule === 'we1') {
+      const ucl = isLocation ? p.ucl : p.dispersionUcl;
+      const lcl = isLocation ? p.lcl : p.dispersionLcl;
+      const above = ucl !== null && statistic > ucl;
+      limitName = above ? 'UCL' : 'LCL';
+      limitValue = above ? ucl : lcl;
+      what = `${label} = ${formatNumber(statistic, d)} ${unit} is ${above ? 'above the upper' : 'below the lower'} control limit ${limitValue === null ? '' : formatNumber(limitValue, d)} ${unit}.`;
+    } else {
+      what = `${ruleDescriptions[v.rule]} The pattern ends here with ${label} = ${formatNumber(statistic, d)} ${unit}.`;
+    }
+    out.push({
+      lotId: p.lotId,
+      rule: v.rule,
+      chart: v.chart,
+      pointIndex: v.index,
+      statistic,
+      values: p.values,
+      limitName,
+      limitValue,
+      description: `Lot ${p.lotNumber} (produced ${dateOf(p.producedAt)}), ${isLocation ? '' : 'dispersion chart, '}${v.rule}: ${what}`,
+      lateReason: lateReason(v.index),
+    });
+  }
+
+  chart.points.forEach((p, i) => {
+    if (!p.outOfSpec) return;
+    const spec = specAt(inputs.specs, new Date(p.producedAt))!;
+    const result = lotResult(p.values);
+    const below = spec.lsl !== null && result < spec.lsl;
+    out.push({
+      lotId: p.lotId,
+      rule: OUT_OF_SPEC,
+      chart: 'location',
+      pointIndex: i,
+      statistic: result,
+      values: p.values,
+      limitName: below ? 'LSL' : 'USL',
+      limitValue: below ? spec.lsl : spec.usl,
+      description: outOfSpecText(p.lotNumber, p.producedAt, result, p.values, below, below ? spec.lsl! : spec.usl!, spec.revision, unit, c.decimals),
+      lateReason: lateReason(i),
+    });
+  });
+  return out;
+}
+
+export function outOfSpecText(lot: string, producedAt: string, result: number, values: number[], below: boolean, limit: number, revision: number, unit: string, decimals: number): string {
+  const of = values.length > 1 ? `, the mean of ${values.length} values (${values.map((v) => formatNumber(v, decimals)).join(', ')}),` : '';
+  return `Lot ${lot} (produced ${dateOf(producedAt)}): the result ${formatNumber(result, decimals + 1)} ${unit}${of} is ${below ? 'below the lower' : 'above the upper'} specification limit ${limit} ${unit} (specification revision ${revision}).`;
+}
+
+type ExistingAlarm = {
+  id: number;
+  rule: string;
+  chart: string;
+  lot_id: number;
+  status: 'open' | 'acknowledged' | 'closed';
+  resolution: string | null;
+  point_index: number;
+  statistic: number;
+  description: string;
+};
+
+const keyOf = (characteristicId: number, rule: string, chart: string, lotId: number) => `${characteristicId}|${rule}|${chart}|${lotId}`;
+
+export interface ReconcileOutcome {
+  raised: number[];
+  reopened: number[];
+  resolved: number[];
+}
+
+/**
+ * Brings the characteristic's alarms in line with its findings: new findings raise alarms, alarms
+ * whose finding is gone are closed as resolved by a data change, moved points are updated.
+ * Nothing is written for an alarm that did not change.
+ */
+export async function reconcileAlarms(
+  tx: Executor,
+  opts: { characteristicId: number; findings: Finding[]; runId: number | null; notify: boolean; publicUrl: string },
+): Promise<ReconcileOutcome> {
+  const existing = await tx.execute<ExistingAlarm>(sql`
+    select id, rule, chart, lot_id, status, resolution, point_index, statistic, description from alarms where characteristic_id = ${opts.characteristicId}`);
+  const byKey = new Map(existing.rows.map((a) => [keyOf(opts.characteristicId, a.rule, a.chart, a.lot_id), a]));
+  const wanted = new Set<string>();
+  const toInsert: Finding[] = [];
+  const toReopen: { id: number; f: Finding }[] = [];
+  const toUpdate: { id: number; f: Finding }[] = [];
+  for (const f of opts.findings) {
+    const key = keyOf(opts.characteristicId, f.rule, f.chart, f.lotId);
+    wanted.add(key);
+    const a = byKey.get(key);
+    if (!a) toInsert.push(f);
+    else if (a.status === 'closed' && a.resolution === 'data-changed') toReopen.push({ id: a.id, f });
+    else if (a.status !== 'closed' && (a.point_index !== f.pointIndex || a.statistic !== f.statistic || a.description !== f.description)) toUpdate.push({ id: a.id, f });
+  }
+  const toResolve = existing.rows.filter((a) => a.status !== 'closed' && !wanted.has(keyOf(opts.characteristicId, a.rule, a.chart, a.lot_id))).map((a) => a.id);
+
+  let raised: number[] = [];
+  if (toInsert.length) {
+    const res = await tx.execute<{ id: number; rule: string }>(sql`
+      insert into alarms (characteristic_id, lot_id, rule, chart, point_index, statistic, "values", limit_name, limit_value, description, late, late_reason, source, run_id)
+      select ${opts.characteristicId}, u.lot_id, u.rule, u.chart, u.point_index, u.statistic, array(select json_array_elements_text(u.vals)::float8), u.limit_name, u.limit_value,
+             u.description, u.late_reason is not null, u.late_reason, 'run', ${opts.runId}::int
+      from unnest(${arr(toInsert.map((f) => f.lotId))}::int[], ${arr(toInsert.map((f) => f.rule))}::text[], ${arr(toInsert.map((f) => f.chart))}::text[],
+                  ${arr(toInsert.map((f) => f.pointIndex))}::int[], ${arr(toInsert.map((f) => f.statistic))}::float8[], ${arr(toInsert.map((f) => JSON.stringify(f.values)))}::json[],
+                  ${arr(toInsert.map((f) => f.limitName))}::text[], ${arr(toInsert.map((f) => f.limitValue))}::float8[], ${arr(toInsert.map((f) => f.description))}::text[],
+                  ${arr(toInsert.map((f) => f.lateReason))}::text[])
+           as u(lot_id, rule, chart, point_index, statistic, vals, limit_name, limit_value, description, late_reason)
+      on conflict (characteristic_id, rule, chart, lot_id) do nothing
+      returning id, rule`);
+    raised = res.rows.map((r) => r.id);
+    if (opts.notify) {
+      const immediate = res.rows.filter((r) => IMMEDIATE_RULES.includes(r.rule)).map((r) => r.id);
+      if (immediate.length) await queueAlarmMail(tx, immediate, opts.publicUrl);
+    }
+  }
+  for (const { id, f } of toReopen) {
+    await tx.execute(sql`
+      update alarms set status = 'open', resolution = null, closed_at = null, closed_by = null, close_note = null, point_index = ${f.pointIndex},
+        statistic = ${f.statistic}, "values" = ${arr(f.values)}::float8[], limit_name = ${f.limitName}, limit_value = ${f.limitValue},
+        description = ${f.description}, late = ${f.lateReason !== null}, late_reason = ${f.lateReason}, run_id = ${opts.runId}::int, updated_at = now()
+      where id = ${id}`);
+  }
+  for (const { id, f } of toUpdate) {
+    await tx.execute(sql`
+      update alarms set point_index = ${f.pointIndex}, statistic = ${f.statistic}, "values" = ${arr(f.values)}::float8[], limit_name = ${f.limitName},
+        limit_value = ${f.limitValue}, description = ${f.description}, updated_at = now()
+      where id = ${id}`);
+  }
+  if (toResolve.length) {
+    await tx.execute(sql`
+      update alarms set status = 'closed', resolution = 'data-changed', closed_at = now(), close_note = ${DATA_CHANGED_NOTE}, updated_at = now()
+      where id = any(${arr(toResolve)}::int[])`);
+  }
+  return { raised, reopened: toReopen.map((r) => r.id), resolved: toResolve };
+}

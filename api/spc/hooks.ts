@@ -1,0 +1,120 @@
+// What happens after results are stored or withdrawn: out-of-specification alarms at once, then an
+// incremental run of the characteristics touched. Neither may fail the upload: errors are logged.
+import { sql } from 'drizzle-orm';
+import type { Database } from '../db/client';
+import type { IngestHooks } from '../ingest/hooks';
+import { logger } from '../logger';
+import { queueAlarmMail } from '../mail/notify';
+import { OUT_OF_SPEC, lateResultText, outOfSpecText } from './alarms';
+import { isOutOfSpec, lotResult, specAt } from './characteristic-chart';
+import { arr, type Executor } from './db';
+import type { SpcQueue } from './queue';
+import { startRun, type RunTrigger } from './runs';
+
+type LotResultRow = {
+  characteristic_id: number;
+  lot_id: number;
+  lot_number: string;
+  produced_at: Date;
+  vals: number[];
+  unit: string;
+  decimals: number;
+};
+
+/** The lot's position on the chart (lots before it in production order) and how many lots come after it. */
+async function positionOf(tx: Executor, characteristicId: number, lotId: number): Promise<{ pointIndex: number; laterLots: number }> {
+  const res = await tx.execute<{ before: number; after: number }>(sql`
+    with pts as (select distinct m.lot_id from measurements m where m.characteristic_id = ${characteristicId} and m.voided_at is null),
+         me as (select produced_at, lot_number from lots where id = ${lotId})
+    select count(*) filter (where o.produced_at < me.produced_at or (o.produced_at = me.produced_at and o.lot_number collate "C" < me.lot_number collate "C"))::int as before,
+           count(*) filter (where o.produced_at > me.produced_at)::int as after
+    from pts join lots o on o.id = pts.lot_id, me`);
+  return { pointIndex: res.rows[0].before, laterLots: res.rows[0].after };
+}
+
+/**
+ * Judges the lots behind new measurements against the specification in force at each lot's
+ * production time and raises an out-of-spec alarm (with its e-mails) for every lot outside it.
+ * The lot's result is the mean of its live replicates, as on the chart. Returns the alarm ids.
+ */
+export async function raiseOutOfSpecAlarms(db: Database, measurementIds: number[], publicUrl: string): Promise<number[]> {
+  if (!measurementIds.length) return [];
+  return db.transaction(async (tx) => {
+    const res = await tx.execute<LotResultRow>(sql`
+      with touched as (select distinct lot_id, characteristic_id from measurements where id = any(${arr(measurementIds)}::int[]))
+      select t.characteristic_id, t.lot_id, l.lot_number, l.produced_at, c.unit, tm.decimals,
+        (select array_agg(m.value order by m.replicate) from measurements m where m.lot_id = t.lot_id and m.characteristic_id = t.characteristic_id and m.voided_at is null) as vals
+      from touched t join lots l on l.id = t.lot_id join characteristics c on c.id = t.characteristic_id join test_methods tm on tm.id = c.test_method_id`);
+    const specRows = await tx.execute<{ characteristic_id: number; revision: number; lsl: number | null; usl: number | null; target: number | null; effective_from: Date }>(sql`
+      select characteristic_id, revision, lsl, usl, target, effective_from from spec_limits
+      where characteristic_id = any(${arr([...new Set(res.rows.map((r) => r.characteristic_id))])}::int[]) order by effective_from, revision`);
+    const specs = new Map<number, { revision: number; lsl: number | null; usl: number | null; target: number | null; effectiveFrom: Date }[]>();
+    for (const s of specRows.rows) {
+      const list = specs.get(s.characteristic_id) ?? [];
+      list.push({ revision: s.revision, lsl: s.lsl, usl: s.usl, target: s.target, effectiveFrom: new Date(s.effective_from) });
+      specs.set(s.characteristic_id, list);
+    }
+
+    const raised: number[] = [];
+    for (const r of res.rows) {
+      if (!r.vals?.length) continue;
+      const values = r.vals.map(Number);
+      const producedAt = new Date(r.produced_at);
+      const spec = specAt(specs.get(r.characteristic_id) ?? [], producedAt);
+      const result = lotResult(values);
+      if (!spec || !isOutOfSpec(result, spec)) continue;
+      const below = spec.lsl !== null && result < spec.lsl;
+      const limit = below ? spec.lsl! : spec.usl!;
+      const description = outOfSpecText(r.lot_number, producedAt.toISOString(), result, values, below, limit, spec.revision, r.unit, r.decimals);
+      const { pointIndex, laterLots } = await positionOf(tx, r.characteristic_id, r.lot_id);
+      const lateReason = laterLots > 0 ? lateResultText(r.lot_number) : null;
+      const ins = await tx.execute<{ id: number }>(sql`
+        insert into alarms (characteristic_id, lot_id, rule, chart, point_index, statistic, "values", limit_name, limit_value, description, late, late_reason, source)
+        values (${r.characteristic_id}, ${r.lot_id}, ${OUT_OF_SPEC}, 'location', ${pointIndex}, ${result}, ${arr(values)}::float8[], ${below ? 'LSL' : 'USL'}, ${limit},
+                ${description}, ${lateReason !== null}, ${lateReason}, 'ingest')
+        on conflict (characteristic_id, rule, chart, lot_id) do update set
+          status = 'open', resolution = null, closed_at = null, closed_by = null, close_note = null, point_index = excluded.point_index,
+          statistic = excluded.statistic, "values" = excluded."values", limit_name = excluded.limit_name, limit_value = excluded.limit_value,
+          description = excluded.description, late = excluded.late, late_reason = excluded.late_reason, updated_at = now()
+        where alarms.status = 'closed' and alarms.resolution = 'data-changed'
+        returning id`);
+      if (ins.rows[0]) raised.push(ins.rows[0].id);
+    }
+    await queueAlarmMail(tx, raised, publicUrl);
+    return raised;
+  });
+}
+
+export interface SpcHookDeps {
+  db: Database;
+  queue: SpcQueue;
+  publicUrl: string;
+}
+
+/** Requests an incremental run; logged, never thrown. */
+export async function requestIncrementalRun(deps: SpcHookDeps, characteristicIds: number[], trigger: RunTrigger, requestedBy: number | null = null): Promise<number | null> {
+  if (!characteristicIds.length) return null;
+  try {
+    return await startRun(deps.db, deps.queue, { trigger, characteristicIds, requestedBy });
+  } catch (err) {
+    logger.error({ err: (err as Error).message, characteristicIds, trigger }, 'incremental SPC run not started; the nightly run will catch up');
+    return null;
+  }
+}
+
+export function createSpcIngestHooks(deps: SpcHookDeps): IngestHooks {
+  return {
+    async afterImport(outcome) {
+      try {
+        await raiseOutOfSpecAlarms(deps.db, outcome.measurementIds, deps.publicUrl);
+      } catch (err) {
+        logger.error({ err: (err as Error).message, uploadId: outcome.uploadId }, 'out-of-specification check after import failed; the next run will raise the alarms');
+      }
+      const trigger: RunTrigger = outcome.rowsImported === 0 ? 'correction' : 'upload';
+      await requestIncrementalRun(deps, outcome.characteristicIds, trigger);
+    },
+    async afterVoid(info) {
+      await requestIncrementalRun(deps, info.characteristicIds, 'void');
+    },
+  };
+}

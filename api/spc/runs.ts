@@ -1,0 +1,205 @@
+// SPC runs: created with one item and one queue job per characteristic in a single transaction, so a
+// run never exists without its jobs (nor jobs without their run).
+import { randomUUID } from 'node:crypto';
+import { sql } from 'drizzle-orm';
+import type pg from 'pg';
+import type { Database } from '../db/client';
+import { CHARACTERISTIC_QUEUE, jobSettings, type JobSettings, type SpcQueue } from './queue';
+import type { Executor } from './db';
+
+export type RunTrigger = 'schedule' | 'manual' | 'upload' | 'void' | 'correction';
+export type RunStatus = 'queued' | 'running' | 'succeeded' | 'failed';
+
+export interface StartRunRequest {
+  trigger: RunTrigger;
+  /** Only these characteristics (an incremental run); all active ones of the plant (or every plant) otherwise. */
+  characteristicIds?: number[];
+  plantId?: number | null;
+  requestedBy?: number | null;
+  /** A nightly run's plant and local date: a second scheduler asking for the same run gets null. */
+  scheduleKey?: string;
+}
+
+export interface CharacteristicJob {
+  runId: number;
+  characteristicId: number;
+}
+
+/** Creates the run, its items and their jobs; null when a run with the same schedule key exists. */
+export async function startRun(db: Database, queue: SpcQueue, req: StartRunRequest, settings: JobSettings = jobSettings()): Promise<number | null> {
+  const boss = await queue.boss();
+  const client: pg.PoolClient = await db.$client.connect();
+  try {
+    await client.query('begin');
+    const ids = req.characteristicIds
+      ? (await client.query<{ id: number }>('select id from characteristics where id = any($1::int[]) order by id', [[...new Set(req.characteristicIds)]])).rows.map((r) => r.id)
+      : (
+          await client.query<{ id: number }>(
+            `select c.id from characteristics c join products p on p.id = c.product_id
+             where c.active and p.active and ($1::int is null or p.plant_id = $1) order by c.id`,
+            [req.plantId ?? null],
+          )
+        ).rows.map((r) => r.id);
+    const kind = req.characteristicIds ? 'incremental' : 'full';
+    const run = await client.query<{ id: number }>(
+      `insert into spc_runs (kind, trigger, plant_id, schedule_key, requested_by, characteristics, status, finished_at)
+       values ($1, $2, $3, $4, $5, $6, case when $6 = 0 then 'succeeded'::spc_run_status else 'queued'::spc_run_status end, case when $6 = 0 then now() end)
+       on conflict (schedule_key) do nothing returning id`,
+      [kind, req.trigger, req.plantId ?? null, req.scheduleKey ?? null, req.requestedBy ?? null, ids.length],
+    );
+    if (!run.rows[0]) {
+      await client.query('rollback');
+      return null;
+    }
+    const runId = run.rows[0].id;
+    if (ids.length) {
+      const jobIds = ids.map(() => randomUUID());
+      await client.query('insert into spc_run_items (run_id, characteristic_id, job_id) select $1, * from unnest($2::int[], $3::text[])', [runId, ids, jobIds]);
+      await boss.insert(
+        ids.map((characteristicId, i) => ({
+          id: jobIds[i],
+          name: CHARACTERISTIC_QUEUE,
+          data: { runId, characteristicId } satisfies CharacteristicJob,
+          singletonKey: String(characteristicId),
+          retryLimit: settings.retryLimit,
+          retryDelay: settings.retryDelaySeconds,
+          retryBackoff: true,
+          expireInSeconds: settings.expireSeconds,
+        })),
+        { db: { executeSql: (text: string, values: unknown[]) => client.query(text, values) } },
+      );
+    }
+    await client.query('commit');
+    return runId;
+  } catch (err) {
+    await client.query('rollback').catch(() => undefined);
+    throw err;
+  } finally {
+    client.release();
+  }
+}
+
+export interface RunSummary {
+  id: number;
+  kind: 'full' | 'incremental';
+  trigger: RunTrigger;
+  status: RunStatus;
+  characteristics: number;
+  done: number;
+  failed: number;
+  running: number;
+  alarmsRaised: number;
+  alarmsResolved: number;
+  requestedBy: string | null;
+  createdAt: string;
+  startedAt: string | null;
+  finishedAt: string | null;
+}
+
+const summaryColumns = sql`
+  r.id, r.kind, r.trigger, r.status, r.characteristics, u.name as requested_by,
+  r.created_at, r.started_at, r.finished_at,
+  coalesce(i.done, 0)::int as done, coalesce(i.failed, 0)::int as failed, coalesce(i.running, 0)::int as running,
+  coalesce(i.raised, 0)::int as alarms_raised, coalesce(i.resolved, 0)::int as alarms_resolved`;
+const itemCounts = sql`
+  left join lateral (
+    select count(*) filter (where status = 'succeeded') as done, count(*) filter (where status = 'failed') as failed,
+           count(*) filter (where status = 'running') as running, sum(alarms_raised) as raised, sum(alarms_resolved) as resolved
+    from spc_run_items where run_id = r.id) i on true
+  left join users u on u.id = r.requested_by`;
+
+type SummaryRow = {
+  id: number;
+  kind: 'full' | 'incremental';
+  trigger: RunTrigger;
+  status: RunStatus;
+  characteristics: number;
+  requested_by: string | null;
+  created_at: Date;
+  started_at: Date | null;
+  finished_at: Date | null;
+  done: number;
+  failed: number;
+  running: number;
+  alarms_raised: number;
+  alarms_resolved: number;
+};
+
+const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
+const toSummary = (r: SummaryRow): RunSummary => ({
+  id: r.id,
+  kind: r.kind,
+  trigger: r.trigger,
+  status: r.status,
+  characteristics: r.characteristics,
+  done: r.done,
+  failed: r.failed,
+  running: r.running,
+  alarmsRaised: r.alarms_raised,
+  alarmsResolved: r.alarms_resolved,
+  requestedBy: r.requested_by,
+  createdAt: iso(r.created_at)!,
+  startedAt: iso(r.started_at),
+  finishedAt: iso(r.finished_at),
+});
+
+export async function listRuns(db: Executor, limit = 50): Promise<RunSummary[]> {
+  const res = await db.execute<SummaryRow>(sql`select ${summaryColumns} from spc_runs r ${itemCounts} order by r.id desc limit ${limit}`);
+  return res.rows.map(toSummary);
+}
+
+export interface RunDetail extends RunSummary {
+  failures: { characteristicId: number; characteristicCode: string; attempts: number; error: string | null }[];
+  /** Characteristics that failed an attempt and wait for a retry. */
+  retrying: { characteristicId: number; characteristicCode: string; attempts: number; error: string | null }[];
+}
+
+export async function getRun(db: Executor, id: number): Promise<RunDetail | null> {
+  const res = await db.execute<SummaryRow>(sql`select ${summaryColumns} from spc_runs r ${itemCounts} where r.id = ${id}`);
+  if (!res.rows[0]) return null;
+  const items = await db.execute<{ characteristic_id: number; code: string; attempts: number; error: string | null; status: RunStatus }>(sql`
+    select i.characteristic_id, c.code, i.attempts, i.error, i.status from spc_run_items i join characteristics c on c.id = i.characteristic_id
+    where i.run_id = ${id} and i.error is not null order by c.code`);
+  const pick = (s: (st: RunStatus) => boolean) =>
+    items.rows.filter((r) => s(r.status)).map((r) => ({ characteristicId: r.characteristic_id, characteristicCode: r.code, attempts: r.attempts, error: r.error }));
+  return { ...toSummary(res.rows[0]), failures: pick((s) => s === 'failed'), retrying: pick((s) => s === 'queued' || s === 'running') };
+}
+
+/**
+ * Sets the run's status from its items. Call inside the transaction that finished an item: the row
+ * lock makes concurrent finishers count one after the other, so the last one sees every item done.
+ */
+export async function settleRun(tx: Executor, runId: number): Promise<void> {
+  await tx.execute(sql`select id from spc_runs where id = ${runId} for update`);
+  await tx.execute(sql`
+    with c as (
+      select count(*) filter (where status in ('succeeded', 'failed')) as finished, count(*) filter (where status = 'failed') as failed, count(*) as total
+      from spc_run_items where run_id = ${runId})
+    update spc_runs set
+      status = case when c.finished = c.total then (case when c.failed > 0 then 'failed' else 'succeeded' end)::spc_run_status else 'running'::spc_run_status end,
+      started_at = coalesce(started_at, now()),
+      finished_at = case when c.finished = c.total then coalesce(finished_at, now()) end
+    from c where id = ${runId}`);
+}
+
+/**
+ * Items whose job ended failed without the worker saying so (it died during its last attempt) are
+ * marked failed with the queue's error, and their runs settled.
+ */
+export async function sweepRuns(db: Database): Promise<number> {
+  return db.transaction(async (tx) => {
+    const res = await tx.execute<{ run_id: number }>(sql`
+      update spc_run_items i set status = 'failed', finished_at = now(),
+        error = coalesce(j.output->>'message', j.output->'value'->>'message', 'The job failed')
+      from (
+        select id, output from pgboss.job where name = ${CHARACTERISTIC_QUEUE} and state = 'failed'
+        union all
+        select id, output from pgboss.archive where name = ${CHARACTERISTIC_QUEUE} and state = 'failed'
+      ) j
+      where i.job_id = j.id::text and i.status in ('queued', 'running')
+      returning i.run_id`);
+    const runs = [...new Set(res.rows.map((r) => r.run_id))].sort((a, b) => a - b);
+    for (const runId of runs) await settleRun(tx, runId);
+    return res.rows.length;
+  });
+}

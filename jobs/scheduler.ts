@@ -1,0 +1,82 @@
+// The nightly SPC run and the morning digest of each plant, with node-cron in the plant's time
+// zone. Several schedulers may share one database: the run's schedule key (plant and local date)
+// and the digest's dedupe keys make the second one a no-op.
+import cron, { type ScheduledTask } from 'node-cron';
+import { asc } from 'drizzle-orm';
+import type { Database } from '../api/db/client';
+import { plants } from '../api/db/schema';
+import { logger } from '../api/logger';
+import { localDate, queueDigests } from '../api/mail/notify';
+import type { SpcQueue } from '../api/spc/queue';
+import { startRun } from '../api/spc/runs';
+
+export interface PlantSchedule {
+  id: number;
+  code: string;
+  timeZone: string;
+  nightlyRunCron: string;
+}
+
+/** Starts the plant's nightly run once per local date, whoever asks first. */
+export async function startNightlyRun(db: Database, queue: SpcQueue, plant: PlantSchedule, now = new Date()): Promise<number | null> {
+  const runId = await startRun(db, queue, { trigger: 'schedule', plantId: plant.id, scheduleKey: `nightly:${plant.id}:${localDate(now, plant.timeZone)}` });
+  logger.info({ plant: plant.code, runId }, runId ? 'nightly SPC run started' : 'nightly SPC run already started elsewhere');
+  return runId;
+}
+
+export interface Scheduler {
+  /** Re-reads the plants' schedules (a changed cron expression or time zone). */
+  refresh(): Promise<void>;
+  stop(): void;
+}
+
+export function startScheduler(db: Database, queue: SpcQueue, opts: { digestCron: string; publicUrl: string; refreshMs?: number }): Scheduler {
+  const tasks = new Map<number, { signature: string; run: ScheduledTask; digest: ScheduledTask }>();
+
+  async function refresh() {
+    const rows = await db.select({ id: plants.id, code: plants.code, timeZone: plants.timeZone, nightlyRunCron: plants.nightlyRunCron }).from(plants).orderBy(asc(plants.id));
+    for (const plant of rows) {
+      const signature = `${plant.nightlyRunCron}|${plant.timeZone}|${opts.digestCron}`;
+      const existing = tasks.get(plant.id);
+      if (existing?.signature === signature) continue;
+      existing?.run.destroy();
+      existing?.digest.destroy();
+      if (!cron.validate(plant.nightlyRunCron)) {
+        logger.error({ plant: plant.code, cron: plant.nightlyRunCron }, 'the plant has an invalid nightly run schedule; no nightly run');
+        continue;
+      }
+      const run = cron.schedule(plant.nightlyRunCron, () => startNightlyRun(db, queue, plant).catch((err) => logger.error({ err: err.message }, 'nightly SPC run not started')), {
+        timezone: plant.timeZone,
+        name: `nightly-run-${plant.code}`,
+        noOverlap: true,
+      });
+      const digest = cron.schedule(
+        opts.digestCron,
+        () =>
+          queueDigests(db, { plantId: plant.id, timeZone: plant.timeZone, now: new Date(), publicUrl: opts.publicUrl })
+            .then((n) => logger.info({ plant: plant.code, messages: n }, 'morning digest queued'))
+            .catch((err) => logger.error({ err: err.message }, 'morning digest not queued')),
+        { timezone: plant.timeZone, name: `digest-${plant.code}`, noOverlap: true },
+      );
+      tasks.set(plant.id, { signature, run, digest });
+    }
+  }
+
+  const initial = refresh().catch((err) => logger.error({ err: err.message }, 'schedules not read'));
+  const timer = setInterval(() => void refresh().catch((err) => logger.warn({ err: err.message }, 'schedules not refreshed')), opts.refreshMs ?? 10 * 60_000);
+  timer.unref();
+  return {
+    refresh: async () => {
+      await initial;
+      await refresh();
+    },
+    stop() {
+      clearInterval(timer);
+      for (const t of tasks.values()) {
+        t.run.destroy();
+        t.digest.destroy();
+      }
+      tasks.clear();
+    },
+  };
+}

@@ -1,0 +1,56 @@
+// npm run worker: an extra worker process of the SPC queue, on this machine or another one that
+// shares the database. Sends e-mail from the outbox too when SMTP_URL names a relay.
+import { createDatabase } from '../api/db/client';
+import { migrateDatabase } from '../api/db/migrate';
+import { logger } from '../api/logger';
+import { mailSettings } from '../api/mail/settings';
+import { createTransport, startMailSender, type MailSender } from '../api/mail/outbox';
+import { startBoss, workerName } from '../api/spc/queue';
+import { startSpcWorkers } from './spc-worker';
+
+export function workerSettings(env: NodeJS.ProcessEnv = process.env) {
+  const concurrency = Number(env.SPC_WORKER_CONCURRENCY ?? 2);
+  const pollMs = Number(env.SPC_POLL_MS ?? 500);
+  const pauseMs = Number(env.SPC_TEST_PAUSE_MS ?? 0);
+  return {
+    concurrency: Number.isInteger(concurrency) && concurrency >= 0 ? concurrency : 2,
+    pollMs: Number.isFinite(pollMs) && pollMs >= 20 ? pollMs : 500,
+    pauseMs: Number.isFinite(pauseMs) && pauseMs > 0 ? pauseMs : undefined,
+    sweepMs: Number(env.SPC_SWEEP_MS ?? 10_000),
+  };
+}
+
+async function main() {
+  const databaseUrl = process.env.DATABASE_URL;
+  if (!databaseUrl) throw new Error('DATABASE_URL is required');
+  const db = createDatabase(databaseUrl, 6);
+  await migrateDatabase(db.$client);
+  const boss = await startBoss({ connectionString: databaseUrl, supervise: true });
+  const settings = workerSettings();
+  const mail = mailSettings();
+  const workers = startSpcWorkers(boss, db, { ...settings, worker: workerName(), publicUrl: mail.publicUrl });
+  let sender: MailSender | null = null;
+  if (mail.smtpUrl) sender = startMailSender(db, createTransport(mail.smtpUrl), { from: mail.from, pollMs: mail.pollMs });
+  logger.info({ worker: workerName(), concurrency: settings.concurrency, mail: Boolean(sender) }, 'SPC worker ready');
+
+  let stopping = false;
+  const stop = async (signal: string) => {
+    if (stopping) return;
+    stopping = true;
+    logger.info({ signal }, 'SPC worker stopping');
+    await workers.stop();
+    await sender?.stop();
+    await boss.stop({ graceful: true, timeout: 10_000 }).catch(() => undefined);
+    await db.$client.end();
+    process.exit(0);
+  };
+  process.once('SIGINT', () => void stop('SIGINT'));
+  process.once('SIGTERM', () => void stop('SIGTERM'));
+}
+
+if (import.meta.filename === process.argv[1]) {
+  main().catch((err) => {
+    logger.fatal(err.message);
+    process.exit(1);
+  });
+}
