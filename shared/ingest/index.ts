@@ -3,3 +3,4 @@ export * from './dialect';
 export * from './mapping';
 export * from './validate';
 export * from './manual-entry';
+export * from './csv';

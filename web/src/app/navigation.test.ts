@@ -2,12 +2,13 @@ import { describe, expect, it } from 'vitest';
 import { areas, areasFor } from './navigation';
 import { roles } from '../../../shared/schemas/users';
 
-// The role rules of the foundation issue: who sees which area of the app.
+// The role rules of the foundation issue, with results entry's: auditors read the upload history
+// and the test methods, so every role sees both areas.
 const expected = {
-  technician: ['overview', 'charts', 'results'],
-  quality_manager: ['overview', 'charts', 'results', 'alarms', 'ncrs', 'reports'],
-  auditor: ['overview', 'charts', 'alarms', 'ncrs', 'reports'],
-  admin: ['overview', 'charts', 'results', 'alarms', 'ncrs', 'reports', 'users', 'catalogue'],
+  technician: ['overview', 'charts', 'results', 'methods'],
+  quality_manager: ['overview', 'charts', 'results', 'methods', 'alarms', 'ncrs', 'reports'],
+  auditor: ['overview', 'charts', 'results', 'methods', 'alarms', 'ncrs', 'reports'],
+  admin: ['overview', 'charts', 'results', 'methods', 'alarms', 'ncrs', 'reports', 'users', 'catalogue'],
 } as const;
 
 describe('navigation', () => {

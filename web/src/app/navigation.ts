@@ -1,7 +1,7 @@
 import type { Role } from '../../../shared/schemas/roles';
 
 /** Every area of the app. The router builds its routes from this list and the menu shows it by role. */
-export type AreaId = 'overview' | 'charts' | 'results' | 'alarms' | 'ncrs' | 'reports' | 'users' | 'catalogue';
+export type AreaId = 'overview' | 'charts' | 'results' | 'methods' | 'alarms' | 'ncrs' | 'reports' | 'users' | 'catalogue';
 
 export interface Area {
   id: AreaId;
@@ -41,7 +41,16 @@ export const areas: readonly Area[] = [
     label: 'Results & uploads',
     purpose:
       "Enter a shift's test results by hand or upload them as CSV from lab instruments or a spreadsheet, and correct rejected rows.",
-    roles: ['technician', 'quality_manager', 'admin'],
+    // Auditors read the upload history and the lots here; entering and uploading stay with the other roles.
+    roles: everyone,
+    group: 'work',
+  },
+  {
+    id: 'methods',
+    path: '/test-methods',
+    label: 'Test methods',
+    purpose: 'How each characteristic is tested: standard, unit, possible range, how a machine reading becomes a result, and the handling cautions.',
+    roles: everyone,
     group: 'work',
   },
   {

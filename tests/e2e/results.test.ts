@@ -1,0 +1,320 @@
+// Entering results in a real browser against the real server started by scripts/run-tests.ts: CSV upload
+// with preview, browser-side checks and the server's answers; one lot typed in with press loads; the
+// upload history and test methods as an auditor sees them.
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, afterEach, beforeAll, beforeEach, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { baseUrl, launchBrowser, screenshot, type TestBrowser } from '../support/browser';
+import { DEMO_PASSWORD, demoUsers } from '../../api/db/seed';
+import type { Role } from '../../shared/schemas/users';
+
+const demoEmail = (role: Role) => {
+  const user = demoUsers.find((candidate) => candidate.role === role);
+  if (!user) throw new Error(`The demo seed has no ${role}`);
+  return user.email;
+};
+
+let browser: TestBrowser;
+let page: Page;
+const files = mkdtempSync(join(tmpdir(), 'prismline-results-'));
+// Lot numbers unique to this run, so the suite can run again on the same database.
+const stamp = Date.now().toString(36).toUpperCase();
+let lotCounter = 0;
+const newLot = () => `E2E-${stamp}-${++lotCounter}`;
+
+beforeAll(async () => {
+  browser = await launchBrowser();
+});
+
+afterAll(async () => {
+  await browser?.close();
+});
+
+beforeEach(async () => {
+  await browser.context.clearCookies();
+  page = await browser.context.newPage();
+  page.setDefaultTimeout(10_000);
+});
+
+afterEach(async () => {
+  await page?.close();
+});
+
+async function signInAt(path: string, role: Role) {
+  await page.goto(`${baseUrl()}${path}`);
+  await page.waitForURL('**/sign-in');
+  await page.getByLabel('E-mail').fill(demoEmail(role));
+  await page.getByLabel('Password').fill(DEMO_PASSWORD);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+}
+
+const heading = (name: string | RegExp) => page.getByRole('heading', { level: 1, name });
+
+function csvFile(name: string, text: string): string {
+  const path = join(files, name);
+  writeFileSync(path, text);
+  return path;
+}
+
+async function chooseFile(path: string) {
+  await page.locator('input[type="file"]').setInputFiles(path);
+}
+
+/** The stored results of a lot, by characteristic code, as the API gives them to any role. */
+async function storedValues(lot: string): Promise<Record<string, number[]> | null> {
+  const res = await page.request.get(`${baseUrl()}/api/v1/lots/${lot}`);
+  if (res.status() === 404) return null;
+  expect(res.status()).toBe(200);
+  const body = (await res.json()) as { results: { characteristicCode: string; value: number }[] };
+  const out: Record<string, number[]> = {};
+  for (const r of body.results) (out[r.characteristicCode] ??= []).push(r.value);
+  return out;
+}
+
+describe('CSV upload', () => {
+  it('previews a semicolon file with decimal commas, checks it in the browser and imports every row', async () => {
+    const lot = newLot();
+    const file = csvFile(
+      `press-${stamp}.csv`,
+      `lot;product;line;produced_at;characteristic;value;replicate\n${lot};HVL25;L1;15.07.2026 08:00;HVL25-RF28;7,45;1\n${lot};HVL25;L1;15.07.2026 08:00;HVL25-RF28;7,6;2\n${lot};HVL25;L1;15.07.2026 08:00;HVL25-AIR;2,95;1\n`,
+    );
+    await signInAt('/results/upload', 'technician');
+    await heading('Upload results').waitFor();
+    expect(await page.getByRole('link', { name: 'Download the CSV template' }).first().getAttribute('href')).toBe('/api/v1/uploads/template.csv');
+
+    await chooseFile(file);
+    await page.getByTestId('detected-dialect').getByText('semicolon-separated, decimal comma').waitFor();
+    expect(await page.getByLabel('Delimiter').inputValue()).toBe(';');
+    expect(await page.getByLabel('Decimal mark').inputValue()).toBe('comma');
+    // The preview shows the cells as written in the file.
+    const preview = page.getByRole('table', { name: 'First rows of the file' });
+    expect(await preview.getByRole('row').count()).toBe(4);
+    expect(await preview.getByRole('cell', { name: '7,45' }).isVisible()).toBe(true);
+    expect(await page.getByText('The columns have the template\'s names').isVisible()).toBe(true);
+
+    await page.getByText('The file passed the checks: 3 rows, 1 lot.').waitFor();
+    const importButton = page.getByRole('button', { name: 'Import all 3 rows' });
+    expect(await importButton.isEnabled()).toBe(true);
+    await screenshot(page, 'results-upload-preview');
+
+    await importButton.click();
+    await page.getByText(/Imported: 3 results from press-/).waitFor();
+    expect(await page.getByRole('link', { name: lot }).getAttribute('href')).toBe(`/results/lots/${lot}`);
+    await screenshot(page, 'results-upload-imported');
+
+    // The decimal commas were read as decimals: "7,45" is stored as 7.45.
+    expect(await storedValues(lot)).toEqual({ 'HVL25-AIR': [2.95], 'HVL25-RF28': [7.45, 7.6] });
+  });
+
+  it('lists a bad row before anything is sent, and imports nothing', async () => {
+    const lot = newLot();
+    const file = csvFile(
+      `bad-row-${stamp}.csv`,
+      `lot;product;line;produced_at;characteristic;value;replicate\n${lot};HVL25;L1;16.07.2026 08:00;HVL25-DENS;1950;1\n${lot}-b;HVL25;L1;16.07.2026 08:00;HVL25-DENS;heavy;1\n${lot}-c;HVL25;L1;16.07.2026 08:00;HVL25-DENS;1948;1\n`,
+    );
+    await signInAt('/results/upload', 'technician');
+    await chooseFile(file);
+
+    const errors = page.getByRole('table', { name: 'Rows to correct' });
+    await errors.waitFor();
+    const rows = errors.locator('tbody tr');
+    expect(await rows.count()).toBe(1);
+    // No decimal comma in this file, so the message says which decimal mark it was read with.
+    expect(await rows.first().locator('td').allTextContents()).toEqual(['3', 'value', '"heavy" is not a number (this file uses "." as the decimal mark)']);
+    await page.getByText('1 row needs correcting').waitFor();
+    expect(await page.getByRole('button', { name: 'Correct the file first' }).isDisabled()).toBe(true);
+    // The bad row is marked in the preview too, numbered as a spreadsheet numbers it.
+    expect(await page.getByRole('table', { name: 'First rows of the file' }).getByRole('rowheader', { name: 'needs correcting 3' }).isVisible()).toBe(true);
+    await screenshot(page, 'results-upload-bad-row');
+
+    // Nothing reached the server: no lot, and no upload of that name.
+    expect(await storedValues(lot)).toBeNull();
+    const uploads = (await (await page.request.get(`${baseUrl()}/api/v1/uploads?limit=500`)).json()) as { items: { fileName: string }[] };
+    expect(uploads.items.map((u) => u.fileName)).not.toContain(`bad-row-${stamp}.csv`);
+  });
+
+  it('shows the server’s row errors with the error report, and which upload had the same file', async () => {
+    const lot = newLot();
+    const header = 'lot,product,line,produced_at,characteristic,value,replicate';
+    await signInAt('/results/upload', 'technician');
+    await heading('Upload results').waitFor();
+    const first = await page.request.post(`${baseUrl()}/api/v1/uploads`, {
+      multipart: { file: { name: 'earlier.csv', mimeType: 'text/csv', buffer: Buffer.from(`${header}\n${lot},HVL25,L1,2026-07-17T08:00,HVL25-AIR,3.1,1\n`) } },
+    });
+    expect(first.status()).toBe(201);
+
+    // Right by itself, but replicate 1 of that lot is stored already: only the server can know.
+    const again = csvFile(`again-${stamp}.csv`, `${header}\n${lot},HVL25,L1,2026-07-17T08:00,HVL25-AIR,3.4,1\n`);
+    await chooseFile(again);
+    await page.getByRole('button', { name: 'Import 1 row' }).click();
+    await page.getByText('Nothing was imported: 1 row needs correcting').waitFor();
+    const serverErrors = page.getByRole('table', { name: 'Rows the server could not take' });
+    expect(await serverErrors.locator('tbody tr td').allTextContents()).toEqual(['2', 'replicate', expect.stringContaining('already stored')]);
+    const report = page.getByRole('link', { name: 'Download the error report (CSV)' });
+    const href = await report.getAttribute('href');
+    expect(href).toMatch(/^\/api\/v1\/uploads\/\d+\/errors\.csv$/);
+    const csv = await (await page.request.get(`${baseUrl()}${href}`)).text();
+    expect(csv.split('\r\n')[0]).toBe('row,column,message');
+    expect(csv).toMatch(/^2,replicate,.*already stored/m);
+    await screenshot(page, 'results-upload-server-rejected');
+    expect(await storedValues(lot)).toEqual({ 'HVL25-AIR': [3.1] });
+
+    // The first file once more, byte for byte: the server names the earlier upload.
+    const sameBytes = csvFile(`earlier-copy-${stamp}.csv`, `${header}\n${lot},HVL25,L1,2026-07-17T08:00,HVL25-AIR,3.1,1\n`);
+    await chooseFile(sameBytes);
+    await page.getByRole('button', { name: 'Import 1 row' }).click();
+    const { id } = (await first.json()) as { id: number };
+    await page.getByText(`this file was imported before, as upload ${id}`).waitFor();
+  });
+
+  it('maps the columns of a wide export, saves the mapping and finds it again for the next file', async () => {
+    const lot = newLot();
+    const name = `Ring export ${stamp}`;
+    const wide = (lotNumber: string, a: string, b: string) => `Batch no;Prod;Line no;Made at;Spread 1;Spread 2\n${lotNumber};HVL25;L1;18.07.2026 06:10;${a};${b}\n`;
+    await signInAt('/results/upload', 'technician');
+    await chooseFile(csvFile(`ring-${stamp}.csv`, wide(lot, '144', '146')));
+
+    await page.getByRole('heading', { name: '3. Which column holds what' }).waitFor();
+    await page.getByLabel('One row per lot, a column per result').check();
+    await page.getByLabel('Lot number', { exact: true }).selectOption('Batch no');
+    await page.getByLabel('Product code', { exact: true }).selectOption('Prod');
+    await page.getByLabel('Production line', { exact: true }).selectOption('Line no');
+    await page.getByLabel('Production time', { exact: true }).selectOption('Made at');
+    await page.getByLabel('Spread 1').selectOption('HVL25-FLOW');
+    await page.getByLabel('Spread 2').selectOption('HVL25-FLOW');
+    await page.getByRole('button', { name: 'Import 2 results from 1 row' }).waitFor();
+
+    await page.getByLabel('Save this mapping as').fill(name);
+    await page.getByRole('button', { name: 'Save mapping' }).click();
+    await page.getByText(`Using the saved mapping “${name}”.`).waitFor();
+    await screenshot(page, 'results-upload-mapping');
+    await page.getByRole('button', { name: 'Import 2 results from 1 row' }).click();
+    await page.getByText(/Imported: 2 results/).waitFor();
+    expect(await storedValues(lot)).toEqual({ 'HVL25-FLOW': [144, 146] });
+
+    // The next export of that kind: the saved mapping fits its columns and is used at once.
+    const next = newLot();
+    await page.getByRole('button', { name: 'Upload another file' }).click();
+    await chooseFile(csvFile(`ring-next-${stamp}.csv`, wide(next, '145', '147')));
+    await page.getByText(`Using the saved mapping “${name}”.`).waitFor();
+    await page.getByRole('button', { name: 'Import 2 results from 1 row' }).click();
+    await page.getByText(/Imported: 2 results/).waitFor();
+    expect(await storedValues(next)).toEqual({ 'HVL25-FLOW': [145, 147] });
+  });
+});
+
+describe('manual entry', () => {
+  it('converts compressive breaking loads in kN to MPa, evaluates the set and saves it', async () => {
+    const lot = newLot();
+    await signInAt('/results/enter', 'technician');
+    await heading('Enter a lot by hand').waitFor();
+    await page.getByLabel('Product', { exact: true }).selectOption('HVL25');
+    // The product's own line is proposed.
+    expect(await page.getByLabel('Production line').inputValue()).toBe('L1');
+    await page.getByLabel('Lot number').fill(lot);
+    await page.getByLabel('Production time').fill('2026-11-02T06:20');
+    await page.getByLabel('Shift (optional)').selectOption('early');
+    await page.getByLabel('Add a characteristic').selectOption('HVL25-RC28');
+    await page.getByRole('button', { name: 'Add', exact: true }).click();
+
+    const card = page.getByRole('region', { name: /compressive strength · 28 d/ });
+    await card.waitFor();
+    expect(await card.getByLabel('Breaking loads in kN').isChecked()).toBe(true);
+    // The cautions of the method sit beside its readings.
+    const cautions = card.getByRole('region', { name: /Handling cautions/ });
+    expect(await cautions.textContent()).toMatch(/Alkaline and irritant.*gloves and eye protection.*Respirable dust.*dust extraction.*Testing press.*safety data sheet/s);
+
+    // EN 196-1: Rc = Fc / 1600 mm², so 39 kN gives 24.4 MPa, below the LSL of 25 MPa (the declared C25).
+    await card.getByLabel('Half 1').fill('39');
+    await card.getByText('= 24.4 MPa out of spec').waitFor();
+    // EN 196-1: 40 kN / 1600 mm² = 25.0 MPa, on the limit and so within it.
+    await card.getByLabel('Half 1').fill('40');
+    await card.getByText('= 25.0 MPa', { exact: true }).waitFor();
+    for (const [i, load] of ['41', '42', '40', '41', '42'].entries()) await card.getByLabel(`Half ${i + 2}`).fill(load);
+    // Mean of 25.0, 25.625, 26.25, 25.0, 25.625, 26.25 MPa = 25.625 MPa; all within ±10 % of it (EN 196-1).
+    expect(await card.getByTestId('set-result-HVL25-RC28').textContent()).toBe('25.6 MPa');
+    await card.getByText('Within specification').waitFor();
+    await card.getByText('Set accepted', { exact: true }).waitFor();
+    await screenshot(page, 'results-manual-entry');
+
+    await page.getByRole('button', { name: 'Save 6 results' }).click();
+    await page.getByText(/Saved: 6 results of lot/).waitFor();
+    expect(await storedValues(lot)).toEqual({ 'HVL25-RC28': [25, 25.625, 26.25, 25, 25.625, 26.25] });
+
+    await page.getByRole('link', { name: lot }).click();
+    await heading(`Lot ${lot}`).waitFor();
+    expect(await page.getByRole('row', { name: /HVL25-RC28/ }).textContent()).toContain('25.6 MPa');
+    await screenshot(page, 'results-lot');
+  });
+
+  it('names an empty reading under its field and sends nothing', async () => {
+    const lot = newLot();
+    await signInAt('/results/enter', 'technician');
+    await page.getByLabel('Product', { exact: true }).selectOption('HVL25');
+    await page.getByLabel('Lot number').fill(lot);
+    await page.getByLabel('Production time').fill('2026-11-02T06:20');
+    await page.getByLabel('Add a characteristic').selectOption('HVL25-FLOW');
+    await page.getByRole('button', { name: 'Add', exact: true }).click();
+    const card = page.getByRole('region', { name: /flow diameter$/ });
+    await card.getByLabel('Reading 1').fill('146');
+    await page.getByRole('button', { name: 'Save 2 results' }).click();
+    await card.getByText('Enter a number').waitFor();
+    expect(await card.getByLabel('Reading 2').getAttribute('aria-invalid')).toBe('true');
+    expect(await storedValues(lot)).toBeNull();
+  });
+});
+
+describe('roles', () => {
+  it('shows the auditor the history and the test methods, and no way to upload', async () => {
+    await signInAt('/results', 'auditor');
+    await heading('Upload history').waitFor();
+    expect(new URL(page.url()).pathname).toBe('/results/history');
+    const tabs = page.getByRole('navigation', { name: 'Results pages' });
+    expect(await tabs.getByRole('link').allTextContents()).toEqual(['Upload history']);
+    expect(await page.getByText('Choose a CSV file').count()).toBe(0);
+    expect(await page.getByRole('button', { name: 'Void…' }).count()).toBe(0);
+    // The demo history came in through the upload path like any file.
+    await page.getByRole('row', { name: /harrow-vale-history\.csv/ }).waitFor();
+    await screenshot(page, 'results-history-auditor');
+
+    await page.goto(`${baseUrl()}/results/upload`);
+    await heading('Not allowed for your role').waitFor();
+
+    await page.getByRole('navigation', { name: 'Main menu' }).getByRole('link', { name: 'Test methods' }).click();
+    await heading('Test methods').waitFor();
+    await page.getByRole('link', { name: /Compressive strength/ }).click();
+    await heading(/Compressive strength/).waitFor();
+    // EN 196-1: Rc = Fc / 1600 mm²; 40 kN → 25.0 MPa.
+    await page.getByText('Rc = Fc / 1600 mm² (EN 196-1).').waitFor();
+    await page.getByText('A breaking load of 40 kN gives 25.0 MPa.').waitFor();
+    const cautions = page.getByRole('region', { name: 'Handling cautions' });
+    expect(await cautions.textContent()).toMatch(/Alkaline and irritant.*gloves and eye protection.*Respirable dust.*dust extraction.*Testing press.*local regulations/s);
+    await screenshot(page, 'results-test-method');
+  });
+
+  it('lets a quality manager void an imported upload with a reason', async () => {
+    const lot = newLot();
+    await signInAt('/results/history', 'quality_manager');
+    await heading('Upload history').waitFor();
+    const fileName = `void-me-${stamp}.csv`;
+    const created = await page.request.post(`${baseUrl()}/api/v1/uploads`, {
+      multipart: { file: { name: fileName, mimeType: 'text/csv', buffer: Buffer.from(`lot,product,line,produced_at,characteristic,value\n${lot},HVL25,L1,2026-07-19T08:00,HVL25-AIR,9.9\n`) } },
+    });
+    expect(created.status()).toBe(201);
+    await page.reload();
+    const row = page.getByRole('row', { name: new RegExp(fileName) });
+    await row.getByRole('button', { name: 'Void…' }).click();
+    const dialog = page.getByRole('dialog', { name: /Void upload \d+\?/ });
+    await dialog.getByLabel('Reason').fill('bad');
+    await dialog.getByRole('button', { name: 'Void upload' }).click();
+    await dialog.getByText('Give a reason of at least 5 characters').waitFor();
+    await dialog.getByLabel('Reason').fill('Samples mixed with the wrong water dose');
+    await screenshot(page, 'results-void-dialog');
+    await dialog.getByRole('button', { name: 'Void upload' }).click();
+    await row.getByText('Voided').waitFor();
+    expect(await row.textContent()).toContain('Samples mixed with the wrong water dose');
+    expect(await storedValues(lot)).toEqual({});
+  });
+});

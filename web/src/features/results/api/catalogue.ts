@@ -1,0 +1,128 @@
+import { useMemo } from 'react';
+import { queryOptions, useQuery } from '@tanstack/react-query';
+import { http } from '../../../lib/http';
+import type { RawLoadFormula, TestMethodCode } from '../../../../../shared/lab';
+import { useTestMethods, type TestMethodEntry } from '../../test-methods/api/test-methods';
+
+export interface Product {
+  id: number;
+  code: string;
+  name: string;
+  family: string;
+  declaredClass: string | null;
+  active: boolean;
+  lineCode: string | null;
+  lineName: string | null;
+}
+
+export interface ProductionLine {
+  id: number;
+  code: string;
+  name: string;
+}
+
+/** The specification revision in force now. */
+export interface SpecInForce {
+  revision: number;
+  lsl: number | null;
+  usl: number | null;
+  target: number | null;
+  effectiveFrom: string;
+}
+
+export interface Characteristic {
+  id: number;
+  code: string;
+  name: string;
+  unit: string;
+  ageDays: number | null;
+  subgroupSize: number;
+  active: boolean;
+  productCode: string;
+  productName: string;
+  productFamily: string;
+  lineCode: string | null;
+  testMethodCode: TestMethodCode;
+  testMethodName: string;
+  standard: string;
+  rawLoad: RawLoadFormula | null;
+  decimals: number;
+  spec: SpecInForce | null;
+}
+
+export interface Plant {
+  id: number;
+  code: string;
+  name: string;
+  timeZone: string;
+}
+
+export const catalogueKeys = {
+  all: ['catalogue'] as const,
+  products: () => [...catalogueKeys.all, 'products'] as const,
+  lines: () => [...catalogueKeys.all, 'lines'] as const,
+  characteristics: () => [...catalogueKeys.all, 'characteristics'] as const,
+  plants: () => [...catalogueKeys.all, 'plants'] as const,
+};
+
+const items = async <T>(path: string, signal?: AbortSignal) => (await http<{ items: T[] }>(path, { signal })).items;
+
+export const productsQueryOptions = () =>
+  queryOptions({ queryKey: catalogueKeys.products(), queryFn: ({ signal }) => items<Product>('/api/v1/products', signal) });
+
+export const linesQueryOptions = () =>
+  queryOptions({ queryKey: catalogueKeys.lines(), queryFn: ({ signal }) => items<ProductionLine>('/api/v1/lines', signal) });
+
+export const characteristicsQueryOptions = () =>
+  queryOptions({ queryKey: catalogueKeys.characteristics(), queryFn: ({ signal }) => items<Characteristic>('/api/v1/characteristics', signal) });
+
+export const plantsQueryOptions = () =>
+  queryOptions({ queryKey: catalogueKeys.plants(), queryFn: ({ signal }) => items<Plant>('/api/v1/plants', signal), staleTime: Infinity });
+
+export function useProducts() {
+  return useQuery(productsQueryOptions());
+}
+
+export function useLines() {
+  return useQuery(linesQueryOptions());
+}
+
+export function useCharacteristics() {
+  return useQuery(characteristicsQueryOptions());
+}
+
+/** The plant's time zone: production and test times are typed and shown in it. */
+export function usePlantTimeZone() {
+  return useQuery({ ...plantsQueryOptions(), select: (plants) => plants[0]?.timeZone ?? 'UTC' });
+}
+
+export interface EntryCatalogue {
+  timeZone: string;
+  products: Product[];
+  lines: ProductionLine[];
+  characteristics: Characteristic[];
+  testMethods: TestMethodEntry[];
+}
+
+/** Everything entering results needs to know of the plant, loaded together: one loading and one error state. */
+export function useEntryCatalogue() {
+  const products = useProducts();
+  const lines = useLines();
+  const characteristics = useCharacteristics();
+  const testMethods = useTestMethods();
+  const timeZone = usePlantTimeZone();
+  const queries = [products, lines, characteristics, testMethods, timeZone];
+  const failed = queries.find((q) => q.isError);
+  const data = useMemo<EntryCatalogue | undefined>(
+    () =>
+      products.data && lines.data && characteristics.data && testMethods.data && timeZone.data
+        ? { products: products.data, lines: lines.data, characteristics: characteristics.data, testMethods: testMethods.data, timeZone: timeZone.data }
+        : undefined,
+    [products.data, lines.data, characteristics.data, testMethods.data, timeZone.data],
+  );
+  return {
+    data,
+    error: failed?.error ?? null,
+    retry: () => queries.filter((q) => q.isError).forEach((q) => q.refetch()),
+  };
+}

@@ -1,0 +1,67 @@
+import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { http } from '../../../lib/http';
+import type { ManualEntry } from '../../../../../shared/ingest';
+import { fileOutcome, type UploadOutcome } from './uploads';
+
+export interface LotResult {
+  id: number;
+  characteristicCode: string;
+  characteristicName: string;
+  unit: string;
+  replicate: number;
+  value: number;
+  testedAt: string | null;
+  operator: string | null;
+  note: string | null;
+  source: 'upload' | 'manual';
+  uploadId: number | null;
+  uploadFile: string | null;
+}
+
+export interface Lot {
+  id: number;
+  lotNumber: string;
+  producedAt: string;
+  shift: string | null;
+  productCode: string;
+  productName: string;
+  lineCode: string;
+  results: LotResult[];
+}
+
+export const lotKeys = {
+  all: ['lots'] as const,
+  detail: (lotNumber: string) => [...lotKeys.all, lotNumber] as const,
+};
+
+export const lotQueryOptions = (lotNumber: string) =>
+  queryOptions({
+    queryKey: lotKeys.detail(lotNumber),
+    queryFn: ({ signal }) => http<Lot>(`/api/v1/lots/${encodeURIComponent(lotNumber)}`, { signal }),
+  });
+
+export function useLot(lotNumber: string) {
+  return useQuery(lotQueryOptions(lotNumber));
+}
+
+export type ManualEntryOutcome = { kind: 'imported'; rowsImported: number; measurementIds: number[] } | Extract<UploadOutcome, { kind: 'rejected' }>;
+
+/** POST /api/v1/measurements: one lot typed in; a 422 names the form's own fields. */
+export async function saveManualEntry(entry: ManualEntry): Promise<ManualEntryOutcome> {
+  try {
+    const saved = await http<{ rowsImported: number; measurementIds: number[] }>('/api/v1/measurements', { method: 'POST', body: entry });
+    return { kind: 'imported', ...saved };
+  } catch (error) {
+    const outcome = fileOutcome(error);
+    if (outcome?.kind === 'rejected') return outcome;
+    throw error;
+  }
+}
+
+export function useSaveManualEntry() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: saveManualEntry,
+    onSuccess: (_outcome, entry) => queryClient.invalidateQueries({ queryKey: lotKeys.detail(entry.lot) }),
+  });
+}

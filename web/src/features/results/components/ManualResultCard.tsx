@@ -1,0 +1,180 @@
+import { useId } from 'react';
+import { useWatch, type Control, type FieldErrors, type UseFormRegister } from 'react-hook-form';
+import { parseNumber, type ManualEntry, type ManualEntryInput } from '../../../../../shared/ingest';
+import type { Characteristic } from '../api/catalogue';
+import type { TestMethodEntry } from '../../test-methods/api/test-methods';
+import { MethodCautions } from '../../test-methods/components/MethodCautions';
+import { pullHeads, readingResult, readingWord } from '../lib/readings';
+import { setResult } from '../lib/sets';
+import { specLimitsText, specVerdict } from '../lib/spec';
+import { Badge } from '../../../components/ui/Badge';
+import { Button } from '../../../components/ui/Button';
+import { Field, Input, Select } from '../../../components/ui/Field';
+import { cx } from '../../../components/ui/cx';
+
+interface ManualResultCardProps {
+  index: number;
+  characteristic: Characteristic;
+  method: TestMethodEntry | undefined;
+  control: Control<ManualEntryInput, unknown, ManualEntry>;
+  register: UseFormRegister<ManualEntryInput>;
+  errors: FieldErrors<ManualEntryInput>['results'];
+  onRemove: () => void;
+}
+
+/** A typed number, with a decimal comma or point; blank stays blank so the schema says "Enter a number". */
+const asNumber = (text: unknown) => {
+  if (typeof text !== 'string' || text.trim() === '') return undefined;
+  return parseNumber(text, true) ?? Number.NaN;
+};
+const blankAsUndefined = (text: unknown) => (typeof text === 'string' && text.trim() === '' ? undefined : text);
+
+const loadWords: Record<NonNullable<Characteristic['rawLoad']>, string> = {
+  flexural: 'Breaking loads',
+  compressive: 'Breaking loads',
+  'pull-off': 'Pull-off forces',
+};
+
+const setStatusText = {
+  accepted: { tone: 'positive', label: 'Set accepted' },
+  'accepted-one-discarded': { tone: 'warning', label: 'Set accepted, one value discarded' },
+  rejected: { tone: 'negative', label: 'Set rejected: repeat the test' },
+} as const;
+
+/** One characteristic of the lot: its readings, what they give, the verdict against the specification, and the method's cautions. */
+export function ManualResultCard({ index, characteristic: c, method, control, register, errors, onRemove }: ManualResultCardProps) {
+  const headingId = useId();
+  const entry = useWatch({ control, name: `results.${index}` });
+  const fieldErrors = errors?.[index];
+  const entryUnit = entry?.entryUnit ?? 'result';
+  const readings = Array.from({ length: c.subgroupSize }, (_, r) => readingResult(c, entry ?? {}, entry?.replicates?.[r]));
+  const values = readings.flatMap((r) => (r.kind === 'result' ? [r.value] : []));
+  const complete = values.length === c.subgroupSize;
+  const set = complete ? setResult(c, values) : null;
+  const word = readingWord(c);
+
+  return (
+    <section aria-labelledby={headingId} className="grid gap-4 rounded-lg border border-zinc-200 bg-white p-5 shadow-xs xl:grid-cols-[minmax(0,1fr)_22rem]">
+      <div className="space-y-4">
+        <header className="flex flex-wrap items-start justify-between gap-3">
+          <div>
+            <h3 id={headingId} className="text-lg font-semibold text-zinc-900">
+              {c.name}
+            </h3>
+            <p className="text-sm text-zinc-600">
+              <span className="font-mono">{c.code}</span> · {c.testMethodName} · {c.standard} · specification:{' '}
+              <span className="font-mono">{specLimitsText(c.spec, c.unit, c.decimals)}</span>
+            </p>
+          </div>
+          <Button variant="quiet" size="sm" onClick={onRemove}>
+            Remove {c.code}
+          </Button>
+        </header>
+
+        {c.rawLoad && (
+          <fieldset>
+            <legend className="mb-1.5 text-sm font-medium text-zinc-800">What you enter</legend>
+            <div className="flex flex-wrap gap-x-5 gap-y-2">
+              {(['kN', 'N', 'result'] as const).map((unit) => (
+                <label key={unit} className="inline-flex items-center gap-2">
+                  <input type="radio" value={unit} {...register(`results.${index}.entryUnit`)} className="size-4 accent-accent-700" />
+                  {unit === 'result' ? `Results in ${c.unit}` : `${loadWords[c.rawLoad!]} in ${unit}`}
+                </label>
+              ))}
+            </div>
+          </fieldset>
+        )}
+        {c.rawLoad === 'pull-off' && entryUnit !== 'result' && (
+          <Field label="Pull head" className="max-w-xs" error={fieldErrors?.pullHead?.message}>
+            {(ids) => (
+              <Select {...ids} {...register(`results.${index}.pullHead`)}>
+                {Object.entries(pullHeads).map(([value, { label }]) => (
+                  <option key={value} value={value}>
+                    {label}
+                  </option>
+                ))}
+              </Select>
+            )}
+          </Field>
+        )}
+
+        <div className="grid grid-cols-2 gap-3 sm:grid-cols-3 lg:grid-cols-6">
+          {readings.map((reading, r) => {
+            const error = fieldErrors?.replicates?.[r]?.message ?? (reading.kind === 'error' ? reading.message : undefined);
+            return (
+              <Field key={r} label={`${word} ${r + 1}`} error={error}>
+                {(ids) => (
+                  <>
+                    <div className="relative">
+                      <Input
+                        {...ids}
+                        inputMode="decimal"
+                        autoComplete="off"
+                        className={cx('pr-10 font-mono', set?.discardedIndex === r && 'line-through')}
+                        {...register(`results.${index}.replicates.${r}`, { setValueAs: asNumber })}
+                      />
+                      <span className="pointer-events-none absolute inset-y-0 right-2 flex items-center text-sm text-zinc-500">
+                        {entryUnit === 'result' ? c.unit : entryUnit}
+                      </span>
+                    </div>
+                    {reading.kind === 'result' && <ReadingOutcome characteristic={c} value={reading.value} possible={reading.possible} converted={entryUnit !== 'result'} />}
+                  </>
+                )}
+              </Field>
+            );
+          })}
+        </div>
+
+        <div className="rounded-md bg-zinc-50 px-4 py-3" aria-live="polite">
+          {set ? (
+            <SetSummary characteristic={c} set={set} />
+          ) : (
+            <p className="text-zinc-600">
+              Enter all <span className="font-mono">{c.subgroupSize}</span> readings to see the result of the set.
+            </p>
+          )}
+        </div>
+
+        <div className="grid gap-3 sm:grid-cols-2">
+          <Field label="Test time (optional)" hint="Plant time; left empty, the time of saving." error={fieldErrors?.testedAt?.message}>
+            {(ids) => <Input {...ids} type="datetime-local" {...register(`results.${index}.testedAt`, { setValueAs: blankAsUndefined })} />}
+          </Field>
+          <Field label="Note (optional)" error={fieldErrors?.note?.message}>
+            {(ids) => <Input {...ids} autoComplete="off" {...register(`results.${index}.note`, { setValueAs: blankAsUndefined })} />}
+          </Field>
+        </div>
+      </div>
+      {method && <MethodCautions cautions={method.cautions} title={`Handling cautions: ${method.name}`} className="self-start" />}
+    </section>
+  );
+}
+
+/** What one reading gives in the characteristic's unit, and whether it is possible and within specification. */
+function ReadingOutcome({ characteristic: c, value, possible, converted }: { characteristic: Characteristic; value: number; possible: boolean; converted: boolean }) {
+  const outside = specVerdict(value, c.spec, c.unit, c.decimals).tone === 'negative';
+  const remark = !possible ? 'not possible' : outside ? 'out of spec' : null;
+  if (!converted && !remark) return null;
+  return (
+    <p className={cx('font-mono text-sm', remark ? 'text-red-700' : 'text-zinc-700')}>
+      {converted && `= ${value.toFixed(c.decimals)} ${c.unit}`} {remark}
+    </p>
+  );
+}
+
+function SetSummary({ characteristic: c, set }: { characteristic: Characteristic; set: ReturnType<typeof setResult> }) {
+  const status = set.status && set.status !== 'accepted' ? setStatusText[set.status] : set.status === 'accepted' && c.testMethodCode === 'RC' ? setStatusText.accepted : null;
+  const verdict = set.value === null ? null : specVerdict(set.value, c.spec, c.unit, c.decimals);
+  return (
+    <div className="space-y-1.5">
+      <p className="flex flex-wrap items-center gap-x-3 gap-y-1">
+        <span className="font-medium text-zinc-800">Result of the set:</span>
+        <span className="font-mono text-lg font-medium" data-testid={`set-result-${c.code}`}>
+          {set.value === null ? '—' : `${set.value.toFixed(c.decimals)} ${c.unit}`}
+        </span>
+        {verdict && <Badge tone={verdict.tone}>{verdict.label}</Badge>}
+        {status && <Badge tone={status.tone}>{status.label}</Badge>}
+      </p>
+      <p className="text-sm text-zinc-600">{set.reason}</p>
+    </div>
+  );
+}

@@ -1,0 +1,30 @@
+// Production and test times are read and written in the plant's time zone, whatever the browser's.
+
+const dateTimeFormats = new Map<string, Intl.DateTimeFormat>();
+
+/** A timestamp from the API as plant time, e.g. "30 Nov 2026, 06:15". */
+export function formatPlantDateTime(iso: string, timeZone: string): string {
+  const value = new Date(iso);
+  if (Number.isNaN(value.getTime())) return iso;
+  let format = dateTimeFormats.get(timeZone);
+  if (!format) {
+    format = new Intl.DateTimeFormat('en-GB', { timeZone, day: '2-digit', month: 'short', year: 'numeric', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' });
+    dateTimeFormats.set(timeZone, format);
+  }
+  return format.format(value);
+}
+
+/** The wall-clock time in the plant as a datetime-local value, e.g. "2026-11-30T06:15". */
+export function plantDateTimeInput(instant: Date, timeZone: string): string {
+  const parts = new Intl.DateTimeFormat('en-GB', {
+    timeZone,
+    hourCycle: 'h23',
+    year: 'numeric',
+    month: '2-digit',
+    day: '2-digit',
+    hour: '2-digit',
+    minute: '2-digit',
+  }).formatToParts(instant);
+  const get = (type: Intl.DateTimeFormatPartTypes) => parts.find((p) => p.type === type)?.value ?? '';
+  return `${get('year')}-${get('month')}-${get('day')}T${get('hour')}:${get('minute')}`;
+}

@@ -1,0 +1,125 @@
+import { Link, useParams } from 'react-router';
+import { ApiError } from '../../../lib/http';
+import { useLot, type LotResult } from '../api/lots';
+import { useCharacteristics, usePlantTimeZone, type Characteristic } from '../api/catalogue';
+import { formatPlantDateTime } from '../lib/plant-time';
+import { specLimitsText, specVerdict } from '../lib/spec';
+import { setResult } from '../lib/sets';
+import { PageHeader } from '../../../components/ui/PageHeader';
+import { Badge } from '../../../components/ui/Badge';
+import { Loading } from '../../../components/ui/Spinner';
+import { ErrorState } from '../../../components/ui/ErrorState';
+import { EmptyState } from '../../../components/ui/EmptyState';
+
+interface CharacteristicResults {
+  code: string;
+  name: string;
+  unit: string;
+  values: number[];
+  sources: string[];
+  characteristic: Characteristic | undefined;
+}
+
+/** The lot's stored results, one line per characteristic in the order the API gives them. */
+function byCharacteristic(results: LotResult[], characteristics: Characteristic[]): CharacteristicResults[] {
+  const groups = new Map<string, CharacteristicResults>();
+  for (const r of results) {
+    let group = groups.get(r.characteristicCode);
+    if (!group) {
+      group = { code: r.characteristicCode, name: r.characteristicName, unit: r.unit, values: [], sources: [], characteristic: characteristics.find((c) => c.code === r.characteristicCode) };
+      groups.set(r.characteristicCode, group);
+    }
+    group.values.push(r.value);
+    const source = r.source === 'manual' ? 'entered by hand' : `upload ${r.uploadId} (${r.uploadFile})`;
+    if (!group.sources.includes(source)) group.sources.push(source);
+  }
+  return [...groups.values()];
+}
+
+export default function LotPage() {
+  const { lotNumber = '' } = useParams();
+  const lot = useLot(lotNumber);
+  const characteristics = useCharacteristics();
+  const timeZone = usePlantTimeZone().data ?? 'UTC';
+
+  if (lot.isPending) return <Loading label={`Loading lot ${lotNumber}…`} />;
+  if (lot.isError) {
+    if (lot.error instanceof ApiError && lot.error.status === 404) {
+      return (
+        <>
+          <PageHeader title={`Lot ${lotNumber}`} />
+          <EmptyState title={`No lot ${lotNumber} is recorded`}>Results create the lot when they are uploaded or entered.</EmptyState>
+        </>
+      );
+    }
+    return <ErrorState title={`Could not load lot ${lotNumber}`} error={lot.error} onRetry={() => lot.refetch()} />;
+  }
+
+  const { data } = lot;
+  const groups = byCharacteristic(data.results, characteristics.data ?? []);
+  return (
+    <>
+      <PageHeader
+        title={`Lot ${data.lotNumber}`}
+        description={
+          <>
+            {data.productName} (<span className="font-mono">{data.productCode}</span>) on line <span className="font-mono">{data.lineCode}</span>, produced{' '}
+            <span className="font-mono">{formatPlantDateTime(data.producedAt, timeZone)}</span>
+            {data.shift ? `, ${data.shift} shift` : ''}
+          </>
+        }
+      />
+      {groups.length === 0 ? (
+        <EmptyState title="No results stored for this lot">Voided uploads leave no results behind.</EmptyState>
+      ) : (
+        <div className="overflow-x-auto rounded-lg border border-zinc-200 bg-white">
+          <table className="w-full border-collapse text-left">
+            <caption className="sr-only">Results of lot {data.lotNumber}</caption>
+            <thead className="bg-zinc-100/80 text-sm text-zinc-700">
+              <tr>
+                <th scope="col" className="border-b border-zinc-200 px-3 py-2.5 font-semibold">Characteristic</th>
+                <th scope="col" className="border-b border-zinc-200 px-3 py-2.5 font-semibold">Readings</th>
+                <th scope="col" className="border-b border-zinc-200 px-3 py-2.5 text-right font-semibold">Result</th>
+                <th scope="col" className="border-b border-zinc-200 px-3 py-2.5 font-semibold">Specification</th>
+                <th scope="col" className="border-b border-zinc-200 px-3 py-2.5 font-semibold">Source</th>
+              </tr>
+            </thead>
+            <tbody>
+              {groups.map((g) => {
+                const decimals = g.characteristic?.decimals ?? 2;
+                const result = g.characteristic ? setResult(g.characteristic, g.values) : null;
+                return (
+                  <tr key={g.code} className="border-b border-zinc-100 align-top last:border-b-0">
+                    <td className="px-3 py-2">
+                      <span className="block font-mono text-sm">{g.code}</span>
+                      <span className="block text-sm text-zinc-600">{g.name}</span>
+                    </td>
+                    <td className="px-3 py-2 font-mono">{g.values.map((v) => v.toFixed(decimals)).join('  ')}</td>
+                    <td className="px-3 py-2 text-right font-mono whitespace-nowrap" title={result?.reason}>
+                      {result?.value == null ? (result ? 'set rejected' : '—') : `${result.value.toFixed(decimals)} ${g.unit}`}
+                    </td>
+                    <td className="px-3 py-2">
+                      {result?.value != null && <Verdict value={result.value} characteristic={g.characteristic!} />}
+                      <span className="mt-1 block font-mono text-sm text-zinc-600">{specLimitsText(g.characteristic?.spec ?? null, g.unit, decimals)}</span>
+                    </td>
+                    <td className="px-3 py-2 text-sm text-zinc-700">{g.sources.join('; ')}</td>
+                  </tr>
+                );
+              })}
+            </tbody>
+          </table>
+        </div>
+      )}
+      <p className="mt-4 text-sm">
+        <Link to="/results/history" className="text-accent-800 underline underline-offset-2">
+          Upload history
+        </Link>
+      </p>
+    </>
+  );
+}
+
+function Verdict({ value, characteristic }: { value: number; characteristic: Characteristic }) {
+  const verdict = specVerdict(value, characteristic.spec, characteristic.unit, characteristic.decimals);
+  return <Badge tone={verdict.tone}>{verdict.label}</Badge>;
+}

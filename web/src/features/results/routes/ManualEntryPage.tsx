@@ -1,0 +1,253 @@
+import { useMemo, useState } from 'react';
+import { Link } from 'react-router';
+import { useFieldArray, useForm, useWatch, type FieldPath } from 'react-hook-form';
+import { zodResolver } from '@hookform/resolvers/zod';
+import { manualEntrySchema, type ManualEntryInput, type RowError } from '../../../../../shared/ingest';
+import { ApiError, errorMessage } from '../../../lib/http';
+import { useEntryCatalogue, type EntryCatalogue } from '../api/catalogue';
+import { useSaveManualEntry } from '../api/lots';
+import { ManualResultCard } from '../components/ManualResultCard';
+import { characteristicLabel } from '../lib/names';
+import { PageHeader } from '../../../components/ui/PageHeader';
+import { Card } from '../../../components/ui/Card';
+import { Alert } from '../../../components/ui/Alert';
+import { Button } from '../../../components/ui/Button';
+import { Field, Input, Select } from '../../../components/ui/Field';
+import { Loading } from '../../../components/ui/Spinner';
+import { ErrorState } from '../../../components/ui/ErrorState';
+
+export default function ManualEntryPage() {
+  const catalogue = useEntryCatalogue();
+  return (
+    <>
+      <PageHeader
+        title="Enter a lot by hand"
+        description="Type the results of one lot. Strengths may be entered as the press's breaking loads: they are converted by the method's formula, shown before saving and stored as results."
+      />
+      {catalogue.error ? (
+        <ErrorState title="Could not load the products and characteristics" error={catalogue.error} onRetry={catalogue.retry} />
+      ) : !catalogue.data ? (
+        <Loading label="Loading products and characteristics…" />
+      ) : (
+        <ManualEntryForm catalogue={catalogue.data} />
+      )}
+    </>
+  );
+}
+
+const blankAsUndefined = (text: unknown) => (typeof text === 'string' && text.trim() === '' ? undefined : text);
+
+/** The import path names the columns of its canonical rows; in the form they are these fields. */
+const fieldOfColumn: Record<string, FieldPath<ManualEntryInput>> = { lot: 'lot', product: 'product', line: 'line', produced_at: 'producedAt', shift: 'shift', operator: 'operator' };
+
+function fieldFor(column: string): FieldPath<ManualEntryInput> | null {
+  if (fieldOfColumn[column]) return fieldOfColumn[column];
+  return /^results\.\d+\.(characteristic|replicates\.\d+)$/.test(column) ? (column as FieldPath<ManualEntryInput>) : null;
+}
+
+const emptyEntry: ManualEntryInput = { lot: '', product: '', line: '', producedAt: '', results: [] };
+
+function ManualEntryForm({ catalogue }: { catalogue: EntryCatalogue }) {
+  const save = useSaveManualEntry();
+  const [saved, setSaved] = useState<{ lot: string; rows: number } | null>(null);
+  const [serverErrors, setServerErrors] = useState<string[]>([]);
+  const [adding, setAdding] = useState('');
+  const {
+    control,
+    register,
+    handleSubmit,
+    setError,
+    setValue,
+    reset,
+    getValues,
+    formState: { errors },
+  } = useForm({ resolver: zodResolver(manualEntrySchema), defaultValues: emptyEntry });
+  const results = useFieldArray({ control, name: 'results' });
+  const productCode = useWatch({ control, name: 'product' });
+
+  const products = catalogue.products.filter((p) => p.active);
+  const ofProduct = useMemo(() => catalogue.characteristics.filter((c) => c.active && c.productCode === productCode), [catalogue, productCode]);
+  const added = new Set(results.fields.map((f) => f.characteristic));
+  const addable = ofProduct.filter((c) => !added.has(c.code));
+  const byCode = new Map(catalogue.characteristics.map((c) => [c.code, c]));
+  const methods = new Map(catalogue.testMethods.map((m) => [m.code, m]));
+  const readingCount = results.fields.reduce((sum, f) => sum + (byCode.get(f.characteristic)?.subgroupSize ?? 0), 0);
+
+  const chooseProduct = (code: string) => {
+    const product = products.find((p) => p.code === code);
+    if (product?.lineCode) setValue('line', product.lineCode);
+    // Characteristics belong to one product; those of the previous one no longer apply.
+    results.replace([]);
+    setAdding('');
+  };
+
+  const addCharacteristic = () => {
+    const c = byCode.get(adding);
+    if (!c) return;
+    results.append({
+      characteristic: c.code,
+      entryUnit: c.rawLoad ? 'kN' : 'result',
+      pullHead: c.rawLoad === 'pull-off' ? (c.productFamily === 'tile-adhesive' ? 'square50' : 'round50') : undefined,
+      replicates: [],
+    });
+    setAdding('');
+  };
+
+  const onSubmit = handleSubmit((entry) => {
+    setSaved(null);
+    setServerErrors([]);
+    // A subgroup is the characteristic's full set of readings; readings left blank at the end never reach the values.
+    const blank = entry.results.flatMap((result, i) => {
+      const size = byCode.get(result.characteristic)?.subgroupSize ?? 0;
+      return Array.from({ length: Math.max(0, size - result.replicates.length) }, (_, k) => `results.${i}.replicates.${result.replicates.length + k}` as const);
+    });
+    if (blank.length > 0) {
+      blank.forEach((field, i) => setError(field, { message: 'Enter a number' }, { shouldFocus: i === 0 }));
+      return;
+    }
+    save.mutate(entry, {
+      onSuccess: (outcome) => {
+        if (outcome.kind === 'imported') {
+          setSaved({ lot: entry.lot, rows: outcome.rowsImported });
+          // The next lot is usually of the same product, line, shift and operator.
+          reset({ ...getValues(), lot: '', results: [] });
+          return;
+        }
+        setServerErrors(placeErrors(outcome.errors));
+      },
+      onError: (error) => {
+        const details = error instanceof ApiError ? error.details : [];
+        const placed = details.filter((d) => {
+          const field = fieldFor(d.path);
+          if (field) setError(field, { message: d.message });
+          return !!field;
+        });
+        if (placed.length === 0) setServerErrors([errorMessage(error)]);
+      },
+    });
+  });
+
+  /** Puts each of the server's messages under its field; returns those that belong to no single field. */
+  const placeErrors = (rowErrors: RowError[]) =>
+    rowErrors.flatMap((e) => {
+      const field = fieldFor(e.column);
+      if (!field) return [e.message];
+      setError(field, { message: e.message });
+      return [];
+    });
+
+  return (
+    <form onSubmit={onSubmit} noValidate className="space-y-5" aria-label="Results of one lot">
+      {saved && (
+        <Alert tone="success">
+          Saved: <span className="font-mono">{saved.rows}</span> results of lot{' '}
+          <Link to={`/results/lots/${encodeURIComponent(saved.lot)}`} className="font-medium underline underline-offset-2">
+            {saved.lot}
+          </Link>
+          . The form is ready for the next lot.
+        </Alert>
+      )}
+
+      <Card title="The lot">
+        <div className="grid gap-x-5 gap-y-4 sm:grid-cols-2 xl:grid-cols-3">
+          <Field label="Product" error={errors.product?.message} hint="Changing the product clears the characteristics below.">
+            {(ids) => (
+              <Select {...ids} {...register('product', { onChange: (event) => chooseProduct(event.target.value) })}>
+                <option value="">Choose a product…</option>
+                {products.map((p) => (
+                  <option key={p.code} value={p.code}>
+                    {p.name} ({p.code})
+                  </option>
+                ))}
+              </Select>
+            )}
+          </Field>
+          <Field label="Production line" error={errors.line?.message}>
+            {(ids) => (
+              <Select {...ids} {...register('line')}>
+                <option value="">Choose a line…</option>
+                {catalogue.lines.map((l) => (
+                  <option key={l.code} value={l.code}>
+                    {l.name} ({l.code})
+                  </option>
+                ))}
+              </Select>
+            )}
+          </Field>
+          <Field label="Lot number" error={errors.lot?.message} hint="As printed on the bag or silo ticket.">
+            {(ids) => <Input {...ids} autoComplete="off" className="font-mono" {...register('lot')} />}
+          </Field>
+          <Field label="Production time" error={errors.producedAt?.message} hint={`Plant time (${catalogue.timeZone}). Results belong to when the lot was made, not when it was tested.`}>
+            {(ids) => <Input {...ids} type="datetime-local" {...register('producedAt')} />}
+          </Field>
+          <Field label="Shift (optional)" error={errors.shift?.message}>
+            {(ids) => (
+              <Select {...ids} {...register('shift', { setValueAs: blankAsUndefined })}>
+                <option value="">—</option>
+                <option value="early">Early</option>
+                <option value="late">Late</option>
+                <option value="night">Night</option>
+              </Select>
+            )}
+          </Field>
+          <Field label="Operator (optional)" error={errors.operator?.message} hint="Who ran the tests; initials are fine.">
+            {(ids) => <Input {...ids} autoComplete="off" {...register('operator', { setValueAs: blankAsUndefined })} />}
+          </Field>
+        </div>
+      </Card>
+
+      <section aria-label="Characteristics of the lot" className="space-y-4">
+        {results.fields.map((field, index) => {
+          const c = byCode.get(field.characteristic);
+          return c ? (
+            <ManualResultCard
+              key={field.id}
+              index={index}
+              characteristic={c}
+              method={methods.get(c.testMethodCode)}
+              control={control}
+              register={register}
+              errors={errors.results}
+              onRemove={() => results.remove(index)}
+            />
+          ) : null;
+        })}
+        {errors.results?.root?.message || errors.results?.message ? <Alert tone="error">{errors.results.root?.message ?? errors.results.message}</Alert> : null}
+        <div className="flex flex-wrap items-end gap-3 rounded-lg border border-dashed border-zinc-300 bg-white px-5 py-4">
+          <Field label="Add a characteristic" className="w-full max-w-md" hint={productCode ? undefined : 'Choose the product first.'}>
+            {(ids) => (
+              <Select {...ids} value={adding} onChange={(event) => setAdding(event.target.value)} disabled={!productCode || addable.length === 0}>
+                <option value="">{addable.length === 0 && productCode ? 'All characteristics added' : 'Choose a characteristic…'}</option>
+                {addable.map((c) => (
+                  <option key={c.code} value={c.code}>
+                    {c.code} · {characteristicLabel(c)}
+                  </option>
+                ))}
+              </Select>
+            )}
+          </Field>
+          <Button variant="secondary" onClick={addCharacteristic} disabled={!adding}>
+            Add
+          </Button>
+        </div>
+      </section>
+
+      {serverErrors.length > 0 && (
+        <Alert tone="error">
+          <p className="font-semibold">Nothing was saved.</p>
+          <ul className="mt-1 list-disc pl-5">
+            {serverErrors.map((message) => (
+              <li key={message}>{message}</li>
+            ))}
+          </ul>
+        </Alert>
+      )}
+      <div className="flex flex-wrap items-center gap-3">
+        <Button type="submit" busy={save.isPending} disabled={results.fields.length === 0}>
+          {readingCount > 0 ? `Save ${readingCount} results` : 'Save the results'}
+        </Button>
+        <p className="text-sm text-zinc-600">All results of the lot are saved together, or none.</p>
+      </div>
+    </form>
+  );
+}

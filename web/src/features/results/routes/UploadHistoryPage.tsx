@@ -1,0 +1,158 @@
+import { useMemo, useState } from 'react';
+import { Link, useSearchParams } from 'react-router';
+import { createColumnHelper, getCoreRowModel, useReactTable } from '@tanstack/react-table';
+import { useSignedInUser } from '../../auth/api/session';
+import { uploadLinks, useUploads, type Upload, type UploadStatus } from '../api/uploads';
+import { usePlantTimeZone } from '../api/catalogue';
+import { formatPlantDateTime } from '../lib/plant-time';
+import { entryRoles, voidRoles } from '../lib/roles';
+import { VoidUploadDialog } from '../components/VoidUploadDialog';
+import { DownloadLink } from '../components/DownloadLink';
+import { PageHeader } from '../../../components/ui/PageHeader';
+import { DataTable } from '../../../components/ui/Table';
+import { Badge } from '../../../components/ui/Badge';
+import { Button } from '../../../components/ui/Button';
+import { Alert } from '../../../components/ui/Alert';
+import { Select } from '../../../components/ui/Field';
+import { Loading } from '../../../components/ui/Spinner';
+import { ErrorState } from '../../../components/ui/ErrorState';
+import { EmptyState } from '../../../components/ui/EmptyState';
+
+const column = createColumnHelper<Upload>();
+
+const statusBadge: Record<UploadStatus, { tone: 'positive' | 'negative' | 'neutral'; label: string }> = {
+  imported: { tone: 'positive', label: 'Imported' },
+  rejected: { tone: 'negative', label: 'Rejected' },
+  voided: { tone: 'neutral', label: 'Voided' },
+};
+
+const statusFilters: { value: UploadStatus | ''; label: string }[] = [
+  { value: '', label: 'All uploads' },
+  { value: 'imported', label: 'Imported' },
+  { value: 'rejected', label: 'Rejected' },
+  { value: 'voided', label: 'Voided' },
+];
+
+export default function UploadHistoryPage() {
+  const user = useSignedInUser();
+  const [params, setParams] = useSearchParams();
+  const status = (statusFilters.find((f) => f.value === params.get('status'))?.value || undefined) as UploadStatus | undefined;
+  const uploads = useUploads(status);
+  const timeZone = usePlantTimeZone().data ?? 'UTC';
+  const [voiding, setVoiding] = useState<Upload | null>(null);
+  const [notice, setNotice] = useState<string | null>(null);
+  const canVoid = voidRoles.includes(user.role);
+  const canUpload = entryRoles.includes(user.role);
+
+  const columns = useMemo(
+    () => [
+      column.accessor('uploadedAt', {
+        header: 'Uploaded (plant time)',
+        cell: (info) => <span className="font-mono text-sm whitespace-nowrap">{formatPlantDateTime(info.getValue(), timeZone)}</span>,
+      }),
+      column.accessor('uploadedByName', { header: 'By', cell: (info) => info.getValue() ?? '—' }),
+      column.accessor('fileName', {
+        header: 'File',
+        cell: (info) => (
+          <div className="min-w-48">
+            <span className="block font-medium [overflow-wrap:break-word]">{info.getValue()}</span>
+            <span className="block text-sm text-zinc-600">
+              Upload <span className="font-mono">{info.row.original.id}</span> · {info.row.original.format === 'wide' ? 'one row per lot' : 'one result per row'}
+            </span>
+          </div>
+        ),
+      }),
+      column.accessor('rowsTotal', { header: 'Rows', meta: { numeric: true } }),
+      column.accessor('rowsImported', { header: 'Results imported', meta: { numeric: true } }),
+      column.accessor('rowsRejected', { header: 'Rows rejected', meta: { numeric: true } }),
+      column.accessor('status', {
+        header: 'Status',
+        cell: (info) => {
+          const upload = info.row.original;
+          return (
+            <>
+              <Badge tone={statusBadge[upload.status].tone}>{statusBadge[upload.status].label}</Badge>
+              {upload.status === 'voided' && upload.voidReason && <span className="mt-1 block max-w-xs text-sm text-zinc-600">{upload.voidReason}</span>}
+            </>
+          );
+        },
+      }),
+      column.display({
+        id: 'actions',
+        header: 'Actions',
+        cell: (info) => {
+          const upload = info.row.original;
+          return (
+            <div className="flex items-center gap-3 whitespace-nowrap">
+              <DownloadLink href={uploadLinks.file(upload.id)}>Original file</DownloadLink>
+              {upload.status === 'rejected' && <DownloadLink href={uploadLinks.errorReport(upload.id)}>Error report</DownloadLink>}
+              {upload.status === 'imported' && canVoid && (
+                <Button variant="secondary" size="sm" onClick={() => setVoiding(upload)}>
+                  Void…
+                </Button>
+              )}
+            </div>
+          );
+        },
+      }),
+    ],
+    [timeZone, canVoid],
+  );
+
+  const table = useReactTable({ data: uploads.data ?? [], columns, enableSorting: false, getCoreRowModel: getCoreRowModel() });
+
+  return (
+    <>
+      <PageHeader
+        title="Upload history"
+        description="Every file uploaded, who uploaded it and what became of it. A rejected file stored nothing; its error report lists the rows to correct."
+        actions={<DownloadLink href={uploadLinks.template}>Download the CSV template</DownloadLink>}
+      />
+      <div className="space-y-4">
+        <div className="flex flex-wrap items-center gap-3">
+          <label htmlFor="upload-status" className="text-sm font-medium text-zinc-800">
+            Show
+          </label>
+          <div className="w-48">
+            <Select id="upload-status" value={status ?? ''} onChange={(event) => setParams(event.target.value ? { status: event.target.value } : {})}>
+              {statusFilters.map((f) => (
+                <option key={f.value} value={f.value}>
+                  {f.label}
+                </option>
+              ))}
+            </Select>
+          </div>
+        </div>
+        {notice && <Alert tone="success">{notice}</Alert>}
+        {uploads.isPending ? (
+          <Loading label="Loading uploads…" />
+        ) : uploads.isError ? (
+          <ErrorState title="Could not load the upload history" error={uploads.error} onRetry={() => uploads.refetch()} />
+        ) : uploads.data.length === 0 && !status ? (
+          <EmptyState title="No uploads yet — upload the shift's results or download the template">
+            <span className="inline-flex flex-wrap justify-center gap-4">
+              {canUpload && (
+                <Link to="/results/upload" className="font-medium text-accent-800 underline underline-offset-2">
+                  Upload a file
+                </Link>
+              )}
+              <DownloadLink href={uploadLinks.template}>Download the CSV template</DownloadLink>
+            </span>
+          </EmptyState>
+        ) : (
+          <DataTable table={table} caption="Uploads, newest first" empty={<EmptyState title="No upload in this state" />} />
+        )}
+      </div>
+      {voiding && (
+        <VoidUploadDialog
+          upload={voiding}
+          onClose={() => setVoiding(null)}
+          onVoided={(count) => {
+            setNotice(`Upload ${voiding.id} is void: ${count} result${count === 1 ? '' : 's'} left every calculation and stay in the record.`);
+            setVoiding(null);
+          }}
+        />
+      )}
+    </>
+  );
+}
