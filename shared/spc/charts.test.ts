@@ -154,6 +154,17 @@ describe('variable subgroup sizes', () => {
     expect(flat.sigmaWithin).toBe(chart.sigmaWithin);
     expect(flat.points.perPoint?.locationUcl).toEqual(chart.points.perPoint?.locationUcl);
   });
+  it('judges each point against its own limits, a point exactly on its limit not being beyond it', () => {
+    // Frozen centre 10 and sigma within 2: the X̄ limits are 10 ± 6/√n, i.e. 13 for n = 4 and 11.5 for n = 16.
+    const c = computeChart({
+      subgroups: [[13, 13, 13, 13], Array(16).fill(11.5), [13.25, 13.25, 13.25, 13.25], Array(16).fill(11.6)],
+      frozen: { chart: 'xbar-s', center: 10, sigmaWithin: 2 },
+      rules: ['we1'],
+    });
+    expect([0, 1, 2, 3].map((i) => pointAt(c, i).locationLimits.ucl)).toEqual([13, 11.5, 13, 11.5]);
+    // The subgroups of 16 identical values also fall below their S chart LCL, (c4 − 3·√(1 − c4²))·σ > 0.
+    expect(c.violations.map((v) => [v.chart, v.index])).toEqual([['dispersion', 1], ['location', 2], ['location', 3], ['dispersion', 3]]);
+  });
   it('plots a single-value subgroup without a range', () => {
     const c = computeChart({ subgroups: [[1, 2, 3], [2], [2, 4, 3]] });
     expect(pointAt(c, 1).dispersion).toBeNull();

@@ -122,13 +122,12 @@ interface Scan {
   lastIndex: number;
 }
 
-const WORDS = 10;
-const [W_A, W_B, W_H1, W_L1, W_H2, W_L2, W_U, W_D, W_E1, W_R1] = [0, 1, 2, 3, 4, 5, 6, 7, 8, 9];
+const WORDS = 9;
+const [W_A, W_B, W_H1, W_L1, W_H2, W_L2, W_U, W_D, W_R1] = [0, 1, 2, 3, 4, 5, 6, 7, 8];
 
 /**
  * Reads the next (up to) 32 judged points and sets the block's bit words: above / below the centre
- * line, beyond ±1σ, beyond ±2σ, a step up / down, beyond a control limit, and a dispersion value
- * beyond its limits. Returns how many points the block holds. A function of its own, called once per
+ * line, beyond ±1σ, beyond ±2σ, a step up / down, and a dispersion value beyond its limits. Returns how many points the block holds. A function of its own, called once per
  * block, so that the optimiser compiles it whole.
  */
 function scanBlock(st: Scan, words: Int32Array, position: Int32Array): number {
@@ -137,20 +136,20 @@ function scanBlock(st: Scan, words: Int32Array, position: Int32Array): number {
   // The zone lines use the same expressions as the reported limits, so that a point lying exactly on
   // a reported limit compares equal to it.
   let s = st.sigma;
-  let plus1 = c + s, plus2 = c + 2 * s, plus3 = c + 3 * s, minus1 = c - s, minus2 = c - 2 * s, minus3 = c - 3 * s;
+  let plus1 = c + s, plus2 = c + 2 * s, minus1 = c - s, minus2 = c - 2 * s;
   let ucl = st.ucl;
   let lcl = st.lcl;
   let previous = st.previous;
   let lastIndex = st.lastIndex;
   let i = st.next;
-  let A = 0, B = 0, H1 = 0, L1 = 0, H2 = 0, L2 = 0, U = 0, D = 0, E1 = 0, R1 = 0;
+  let A = 0, B = 0, H1 = 0, L1 = 0, H2 = 0, L2 = 0, U = 0, D = 0, R1 = 0;
   let j = 0;
   for (; j < 32 && i < n; i++) {
     if (skip !== null && skip[i] === 1) continue;
     const x = values[i];
     if (sigmas !== null) {
       s = sigmas[i];
-      plus1 = c + s; plus2 = c + 2 * s; plus3 = c + 3 * s; minus1 = c - s; minus2 = c - 2 * s; minus3 = c - 3 * s;
+      plus1 = c + s; plus2 = c + 2 * s; minus1 = c - s; minus2 = c - 2 * s;
     }
     // Shifting by a constant is markedly cheaper than setting bit j.
     A = (A << 1) | bit(x > c);
@@ -161,7 +160,6 @@ function scanBlock(st: Scan, words: Int32Array, position: Int32Array): number {
     L2 = (L2 << 1) | bit(x < minus2);
     U = (U << 1) | bit(x > previous);
     D = (D << 1) | bit(x < previous);
-    E1 = (E1 << 1) | bit(x > plus3) | bit(x < minus3);
     if (hasSpread) {
       if (uclArray !== null) ucl = uclArray[i];
       if (lclArray !== null) lcl = lclArray[i];
@@ -180,10 +178,10 @@ function scanBlock(st: Scan, words: Int32Array, position: Int32Array): number {
   if (j < 32) {
     // Only the last block can be short: align its oldest point with bit 31 like a full block's.
     const gap = 32 - j;
-    A <<= gap; B <<= gap; H1 <<= gap; L1 <<= gap; H2 <<= gap; L2 <<= gap; U <<= gap; D <<= gap; E1 <<= gap; R1 <<= gap;
+    A <<= gap; B <<= gap; H1 <<= gap; L1 <<= gap; H2 <<= gap; L2 <<= gap; U <<= gap; D <<= gap; R1 <<= gap;
   }
   words[W_A] = A; words[W_B] = B; words[W_H1] = H1; words[W_L1] = L1; words[W_H2] = H2;
-  words[W_L2] = L2; words[W_U] = U; words[W_D] = D; words[W_E1] = E1; words[W_R1] = R1;
+  words[W_L2] = L2; words[W_U] = U; words[W_D] = D; words[W_R1] = R1;
   st.next = i;
   st.previous = previous;
   st.lastIndex = lastIndex;
@@ -201,12 +199,12 @@ function scanBlock(st: Scan, words: Int32Array, position: Int32Array): number {
 export function findViolations(series: LocationSeries, dispersion: DispersionSeries | null, rules: readonly RuleId[], out: Violation[]): void {
   const on = new Set(rules);
   if (on.size === 0) return;
-  const { values, skip } = series;
+  const { values, skip, center: c } = series;
+  const sigma = typeof series.sigma === 'number' ? series.sigma : 0;
+  const sigmas = typeof series.sigma === 'number' ? null : series.sigma;
   const spread = on.has('we1') ? dispersion : null;
   const st: Scan = {
-    values, skip, center: series.center,
-    sigma: typeof series.sigma === 'number' ? series.sigma : 0,
-    sigmas: typeof series.sigma === 'number' ? null : series.sigma,
+    values, skip, center: c, sigma, sigmas,
     hasSpread: spread !== null,
     spreadValues: spread === null ? null : spread.values,
     spreadJudged: spread === null ? null : spread.judged,
@@ -233,7 +231,17 @@ export function findViolations(series: LocationSeries, dispersion: DispersionSer
     const j = scanBlock(st, words, position);
     if (j === 0) break;
     const A = words[W_A], B = words[W_B], H1 = words[W_H1], L1 = words[W_L1], H2 = words[W_H2];
-    const L2 = words[W_L2], U = words[W_U], D = words[W_D], E1 = words[W_E1], R1 = words[W_R1];
+    const L2 = words[W_L2], U = words[W_U], D = words[W_D], R1 = words[W_R1];
+    // Beyond a control limit is beyond 2σ too: only those few points are compared with the limits.
+    let E1 = 0;
+    for (let cand = (H2 | L2) & masks.we1; cand !== 0; ) {
+      const b = 31 - Math.clz32(cand);
+      cand ^= 1 << b;
+      const index = position[31 - b];
+      const x = values[index];
+      const sd = sigmas === null ? sigma : sigmas[index];
+      if (x > c + 3 * sd || x < c - 3 * sd) E1 |= 1 << b;
+    }
     const valid = j === 32 ? -1 : ~((1 << (32 - j)) - 1);
 
     const A2 = A & back(A, pA, 1), B2 = B & back(B, pB, 1);
