@@ -88,6 +88,12 @@ async function main(): Promise<number> {
     PRISMLINE_BASE_URL: baseUrl,
     PRISMLINE_TEST_PG_ROOT: cluster.root,
     PRISMLINE_TEST_PG_PORT: String(cluster.port),
+    // SPC runs and e-mail: the local fake SMTP server, quick retries, no nightly schedule firing mid-suite.
+    SMTP_URL: '',
+    MAIL_POLL_MS: '250',
+    SPC_JOB_RETRY_LIMIT: '1',
+    SPC_JOB_RETRY_DELAY_SECONDS: '1',
+    PRISMLINE_SCHEDULER: '0',
   };
   mkdirSync(resolve(root, 'test-artifacts'), { recursive: true });
   server = spawn(resolve(root, 'node_modules/.bin/tsx'), ['api/server.ts'], {
