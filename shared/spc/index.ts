@@ -16,8 +16,12 @@
  *       mixture) or a list of RuleId.
  *     The result gives `location` and `dispersion` limits { center, ucl, lcl, sigma } (location also
  *     zone lines at ±1σ, ±2σ) for `limitsSubgroupSize`, `sigmaWithin`, `sigmaOverall`, `mean`,
- *     the columns in `points` (typed arrays; per-point limits in `points.perPoint` when subgroup sizes
- *     vary), `violations` [{ rule, chart: 'location'|'dispersion', index, points }] and `reasons`.
+ *     `frozen` (the limits to store for phase II), the columns in `points` (typed arrays: location,
+ *     dispersion, hasDispersion, excluded, size; per-point limits in `points.perPoint` when subgroup
+ *     sizes vary; for I–MR `location` is the input itself and the moving ranges are built on first
+ *     read), `violations` [{ rule, chart: 'location'|'dispersion', index, points }] sorted by point,
+ *     and `reasons` [{ code, message }]. Run-rule conventions (ties, points on a line, overlapping
+ *     windows, exclusions) are listed at the top of rules.ts.
  *   pointAt(result, i) / pointList(result) → ChartPoint: one point as plain values, null where absent.
  *
  * Capability

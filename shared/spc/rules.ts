@@ -1,5 +1,6 @@
-// Run rules, evaluated in one pass per chart with running counters and bit windows, so that the cost
-// per point stays constant however long the pattern is.
+// Run rules, evaluated in one pass over the points for both charts: each block of 32 points becomes a
+// few bit words, and every pattern is a handful of bitwise operations on them, so the cost per point
+// is the same whatever the pattern's length and however many windows overlap.
 //
 // Conventions (ours, stated so that the web app and the reports say the same thing):
 // - "beyond kσ" is strictly beyond: a point exactly on a control limit or zone line is not beyond it;
@@ -127,8 +128,9 @@ const [W_A, W_B, W_H1, W_L1, W_H2, W_L2, W_U, W_D, W_R1] = [0, 1, 2, 3, 4, 5, 6,
 
 /**
  * Reads the next (up to) 32 judged points and sets the block's bit words: above / below the centre
- * line, beyond ±1σ, beyond ±2σ, a step up / down, and a dispersion value beyond its limits. Returns how many points the block holds. A function of its own, called once per
- * block, so that the optimiser compiles it whole.
+ * line, beyond ±1σ, beyond ±2σ, a step up / down, and a dispersion value beyond its limits. Returns
+ * how many points the block holds. A function of its own, called once per block, so that the
+ * optimiser compiles it whole.
  */
 function scanBlock(st: Scan, words: Int32Array, position: Int32Array): number {
   const { values, skip, center: c, sigmas, hasSpread, spreadValues, spreadJudged, uclArray, lclArray } = st;
