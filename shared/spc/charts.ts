@@ -505,40 +505,77 @@ function movingRanges(x: Float64Array): Float64Array {
 }
 
 function subgroupStats(layout: Layout, chart: ChartType, excluded: Uint8Array | null): Stats {
-  const x = layout.values;
   const k = layout.count;
-  const means = new Float64Array(k);
-  const spread = new Float64Array(k);
-  const has = new Uint8Array(k);
   const useRange = chart === 'xbar-r';
+  // Bias factors d2(n) or c4(n) for the sizes present, looked up by size inside the pass.
+  const sizes = new Set<number>();
+  if (layout.offsets === null) sizes.add(layout.size);
+  else for (let g = 0; g < k; g++) sizes.add(layout.offsets[g + 1] - layout.offsets[g]);
+  const factors = new Float64Array(Math.max(...sizes, 1) + 1).fill(1);
+  for (const n of sizes) if (n >= 2) factors[n] = useRange ? d2Of(n) : c4Of(n);
+  const columns = { means: new Float64Array(k), spread: new Float64Array(k), has: new Uint8Array(k) };
+  const sums = subgroupPass(layout, useRange, excluded, factors, columns);
+  return {
+    location: columns.means, dispersion: columns.spread, hasDispersion: columns.has,
+    keptValues: sums.keptValues, keptSum: sums.keptSum, shift: sums.shift, finiteCheck: sums.finiteCheck,
+    shiftedSum: sums.shiftedSum, shiftedSquares: sums.shiftedSquares,
+    withinSum: sums.withinSum, withinCount: sums.withinCount, singleValueSubgroups: sums.singles,
+  };
+}
+
+interface SubgroupSums {
+  keptValues: number;
+  keptSum: number;
+  shift: number;
+  shiftedSum: number;
+  shiftedSquares: number;
+  finiteCheck: number;
+  withinSum: number;
+  withinCount: number;
+  singles: number;
+}
+
+/** One pass over the subgroups: mean and range or standard deviation of each, and the sums. */
+function subgroupPass(
+  layout: Layout,
+  useRange: boolean,
+  excluded: Uint8Array | null,
+  factors: Float64Array,
+  out: { means: Float64Array; spread: Float64Array; has: Uint8Array },
+): SubgroupSums {
+  const { values: x, count: k, size, offsets } = layout;
+  const { means, spread, has } = out;
+  const shift = x.length > 0 ? x[0] : 0;
   let keptValues = 0;
   let keptSum = 0;
-  const shift = x.length > 0 ? x[0] : 0;
   let shiftedSum = 0;
   let shiftedSquares = 0;
   let finiteCheck = 0;
   let withinSum = 0;
   let withinCount = 0;
   let singles = 0;
-  let factorSize = 0;
-  let factor = 1;
   for (let g = 0; g < k; g++) {
-    const start = layout.offsets === null ? g * layout.size : layout.offsets[g];
-    const n = layout.offsets === null ? layout.size : layout.offsets[g + 1] - start;
-    const end = start + n;
+    const start = offsets === null ? g * size : offsets[g];
+    const end = offsets === null ? start + size : offsets[g + 1];
+    const n = end - start;
     let sum = 0;
     let d1 = 0;
     let d2 = 0;
+    // Math.min and Math.max compile without branches; comparisons would mispredict on random data.
+    let lo = x[start];
+    let hi = lo;
     for (let j = start; j < end; j++) {
       const v = x[j];
       sum += v;
       const d = v - shift;
       d1 += d;
       d2 += d * d;
+      lo = Math.min(lo, v);
+      hi = Math.max(hi, v);
     }
     const m = sum / n;
-    finiteCheck += d2;
     means[g] = m;
+    finiteCheck += d2;
     const kept = excluded === null || excluded[g] === 0;
     if (kept) {
       keptSum += sum;
@@ -550,17 +587,8 @@ function subgroupStats(layout: Layout, chart: ChartType, excluded: Uint8Array | 
       singles++;
       continue;
     }
-    let d: number;
-    if (useRange) {
-      let lo = x[start];
-      let hi = lo;
-      for (let j = start + 1; j < end; j++) {
-        const v = x[j];
-        if (v < lo) lo = v;
-        else if (v > hi) hi = v;
-      }
-      d = hi - lo;
-    } else {
+    let d = hi - lo;
+    if (!useRange) {
       let ss = 0;
       for (let j = start; j < end; j++) {
         const e = x[j] - m;
@@ -571,15 +599,11 @@ function subgroupStats(layout: Layout, chart: ChartType, excluded: Uint8Array | 
     spread[g] = d;
     has[g] = 1;
     if (kept) {
-      if (n !== factorSize) {
-        factorSize = n;
-        factor = useRange ? d2Of(n) : c4Of(n);
-      }
-      withinSum += d / factor;
+      withinSum += d / factors[n];
       withinCount++;
     }
   }
-  return { location: means, dispersion: spread, hasDispersion: has, keptValues, keptSum, shift, finiteCheck, shiftedSum, shiftedSquares, withinSum, withinCount, singleValueSubgroups: singles };
+  return { keptValues, keptSum, shift, shiftedSum, shiftedSquares, finiteCheck, withinSum, withinCount, singles };
 }
 
 /**
