@@ -1,15 +1,16 @@
 // The one path by which results enter the database: CSV uploads, manual entry and the demo seed.
 // All or nothing: a file with one bad row stores no measurement, only the rejected upload as evidence.
 import { createHash } from 'node:crypto';
-import Papa from 'papaparse';
 import { eq, ne, and, sql } from 'drizzle-orm';
 import {
   applyMapping,
-  detectDialect,
-  missingColumns,
+  decodeText,
+  fileErrors,
+  parseCsv,
   validateRows,
   type CanonicalRow,
   type ColumnMapping,
+  type CsvDialect,
   type RowError,
   type ValidMeasurement,
 } from '../../shared/ingest';
@@ -29,38 +30,6 @@ const BATCH = 20_000;
 /** One array parameter: drizzle would spread a bare JS array into a list of parameters. */
 const arr = (values: unknown[]) => sql.param(values);
 
-/** UTF-8 unless the bytes are not valid UTF-8, then Windows-1252 (older lab PCs). */
-export function decodeText(bytes: Buffer): string {
-  try {
-    return new TextDecoder('utf-8', { fatal: true }).decode(bytes).replace(/^\uFEFF/, '');
-  } catch {
-    return new TextDecoder('windows-1252').decode(bytes);
-  }
-}
-
-export interface ParsedFile {
-  headers: string[];
-  records: Record<string, string>[];
-  decimalComma: boolean;
-  delimiter: string;
-  errors: RowError[];
-}
-
-export function parseCsv(text: string): ParsedFile {
-  const dialect = detectDialect(text);
-  const parsed = Papa.parse<Record<string, string>>(text, {
-    header: true,
-    delimiter: dialect.delimiter,
-    skipEmptyLines: 'greedy',
-    transformHeader: (h) => h.trim(),
-    dynamicTyping: false,
-  });
-  const errors: RowError[] = parsed.errors
-    .filter((e) => e.code !== 'UndetectableDelimiter')
-    .map((e) => ({ row: (e.row ?? 0) + 2, column: '', message: `The file cannot be read here: ${e.message}` }));
-  return { headers: parsed.meta.fields ?? [], records: parsed.data, decimalComma: dialect.decimalComma, delimiter: dialect.delimiter, errors };
-}
-
 export interface ImportRequest {
   /** Original file name, or a label such as "manual entry". */
   fileName: string;
@@ -69,6 +38,8 @@ export interface ImportRequest {
   actorId: number | null;
   source: 'upload' | 'manual';
   mapping?: ColumnMapping;
+  /** Delimiter and decimal mark as the person uploading saw them in the preview; detected where absent. */
+  dialect?: Partial<CsvDialect>;
   /** Rows already in canonical form (manual entry); content is not parsed then. */
   rows?: CanonicalRow[];
   decimalComma?: boolean;
@@ -91,26 +62,20 @@ export async function importResults(db: Database, req: ImportRequest): Promise<I
 
     let rows = req.rows;
     let decimalComma = req.decimalComma ?? false;
-    const fileErrors: RowError[] = [];
+    let fileLevel: RowError[] = [];
     let rowsTotal = rows?.length ?? 0;
     if (!rows) {
       const text = decodeText(req.content ?? Buffer.alloc(0));
-      const parsed = parseCsv(text);
+      const parsed = parseCsv(text, req.dialect);
       decimalComma = parsed.decimalComma;
       rowsTotal = parsed.records.length;
-      if (parsed.headers.length === 0 || text.trim() === '') fileErrors.push({ row: 1, column: '', message: 'The file is empty: it needs a header row and at least one data row' });
-      else {
-        const missing = missingColumns(parsed.headers, mapping);
-        if (missing.length) fileErrors.push({ row: 1, column: missing.join(', '), message: `Missing column${missing.length > 1 ? 's' : ''}: ${missing.join(', ')}` });
-        else if (parsed.records.length === 0) fileErrors.push({ row: 2, column: '', message: 'The file has a header but no data rows' });
-        fileErrors.push(...parsed.errors);
-      }
-      rows = fileErrors.length ? [] : applyMapping(parsed.records, mapping);
+      fileLevel = fileErrors(text, parsed, mapping);
+      rows = fileLevel.length ? [] : applyMapping(parsed.records, mapping);
     }
 
     const catalogue = await loadCatalogue(tx);
     const { valid, errors } = validateRows(rows, catalogue, { decimalComma });
-    errors.unshift(...fileErrors);
+    errors.unshift(...fileLevel);
     if (!errors.length) errors.push(...(await storedConflicts(tx, valid, catalogue)));
 
     if (errors.length) {

@@ -91,6 +91,7 @@ export function uploadsRouter(db: Database, hooks: IngestHooks): Router {
       actorId: req.user!.id,
       source: 'upload',
       mapping: fields.mapping,
+      dialect: { delimiter: fields.delimiter, decimalComma: fields.decimalComma },
     });
     if (outcome.kind === 'imported') await hooks.afterImport(outcome);
     respondToImport(res, outcome);

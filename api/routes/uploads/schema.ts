@@ -17,6 +17,13 @@ export const uploadFieldsSchema = z.object({
       }
     })
     .pipe(columnMappingSchema.optional()),
+  /** The delimiter the preview read the file with; detected from the file when absent. */
+  delimiter: z.enum([';', ',', '\t'], { message: 'delimiter must be ";", "," or a tab' }).optional(),
+  /** "true" when the file writes decimals with a comma; detected from the file when absent. */
+  decimalComma: z
+    .enum(['true', 'false'], { message: 'decimalComma must be "true" or "false"' })
+    .transform((text) => text === 'true')
+    .optional(),
 });
 export type UploadFields = z.infer<typeof uploadFieldsSchema>;
 

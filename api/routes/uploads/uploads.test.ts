@@ -107,6 +107,31 @@ describe('POST /api/v1/uploads', () => {
     expect(winter.body.producedAt).toBe('2026-01-15T08:00:00.000Z');
   });
 
+  it('reads the file with the delimiter and decimal mark chosen in the preview, over what it would detect', async () => {
+    const lot = newLot();
+    const csv = Buffer.from(`${header.replaceAll(',', ';')}\n${lot};HVL25;L1;2026-11-11T06:00:00Z;HVL25-AIR;3,2;;1;;;\n`);
+    const send = async (fields: Record<string, string>) => {
+      const r = request(api.app).post('/api/v1/uploads').set(await as('technician')).attach('file', csv, 'chosen-dialect.csv');
+      for (const [name, value] of Object.entries(fields)) r.field(name, value);
+      return r;
+    };
+    // Detection alone would read "3,2" as 3.2; told the decimal mark is a point, the cell is no number.
+    const point = await send({ decimalComma: 'false' });
+    expect(point.status).toBe(422);
+    expect(point.body.errors).toEqual([{ row: 2, column: 'value', message: '"3,2" is not a number (this file uses "." as the decimal mark)' }]);
+    // Told the delimiter is a comma, the header is one long column and the canonical ones are missing.
+    const comma = await send({ delimiter: ',' });
+    expect(comma.status).toBe(422);
+    expect(comma.body.errors[0]).toMatchObject({ row: 1, message: 'Missing columns: lot, product, line, produced_at, characteristic, value' });
+    expect((await send({ delimiter: '|' })).status).toBe(400);
+    expect(await api.db.select().from(lots).where(eq(lots.lotNumber, lot))).toHaveLength(0);
+
+    const confirmed = await send({ delimiter: ';', decimalComma: 'true' });
+    expect(confirmed.status).toBe(201);
+    const detail = await request(api.app).get(`/api/v1/lots/${lot}`).set(await as('auditor'));
+    expect(detail.body.results.map((r: { value: number }) => r.value)).toEqual([3.2]);
+  });
+
   it('gives a precise message for each kind of bad row and keeps formula-looking cells as plain data', async () => {
     const lot = newLot();
     const csv = [
