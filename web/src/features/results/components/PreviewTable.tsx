@@ -27,7 +27,7 @@ export function PreviewTable({ parsed, rowsWithErrors }: { parsed: ParsedFile; r
             return (
               <tr key={row} className={cx('border-b border-zinc-100 last:border-b-0', bad && 'bg-red-50')}>
                 <th scope="row" className={cx('px-3 py-1.5 text-right font-mono font-normal whitespace-nowrap', bad ? 'text-red-800' : 'text-zinc-500')}>
-                  {bad && <span className="font-semibold">needs correcting </span>}
+                  {bad && <span className="font-sans text-xs font-semibold uppercase">needs correcting </span>}
                   {row}
                 </th>
                 {parsed.headers.map((header, j) => (

@@ -94,7 +94,13 @@ export default function LotPage() {
                       <span className="block font-mono text-sm">{g.code}</span>
                       <span className="block text-sm text-zinc-600">{g.name}</span>
                     </td>
-                    <td className="px-3 py-2 font-mono">{g.values.map((v) => v.toFixed(decimals)).join('  ')}</td>
+                    <td className="px-3 py-2">
+                      <span className="flex flex-wrap gap-x-3 font-mono">
+                        {g.values.map((v, i) => (
+                          <span key={i}>{v.toFixed(decimals)}</span>
+                        ))}
+                      </span>
+                    </td>
                     <td className="px-3 py-2 text-right font-mono whitespace-nowrap" title={result?.reason}>
                       {result?.value == null ? (result ? 'set rejected' : '—') : `${result.value.toFixed(decimals)} ${g.unit}`}
                     </td>

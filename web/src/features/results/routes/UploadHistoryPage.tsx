@@ -47,14 +47,18 @@ export default function UploadHistoryPage() {
   const columns = useMemo(
     () => [
       column.accessor('uploadedAt', {
-        header: 'Uploaded (plant time)',
-        cell: (info) => <span className="font-mono text-sm whitespace-nowrap">{formatPlantDateTime(info.getValue(), timeZone)}</span>,
+        header: 'Uploaded (plant time), by',
+        cell: (info) => (
+          <>
+            <span className="block font-mono text-sm whitespace-nowrap">{formatPlantDateTime(info.getValue(), timeZone)}</span>
+            <span className="block text-sm text-zinc-600">{info.row.original.uploadedByName ?? '—'}</span>
+          </>
+        ),
       }),
-      column.accessor('uploadedByName', { header: 'By', cell: (info) => info.getValue() ?? '—' }),
       column.accessor('fileName', {
         header: 'File',
         cell: (info) => (
-          <div className="min-w-48">
+          <div className="min-w-40">
             <span className="block font-medium [overflow-wrap:break-word]">{info.getValue()}</span>
             <span className="block text-sm text-zinc-600">
               Upload <span className="font-mono">{info.row.original.id}</span> · {info.row.original.format === 'wide' ? 'one row per lot' : 'one result per row'}
@@ -63,8 +67,8 @@ export default function UploadHistoryPage() {
         ),
       }),
       column.accessor('rowsTotal', { header: 'Rows', meta: { numeric: true } }),
-      column.accessor('rowsImported', { header: 'Results imported', meta: { numeric: true } }),
-      column.accessor('rowsRejected', { header: 'Rows rejected', meta: { numeric: true } }),
+      column.accessor('rowsImported', { header: 'Results stored', meta: { numeric: true } }),
+      column.accessor('rowsRejected', { header: 'Rejected', meta: { numeric: true } }),
       column.accessor('status', {
         header: 'Status',
         cell: (info) => {
@@ -83,7 +87,7 @@ export default function UploadHistoryPage() {
         cell: (info) => {
           const upload = info.row.original;
           return (
-            <div className="flex items-center gap-3 whitespace-nowrap">
+            <div className="flex flex-col items-start gap-1 text-sm whitespace-nowrap">
               <DownloadLink href={uploadLinks.file(upload.id)}>Original file</DownloadLink>
               {upload.status === 'rejected' && <DownloadLink href={uploadLinks.errorReport(upload.id)}>Error report</DownloadLink>}
               {upload.status === 'imported' && canVoid && (
