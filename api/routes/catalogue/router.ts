@@ -2,7 +2,7 @@ import { Router } from 'express';
 import { and, asc, desc, eq, ilike, isNull } from 'drizzle-orm';
 import { methodCautions, testMethods as methodCatalogue } from '../../../shared/lab';
 import type { Database } from '../../db/client';
-import { characteristics, lots, measurements, plants, processEvents, productionLines, products, uploads } from '../../db/schema';
+import { characteristics, lots, measurements, plants, productionLines, products, uploads } from '../../db/schema';
 import { listCharacteristics, listProducts } from '../../db/queries/catalogue';
 import { notFound, parseBody } from '../../http/errors';
 import { requireSession } from '../../auth/session';
@@ -30,16 +30,6 @@ export function catalogueRouter(db: Database): Router {
 
   router.get('/test-methods', requireSession, (_req, res) => {
     res.json({ items: methodCatalogue.map((m) => ({ ...m, cautions: methodCautions(m.code) })) });
-  });
-
-  router.get('/process-events', requireSession, async (_req, res) => {
-    const rows = await db
-      .select({ id: processEvents.id, occurredAt: processEvents.occurredAt, title: processEvents.title, description: processEvents.description, lineCode: productionLines.code, productCode: products.code })
-      .from(processEvents)
-      .leftJoin(productionLines, eq(productionLines.id, processEvents.lineId))
-      .leftJoin(products, eq(products.id, processEvents.productId))
-      .orderBy(desc(processEvents.occurredAt));
-    res.json({ items: rows });
   });
 
   router.get('/lots', requireSession, async (req, res) => {
