@@ -14,6 +14,8 @@ import { authRouter } from './routes/auth/router';
 import { usersRouter } from './routes/users/router';
 import { uploadsRouter } from './routes/uploads/router';
 import { catalogueRouter } from './routes/catalogue/router';
+import { specificationsRouter } from './routes/specifications/router';
+import { processEventsRouter } from './routes/process-events/router';
 import { measurementsRouter } from './routes/measurements/router';
 import { columnMappingsRouter } from './routes/column-mappings/router';
 import { chartsRouter } from './routes/charts/router';
@@ -82,6 +84,8 @@ export function createApp({ db, config, serveWeb = true, ingestHooks = noIngestH
   app.use('/api/v1/alarms', alarmsRouter(db, publicUrl));
   app.use('/api/v1/subscriptions', subscriptionsRouter(db));
   if (fakeSmtp) app.use('/api/v1/dev', devRouter(fakeSmtp));
+  app.use('/api/v1/characteristics', specificationsRouter(db));
+  app.use('/api/v1/process-events', processEventsRouter(db));
   app.use('/api/v1', catalogueRouter(db));
   app.use('/api', notFoundApi);
 
