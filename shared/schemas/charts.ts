@@ -41,9 +41,6 @@ export const freezeLimitsSchema = z
   .refine((v) => v.baselineFrom.getTime() < v.baselineTo.getTime(), { path: ['baselineTo'], message: 'The baseline must end after it starts' });
 export type FreezeLimitsInput = z.input<typeof freezeLimitsSchema>;
 
-/** The periods the overview offers, in days back from now. */
-export const overviewPeriods = [7, 30, 90, 182] as const;
-
 // ---------------------------------------------------------------------------------------------
 // Answers
 // ---------------------------------------------------------------------------------------------
@@ -153,51 +150,4 @@ export interface LimitRevisionRecord {
   createdAt: string;
   /** When a later freeze replaced it; null for the revision in force. */
   supersededAt: string | null;
-}
-
-export type ControlState = 'in-control' | 'signal' | 'not-enough-data';
-
-/** One characteristic on the overview. */
-export interface OverviewItem {
-  id: number;
-  code: string;
-  name: string;
-  unit: string;
-  decimals: number;
-  chartType: ChartType;
-  productCode: string;
-  productName: string;
-  productFamily: string;
-  lineCode: string | null;
-  lineName: string | null;
-  spec: { lsl: number | null; usl: number | null; target: number | null } | null;
-  latest: { lotNumber: string; producedAt: string; location: number; outOfSpec: boolean; index: number } | null;
-  controlState: ControlState;
-  /** Rule signals among the period's points (not excluded). */
-  signals: number;
-  /** Points of the period outside the specification. */
-  outOfSpecCount: number;
-  pointsInPeriod: number;
-  /** Alarms of the nightly run still open (not acknowledged or closed). */
-  openAlarms: number;
-  limitsSource: 'trial' | 'frozen' | null;
-  cpk: number | null;
-  cpkCi95: [number, number] | null;
-  capabilityPreliminary: boolean;
-  /** The period's most recent locations (oldest first) for the trend line, with their rule flags. */
-  trend: { location: number; signal: boolean; outOfSpec: boolean }[];
-  /** Why the item needs attention, in plain words; empty when it does not. */
-  attention: string[];
-  /** Higher needs attention sooner. */
-  attentionScore: number;
-}
-
-/** GET /api/v1/overview */
-export interface Overview {
-  generatedAt: string;
-  days: number;
-  from: string;
-  lines: { code: string; name: string }[];
-  families: string[];
-  items: OverviewItem[];
 }

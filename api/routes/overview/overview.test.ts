@@ -6,7 +6,8 @@ import { createTestApi } from '../../../tests/support/api';
 import { alarms, characteristics, lots, products } from '../../db/schema';
 import { plantedCausesFor } from '../../db/seed/scenario';
 import { demoEndDate } from '../../db/seed';
-import type { CharacteristicChart, Overview } from '../../../shared/schemas/charts';
+import type { CharacteristicChart } from '../../../shared/schemas/charts';
+import type { Overview } from '../../../shared/schemas/overview';
 import type { Role } from '../../../shared/schemas/users';
 
 const api = createTestApi();

@@ -4,7 +4,7 @@ import type { Database } from '../../db/client';
 import { alarms, characteristics, productionLines, products, testMethods } from '../../db/schema';
 import { parseBody } from '../../http/errors';
 import { requireSession } from '../../auth/session';
-import type { Overview, OverviewItem } from '../../../shared/schemas/charts';
+import type { Overview, OverviewItem } from '../../../shared/schemas/overview';
 import { chartCacheFor } from '../charts/chart-cache';
 import { summarise, type OverviewBase } from './summary';
 import { overviewQuerySchema } from './schema';

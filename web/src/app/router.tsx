@@ -13,13 +13,15 @@ import { Loading } from '../components/ui/Spinner';
  * tables of one feature never weigh on the start of another. An area not listed shows its placeholder.
  */
 const pages: Partial<Record<AreaId, LazyExoticComponent<ComponentType>>> = {
+  overview: lazy(() => import('../features/overview/routes/OverviewPage')),
+  charts: lazy(() => import('../features/charts/routes/ChartsArea')),
   users: lazy(() => import('../features/users/routes/UsersPage')),
   results: lazy(() => import('../features/results/routes/ResultsArea')),
   methods: lazy(() => import('../features/test-methods/routes/TestMethodsArea')),
 };
 
-/** Areas whose page routes further pages below its address itself (/results/history, /test-methods/RC). */
-const withSubPages: ReadonlySet<AreaId> = new Set(['results', 'methods']);
+/** Areas whose page routes further pages below its address itself (/charts/12, /results/history, /test-methods/RC). */
+const withSubPages: ReadonlySet<AreaId> = new Set(['charts', 'results', 'methods']);
 
 // Its form library and schemas are not needed by someone already signed in.
 const SignInPage = lazy(() => import('../features/auth/routes/SignInPage'));

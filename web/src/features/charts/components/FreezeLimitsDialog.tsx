@@ -1,0 +1,119 @@
+import { useForm, type Resolver } from 'react-hook-form';
+import { freezeLimitsSchema, type CharacteristicChart } from '../../../../../shared/schemas/charts';
+import { parsePlantDateTime } from '../../../../../shared/ingest/values';
+import { errorMessage } from '../../../lib/http';
+import { showServerFieldErrors } from '../../../lib/forms';
+import { plantDateTimeInput } from '../../results/lib/plant-time';
+import { Dialog } from '../../../components/ui/Dialog';
+import { Field, Input } from '../../../components/ui/Field';
+import { Alert } from '../../../components/ui/Alert';
+import { Button } from '../../../components/ui/Button';
+import { useFreezeLimits } from '../api/chart';
+import type { ZoomWindow } from './ControlChart';
+import { TextArea } from './TextArea';
+
+interface FreezeForm {
+  baselineFrom: string;
+  baselineTo: string;
+  reason: string;
+}
+
+const fields = ['baselineFrom', 'baselineTo', 'reason'] as const;
+
+/** The form's plant wall times as instants; text that is no date stays as it is and fails the schema. */
+function toBody(values: FreezeForm, timeZone: string) {
+  const instant = (text: string) => {
+    const ms = parsePlantDateTime(text, timeZone);
+    return ms === null ? text : new Date(ms).toISOString();
+  };
+  return { baselineFrom: instant(values.baselineFrom), baselineTo: instant(values.baselineTo), reason: values.reason };
+}
+
+/** The shared schema judges the instants the form will post, not the wall-clock text typed. */
+const resolverFor =
+  (timeZone: string): Resolver<FreezeForm> =>
+  async (values) => {
+    const parsed = freezeLimitsSchema.safeParse(toBody(values, timeZone));
+    if (parsed.success) return { values, errors: {} };
+    const errors: Record<string, { type: string; message: string }> = {};
+    for (const issue of parsed.error.issues) {
+      const key = String(issue.path[0] ?? 'root');
+      errors[key] ??= { type: issue.code, message: issue.message };
+    }
+    return { values: {}, errors };
+  };
+
+interface FreezeLimitsDialogProps {
+  chart: CharacteristicChart;
+  timeZone: string;
+  /** The part of the chart in view: its first and last point make the proposed baseline. */
+  view: ZoomWindow | null;
+  onClose: () => void;
+  onDone: (message: string) => void;
+}
+
+export function FreezeLimitsDialog({ chart, timeZone, view, onClose, onDone }: FreezeLimitsDialogProps) {
+  const freeze = useFreezeLimits(chart.characteristic.id);
+  const points = chart.points;
+  const first = points.find((p) => p.index >= (view?.first ?? -Infinity)) ?? points[0];
+  const last = [...points].reverse().find((p) => p.index <= (view?.last ?? Infinity)) ?? points[points.length - 1];
+  const form = useForm<FreezeForm>({
+    resolver: resolverFor(timeZone),
+    defaultValues: {
+      baselineFrom: first ? plantDateTimeInput(new Date(first.producedAt), timeZone) : '',
+      baselineTo: last ? plantDateTimeInput(new Date(last.producedAt), timeZone) : '',
+      reason: '',
+    },
+  });
+  const { errors } = form.formState;
+
+  const body = toBody(form.watch(), timeZone);
+  const fromMs = Date.parse(body.baselineFrom);
+  const toMs = Date.parse(body.baselineTo);
+  const inBaseline = Number.isFinite(fromMs) && Number.isFinite(toMs) ? points.filter((p) => Date.parse(p.producedAt) >= fromMs && Date.parse(p.producedAt) <= toMs) : [];
+  const kept = inBaseline.filter((p) => !p.excluded).length;
+
+  const onSubmit = form.handleSubmit((values) =>
+    freeze.mutate(toBody(values, timeZone), {
+      onSuccess: (revision) => onDone(`Limits frozen as revision ${revision.revision} from ${revision.baselinePoints} points. New points are judged against them from now on.`),
+      onError: (error) => {
+        if (!showServerFieldErrors(error, form.setError, fields)) form.setError('root', { message: errorMessage(error) });
+      },
+    }),
+  );
+
+  return (
+    <Dialog title="Freeze control limits" onClose={onClose}>
+      <form onSubmit={onSubmit} noValidate className="space-y-4" aria-label="Freeze control limits">
+        <p className="text-sm text-zinc-600">
+          The centre line and sigma within are estimated from the baseline period (excluded points left out) and frozen. The chart and the
+          nightly run then judge every point against them until they are frozen again. Choose a period with no assignable cause left in it.
+          Times are plant time.
+        </p>
+        {errors.root && <Alert tone="error">{errors.root.message}</Alert>}
+        <div className="grid gap-4 sm:grid-cols-2">
+          <Field label="Baseline from" error={errors.baselineFrom?.message}>
+            {(control) => <Input {...control} type="datetime-local" {...form.register('baselineFrom')} />}
+          </Field>
+          <Field label="Baseline to" error={errors.baselineTo?.message}>
+            {(control) => <Input {...control} type="datetime-local" {...form.register('baselineTo')} />}
+          </Field>
+        </div>
+        <p className="figures text-sm text-zinc-700" aria-live="polite" data-testid="baseline-count">
+          {inBaseline.length} points in the baseline, {kept} of them kept{kept > 0 && kept < 20 ? ' — fewer than 20 gives unsteady limits' : ''}.
+        </p>
+        <Field label="Reason" hint="Why these limits, from this period, e.g. “Stable since the new sand source”." error={errors.reason?.message}>
+          {(control) => <TextArea {...control} {...form.register('reason')} />}
+        </Field>
+        <div className="flex gap-2">
+          <Button type="submit" busy={freeze.isPending}>
+            Freeze limits
+          </Button>
+          <Button variant="secondary" onClick={onClose}>
+            Cancel
+          </Button>
+        </div>
+      </form>
+    </Dialog>
+  );
+}

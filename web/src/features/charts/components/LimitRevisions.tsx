@@ -1,0 +1,55 @@
+import { useLimitRevisions } from '../api/chart';
+import { Badge } from '../../../components/ui/Badge';
+import { Loading } from '../../../components/ui/Spinner';
+import { ErrorState } from '../../../components/ui/ErrorState';
+import { EmptyState } from '../../../components/ui/EmptyState';
+import { figure, formatDateTime } from '../lib/format';
+
+/** Every freeze of this chart's limits: who, when, why and from which baseline. Newest first. */
+export function LimitRevisions({ characteristicId, decimals, timeZone }: { characteristicId: number; decimals: number; timeZone: string }) {
+  const revisions = useLimitRevisions(characteristicId);
+  if (revisions.isPending) return <Loading label="Loading the limit history…" />;
+  if (revisions.isError) return <ErrorState title="Could not load the limit history" error={revisions.error} onRetry={() => revisions.refetch()} />;
+  if (revisions.data.length === 0) {
+    return <EmptyState title="Limits were never frozen">The chart uses trial limits from the points shown. A quality manager can freeze them from a stable baseline period.</EmptyState>;
+  }
+  return (
+    <div className="overflow-x-auto rounded-lg border border-zinc-200 bg-white">
+      <table className="w-full border-collapse text-left">
+        <caption className="sr-only">History of frozen control limits</caption>
+        <thead className="bg-zinc-100/80 text-sm text-zinc-700">
+          <tr>
+            {['Revision', 'Frozen', 'Baseline', 'Centre', 'LCL', 'UCL', 'σ within', 'Reason'].map((h) => (
+              <th key={h} scope="col" className="border-b border-zinc-200 px-3 py-2.5 font-semibold whitespace-nowrap">
+                {h}
+              </th>
+            ))}
+          </tr>
+        </thead>
+        <tbody>
+          {revisions.data.map((r) => (
+            <tr key={r.id} className="border-b border-zinc-100 align-top last:border-b-0">
+              <td className="px-3 py-2">
+                <span className="font-mono">{r.revision}</span> {r.supersededAt === null ? <Badge tone="accent">In force</Badge> : <Badge>Replaced</Badge>}
+              </td>
+              <td className="px-3 py-2 text-sm">
+                <span className="font-mono whitespace-nowrap">{formatDateTime(r.createdAt, timeZone)}</span>
+                <span className="block text-zinc-600">{r.createdByName ?? 'unknown user'}</span>
+              </td>
+              <td className="px-3 py-2 text-sm">
+                <span className="font-mono whitespace-nowrap">{formatDateTime(r.baselineFrom, timeZone)}</span> to{' '}
+                <span className="font-mono whitespace-nowrap">{formatDateTime(r.baselineTo, timeZone)}</span>
+                <span className="block text-zinc-600">{r.baselinePoints} points kept</span>
+              </td>
+              <td className="px-3 py-2 text-right font-mono">{figure(r.center, decimals + 1)}</td>
+              <td className="px-3 py-2 text-right font-mono">{figure(r.locationLcl, decimals + 1)}</td>
+              <td className="px-3 py-2 text-right font-mono">{figure(r.locationUcl, decimals + 1)}</td>
+              <td className="px-3 py-2 text-right font-mono">{figure(r.sigmaWithin, decimals + 2)}</td>
+              <td className="px-3 py-2 text-sm">{r.reason}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}

@@ -1,0 +1,49 @@
+import type { CharacteristicChart } from '../../../../../shared/schemas/charts';
+import { Badge } from '../../../components/ui/Badge';
+import { figure, formatDateTime, statisticNames } from '../lib/format';
+
+function Figure({ label, value, testId }: { label: string; value: string; testId?: string }) {
+  return (
+    <div>
+      <dt className="text-sm text-zinc-600">{label}</dt>
+      <dd className="font-mono text-lg text-zinc-900" data-testid={testId}>
+        {value}
+      </dd>
+    </div>
+  );
+}
+
+/** Which limits the chart is judged against, their figures, and the specification beside them. */
+export function LimitsSummary({ chart, timeZone }: { chart: CharacteristicChart; timeZone: string }) {
+  const { limits, spec } = chart;
+  const { decimals, unit, chartType, subgroupSize } = chart.characteristic;
+  const names = statisticNames[chartType];
+  // One decimal more than the points carry: a limit is an estimate, and an exclusion moves it by less than a reading's step.
+  const loc = decimals + (subgroupSize > 1 ? 2 : 1);
+  const disp = decimals + 2;
+  const frozen = limits.source === 'frozen';
+
+  return (
+    <div className="space-y-3">
+      <div className="flex flex-wrap items-center gap-2">
+        {frozen ? <Badge tone="accent">Frozen limits</Badge> : <Badge tone="neutral">Trial limits</Badge>}
+        <p className="text-sm text-zinc-700" data-testid="limits-source">
+          {frozen
+            ? `Frozen ${limits.frozenAt ? formatDateTime(limits.frozenAt, timeZone) : ''}${limits.frozenBy ? ` by ${limits.frozenBy}` : ''} from the baseline ${limits.baselineFrom ? formatDateTime(limits.baselineFrom, timeZone) : ''} to ${limits.baselineTo ? formatDateTime(limits.baselineTo, timeZone) : ''}: ${limits.reason ?? ''}`
+            : 'Estimated from every kept point shown (phase I). They move as points are added or excluded, until limits are frozen.'}
+        </p>
+      </div>
+      <dl className="grid grid-cols-2 gap-x-6 gap-y-2 sm:grid-cols-4 lg:grid-cols-8">
+        <Figure label={`${names.location} centre line`} value={figure(limits.location.center, loc)} testId="limit-center" />
+        <Figure label="UCL" value={figure(limits.location.ucl, loc)} testId="limit-ucl" />
+        <Figure label="LCL" value={figure(limits.location.lcl, loc)} testId="limit-lcl" />
+        <Figure label="σ within" value={figure(limits.sigmaWithin, disp)} />
+        <Figure label={`${names.dispersion} centre line`} value={figure(limits.dispersion.center, disp)} />
+        <Figure label={`${names.dispersion} UCL`} value={figure(limits.dispersion.ucl, disp)} />
+        <Figure label="LSL / USL" value={`${figure(spec?.lsl, decimals)} / ${figure(spec?.usl, decimals)}`} />
+        <Figure label="Target" value={figure(spec?.target, decimals)} />
+      </dl>
+      <p className="text-sm text-zinc-500">Figures in {unit}. Specification revision {spec?.revision ?? '–'} in force now.</p>
+    </div>
+  );
+}

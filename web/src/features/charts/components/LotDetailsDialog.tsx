@@ -1,0 +1,93 @@
+import { Link } from 'react-router';
+import { useLot, type LotResult } from '../../results/api/lots';
+import { useCharacteristics } from '../../results/api/catalogue';
+import { Dialog } from '../../../components/ui/Dialog';
+import { Loading } from '../../../components/ui/Spinner';
+import { ErrorState } from '../../../components/ui/ErrorState';
+import { Button } from '../../../components/ui/Button';
+import { formatDateTime, shiftName } from '../lib/format';
+
+interface Group {
+  code: string;
+  name: string;
+  unit: string;
+  values: number[];
+  testedAt: string | null;
+  operator: string | null;
+  notes: string[];
+}
+
+function byCharacteristic(results: LotResult[]): Group[] {
+  const groups = new Map<string, Group>();
+  for (const r of results) {
+    let g = groups.get(r.characteristicCode);
+    if (!g) {
+      g = { code: r.characteristicCode, name: r.characteristicName, unit: r.unit, values: [], testedAt: r.testedAt, operator: r.operator, notes: [] };
+      groups.set(r.characteristicCode, g);
+    }
+    g.values.push(r.value);
+    if (r.note) g.notes.push(r.note);
+  }
+  return [...groups.values()];
+}
+
+/** One lot with all its results across characteristics, each linked to its own chart. */
+export function LotDetailsDialog({ lotNumber, currentCode, timeZone, onClose }: { lotNumber: string; currentCode: string; timeZone: string; onClose: () => void }) {
+  const lot = useLot(lotNumber);
+  const characteristics = useCharacteristics();
+  const idByCode = new Map((characteristics.data ?? []).map((c) => [c.code, c]));
+
+  return (
+    <Dialog title={`Lot ${lotNumber}`} onClose={onClose}>
+      <div className="max-h-[70vh] space-y-3 overflow-y-auto pr-1">
+        {lot.isPending ? (
+          <Loading label={`Loading lot ${lotNumber}…`} />
+        ) : lot.isError ? (
+          <ErrorState title={`Could not load lot ${lotNumber}`} error={lot.error} onRetry={() => lot.refetch()} />
+        ) : (
+          <>
+            <p className="text-sm text-zinc-700">
+              {lot.data.productName} (<span className="font-mono">{lot.data.productCode}</span>) on line <span className="font-mono">{lot.data.lineCode}</span>, produced{' '}
+              <span className="font-mono">{formatDateTime(lot.data.producedAt, timeZone)}</span>, {shiftName(lot.data.shift).toLowerCase()}.
+            </p>
+            <ul className="divide-y divide-zinc-100 rounded-md border border-zinc-200" aria-label={`Results of lot ${lotNumber}`}>
+              {byCharacteristic(lot.data.results).map((g) => {
+                const c = idByCode.get(g.code);
+                const decimals = c?.decimals ?? 2;
+                return (
+                  <li key={g.code} className={g.code === currentCode ? 'bg-accent-50 px-3 py-2' : 'px-3 py-2'}>
+                    <div className="flex flex-wrap items-baseline justify-between gap-x-3">
+                      {c && g.code !== currentCode ? (
+                        <Link to={`/charts/${c.id}`} onClick={onClose} className="font-medium text-accent-700 underline underline-offset-2">
+                          {g.name}
+                        </Link>
+                      ) : (
+                        <span className="font-medium">
+                          {g.name}
+                          {g.code === currentCode && <span className="ml-2 text-sm font-normal text-zinc-600">(this chart)</span>}
+                        </span>
+                      )}
+                      <span className="font-mono text-sm">
+                        {g.values.map((v) => v.toFixed(decimals)).join(' · ')} {g.unit}
+                      </span>
+                    </div>
+                    <p className="text-sm text-zinc-500">
+                      {g.testedAt ? `Tested ${formatDateTime(g.testedAt, timeZone)}` : 'Test time not recorded'}
+                      {g.operator ? ` by ${g.operator}` : ''}
+                      {g.notes.length ? ` · ${g.notes.join('; ')}` : ''}
+                    </p>
+                  </li>
+                );
+              })}
+            </ul>
+          </>
+        )}
+      </div>
+      <div className="mt-4">
+        <Button variant="secondary" onClick={onClose}>
+          Close
+        </Button>
+      </div>
+    </Dialog>
+  );
+}

@@ -1,0 +1,113 @@
+import { useForm } from 'react-hook-form';
+import { zodResolver } from '@hookform/resolvers/zod';
+import { excludePointSchema, includePointSchema, type CharacteristicChart, type ChartPointRecord } from '../../../../../shared/schemas/charts';
+import { errorMessage } from '../../../lib/http';
+import { showServerFieldErrors } from '../../../lib/forms';
+import { Dialog } from '../../../components/ui/Dialog';
+import { Field } from '../../../components/ui/Field';
+import { Alert } from '../../../components/ui/Alert';
+import { Button } from '../../../components/ui/Button';
+import { useExcludePoint, useIncludePoint } from '../api/chart';
+import { figure, formatDateTime, statisticNames } from '../lib/format';
+import { TextArea } from './TextArea';
+
+interface PointDialogProps {
+  chart: CharacteristicChart;
+  point: ChartPointRecord;
+  timeZone: string;
+  onClose: () => void;
+  onDone: (message: string) => void;
+}
+
+function PointSummary({ chart, point, timeZone }: Omit<PointDialogProps, 'onClose' | 'onDone'>) {
+  const { unit, decimals, chartType } = chart.characteristic;
+  return (
+    <p className="text-sm text-zinc-700">
+      Point {point.index + 1}, lot <span className="font-mono">{point.lotNumber}</span>, produced <span className="font-mono">{formatDateTime(point.producedAt, timeZone)}</span>:{' '}
+      {statisticNames[chartType].location} <span className="font-mono">{figure(point.location, decimals + 1)}</span> {unit}.
+    </p>
+  );
+}
+
+/** Leaves a point out of the limit calculation; the reason is the assignable cause and goes to the audit trail. */
+export function ExcludePointDialog({ chart, point, timeZone, onClose, onDone }: PointDialogProps) {
+  const exclude = useExcludePoint(chart.characteristic.id);
+  const form = useForm({ resolver: zodResolver(excludePointSchema), defaultValues: { lotId: point.lotId, reason: '' } });
+  const { errors } = form.formState;
+  const frozen = chart.limits.source === 'frozen';
+
+  const onSubmit = form.handleSubmit((input) =>
+    exclude.mutate(input, {
+      onSuccess: () => onDone(`Point ${point.index + 1} (lot ${point.lotNumber}) is excluded${frozen ? '; the frozen limits stay as they are until limits are frozen again' : ' and the trial limits were recomputed'}.`),
+      onError: (error) => {
+        if (!showServerFieldErrors(error, form.setError, ['reason'])) form.setError('root', { message: errorMessage(error) });
+      },
+    }),
+  );
+
+  return (
+    <Dialog title="Exclude the point from the limits" onClose={onClose}>
+      <form onSubmit={onSubmit} noValidate className="space-y-4" aria-label="Exclude the point from the limits">
+        <PointSummary chart={chart} point={point} timeZone={timeZone} />
+        <p className="text-sm text-zinc-600">
+          Exclude a point only for an assignable cause that was found and removed. It stays on the chart, marked, and is left out of the
+          centre line, the limits and the run rules.
+        </p>
+        {errors.root && <Alert tone="error">{errors.root.message}</Alert>}
+        <Field label="Assignable cause" hint="What went wrong with this lot or its test, in a few words." error={errors.reason?.message}>
+          {(control) => <TextArea {...control} {...form.register('reason')} />}
+        </Field>
+        <div className="flex gap-2">
+          <Button type="submit" busy={exclude.isPending}>
+            Exclude point
+          </Button>
+          <Button variant="secondary" onClick={onClose}>
+            Cancel
+          </Button>
+        </div>
+      </form>
+    </Dialog>
+  );
+}
+
+/** Takes an excluded point back into the calculation; the exclusion stays on record. */
+export function IncludePointDialog({ chart, point, timeZone, onClose, onDone }: PointDialogProps) {
+  const include = useIncludePoint(chart.characteristic.id);
+  const form = useForm({ resolver: zodResolver(includePointSchema), defaultValues: { reason: '' } });
+  const { errors } = form.formState;
+
+  const onSubmit = form.handleSubmit(({ reason }) =>
+    include.mutate(
+      { lotId: point.lotId, reason },
+      {
+        onSuccess: () => onDone(`Point ${point.index + 1} (lot ${point.lotNumber}) counts towards the limits again.`),
+        onError: (error) => {
+          if (!showServerFieldErrors(error, form.setError, ['reason'])) form.setError('root', { message: errorMessage(error) });
+        },
+      },
+    ),
+  );
+
+  return (
+    <Dialog title="Take the point back into the limits" onClose={onClose}>
+      <form onSubmit={onSubmit} noValidate className="space-y-4" aria-label="Take the point back into the limits">
+        <PointSummary chart={chart} point={point} timeZone={timeZone} />
+        <p className="text-sm text-zinc-700">
+          Excluded because: <q>{point.exclusionReason}</q>
+        </p>
+        {errors.root && <Alert tone="error">{errors.root.message}</Alert>}
+        <Field label="Why the exclusion no longer holds" error={errors.reason?.message}>
+          {(control) => <TextArea {...control} {...form.register('reason')} />}
+        </Field>
+        <div className="flex gap-2">
+          <Button type="submit" busy={include.isPending}>
+            Take back in
+          </Button>
+          <Button variant="secondary" onClick={onClose}>
+            Cancel
+          </Button>
+        </div>
+      </form>
+    </Dialog>
+  );
+}

@@ -1,0 +1,65 @@
+import type { CharacteristicChart } from '../../../../../shared/schemas/charts';
+import { Button } from '../../../components/ui/Button';
+import { figure, formatDateTime, ruleLabels, shiftName, statisticNames } from '../lib/format';
+
+interface SelectedPointProps {
+  chart: CharacteristicChart;
+  index: number | null;
+  timeZone: string;
+  canChangeLimits: boolean;
+  onOpenLot: (index: number) => void;
+  onExclude: (index: number) => void;
+  onInclude: (index: number) => void;
+}
+
+/** The selected point in words (also what a screen reader hears as the selection moves) and what can be done with it. */
+export function SelectedPoint({ chart, index, timeZone, canChangeLimits, onOpenLot, onExclude, onInclude }: SelectedPointProps) {
+  const p = index === null ? undefined : chart.points.find((x) => x.index === index);
+  const { unit, decimals, chartType } = chart.characteristic;
+  const names = statisticNames[chartType];
+  return (
+    <div className="min-h-20 rounded-md border border-zinc-200 bg-zinc-50 px-4 py-3" data-testid="selected-point">
+      <div aria-live="polite">
+        {!p ? (
+          <p className="text-sm text-zinc-600">No point selected. Click a point or use the arrow keys on the chart.</p>
+        ) : (
+          <>
+            <p className="font-medium">
+              Point {p.index + 1} · lot <span className="font-mono">{p.lotNumber}</span> · <span className="font-mono">{formatDateTime(p.producedAt, timeZone)}</span> ·{' '}
+              {shiftName(p.shift)}
+            </p>
+            <p className="text-sm text-zinc-700">
+              Values <span className="font-mono">{p.values.map((v) => v.toFixed(decimals)).join(' · ')}</span> {unit}; {names.location}{' '}
+              <span className="font-mono">{figure(p.location, decimals + 1)}</span>
+              {p.dispersion !== null && (
+                <>
+                  , {names.dispersion} <span className="font-mono">{figure(p.dispersion, decimals + 1)}</span>
+                </>
+              )}
+              {p.outOfSpec && '; outside the specification'}
+              {p.excluded && `; excluded from the limits: ${p.exclusionReason ?? ''}`}
+              {p.rules.length > 0 && `; breaks ${p.rules.map((r) => ruleLabels[r]).join(', ')}`}.
+            </p>
+          </>
+        )}
+      </div>
+      {p && (
+        <div className="mt-2 flex flex-wrap gap-2">
+          <Button size="sm" variant="secondary" onClick={() => onOpenLot(p.index)}>
+            Lot details
+          </Button>
+          {canChangeLimits &&
+            (p.excluded ? (
+              <Button size="sm" variant="secondary" onClick={() => onInclude(p.index)}>
+                Take back into the limits…
+              </Button>
+            ) : (
+              <Button size="sm" variant="secondary" onClick={() => onExclude(p.index)}>
+                Exclude from the limits…
+              </Button>
+            ))}
+        </div>
+      )}
+    </div>
+  );
+}

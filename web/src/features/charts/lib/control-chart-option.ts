@@ -1,0 +1,460 @@
+// Builds the echarts option of the control chart: the location chart above the dispersion chart on
+// one zoomable axis of point positions (production order), with limits, zones, specification,
+// target, rule signals and process events. Pure: the same data always gives the same option.
+import type { ComposeOption } from 'echarts/core';
+import type { LineSeriesOption, ScatterSeriesOption } from 'echarts/charts';
+import type {
+  DataZoomComponentOption,
+  GridComponentOption,
+  MarkAreaComponentOption,
+  MarkLineComponentOption,
+  TooltipComponentOption,
+  AxisPointerComponentOption,
+} from 'echarts/components';
+import type { CharacteristicChart, ChartPointRecord, ChartViolation } from '../../../../../shared/schemas/charts';
+import { lineStyles, markers, zoneFill, type LineKind, type MarkerKind } from './line-styles';
+import { escapeHtml, figure, formatDateTime, formatShortDate, ruleLabels, shiftName, statisticNames } from './format';
+
+export type ControlChartOption = ComposeOption<
+  | LineSeriesOption
+  | ScatterSeriesOption
+  | GridComponentOption
+  | TooltipComponentOption
+  | AxisPointerComponentOption
+  | DataZoomComponentOption
+  | MarkLineComponentOption
+  | MarkAreaComponentOption
+>;
+
+/** Above this many points the line is drawn without symbols and thinned by LTTB for the pixels shown. */
+export const DENSE_POINTS = 1500;
+
+/** Series ids the page updates on their own (selection) without rebuilding the option. */
+export const SELECTED_SERIES_ID = 'selected-point';
+
+export interface ChartIndex {
+  /** Point by its index (the x value). */
+  byIndex: Map<number, ChartPointRecord>;
+  /** Violations completing at each point, per chart. */
+  violationsAt: Map<number, ChartViolation[]>;
+  first: number;
+  last: number;
+}
+
+export function indexChart(chart: CharacteristicChart): ChartIndex {
+  const byIndex = new Map<number, ChartPointRecord>();
+  for (const p of chart.points) byIndex.set(p.index, p);
+  const violationsAt = new Map<number, ChartViolation[]>();
+  for (const v of chart.violations) {
+    const list = violationsAt.get(v.index);
+    if (list) list.push(v);
+    else violationsAt.set(v.index, [v]);
+  }
+  const first = chart.points.length ? chart.points[0].index : 0;
+  const last = chart.points.length ? chart.points[chart.points.length - 1].index : 0;
+  return { byIndex, violationsAt, first, last };
+}
+
+/** The point nearest to an x value, for clicks and keys between or beyond points. */
+export function nearestPoint(chart: CharacteristicChart, x: number): ChartPointRecord | null {
+  const pts = chart.points;
+  if (pts.length === 0) return null;
+  let lo = 0;
+  let hi = pts.length - 1;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (pts[mid].index < x) lo = mid + 1;
+    else hi = mid;
+  }
+  if (lo > 0 && Math.abs(pts[lo - 1].index - x) <= Math.abs(pts[lo].index - x)) return pts[lo - 1];
+  return pts[lo];
+}
+
+const lineStyle = (kind: LineKind) => ({
+  color: lineStyles[kind].color,
+  width: lineStyles[kind].width,
+  type: lineStyles[kind].dash.length ? lineStyles[kind].dash : ('solid' as const),
+});
+
+const markerSeries = (kind: MarkerKind, name: string, xAxisIndex: number, data: [number, number][], id?: string): ScatterSeriesOption => ({
+  id,
+  name,
+  type: 'scatter',
+  xAxisIndex,
+  yAxisIndex: xAxisIndex,
+  symbol: markers[kind].symbol,
+  symbolSize: markers[kind].size,
+  itemStyle: kind === 'excluded' || kind === 'selected'
+    ? { color: markers[kind].color, borderColor: markers[kind].color, borderWidth: kind === 'selected' ? 3 : 2 }
+    : { color: markers[kind].color, borderColor: '#ffffff', borderWidth: 1 },
+  z: kind === 'selected' ? 6 : 5,
+  silent: true,
+  animation: false,
+  large: data.length > 2000,
+  data,
+});
+
+interface HorizontalLine {
+  kind: LineKind;
+  value: number | null | undefined;
+  label: string;
+  /** Where the label sits: right of the plot (default) or inside it, for lines drawn close to others. */
+  inside?: 'start' | 'end';
+  /** Label without the figure, for the zone lines whose figures the limits summary gives. */
+  bare?: boolean;
+}
+
+function horizontalMarks(lines: HorizontalLine[], decimals: number): MarkLineComponentOption {
+  return {
+    silent: true,
+    symbol: 'none',
+    animation: false,
+    data: lines
+      .filter((l): l is HorizontalLine & { value: number } => typeof l.value === 'number' && Number.isFinite(l.value))
+      .map((l) => ({
+        yAxis: l.value,
+        lineStyle: lineStyle(l.kind),
+        label: {
+          show: true,
+          position: l.inside === 'start' ? ('insideStartTop' as const) : l.inside === 'end' ? ('insideEndTop' as const) : ('end' as const),
+          formatter: l.bare ? l.label : `${l.label} ${l.value.toFixed(decimals)}`,
+          color: lineStyles[l.kind].color,
+          fontFamily: 'Roboto Mono',
+          fontSize: 12,
+        },
+      })),
+  };
+}
+
+/** Padded value range covering the points, their limits and the specification. */
+function valueRange(values: (number | null | undefined)[]): { min: number; max: number } {
+  let min = Infinity;
+  let max = -Infinity;
+  for (const v of values) {
+    if (typeof v === 'number' && Number.isFinite(v)) {
+      if (v < min) min = v;
+      if (v > max) max = v;
+    }
+  }
+  if (!Number.isFinite(min)) return { min: 0, max: 1 };
+  const pad = (max - min || Math.abs(max) || 1) * 0.06;
+  return { min: min - pad, max: max + pad };
+}
+
+function extent(points: ChartPointRecord[], pick: (p: ChartPointRecord) => number | null): (number | null)[] {
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (const p of points) {
+    const v = pick(p);
+    if (v !== null && Number.isFinite(v)) {
+      if (v < lo) lo = v;
+      if (v > hi) hi = v;
+    }
+  }
+  return Number.isFinite(lo) ? [lo, hi] : [];
+}
+
+/** Where each process event falls: just before the first point produced at or after it. */
+export function eventPositions(chart: CharacteristicChart): { x: number; title: string; description: string | null; occurredAt: string }[] {
+  const pts = chart.points;
+  if (pts.length === 0) return [];
+  const times = pts.map((p) => Date.parse(p.producedAt));
+  const out: { x: number; title: string; description: string | null; occurredAt: string }[] = [];
+  for (const e of chart.events) {
+    const t = Date.parse(e.occurredAt);
+    if (t < times[0] || t > times[times.length - 1]) continue;
+    let lo = 0;
+    let hi = times.length - 1;
+    while (lo < hi) {
+      const mid = (lo + hi) >> 1;
+      if (times[mid] < t) lo = mid + 1;
+      else hi = mid;
+    }
+    out.push({ x: pts[lo].index - 0.5, title: e.title, description: e.description, occurredAt: e.occurredAt });
+  }
+  return out;
+}
+
+/** The tooltip of one point: lot, time, shift, every replicate, the statistics and the rules in words. */
+export function pointTooltipHtml(chart: CharacteristicChart, point: ChartPointRecord, violations: ChartViolation[], timeZone: string): string {
+  const { unit, decimals, chartType } = chart.characteristic;
+  const names = statisticNames[chartType];
+  const esc = escapeHtml;
+  const rows: string[] = [
+    `<div class="pl-tip-title">Lot ${esc(point.lotNumber)}</div>`,
+    `<div>Point ${point.index + 1} · produced ${esc(formatDateTime(point.producedAt, timeZone))} · ${esc(shiftName(point.shift))}</div>`,
+    `<div>${point.n === 1 ? 'Result' : `Replicates (${point.n})`}: <span class="pl-tip-figures">${point.values.map((v) => v.toFixed(decimals)).join(' · ')}</span> ${esc(unit)}</div>`,
+    `<div>${names.location} <span class="pl-tip-figures">${figure(point.location, decimals + (point.n > 1 ? 1 : 0))}</span> ${esc(unit)}` +
+      (point.dispersion !== null ? ` · ${names.dispersion} <span class="pl-tip-figures">${figure(point.dispersion, decimals + 1)}</span> ${esc(unit)}` : '') +
+      '</div>',
+  ];
+  if (point.outOfSpec) rows.push('<div class="pl-tip-flag">◆ Outside the specification</div>');
+  if (point.excluded) rows.push(`<div class="pl-tip-flag">▢ Excluded from the limits: ${esc(point.exclusionReason ?? 'no reason recorded')}</div>`);
+  for (const v of violations) {
+    const where = v.chart === 'location' ? `${names.location} chart` : `${names.dispersion} chart`;
+    rows.push(`<div class="pl-tip-rule">▲ ${esc(ruleLabels[v.rule] ?? v.rule)} (${where}): ${esc(v.description)}</div>`);
+  }
+  return `<div class="pl-tip">${rows.join('')}</div>`;
+}
+
+export function buildControlChartOption(chart: CharacteristicChart, timeZone: string, index: ChartIndex = indexChart(chart)): ControlChartOption {
+  const { points, limits, spec } = chart;
+  const { decimals, chartType } = chart.characteristic;
+  const names = statisticNames[chartType];
+  const dense = points.length > DENSE_POINTS;
+  const locDecimals = decimals + (chart.characteristic.subgroupSize > 1 ? 1 : 0);
+  const dispDecimals = decimals + 1;
+
+  const location: [number, number][] = new Array(points.length);
+  const ucl: [number, number | null][] = new Array(points.length);
+  const lcl: [number, number | null][] = new Array(points.length);
+  const dispersion: [number, number | null][] = new Array(points.length);
+  const dUcl: [number, number | null][] = new Array(points.length);
+  const dLcl: [number, number | null][] = new Array(points.length);
+  const outOfSpec: [number, number][] = [];
+  const excluded: [number, number][] = [];
+  for (let i = 0; i < points.length; i++) {
+    const p = points[i];
+    location[i] = [p.index, p.location];
+    ucl[i] = [p.index, p.ucl];
+    lcl[i] = [p.index, p.lcl];
+    dispersion[i] = [p.index, p.dispersion];
+    dUcl[i] = [p.index, p.dispersionUcl];
+    dLcl[i] = [p.index, p.dispersionLcl];
+    if (p.outOfSpec) outOfSpec.push([p.index, p.location]);
+    if (p.excluded) excluded.push([p.index, p.location]);
+  }
+  // Rule markers come from the full list, not from the thinned line, so none is ever hidden.
+  const locationSignals: [number, number][] = [];
+  const dispersionSignals: [number, number][] = [];
+  for (const [at, list] of index.violationsAt) {
+    const p = index.byIndex.get(at);
+    if (!p) continue;
+    if (list.some((v) => v.chart === 'location')) locationSignals.push([at, p.location]);
+    if (list.some((v) => v.chart === 'dispersion') && p.dispersion !== null) dispersionSignals.push([at, p.dispersion]);
+  }
+
+  const center = limits?.location.center ?? null;
+  const zones = limits?.zones ?? null;
+  const topRange = valueRange([
+    ...extent(points, (p) => p.location),
+    ...extent(points, (p) => p.ucl),
+    ...extent(points, (p) => p.lcl),
+    limits?.location.ucl,
+    limits?.location.lcl,
+    spec?.lsl,
+    spec?.usl,
+    spec?.target,
+  ]);
+  // Ranges and standard deviations start at zero.
+  const bottomRange = { ...valueRange([0, ...extent(points, (p) => p.dispersion), ...extent(points, (p) => p.dispersionUcl), limits?.dispersion.ucl]), min: 0 };
+
+  const zoneAreas: MarkAreaComponentOption = {
+    silent: true,
+    animation: false,
+    data: zones && limits?.location.ucl != null && limits.location.lcl != null
+      ? [
+          [{ yAxis: zones.plus2, itemStyle: { color: zoneFill.A }, label: { show: true, position: 'insideRight', formatter: 'A', color: '#71717a' } }, { yAxis: limits.location.ucl }],
+          [{ yAxis: zones.plus1, itemStyle: { color: zoneFill.B }, label: { show: true, position: 'insideRight', formatter: 'B', color: '#71717a' } }, { yAxis: zones.plus2 }],
+          [{ yAxis: zones.minus2, itemStyle: { color: zoneFill.B }, label: { show: true, position: 'insideRight', formatter: 'B', color: '#71717a' } }, { yAxis: zones.minus1 }],
+          [{ yAxis: limits.location.lcl, itemStyle: { color: zoneFill.A }, label: { show: true, position: 'insideRight', formatter: 'A', color: '#71717a' } }, { yAxis: zones.minus2 }],
+        ]
+      : [],
+  };
+
+  const events = eventPositions(chart);
+  const topMarks = horizontalMarks(
+    [
+      { kind: 'centre', value: center, label: 'CL' },
+      { kind: 'zone', value: zones?.plus1, label: '+1σ', inside: 'start', bare: true },
+      { kind: 'zone', value: zones?.plus2, label: '+2σ', inside: 'start', bare: true },
+      { kind: 'zone', value: zones?.minus1, label: '−1σ', inside: 'start', bare: true },
+      { kind: 'zone', value: zones?.minus2, label: '−2σ', inside: 'start', bare: true },
+      { kind: 'spec', value: spec?.usl, label: 'USL' },
+      { kind: 'spec', value: spec?.lsl, label: 'LSL' },
+      { kind: 'target', value: spec?.target, label: 'Target', inside: 'end' },
+    ],
+    locDecimals,
+  );
+
+  const limitLine = (name: string, data: [number, number | null][], axis: number, label: string, digits: number): LineSeriesOption => ({
+    name,
+    type: 'line',
+    xAxisIndex: axis,
+    yAxisIndex: axis,
+    data,
+    step: 'middle',
+    showSymbol: false,
+    silent: true,
+    animation: false,
+    sampling: dense ? 'lttb' : undefined,
+    lineStyle: lineStyle('control'),
+    endLabel: {
+      show: true,
+      formatter: (params: { value?: unknown }) => {
+        const v = Array.isArray(params.value) ? params.value[1] : null;
+        return typeof v === 'number' ? `${label} ${v.toFixed(digits)}` : '';
+      },
+      color: lineStyles.control.color,
+      fontFamily: 'Roboto Mono',
+      fontSize: 12,
+    },
+    tooltip: { show: false },
+  });
+
+  const xAxis = (gridIndex: number, showLabels: boolean) => ({
+    type: 'value' as const,
+    gridIndex,
+    min: index.first - 0.5,
+    max: index.last + 0.5,
+    minInterval: 1,
+    axisLabel: {
+      show: showLabels,
+      fontFamily: 'Roboto Mono',
+      fontSize: 12,
+      color: '#52525b',
+      formatter: (value: number) => {
+        const p = index.byIndex.get(Math.round(value));
+        return p && Number.isInteger(value) ? formatShortDate(p.producedAt, timeZone) : '';
+      },
+    },
+    axisTick: { show: showLabels },
+    splitLine: { show: false },
+    axisPointer: { label: { show: false } },
+  });
+
+  const yAxis = (gridIndex: number, range: { min: number; max: number }, name: string, digits: number) => ({
+    type: 'value' as const,
+    gridIndex,
+    min: range.min,
+    max: range.max,
+    scale: true,
+    name,
+    nameLocation: 'middle' as const,
+    nameGap: 56,
+    nameTextStyle: { color: '#3f3f46', fontSize: 13 },
+    // The padded ends are not round numbers; only the ticks between them are labelled.
+    axisLabel: { fontFamily: 'Roboto Mono', fontSize: 12, color: '#52525b', showMinLabel: false, showMaxLabel: false, formatter: (v: number) => v.toFixed(Math.max(0, digits - 1)) },
+    splitLine: { lineStyle: { color: '#f4f4f5' } },
+  });
+
+  return {
+    animation: !dense,
+    textStyle: { fontFamily: 'Inter, sans-serif' },
+    grid: [
+      { left: 72, right: 112, top: 28, height: '52%' },
+      { left: 72, right: 112, top: '66%', height: '20%' },
+    ],
+    axisPointer: { link: [{ xAxisIndex: 'all' }] },
+    tooltip: {
+      trigger: 'axis',
+      confine: true,
+      axisPointer: { type: 'line', lineStyle: { color: '#a1a1aa' } },
+      backgroundColor: '#ffffff',
+      borderColor: '#d4d4d8',
+      textStyle: { color: '#18181b', fontSize: 13 },
+      extraCssText: 'max-width: 28rem; white-space: normal;',
+      formatter: (params: unknown) => {
+        const first = Array.isArray(params) ? params[0] : params;
+        const x = (first as { axisValue?: number; value?: unknown })?.axisValue;
+        if (typeof x !== 'number') return '';
+        const p = nearestPoint(chart, x);
+        return p ? pointTooltipHtml(chart, p, index.violationsAt.get(p.index) ?? [], timeZone) : '';
+      },
+    },
+    dataZoom: [
+      { type: 'inside', xAxisIndex: [0, 1], filterMode: 'filter', throttle: 50 },
+      {
+        type: 'slider',
+        xAxisIndex: [0, 1],
+        filterMode: 'filter',
+        bottom: 10,
+        height: 26,
+        throttle: 50,
+        showDataShadow: false,
+        labelFormatter: (value: number) => {
+          const p = nearestPoint(chart, value);
+          return p ? formatShortDate(p.producedAt, timeZone) : '';
+        },
+        textStyle: { fontFamily: 'Roboto Mono', fontSize: 12 },
+      },
+    ],
+    xAxis: [xAxis(0, false), xAxis(1, true)],
+    yAxis: [yAxis(0, topRange, `${names.location} (${chart.characteristic.unit})`, locDecimals), yAxis(1, bottomRange, names.dispersion, dispDecimals)],
+    series: [
+      {
+        id: 'location',
+        name: names.location,
+        type: 'line',
+        xAxisIndex: 0,
+        yAxisIndex: 0,
+        data: location,
+        showSymbol: !dense,
+        symbol: markers.point.symbol,
+        symbolSize: markers.point.size,
+        sampling: dense ? 'lttb' : undefined,
+        lineStyle: { color: markers.point.color, width: 1.25 },
+        itemStyle: { color: markers.point.color },
+        emphasis: { disabled: true },
+        z: 3,
+        markLine: topMarks,
+        markArea: zoneAreas,
+      },
+      limitLine('UCL', ucl, 0, 'UCL', locDecimals),
+      limitLine('LCL', lcl, 0, 'LCL', locDecimals),
+      {
+        id: 'dispersion',
+        name: names.dispersion,
+        type: 'line',
+        xAxisIndex: 1,
+        yAxisIndex: 1,
+        data: dispersion,
+        connectNulls: false,
+        showSymbol: !dense,
+        symbol: markers.point.symbol,
+        symbolSize: markers.point.size,
+        sampling: dense ? 'lttb' : undefined,
+        lineStyle: { color: markers.point.color, width: 1.25 },
+        itemStyle: { color: markers.point.color },
+        emphasis: { disabled: true },
+        z: 3,
+        markLine: horizontalMarks([{ kind: 'centre', value: limits?.dispersion.center, label: `${names.dispersion}̄` }], dispDecimals),
+      },
+      limitLine(`${names.dispersion} UCL`, dUcl, 1, 'UCL', dispDecimals),
+      limitLine(`${names.dispersion} LCL`, dLcl, 1, 'LCL', dispDecimals),
+      markerSeries('outOfSpec', 'Outside specification', 0, outOfSpec),
+      markerSeries('excluded', 'Excluded', 0, excluded),
+      markerSeries('signal', 'Rule signal', 0, locationSignals),
+      markerSeries('signal', `${names.dispersion} rule signal`, 1, dispersionSignals),
+      markerSeries('selected', 'Selected point', 0, [], SELECTED_SERIES_ID),
+      // Process events on a series of their own, above the points, so no point hides an event's name.
+      {
+        name: 'Process events',
+        type: 'line',
+        xAxisIndex: 0,
+        yAxisIndex: 0,
+        data: [],
+        silent: true,
+        z: 7,
+        markLine: {
+          silent: true,
+          symbol: 'none',
+          animation: false,
+          data: events.map((e) => ({
+            xAxis: e.x,
+            lineStyle: lineStyle('event'),
+            label: {
+              show: true,
+              position: 'insideEndTop' as const,
+              formatter: e.title,
+              color: '#3f3f46',
+              fontSize: 12,
+              backgroundColor: 'rgba(255, 255, 255, 0.85)',
+              padding: [1, 3],
+            },
+          })),
+        },
+      },
+    ],
+  };
+}

@@ -1,0 +1,294 @@
+import { useCallback, useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
+import { Link, useParams, useSearchParams } from 'react-router';
+import { ApiError } from '../../../lib/http';
+import { useSignedInUser } from '../../auth/api/session';
+import { usePlantTimeZone } from '../../results/api/catalogue';
+import { useChart, type ChartRange } from '../api/chart';
+import { ControlChart, type ZoomWindow } from '../components/ControlChart';
+import { ChartLegend } from '../components/ChartLegend';
+import { LimitsSummary } from '../components/LimitsSummary';
+import { CapabilityPanel } from '../components/CapabilityPanel';
+import { LimitRevisions } from '../components/LimitRevisions';
+import { PointsTable } from '../components/PointsTable';
+import { ExcludePointDialog, IncludePointDialog } from '../components/PointDialogs';
+import { FreezeLimitsDialog } from '../components/FreezeLimitsDialog';
+import { LotDetailsDialog } from '../components/LotDetailsDialog';
+import { SelectedPoint } from '../components/SelectedPoint';
+import { SignalList } from '../components/SignalList';
+import { chartTypeLabels, formatDateTime, ruleSetLabels } from '../lib/format';
+import type { CharacteristicChart } from '../../../../../shared/schemas/charts';
+import { PageHeader } from '../../../components/ui/PageHeader';
+import { Button } from '../../../components/ui/Button';
+import { Alert } from '../../../components/ui/Alert';
+import { Select } from '../../../components/ui/Field';
+import { Loading } from '../../../components/ui/Spinner';
+import { ErrorState } from '../../../components/ui/ErrorState';
+import { EmptyState } from '../../../components/ui/EmptyState';
+
+const periods = [
+  { value: 'all', label: 'All history', days: null },
+  { value: '30', label: 'Last 30 days', days: 30 },
+  { value: '90', label: 'Last 90 days', days: 90 },
+  { value: '182', label: 'Last 6 months', days: 182 },
+] as const;
+
+/** The chart's window: a whole number of days back from the start of today, so it stays one query all day. */
+function rangeFor(period: string): ChartRange {
+  const days = periods.find((p) => p.value === period)?.days;
+  if (!days) return {};
+  const start = new Date();
+  start.setHours(0, 0, 0, 0);
+  start.setDate(start.getDate() - days);
+  return { from: start.toISOString() };
+}
+
+type Open =
+  | { kind: 'lot'; index: number }
+  | { kind: 'exclude'; index: number }
+  | { kind: 'include'; index: number }
+  | { kind: 'freeze' }
+  | null;
+
+function Section({ title, actions, children, id }: { title: string; actions?: ReactNode; children: ReactNode; id?: string }) {
+  return (
+    <section aria-labelledby={id} className="rounded-lg border border-zinc-200 bg-white shadow-xs">
+      <header className="flex flex-wrap items-center justify-between gap-3 border-b border-zinc-200 px-5 py-3">
+        <h2 id={id} className="text-lg font-semibold text-zinc-900">
+          {title}
+        </h2>
+        {actions}
+      </header>
+      <div className="px-5 py-4">{children}</div>
+    </section>
+  );
+}
+
+export default function ChartPage() {
+  const { characteristicId = '' } = useParams();
+  const id = Number(characteristicId);
+  const [search, setSearch] = useSearchParams();
+  const period = search.get('period') ?? 'all';
+  const range = useMemo(() => rangeFor(period), [period]);
+  const chart = useChart(id, range);
+  const timeZone = usePlantTimeZone().data ?? 'UTC';
+  const user = useSignedInUser();
+  const canChangeLimits = user.role === 'quality_manager' || user.role === 'admin';
+
+  const pointParam = search.get('point');
+  const [selected, setSelected] = useState<number | null>(pointParam !== null && /^\d+$/.test(pointParam) ? Number(pointParam) : null);
+  const [reveal, setReveal] = useState(0);
+  const [view, setView] = useState<ZoomWindow | null>(null);
+  const [open, setOpen] = useState<Open>(null);
+  const [notice, setNotice] = useState<string | null>(null);
+
+  // A link to one point (from an alarm e-mail) brings it into view once the chart is there.
+  const linkedShown = useRef(false);
+  useEffect(() => {
+    if (chart.data && selected !== null && !linkedShown.current && pointParam !== null) {
+      linkedShown.current = true;
+      setReveal((n) => n + 1);
+    }
+  }, [chart.data, selected, pointParam]);
+
+  const showOnChart = useCallback((index: number) => {
+    setSelected(index);
+    setReveal((n) => n + 1);
+    document.getElementById('chart-section')?.scrollIntoView({ block: 'start', behavior: 'smooth' });
+  }, []);
+  const openLot = useCallback((index: number) => setOpen({ kind: 'lot', index }), []);
+  const exclude = useCallback((index: number) => setOpen({ kind: 'exclude', index }), []);
+  const include = useCallback((index: number) => setOpen({ kind: 'include', index }), []);
+
+  if (!Number.isInteger(id) || id <= 0) return <NotAChart text={characteristicId} />;
+  if (chart.isPending) return <ChartSkeleton />;
+  if (chart.isError) {
+    if (chart.error instanceof ApiError && chart.error.status === 404) return <NotAChart text={characteristicId} />;
+    return <ErrorState title="Could not load the chart" error={chart.error} onRetry={() => chart.refetch()} />;
+  }
+
+  const data: CharacteristicChart = chart.data;
+  const c = data.characteristic;
+  const pointAt = (index: number) => data.points.find((p) => p.index === index);
+  const openPoint = open && open.kind !== 'freeze' ? pointAt(open.index) : undefined;
+  const done = (message: string) => {
+    setOpen(null);
+    setNotice(message);
+  };
+
+  return (
+    <>
+      <PageHeader
+        title={c.name}
+        description={
+          <>
+            {c.productName} · line <span className="font-mono">{c.lineCode ?? '–'}</span> · {chartTypeLabels[c.chartType]}, subgroups of{' '}
+            <span className="font-mono">{c.subgroupSize}</span> · {ruleSetLabels[c.ruleSet]}
+          </>
+        }
+        actions={
+          <>
+            <label htmlFor="chart-period" className="self-center text-sm font-medium text-zinc-800">
+              Period
+            </label>
+            <Select
+              id="chart-period"
+              value={period}
+              onChange={(e) =>
+                setSearch((s) => {
+                  s.set('period', e.target.value);
+                  s.delete('point');
+                  return s;
+                })
+              }
+              className="w-44"
+            >
+              {periods.map((p) => (
+                <option key={p.value} value={p.value}>
+                  {p.label}
+                </option>
+              ))}
+            </Select>
+            <Link to="/charts" className="inline-flex h-10 items-center rounded-md border border-zinc-300 bg-white px-4 font-medium text-zinc-800 hover:bg-zinc-100">
+              All charts
+            </Link>
+          </>
+        }
+      />
+
+      <div className="space-y-5" aria-busy={chart.isFetching || undefined}>
+        {notice && <Alert tone="success">{notice}</Alert>}
+        {data.reasons.length > 0 && (
+          <ul aria-label="Notes on this chart" className="space-y-1 rounded-md border border-amber-200 bg-amber-50 px-4 py-3 text-sm text-amber-950">
+            {data.reasons.map((r) => (
+              <li key={r}>{r}</li>
+            ))}
+          </ul>
+        )}
+
+        <Section
+          title="Control limits"
+          id="limits-heading"
+          actions={
+            canChangeLimits && data.points.length > 0 ? (
+              <Button variant="secondary" onClick={() => setOpen({ kind: 'freeze' })}>
+                Freeze limits…
+              </Button>
+            ) : undefined
+          }
+        >
+          <LimitsSummary chart={data} timeZone={timeZone} />
+        </Section>
+
+        <div id="chart-section" className="scroll-mt-20">
+          <Section title="Control chart" id="chart-heading">
+            {data.points.length === 0 ? (
+              <EmptyState title="No results for this characteristic in the period">
+                Choose a longer period, or upload the shift's results under Results &amp; uploads; they appear here in production order.
+              </EmptyState>
+            ) : (
+              <div className="space-y-3">
+                <p className="text-sm text-zinc-600">
+                  Points in production order. Drag the slider or scroll on the chart to zoom; click a point, or focus the chart and use the arrow
+                  keys and Enter, to open its lot.
+                </p>
+                <ControlChart
+                  chart={data}
+                  timeZone={timeZone}
+                  selected={selected}
+                  onSelect={setSelected}
+                  onOpen={openLot}
+                  onZoom={setView}
+                  revealRequest={reveal}
+                />
+                <ChartLegend hasSpec={data.spec?.lsl != null || data.spec?.usl != null} hasTarget={data.spec?.target != null} />
+                <SelectedPoint
+                  chart={data}
+                  index={selected}
+                  timeZone={timeZone}
+                  canChangeLimits={canChangeLimits}
+                  onOpenLot={openLot}
+                  onExclude={exclude}
+                  onInclude={include}
+                />
+              </div>
+            )}
+          </Section>
+        </div>
+
+        <Section title="Run-rule signals" id="signals-heading">
+          <SignalList chart={data} timeZone={timeZone} onReveal={showOnChart} />
+        </Section>
+
+        <Section title="Capability" id="capability-heading">
+          <CapabilityPanel chart={data} />
+        </Section>
+
+        <Section title="Limit revisions" id="revisions-heading">
+          <LimitRevisions characteristicId={c.id} decimals={c.decimals} timeZone={timeZone} />
+        </Section>
+
+        <Section title="Process events" id="events-heading">
+          {data.events.length === 0 ? (
+            <p className="text-zinc-600">No process event was logged for this product and line in the period.</p>
+          ) : (
+            <ul className="space-y-2">
+              {data.events.map((e) => (
+                <li key={e.id}>
+                  <span className="font-mono text-sm text-zinc-600">{formatDateTime(e.occurredAt, timeZone)}</span> <span className="font-medium">{e.title}</span>
+                  {e.description && <span className="text-zinc-700"> — {e.description}</span>}
+                </li>
+              ))}
+            </ul>
+          )}
+        </Section>
+
+        <Section title="Points" id="points-heading">
+          <PointsTable
+            chart={data}
+            timeZone={timeZone}
+            canChangeLimits={canChangeLimits}
+            onReveal={showOnChart}
+            onOpenLot={openLot}
+            onExclude={exclude}
+            onInclude={include}
+          />
+        </Section>
+      </div>
+
+      {open?.kind === 'lot' && openPoint && <LotDetailsDialog lotNumber={openPoint.lotNumber} currentCode={c.code} timeZone={timeZone} onClose={() => setOpen(null)} />}
+      {open?.kind === 'exclude' && openPoint && <ExcludePointDialog chart={data} point={openPoint} timeZone={timeZone} onClose={() => setOpen(null)} onDone={done} />}
+      {open?.kind === 'include' && openPoint && <IncludePointDialog chart={data} point={openPoint} timeZone={timeZone} onClose={() => setOpen(null)} onDone={done} />}
+      {open?.kind === 'freeze' && <FreezeLimitsDialog chart={data} timeZone={timeZone} view={view} onClose={() => setOpen(null)} onDone={done} />}
+    </>
+  );
+}
+
+function NotAChart({ text }: { text: string }) {
+  return (
+    <>
+      <PageHeader title="Chart not found" />
+      <EmptyState title={`There is no characteristic ${text}`}>
+        Pick one from{' '}
+        <Link to="/charts" className="font-medium text-accent-700 underline underline-offset-2">
+          the list of control charts
+        </Link>
+        .
+      </EmptyState>
+    </>
+  );
+}
+
+/** The page's frame at its final size while the chart loads, so nothing jumps when it arrives. */
+function ChartSkeleton() {
+  return (
+    <div aria-busy="true">
+      <div className="mb-6 h-16 w-2/3 animate-pulse rounded bg-zinc-200/70" />
+      <div className="space-y-5">
+        <div className="h-44 rounded-lg border border-zinc-200 bg-white" />
+        <div className="flex h-[38rem] items-center justify-center rounded-lg border border-zinc-200 bg-white">
+          <Loading label="Loading the chart…" />
+        </div>
+      </div>
+    </div>
+  );
+}

@@ -1,0 +1,21 @@
+import { lazy, Suspense } from 'react';
+import { Route, Routes } from 'react-router';
+import { NotFoundPage } from '../../../app/routes/NotFoundPage';
+import { Loading } from '../../../components/ui/Spinner';
+import ChartsIndexPage from './ChartsIndexPage';
+
+// echarts comes with the page of one chart, not with the list of charts.
+const ChartPage = lazy(() => import('./ChartPage'));
+
+/** /charts (pick a characteristic) and /charts/:characteristicId (its chart, ?point=<index> to show one point). */
+export default function ChartsArea() {
+  return (
+    <Suspense fallback={<Loading label="Loading the chart…" />}>
+      <Routes>
+        <Route index element={<ChartsIndexPage />} />
+        <Route path=":characteristicId" element={<ChartPage />} />
+        <Route path="*" element={<NotFoundPage />} />
+      </Routes>
+    </Suspense>
+  );
+}
