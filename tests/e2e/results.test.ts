@@ -284,6 +284,7 @@ describe('roles', () => {
 
     await page.getByRole('navigation', { name: 'Main menu' }).getByRole('link', { name: 'Test methods' }).click();
     await heading('Test methods').waitFor();
+    await screenshot(page, 'results-test-methods');
     await page.getByRole('link', { name: /Compressive strength/ }).click();
     await heading(/Compressive strength/).waitFor();
     // EN 196-1: Rc = Fc / 1600 mm²; 40 kN → 25.0 MPa.

@@ -1,7 +1,7 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { http } from '../../../lib/http';
 import type { ManualEntry } from '../../../../../shared/ingest';
-import { fileOutcome, type UploadOutcome } from './uploads';
+import { fileOutcome, type UploadOutcome } from './import-outcome';
 
 export interface LotResult {
   id: number;

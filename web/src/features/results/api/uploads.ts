@@ -1,6 +1,8 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { ApiError, http } from '../../../lib/http';
-import type { ColumnMapping, CsvDialect, RowError, SaveMappingInput } from '../../../../../shared/ingest';
+import { http } from '../../../lib/http';
+import type { ColumnMapping, CsvDialect, SaveMappingInput } from '../../../../../shared/ingest';
+import { fileOutcome, type UploadOutcome } from './import-outcome';
+import { lotKeys } from './lots';
 
 export type UploadStatus = 'imported' | 'rejected' | 'voided';
 
@@ -27,12 +29,6 @@ export interface SavedMapping {
   createdAt: string;
   createdByName: string | null;
 }
-
-/** What the server made of a file: every row stored, none stored, or the same bytes seen before. */
-export type UploadOutcome =
-  | { kind: 'imported'; id: number; rowsImported: number }
-  | { kind: 'rejected'; id: number | null; message: string; errors: RowError[] }
-  | { kind: 'duplicate'; uploadId: number };
 
 export const uploadLinks = {
   template: '/api/v1/uploads/template.csv',
@@ -87,15 +83,6 @@ export async function uploadResults({ file, mapping, dialect }: UploadInput): Pr
   }
 }
 
-/** The 422 and 409 answers of the import path, shared by uploads and manual entry. */
-export function fileOutcome(error: unknown): Exclude<UploadOutcome, { kind: 'imported' }> | null {
-  if (!(error instanceof ApiError)) return null;
-  const body = error.body as { errors?: RowError[]; id?: number | null; uploadId?: number } | undefined;
-  if (error.status === 422 && Array.isArray(body?.errors)) return { kind: 'rejected', id: body.id ?? null, message: error.message, errors: body.errors };
-  if (error.status === 409 && typeof body?.uploadId === 'number') return { kind: 'duplicate', uploadId: body.uploadId };
-  return null;
-}
-
 export function useUploadResults() {
   const queryClient = useQueryClient();
   return useMutation({
@@ -113,7 +100,8 @@ export function useVoidUpload() {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: voidUpload,
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: uploadKeys.all }),
+    // The lots of the upload lose its results.
+    onSuccess: () => Promise.all([queryClient.invalidateQueries({ queryKey: uploadKeys.all }), queryClient.invalidateQueries({ queryKey: lotKeys.all })]),
   });
 }
 

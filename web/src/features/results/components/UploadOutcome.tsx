@@ -1,5 +1,6 @@
 import { Link } from 'react-router';
-import { uploadLinks, type UploadOutcome as Outcome } from '../api/uploads';
+import { uploadLinks } from '../api/uploads';
+import type { UploadOutcome as Outcome } from '../api/import-outcome';
 import { RowErrorList } from './RowErrorList';
 import { DownloadLink } from './DownloadLink';
 import { Alert } from '../../../components/ui/Alert';

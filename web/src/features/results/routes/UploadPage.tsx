@@ -83,23 +83,32 @@ function UploadSteps({ catalogue }: { catalogue: EntryCatalogue }) {
 
   const ingest = useMemo(() => ingestCatalogue(catalogue), [catalogue]);
   const activeCharacteristics = useMemo(() => catalogue.characteristics.filter((c) => c.active), [catalogue]);
-  const codes = activeCharacteristics.map((c) => c.code);
   const parsed = useMemo(() => (source ? parseCsv(source.text, dialect) : null), [source, dialect]);
   const needsMapping = !!parsed && parsed.headers.length > 0 && !hasCanonicalHeaders(parsed.headers);
-  const activeMapping = needsMapping ? (mappingState ?? initialMapping(parsed.headers, savedMappings.data ?? [], codes)) : null;
-  const built = activeMapping ? mappingFromDraft(activeMapping.draft) : null;
+  // Memoised down to the check, so that a large file is validated again only when something it depends on changes.
+  const activeMapping = useMemo(
+    () => (parsed && needsMapping ? (mappingState ?? initialMapping(parsed.headers, savedMappings.data ?? [], activeCharacteristics.map((c) => c.code))) : null),
+    [parsed, needsMapping, mappingState, savedMappings.data, activeCharacteristics],
+  );
+  const built = useMemo(() => (activeMapping ? mappingFromDraft(activeMapping.draft) : null), [activeMapping]);
   const mapping = built?.mapping ?? undefined;
   const check = useMemo(
     () => (source && parsed && (!needsMapping || mapping) ? checkFile(source.text, parsed, mapping, ingest) : null),
     [source, parsed, needsMapping, mapping, ingest],
   );
+  const lots = useMemo(() => (check ? [...new Set(check.valid.map((v) => v.lot))] : []), [check]);
 
   const readFile = async (file: File) => {
     upload.reset();
     setReadError(null);
     if (file.size > MAX_UPLOAD_BYTES) return setReadError(`${file.name} is larger than 20 MB; split it into shifts or weeks.`);
     if (/\.xlsx?$/i.test(file.name)) return setReadError(`${file.name} is a spreadsheet workbook; export the sheet as CSV first.`);
-    const text = decodeText(new Uint8Array(await file.arrayBuffer()));
+    let text: string;
+    try {
+      text = decodeText(new Uint8Array(await file.arrayBuffer()));
+    } catch {
+      return setReadError(`${file.name} could not be read. Choose it again, or copy it to this computer first.`);
+    }
     const detected = detectDialect(text);
     setSource({ file, text, detected });
     setDialect(detected);
@@ -118,7 +127,6 @@ function UploadSteps({ catalogue }: { catalogue: EntryCatalogue }) {
     setMappingState({ draft, savedName });
   };
 
-  const lots = check ? [...new Set(check.valid.map((v) => v.lot))] : [];
   const records = parsed?.records.length ?? 0;
   const wide = mapping?.format === 'wide';
 
