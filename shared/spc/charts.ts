@@ -347,7 +347,7 @@ export function computeChart(input: ChartInput): ChartResult {
     if (ucl !== null && lcl !== null) {
       spread = stats.dispersion === null || stats.hasDispersion === null
         ? { values: null, ucl, lcl, judged: null }
-        : { values: stats.dispersion, ucl, lcl, judged: judgedDispersion(stats.hasDispersion, excluded) };
+        : { values: stats.dispersion, ucl, lcl, judged: excluded === null && stats.singleValueSubgroups === 0 ? null : judgedDispersion(stats.hasDispersion, excluded) };
     }
     findViolations({ values: stats.location, center: center as number, sigma, skip: excluded }, spread, activeRules, violations);
   }

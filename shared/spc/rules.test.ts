@@ -191,10 +191,27 @@ describe('block-wise evaluation agrees with the rule definitions', () => {
         const expected = naive(values, skip);
         const order = new Map(EXTENDED_RULES.map((r, k) => [r, k]));
         expected.sort((a, b) => a.index - b.index || (order.get(a.rule) ?? 0) - (order.get(b.rule) ?? 0));
-        const actual = judge(values, EXTENDED_RULES, [...skip]).map(({ rule, index, points }) => ({ rule, index, points }));
+        const actual = judge(values, EXTENDED_RULES, skip.size > 0 ? [...skip] : null).map(({ rule, index, points }) => ({ rule, index, points }));
         expect(actual).toEqual(expected);
       }),
       { numRuns: 400 },
+    );
+  });
+  it('the same on the fast path (one sigma, nothing excluded) as on the general one, dispersion included', () => {
+    fc.assert(
+      fc.property(fc.array(level, { minLength: 1, maxLength: 140 }), (values) => {
+        const x = Float64Array.from(values);
+        const mr = { values: null, ucl: 3.5, lcl: 0, judged: null };
+        const fast: Violation[] = [];
+        findViolations({ values: x, center: 0, sigma: 1, skip: null }, mr, EXTENDED_RULES, fast);
+        const general: Violation[] = [];
+        findViolations({ values: x, center: 0, sigma: new Float64Array(x.length).fill(1), skip: null }, { ...mr, ucl: new Float64Array(x.length).fill(3.5) }, EXTENDED_RULES, general);
+        expect(fast).toEqual(general);
+        // The moving ranges beyond 3.5, by their definition.
+        const expected = values.flatMap((v, i) => (i > 0 && Math.abs(v - values[i - 1]) > 3.5 ? [i] : []));
+        expect(fast.filter((v) => v.chart === 'dispersion').map((v) => v.index)).toEqual(expected);
+      }),
+      { numRuns: 300 },
     );
   });
   it('on long runs that cross several 32-point blocks', () => {

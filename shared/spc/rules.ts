@@ -82,8 +82,8 @@ export interface DispersionSeries {
   values: ArrayLike<number> | null;
   ucl: number | ArrayLike<number>;
   lcl: number | ArrayLike<number>;
-  /** 1 marks a point that has a dispersion value and is judged. Null with moving ranges: a moving
-   *  range is judged when both of its points are. */
+  /** 1 marks a point that has a dispersion value and is judged; null when every judged point has
+   *  one. A moving range is judged when both of its points are. */
   judged: ArrayLike<number> | null;
 }
 
@@ -165,9 +165,9 @@ function scanBlock(st: Scan, words: Int32Array, position: Int32Array): number {
     if (hasSpread) {
       if (uclArray !== null) ucl = uclArray[i];
       if (lclArray !== null) lcl = lclArray[i];
-      if (spreadValues !== null && spreadJudged !== null) {
+      if (spreadValues !== null) {
         const d = spreadValues[i];
-        R1 = (R1 << 1) | ((bit(d > ucl) | bit(d < lcl)) & spreadJudged[i]);
+        R1 = (R1 << 1) | ((bit(d > ucl) | bit(d < lcl)) & (spreadJudged === null ? 1 : spreadJudged[i]));
       } else {
         const d = Math.abs(x - previous);
         R1 = (R1 << 1) | ((bit(d > ucl) | bit(d < lcl)) & bit(lastIndex === i - 1));
@@ -187,6 +187,51 @@ function scanBlock(st: Scan, words: Int32Array, position: Int32Array): number {
   st.next = i;
   st.previous = previous;
   st.lastIndex = lastIndex;
+  return j;
+}
+
+/**
+ * scanBlock for the common case — every point judged, one sigma for all, and a dispersion chart
+ * (if any) with fixed limits and a value at every point — without the per-point tests for the other
+ * cases. `spreadMode` 0: no dispersion chart, 1: its values, 2: moving ranges computed here.
+ */
+function scanBlockFast(st: Scan, words: Int32Array, spreadMode: number): number {
+  const { values, center: c, sigma: s, spreadValues, ucl, lcl } = st;
+  const plus1 = c + s, plus2 = c + 2 * s, minus1 = c - s, minus2 = c - 2 * s;
+  let previous = st.previous;
+  const start = st.next;
+  const end = Math.min(values.length, start + 32);
+  let A = 0, B = 0, H1 = 0, L1 = 0, H2 = 0, L2 = 0, U = 0, D = 0, R1 = 0;
+  for (let i = start; i < end; i++) {
+    const x = values[i];
+    A = (A << 1) | bit(x > c);
+    B = (B << 1) | bit(x < c);
+    H1 = (H1 << 1) | bit(x > plus1);
+    L1 = (L1 << 1) | bit(x < minus1);
+    H2 = (H2 << 1) | bit(x > plus2);
+    L2 = (L2 << 1) | bit(x < minus2);
+    U = (U << 1) | bit(x > previous);
+    D = (D << 1) | bit(x < previous);
+    if (spreadMode === 2) {
+      // The first point has no moving range: |x − NaN| compares false.
+      const d = Math.abs(x - previous);
+      R1 = (R1 << 1) | bit(d > ucl) | bit(d < lcl);
+    } else if (spreadMode === 1 && spreadValues !== null) {
+      const d = spreadValues[i];
+      R1 = (R1 << 1) | bit(d > ucl) | bit(d < lcl);
+    }
+    previous = x;
+  }
+  const j = end - start;
+  if (j < 32) {
+    const gap = 32 - j;
+    A <<= gap; B <<= gap; H1 <<= gap; L1 <<= gap; H2 <<= gap; L2 <<= gap; U <<= gap; D <<= gap; R1 <<= gap;
+  }
+  words[W_A] = A; words[W_B] = B; words[W_H1] = H1; words[W_L1] = L1; words[W_H2] = H2;
+  words[W_L2] = L2; words[W_U] = U; words[W_D] = D; words[W_R1] = R1;
+  st.next = end;
+  st.previous = previous;
+  st.lastIndex = end - 1;
   return j;
 }
 
@@ -229,8 +274,11 @@ export function findViolations(series: LocationSeries, dispersion: DispersionSer
   let pU = 0, pD = 0, pU2 = 0, pD2 = 0, pZ = 0, pZ2 = 0, pZ4 = 0;
   let pI = 0, pI2 = 0, pI4 = 0, pO = 0, pO2 = 0, pO4 = 0;
   const n = values.length;
+  const fast = skip === null && sigmas === null && st.uclArray === null && st.lclArray === null && st.spreadJudged === null;
+  const spreadMode = spread === null ? 0 : spread.values === null ? 2 : 1;
   while (st.next < n) {
-    const j = scanBlock(st, words, position);
+    const blockStart = st.next;
+    const j = fast ? scanBlockFast(st, words, spreadMode) : scanBlock(st, words, position);
     if (j === 0) break;
     const A = words[W_A], B = words[W_B], H1 = words[W_H1], L1 = words[W_L1], H2 = words[W_H2];
     const L2 = words[W_L2], U = words[W_U], D = words[W_D], R1 = words[W_R1];
@@ -239,7 +287,7 @@ export function findViolations(series: LocationSeries, dispersion: DispersionSer
     for (let cand = (H2 | L2) & masks.we1; cand !== 0; ) {
       const b = 31 - Math.clz32(cand);
       cand ^= 1 << b;
-      const index = position[31 - b];
+      const index = fast ? blockStart + 31 - b : position[31 - b];
       const x = values[index];
       const sd = sigmas === null ? sigma : sigmas[index];
       if (x > c + 3 * sd || x < c - 3 * sd) E1 |= 1 << b;
@@ -279,7 +327,7 @@ export function findViolations(series: LocationSeries, dispersion: DispersionSer
     while (any !== 0) {
       const b = 31 - Math.clz32(any); // the oldest point first
       any ^= 1 << b;
-      const index = position[31 - b];
+      const index = fast ? blockStart + 31 - b : position[31 - b];
       const chart = 'location';
       if ((hit.we1 >>> b) & 1) out.push({ rule: 'we1', chart, index, points: [index] });
       if ((hit.we2 >>> b) & 1) {
