@@ -178,6 +178,9 @@ describe('CSV upload', () => {
 
     await page.getByRole('heading', { name: '3. Which column holds what' }).waitFor();
     await page.getByLabel('One row per lot, a column per result').check();
+    // Nothing is checked or sent until every required column has its header.
+    expect(await page.getByRole('button', { name: 'Finish the mapping first' }).isDisabled()).toBe(true);
+    await page.getByText('Choose the column that holds the lot number').waitFor();
     await page.getByLabel('Lot number', { exact: true }).selectOption('Batch no');
     await page.getByLabel('Product code', { exact: true }).selectOption('Prod');
     await page.getByLabel('Production line', { exact: true }).selectOption('Line no');

@@ -92,9 +92,11 @@ function UploadSteps({ catalogue }: { catalogue: EntryCatalogue }) {
   );
   const built = useMemo(() => (activeMapping ? mappingFromDraft(activeMapping.draft) : null), [activeMapping]);
   const mapping = built?.mapping ?? undefined;
+  // Rows are checked once every column the mapping names is in the file; until then the mapping card says what is missing.
+  const mappingComplete = !needsMapping || (!!mapping && missingColumns(parsed.headers, mapping).length === 0);
   const check = useMemo(
-    () => (source && parsed && (!needsMapping || mapping) ? checkFile(source.text, parsed, mapping, ingest) : null),
-    [source, parsed, needsMapping, mapping, ingest],
+    () => (source && parsed && mappingComplete ? checkFile(source.text, parsed, mapping, ingest) : null),
+    [source, parsed, mappingComplete, mapping, ingest],
   );
   const lots = useMemo(() => (check ? [...new Set(check.valid.map((v) => v.lot))] : []), [check]);
 
@@ -173,6 +175,15 @@ function UploadSteps({ catalogue }: { catalogue: EntryCatalogue }) {
             characteristics={activeCharacteristics}
             savedMappings={savedMappings.data ?? []}
           />
+        </Card>
+      )}
+
+      {needsMapping && !mappingComplete && (
+        <Card title="4. Check and import">
+          <div className="flex flex-wrap items-center gap-3">
+            <Button disabled>Finish the mapping first</Button>
+            <p className="text-zinc-700">Every column marked in red above needs a choice before the rows can be checked.</p>
+          </div>
         </Card>
       )}
 

@@ -12,9 +12,9 @@ import { EmptyState } from '../../../components/ui/EmptyState';
 const column = createColumnHelper<TestMethodEntry>();
 
 const rawReading: Record<NonNullable<TestMethodEntry['rawLoad']>, string> = {
-  flexural: 'Breaking load in kN or N',
-  compressive: 'Breaking load in kN or N',
-  'pull-off': 'Pull-off force in kN or N',
+  flexural: 'The result, or the breaking load in kN or N',
+  compressive: 'The result, or the breaking load in kN or N',
+  'pull-off': 'The result, or the pull-off force in kN or N',
 };
 
 export default function TestMethodListPage() {
