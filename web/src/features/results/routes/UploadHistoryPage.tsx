@@ -66,9 +66,6 @@ export default function UploadHistoryPage() {
           </div>
         ),
       }),
-      column.accessor('rowsTotal', { header: 'Rows', meta: { numeric: true } }),
-      column.accessor('rowsImported', { header: 'Results stored', meta: { numeric: true } }),
-      column.accessor('rowsRejected', { header: 'Rejected', meta: { numeric: true } }),
       column.accessor('status', {
         header: 'Status',
         cell: (info) => {
@@ -81,6 +78,9 @@ export default function UploadHistoryPage() {
           );
         },
       }),
+      column.accessor('rowsTotal', { header: 'Rows', meta: { numeric: true } }),
+      column.accessor('rowsImported', { header: 'Results stored', meta: { numeric: true } }),
+      column.accessor('rowsRejected', { header: 'Rejected', meta: { numeric: true } }),
       column.display({
         id: 'actions',
         header: 'Actions',
