@@ -546,6 +546,7 @@ function subgroupPass(
   const { values: x, count: k, size, offsets } = layout;
   const { means, spread, has } = out;
   const shift = x.length > 0 ? x[0] : 0;
+  const pick = new Float64Array(4);
   let keptValues = 0;
   let keptSum = 0;
   let shiftedSum = 0;
@@ -561,7 +562,6 @@ function subgroupPass(
     let sum = 0;
     let d1 = 0;
     let d2 = 0;
-    // Math.min and Math.max compile without branches; comparisons would mispredict on random data.
     let lo = x[start];
     let hi = lo;
     for (let j = start; j < end; j++) {
@@ -570,8 +570,16 @@ function subgroupPass(
       const d = v - shift;
       d1 += d;
       d2 += d * d;
-      lo = Math.min(lo, v);
-      hi = Math.max(hi, v);
+      if (useRange) {
+        // Smallest and largest by picking from a scratch array with the comparison as index: exact
+        // and free of branches, which mispredict on random data (Math.min and Math.max branch too).
+        pick[0] = lo;
+        pick[1] = v;
+        pick[2] = hi;
+        pick[3] = v;
+        lo = pick[+(v < lo)];
+        hi = pick[2 + +(v > hi)];
+      }
     }
     const m = sum / n;
     means[g] = m;
