@@ -193,7 +193,8 @@ function scanBlock(st: Scan, words: Int32Array, position: Int32Array): number {
 /**
  * scanBlock for the common case — every point judged, one sigma for all, and a dispersion chart
  * (if any) with fixed limits and a value at every point — without the per-point tests for the other
- * cases. `spreadMode` 0: no dispersion chart, 1: its values, 2: moving ranges computed here.
+ * cases. `spreadMode` 0: no dispersion chart, 1: its values, 2: moving ranges computed here (with a
+ * lower limit of zero, as moving ranges always have).
  */
 function scanBlockFast(st: Scan, words: Int32Array, spreadMode: number): number {
   const { values, center: c, sigma: s, spreadValues, ucl, lcl } = st;
@@ -213,9 +214,9 @@ function scanBlockFast(st: Scan, words: Int32Array, spreadMode: number): number 
     U = (U << 1) | bit(x > previous);
     D = (D << 1) | bit(x < previous);
     if (spreadMode === 2) {
-      // The first point has no moving range: |x − NaN| compares false.
-      const d = Math.abs(x - previous);
-      R1 = (R1 << 1) | bit(d > ucl) | bit(d < lcl);
+      // Moving ranges: the lower limit is zero, which no range falls below. The first point has
+      // no moving range: |x − NaN| compares false.
+      R1 = (R1 << 1) | bit(Math.abs(x - previous) > ucl);
     } else if (spreadMode === 1 && spreadValues !== null) {
       const d = spreadValues[i];
       R1 = (R1 << 1) | bit(d > ucl) | bit(d < lcl);
@@ -261,10 +262,9 @@ export function findViolations(series: LocationSeries, dispersion: DispersionSer
     lclArray: spread === null || typeof spread.lcl === 'number' ? null : spread.lcl,
     next: 0, previous: NaN, lastIndex: -2,
   };
-  const masks = {
-    we1: on.has('we1') ? -1 : 0, we2: on.has('we2') ? -1 : 0, we3: on.has('we3') ? -1 : 0, we4: on.has('we4') ? -1 : 0,
-    trend: on.has('trend') ? -1 : 0, alternating: on.has('alternating') ? -1 : 0, hugging: on.has('hugging') ? -1 : 0, mixture: on.has('mixture') ? -1 : 0,
-  };
+  const mask = (rule: RuleId): number => (on.has(rule) ? -1 : 0);
+  const mWe1 = mask('we1'), mWe2 = mask('we2'), mWe3 = mask('we3'), mWe4 = mask('we4');
+  const mTrend = mask('trend'), mAlternating = mask('alternating'), mHugging = mask('hugging'), mMixture = mask('mixture');
 
   const words = new Int32Array(WORDS);
   const position = new Int32Array(32); // k-th judged point of the block → point index (bit 31 − k)
@@ -274,8 +274,8 @@ export function findViolations(series: LocationSeries, dispersion: DispersionSer
   let pU = 0, pD = 0, pU2 = 0, pD2 = 0, pZ = 0, pZ2 = 0, pZ4 = 0;
   let pI = 0, pI2 = 0, pI4 = 0, pO = 0, pO2 = 0, pO4 = 0;
   const n = values.length;
-  const fast = skip === null && sigmas === null && st.uclArray === null && st.lclArray === null && st.spreadJudged === null;
-  const spreadMode = spread === null ? 0 : spread.values === null ? 2 : 1;
+  const spreadMode = spread === null ? 0 : spread.values !== null ? 1 : 2;
+  const fast = skip === null && sigmas === null && st.uclArray === null && st.lclArray === null && st.spreadJudged === null && !(spreadMode === 2 && st.lcl > 0);
   while (st.next < n) {
     const blockStart = st.next;
     const j = fast ? scanBlockFast(st, words, spreadMode) : scanBlock(st, words, position);
@@ -284,7 +284,7 @@ export function findViolations(series: LocationSeries, dispersion: DispersionSer
     const L2 = words[W_L2], U = words[W_U], D = words[W_D], R1 = words[W_R1];
     // Beyond a control limit is beyond 2σ too: only those few points are compared with the limits.
     let E1 = 0;
-    for (let cand = (H2 | L2) & masks.we1; cand !== 0; ) {
+    for (let cand = (H2 | L2) & mWe1; cand !== 0; ) {
       const b = 31 - Math.clz32(cand);
       cand ^= 1 << b;
       const index = fast ? blockStart + 31 - b : position[31 - b];
@@ -319,23 +319,21 @@ export function findViolations(series: LocationSeries, dispersion: DispersionSer
     const O4 = O2 & back(O2, pO2, 2);
     const mixture = O4 & back(O4, pO4, 4);
 
-    const hit = {
-      we1: E1 & masks.we1, we2: we2 & masks.we2, we3: we3 & masks.we3, we4: we4 & masks.we4,
-      trend: trend & masks.trend, alternating: alternating & masks.alternating, hugging: hugging & masks.hugging, mixture: mixture & masks.mixture,
-    };
-    let any = (hit.we1 | hit.we2 | hit.we3 | hit.we4 | hit.trend | hit.alternating | hit.hugging | hit.mixture | R1) & valid;
+    const hWe1 = E1, hWe2 = we2 & mWe2, hWe3 = we3 & mWe3, hWe4 = we4 & mWe4;
+    const hTrend = trend & mTrend, hAlternating = alternating & mAlternating, hHugging = hugging & mHugging, hMixture = mixture & mMixture;
+    let any = (hWe1 | hWe2 | hWe3 | hWe4 | hTrend | hAlternating | hHugging | hMixture | R1) & valid;
     while (any !== 0) {
       const b = 31 - Math.clz32(any); // the oldest point first
       any ^= 1 << b;
       const index = fast ? blockStart + 31 - b : position[31 - b];
       const chart = 'location';
-      if ((hit.we1 >>> b) & 1) out.push({ rule: 'we1', chart, index, points: [index] });
-      if ((hit.we2 >>> b) & 1) {
+      if ((hWe1 >>> b) & 1) out.push({ rule: 'we1', chart, index, points: [index] });
+      if ((hWe2 >>> b) & 1) {
         const side = (H2 >>> b) & 1 ? H2 : L2;
         const span = (back(side, side === H2 ? pH2 : pL2, 1) >>> b) & 1 ? 2 : 3;
         out.push({ rule: 'we2', chart, index, points: patternPoints(index, span, skip) });
       }
-      if ((hit.we3 >>> b) & 1) {
+      if ((hWe3 >>> b) & 1) {
         const upper = (H1 >>> b) & 1;
         const w = upper ? H1 : L1;
         const pw = upper ? pH1 : pL1;
@@ -343,11 +341,11 @@ export function findViolations(series: LocationSeries, dispersion: DispersionSer
         for (let seen = 1; seen < 4; span++) seen += (back(w, pw, span) >>> b) & 1;
         out.push({ rule: 'we3', chart, index, points: patternPoints(index, span, skip) });
       }
-      if ((hit.we4 >>> b) & 1) out.push({ rule: 'we4', chart, index, points: patternPoints(index, 8, skip) });
-      if ((hit.trend >>> b) & 1) out.push({ rule: 'trend', chart, index, points: patternPoints(index, 6, skip) });
-      if ((hit.alternating >>> b) & 1) out.push({ rule: 'alternating', chart, index, points: patternPoints(index, 14, skip) });
-      if ((hit.hugging >>> b) & 1) out.push({ rule: 'hugging', chart, index, points: patternPoints(index, 15, skip) });
-      if ((hit.mixture >>> b) & 1) out.push({ rule: 'mixture', chart, index, points: patternPoints(index, 8, skip) });
+      if ((hWe4 >>> b) & 1) out.push({ rule: 'we4', chart, index, points: patternPoints(index, 8, skip) });
+      if ((hTrend >>> b) & 1) out.push({ rule: 'trend', chart, index, points: patternPoints(index, 6, skip) });
+      if ((hAlternating >>> b) & 1) out.push({ rule: 'alternating', chart, index, points: patternPoints(index, 14, skip) });
+      if ((hHugging >>> b) & 1) out.push({ rule: 'hugging', chart, index, points: patternPoints(index, 15, skip) });
+      if ((hMixture >>> b) & 1) out.push({ rule: 'mixture', chart, index, points: patternPoints(index, 8, skip) });
       if ((R1 >>> b) & 1) out.push({ rule: 'we1', chart: 'dispersion', index, points: [index] });
     }
 
