@@ -1,10 +1,11 @@
 import { useId } from 'react';
 import { useWatch, type Control, type FieldErrors, type UseFormRegister } from 'react-hook-form';
-import { parseNumber, type ManualEntry, type ManualEntryInput } from '../../../../../shared/ingest';
+import type { ManualEntry, ManualEntryInput } from '../../../../../shared/ingest';
 import type { Characteristic } from '../api/catalogue';
 import type { TestMethodEntry } from '../../test-methods/api/test-methods';
 import { MethodCautions } from '../../test-methods/components/MethodCautions';
 import { pullHeads, readingResult, readingWord } from '../lib/readings';
+import { blankAsUndefined, typedNumber } from '../lib/form-values';
 import { setResult } from '../lib/sets';
 import { specLimitsText, specVerdict } from '../lib/spec';
 import { Badge } from '../../../components/ui/Badge';
@@ -21,13 +22,6 @@ interface ManualResultCardProps {
   errors: FieldErrors<ManualEntryInput>['results'];
   onRemove: () => void;
 }
-
-/** A typed number, with a decimal comma or point; blank stays blank so the schema says "Enter a number". */
-const asNumber = (text: unknown) => {
-  if (typeof text !== 'string' || text.trim() === '') return undefined;
-  return parseNumber(text, true) ?? Number.NaN;
-};
-const blankAsUndefined = (text: unknown) => (typeof text === 'string' && text.trim() === '' ? undefined : text);
 
 const loadWords: Record<NonNullable<Characteristic['rawLoad']>, string> = {
   flexural: 'Breaking loads',
@@ -111,7 +105,7 @@ export function ManualResultCard({ index, characteristic: c, method, control, re
                         inputMode="decimal"
                         autoComplete="off"
                         className={cx('pr-10 font-mono', set?.discardedIndex === r && 'line-through')}
-                        {...register(`results.${index}.replicates.${r}`, { setValueAs: asNumber })}
+                        {...register(`results.${index}.replicates.${r}`, { setValueAs: typedNumber })}
                       />
                       <span className="pointer-events-none absolute inset-y-0 right-2 flex items-center text-sm text-zinc-500">
                         {entryUnit === 'result' ? c.unit : entryUnit}

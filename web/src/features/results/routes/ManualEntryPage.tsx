@@ -8,6 +8,7 @@ import { useEntryCatalogue, type EntryCatalogue } from '../api/catalogue';
 import { useSaveManualEntry } from '../api/lots';
 import { ManualResultCard } from '../components/ManualResultCard';
 import { characteristicLabel } from '../lib/names';
+import { blankAsUndefined } from '../lib/form-values';
 import { PageHeader } from '../../../components/ui/PageHeader';
 import { Card } from '../../../components/ui/Card';
 import { Alert } from '../../../components/ui/Alert';
@@ -34,8 +35,6 @@ export default function ManualEntryPage() {
     </>
   );
 }
-
-const blankAsUndefined = (text: unknown) => (typeof text === 'string' && text.trim() === '' ? undefined : text);
 
 /** The import path names the columns of its canonical rows; in the form they are these fields. */
 const fieldOfColumn: Record<string, FieldPath<ManualEntryInput>> = { lot: 'lot', product: 'product', line: 'line', produced_at: 'producedAt', shift: 'shift', operator: 'operator' };

@@ -119,9 +119,9 @@ function UploadSteps({ catalogue }: { catalogue: EntryCatalogue }) {
 
   const changeDialect = (next: CsvDialect) => {
     upload.reset();
+    // Another delimiter gives other headers: the mapping starts again from them.
+    if (next.delimiter !== dialect.delimiter) setMappingState(null);
     setDialect(next);
-    // Other headers under another delimiter: the mapping starts again from them.
-    setMappingState(null);
   };
 
   const changeMapping = (draft: MappingDraft, savedName?: string) => {
