@@ -219,7 +219,7 @@ export function computeCapability(input: CapabilityInput): CapabilityResult {
   const outside = pass.outside;
   const mean = pass.sum / n;
   result.mean = mean;
-  const sigmaOverall = n >= 2 ? Math.sqrt(variance(values, pass, mean)) : null;
+  const sigmaOverall = n >= 2 ? finiteOrNull(Math.sqrt(variance(values, pass, mean))) : null;
   result.sigmaOverall = sigmaOverall;
 
   if (result.preliminary) {
