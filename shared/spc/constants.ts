@@ -28,14 +28,14 @@ function grids(): [Float64Array, Float64Array] {
   return [phiGrid, pdfGrid];
 }
 
-function checkSize(n: number): void {
-  if (!Number.isInteger(n) || n < 2 || n > 10_000) throw new RangeError(`subgroup size must be an integer from 2 to 10000, got ${n}`);
+function checkSize(n: number, largest = Infinity): void {
+  if (!Number.isInteger(n) || n < 2 || n > largest) throw new RangeError(`subgroup size must be a whole number from 2${largest < Infinity ? ` to ${largest}` : ''}, got ${n}`);
 }
 
 const rangeMoments = new Map<number, { d2: number; d3: number }>();
 
 function moments(n: number): { d2: number; d3: number } {
-  checkSize(n);
+  checkSize(n, 10_000);
   const cached = rangeMoments.get(n);
   if (cached) return cached;
   const [phi, pdf] = grids();
