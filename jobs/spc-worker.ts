@@ -43,7 +43,9 @@ export function startSpcWorkers(boss: PgBoss, db: Database, opts: SpcWorkerOptio
       const outcome = await runCharacteristic(db, { runId, characteristicId, worker: opts.worker, publicUrl: opts.publicUrl, pauseMs: opts.pauseMs });
       await boss.complete(CHARACTERISTIC_QUEUE, job.id, { ...outcome });
     } catch (err) {
-      const message = (err as Error).message || String(err);
+      // drizzle wraps the database's own words in `cause`; those are the ones worth showing.
+      const e = err as Error & { cause?: Error };
+      const message = e.cause?.message ? `${e.cause.message} (${e.message.split('\n')[0]})` : e.message || String(err);
       const final = job.retryCount >= job.retryLimit;
       logger.warn({ runId, characteristicId, attempt: job.retryCount + 1, final, err: message }, 'characteristic job failed');
       await recordFailedAttempt(db, { runId, characteristicId, error: message, final }).catch((e) => logger.warn({ err: (e as Error).message }, 'could not record the failed attempt'));

@@ -168,9 +168,11 @@ export async function getRun(db: Executor, id: number): Promise<RunDetail | null
 /**
  * Sets the run's status from its items. Call inside the transaction that finished an item: the row
  * lock makes concurrent finishers count one after the other, so the last one sees every item done.
+ * "No key update" because the same transactions hold key-share locks on the run row (alarm and
+ * snapshot rows refer to it), which a plain FOR UPDATE would wait for — a deadlock between workers.
  */
 export async function settleRun(tx: Executor, runId: number): Promise<void> {
-  await tx.execute(sql`select id from spc_runs where id = ${runId} for update`);
+  await tx.execute(sql`select id from spc_runs where id = ${runId} for no key update`);
   await tx.execute(sql`
     with c as (
       select count(*) filter (where status in ('succeeded', 'failed')) as finished, count(*) filter (where status = 'failed') as failed, count(*) as total

@@ -1,0 +1,59 @@
+// A private throw-away PostgreSQL cluster for tests that stop the database or start their own
+// workers (so that the test server's workers cannot take their jobs), and for the benchmark.
+import { mkdirSync } from 'node:fs';
+import { createServer } from 'node:net';
+import { resolve } from 'node:path';
+import { dataRoot } from '../../config';
+import { destroyCluster, ensureDatabase, initCluster, startCluster, stopCluster, type Cluster } from '../../../scripts/lib/cluster';
+import { createDatabase, type Database } from '../../db/client';
+import { migrateDatabase } from '../../db/migrate';
+
+export function freePort(): Promise<number> {
+  return new Promise((res, rej) => {
+    const s = createServer();
+    s.listen(0, '127.0.0.1', () => {
+      const port = (s.address() as { port: number }).port;
+      s.close(() => res(port));
+    });
+    s.on('error', rej);
+  });
+}
+
+export interface PrivateCluster {
+  cluster: Cluster;
+  databaseUrl: string;
+  db: Database;
+  restart(): void;
+  stop(): void;
+  start(): void;
+  destroy(): Promise<void>;
+}
+
+let counter = 0;
+
+export async function startPrivateCluster(name: string): Promise<PrivateCluster> {
+  const root = resolve(dataRoot, 'private-postgres', `${process.pid}-${++counter}-${name}`);
+  mkdirSync(resolve(dataRoot, 'private-postgres'), { recursive: true });
+  const cluster: Cluster = { root, port: await freePort() };
+  destroyCluster(cluster);
+  initCluster(cluster);
+  startCluster(cluster);
+  const databaseUrl = await ensureDatabase(cluster, 'prismline_private');
+  const db = createDatabase(databaseUrl, 6);
+  await migrateDatabase(db.$client);
+  return {
+    cluster,
+    databaseUrl,
+    db,
+    stop: () => stopCluster(cluster),
+    start: () => startCluster(cluster),
+    restart() {
+      stopCluster(cluster);
+      startCluster(cluster);
+    },
+    async destroy() {
+      await db.$client.end().catch(() => undefined);
+      destroyCluster(cluster);
+    },
+  };
+}

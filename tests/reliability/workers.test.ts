@@ -1,0 +1,146 @@
+// Worker processes that die, a database that restarts, and two workers sharing one run. Each test
+// has its own PostgreSQL cluster, so the test server's workers never take these jobs.
+import { afterEach, describe, expect, it } from 'vitest';
+import { sql } from 'drizzle-orm';
+import type PgBoss from 'pg-boss';
+import { seedScaledPlant } from '../../api/spc/testing/scaled-plant';
+import { freePort, startPrivateCluster, type PrivateCluster } from '../../api/spc/testing/cluster';
+import { addSubscriber, expectWholeResults, producer, spawnWorker, startFullRun, stopWorkers, waitForRun, type WorkerProcess } from './support';
+
+let cluster: PrivateCluster | null = null;
+let boss: PgBoss | null = null;
+let workers: WorkerProcess[] = [];
+
+afterEach(async () => {
+  await stopWorkers(workers);
+  workers = [];
+  await boss?.stop({ graceful: false }).catch(() => undefined);
+  boss = null;
+  await cluster?.destroy();
+  cluster = null;
+});
+
+async function ready(w: WorkerProcess, timeoutMs = 30_000) {
+  const deadline = Date.now() + timeoutMs;
+  while (!w.output().includes('SPC worker ready')) {
+    if (w.child.exitCode !== null) throw new Error(`worker exited: ${w.output()}`);
+    if (Date.now() > deadline) throw new Error(`worker not ready: ${w.output()}`);
+    await new Promise((r) => setTimeout(r, 100));
+  }
+}
+
+const items = (runId: number) =>
+  cluster!.db.execute<{ characteristic_id: number; status: string; attempts: number; worker: string | null; error: string | null }>(sql`
+    select characteristic_id, status, attempts, worker, error from spc_run_items where run_id = ${runId} order by characteristic_id`);
+
+describe('worker processes', () => {
+  it('two workers started at once split the characteristics without doing any twice', async () => {
+    cluster = await startPrivateCluster('split');
+    const plant = await seedScaledPlant(cluster.db, { characteristics: 40, points: 200 });
+    ({ boss } = await producer(cluster.databaseUrl));
+    const env = { LOG_LEVEL: 'info', SPC_WORKER_CONCURRENCY: '1', SPC_TEST_PAUSE_MS: '60' };
+    workers = [spawnWorker(cluster.databaseUrl, env), spawnWorker(cluster.databaseUrl, env)];
+    await Promise.all(workers.map((w) => ready(w)));
+
+    const runId = await startFullRun(cluster.db, { boss: async () => boss!, stop: async () => undefined });
+    const run = await waitForRun(cluster.db, runId);
+    expect(run).toMatchObject({ status: 'succeeded', characteristics: 40, done: 40, failed: 0 });
+    const rows = (await items(runId)).rows;
+    expect(rows.every((r) => r.status === 'succeeded' && r.attempts === 1)).toBe(true);
+    const byWorker = new Map<string, number>();
+    for (const r of rows) byWorker.set(r.worker!, (byWorker.get(r.worker!) ?? 0) + 1);
+    expect(byWorker.size).toBe(2);
+    for (const w of workers) {
+      const key = [...byWorker.keys()].find((k) => k.endsWith(`:${w.child.pid}`));
+      expect(key, `items of worker ${w.child.pid}`).toBeDefined();
+      expect(byWorker.get(key!)).toBeGreaterThanOrEqual(8);
+    }
+    const jobs = await cluster.db.execute<{ state: string; retry_count: number; n: number }>(sql`
+      select state, retry_count, count(*)::int as n from (select state, retry_count from pgboss.job union all select state, retry_count from pgboss.archive) j group by 1, 2`);
+    expect(jobs.rows).toEqual([{ state: 'completed', retry_count: 0, n: 40 }]);
+    await expectWholeResults(cluster.db, plant.characteristicIds);
+  }, 120_000);
+
+  it('a worker killed with SIGKILL in the middle of a run is replaced and the run finishes with nothing doubled or half-written; e-mail failures never hold it up', async () => {
+    cluster = await startPrivateCluster('kill');
+    const plant = await seedScaledPlant(cluster.db, { characteristics: 30, points: 200 });
+    await addSubscriber(cluster.db, plant.productIds);
+    ({ boss } = await producer(cluster.databaseUrl));
+    const queue = { boss: async () => boss!, stop: async () => undefined };
+    // A relay that is not there: the outbox keeps the messages and the run does not wait for them.
+    const env = { SPC_TEST_PAUSE_MS: '150', SMTP_URL: `smtp://127.0.0.1:${await freePort()}`, MAIL_POLL_MS: '200' };
+    const first = spawnWorker(cluster.databaseUrl, env);
+    workers.push(first);
+    expect((await waitForRun(cluster.db, await startFullRun(cluster.db, queue))).status).toBe('succeeded');
+
+    // A new lot far above the limits and the specification for every characteristic: two immediate alarms each.
+    await cluster.db.execute(sql`
+      insert into lots (lot_number, product_id, line_id, produced_at, shift)
+      select code || '-LATEST', id, line_id, '2030-01-01T06:00:00Z', 'early' from products where id = any(${sql.param(plant.productIds)}::int[])`);
+    await cluster.db.execute(sql`
+      insert into measurements (lot_id, characteristic_id, replicate, value, source)
+      select l.id, c.id, 1, 170, 'upload' from characteristics c join lots l on l.product_id = c.product_id and l.lot_number like '%-LATEST'`);
+
+    const runId = await startFullRun(cluster.db, queue);
+    let killedWhileRunning: number[] = [];
+    await waitForRun(cluster.db, runId, 60_000, async (run) => {
+      if (killedWhileRunning.length || run.done < 6 || run.running < 1) return;
+      killedWhileRunning = (await items(runId)).rows.filter((r) => r.status === 'running').map((r) => r.characteristic_id);
+      first.kill('SIGKILL');
+      await first.exited;
+      workers.push(spawnWorker(cluster!.databaseUrl, env));
+    });
+    expect(killedWhileRunning.length).toBeGreaterThan(0);
+    const run = await waitForRun(cluster.db, runId);
+    expect(run).toMatchObject({ status: 'succeeded', done: 30, failed: 0 });
+    const rows = (await items(runId)).rows;
+    const second = workers[1].child.pid;
+    for (const id of killedWhileRunning) {
+      const r = rows.find((x) => x.characteristic_id === id)!;
+      expect(r.status).toBe('succeeded');
+      expect(r.attempts).toBeGreaterThanOrEqual(2);
+      expect(r.worker).toMatch(new RegExp(`:${second}$`));
+    }
+
+    const whole = await expectWholeResults(cluster.db, plant.characteristicIds);
+    // 30 characteristics × (value beyond its UCL, moving range beyond its UCL, out of specification) × one subscriber.
+    const immediate = await cluster.db.execute<{ rule: string; chart: string; n: number }>(sql`
+      select a.rule, a.chart, count(*)::int as n from alarms a join lots l on l.id = a.lot_id where l.lot_number like '%-LATEST' and a.rule in ('we1', 'out-of-spec') group by 1, 2 order by 1, 2`);
+    expect(immediate.rows).toEqual([
+      { rule: 'out-of-spec', chart: 'location', n: 30 },
+      { rule: 'we1', chart: 'dispersion', n: 30 },
+      { rule: 'we1', chart: 'location', n: 30 },
+    ]);
+    expect(whole.mails).toBe(90);
+    const failing = async () => (await cluster!.db.execute<{ n: number }>(sql`select count(*)::int as n from mail_outbox where status = 'pending' and attempts >= 1 and last_error is not null`)).rows[0].n;
+    const deadline = Date.now() + 15_000;
+    while ((await failing()) === 0 && Date.now() < deadline) await new Promise((r) => setTimeout(r, 200));
+    expect(await failing()).toBeGreaterThan(0);
+    const sent = await cluster.db.execute<{ n: number }>(sql`select count(*)::int as n from mail_outbox where status = 'sent'`);
+    expect(sent.rows[0].n).toBe(0);
+  }, 150_000);
+
+  it('PostgreSQL restarting during a run makes the affected jobs retry and succeed', async () => {
+    cluster = await startPrivateCluster('restart');
+    const plant = await seedScaledPlant(cluster.db, { characteristics: 30, points: 200 });
+    ({ boss } = await producer(cluster.databaseUrl));
+    const queue = { boss: async () => boss!, stop: async () => undefined };
+    const worker = spawnWorker(cluster.databaseUrl, { SPC_TEST_PAUSE_MS: '200' });
+    workers.push(worker);
+    const runId = await startFullRun(cluster.db, queue);
+    let restarted = false;
+    await waitForRun(cluster.db, runId, 90_000, (run) => {
+      if (restarted || run.done < 5 || run.running < 1) return;
+      cluster!.restart();
+      restarted = true;
+    });
+    expect(restarted).toBe(true);
+    const run = await waitForRun(cluster.db, runId);
+    expect(run).toMatchObject({ status: 'succeeded', done: 30, failed: 0 });
+    const rows = (await items(runId)).rows;
+    expect(rows.every((r) => r.status === 'succeeded')).toBe(true);
+    expect(rows.reduce((s, r) => s + r.attempts, 0)).toBeGreaterThan(30);
+    expect(worker.child.exitCode).toBeNull();
+    await expectWholeResults(cluster.db, plant.characteristicIds);
+  }, 150_000);
+});
