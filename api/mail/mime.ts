@@ -51,11 +51,12 @@ export function decodeWords(value: string): string {
     );
 }
 
+/** The body in local form: MIME's canonical CRLF line ends become LF. */
 function decodeBody(body: string, encoding: string | undefined): string {
   const enc = (encoding ?? '7bit').toLowerCase();
-  if (enc === 'base64') return Buffer.from(body.replace(/\s+/g, ''), 'base64').toString('utf8');
-  if (enc === 'quoted-printable') return qpBytes(body.replace(/=\r?\n/g, ''), false).toString('utf8');
-  return body;
+  const text =
+    enc === 'base64' ? Buffer.from(body.replace(/\s+/g, ''), 'base64').toString('utf8') : enc === 'quoted-printable' ? qpBytes(body.replace(/=\r?\n/g, ''), false).toString('utf8') : body;
+  return text.replace(/\r\n/g, '\n');
 }
 
 function param(header: string | undefined, name: string): string | null {
