@@ -27,6 +27,8 @@ export async function startNightlyRun(db: Database, queue: SpcQueue, plant: Plan
 export interface Scheduler {
   /** Re-reads the plants' schedules (a changed cron expression or time zone). */
   refresh(): Promise<void>;
+  /** When each plant's next nightly run and digest are due. */
+  nextRuns(): { plantId: number; nightlyRun: Date | null; digest: Date | null }[];
   stop(): void;
 }
 
@@ -70,6 +72,7 @@ export function startScheduler(db: Database, queue: SpcQueue, opts: { digestCron
       await initial;
       await refresh();
     },
+    nextRuns: () => [...tasks].map(([plantId, t]) => ({ plantId, nightlyRun: t.run.getNextRun(), digest: t.digest.getNextRun() })),
     stop() {
       clearInterval(timer);
       for (const t of tasks.values()) {
