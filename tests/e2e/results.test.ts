@@ -19,7 +19,8 @@ const demoEmail = (role: Role) => {
 let browser: TestBrowser;
 let page: Page;
 const files = mkdtempSync(join(tmpdir(), 'prismline-results-'));
-// Lot numbers unique to this run, so the suite can run again on the same database.
+// Lot numbers unique to this run, so the suite can run again on the same database. Production dates
+// lie in 2021, years before the demo history, so these lots stay out of the charts other tests read.
 const stamp = Date.now().toString(36).toUpperCase();
 let lotCounter = 0;
 const newLot = () => `E2E-${stamp}-${++lotCounter}`;
@@ -78,7 +79,7 @@ describe('CSV upload', () => {
     const lot = newLot();
     const file = csvFile(
       `press-${stamp}.csv`,
-      `lot;product;line;produced_at;characteristic;value;replicate\n${lot};HVL25;L1;15.07.2026 08:00;HVL25-RF28;7,45;1\n${lot};HVL25;L1;15.07.2026 08:00;HVL25-RF28;7,6;2\n${lot};HVL25;L1;15.07.2026 08:00;HVL25-AIR;2,95;1\n`,
+      `lot;product;line;produced_at;characteristic;value;replicate\n${lot};HVL25;L1;15.07.2021 08:00;HVL25-RF28;7,45;1\n${lot};HVL25;L1;15.07.2021 08:00;HVL25-RF28;7,6;2\n${lot};HVL25;L1;15.07.2021 08:00;HVL25-AIR;2,95;1\n`,
     );
     await signInAt('/results/upload', 'technician');
     await heading('Upload results').waitFor();
@@ -112,7 +113,7 @@ describe('CSV upload', () => {
     const lot = newLot();
     const file = csvFile(
       `bad-row-${stamp}.csv`,
-      `lot;product;line;produced_at;characteristic;value;replicate\n${lot};HVL25;L1;16.07.2026 08:00;HVL25-DENS;1950;1\n${lot}-b;HVL25;L1;16.07.2026 08:00;HVL25-DENS;heavy;1\n${lot}-c;HVL25;L1;16.07.2026 08:00;HVL25-DENS;1948;1\n`,
+      `lot;product;line;produced_at;characteristic;value;replicate\n${lot};HVL25;L1;16.07.2021 08:00;HVL25-DENS;1950;1\n${lot}-b;HVL25;L1;16.07.2021 08:00;HVL25-DENS;heavy;1\n${lot}-c;HVL25;L1;16.07.2021 08:00;HVL25-DENS;1948;1\n`,
     );
     await signInAt('/results/upload', 'technician');
     await chooseFile(file);
@@ -141,12 +142,12 @@ describe('CSV upload', () => {
     await signInAt('/results/upload', 'technician');
     await heading('Upload results').waitFor();
     const first = await page.request.post(`${baseUrl()}/api/v1/uploads`, {
-      multipart: { file: { name: 'earlier.csv', mimeType: 'text/csv', buffer: Buffer.from(`${header}\n${lot},HVL25,L1,2026-07-17T08:00,HVL25-AIR,3.1,1\n`) } },
+      multipart: { file: { name: 'earlier.csv', mimeType: 'text/csv', buffer: Buffer.from(`${header}\n${lot},HVL25,L1,2021-07-17T08:00,HVL25-AIR,3.1,1\n`) } },
     });
     expect(first.status()).toBe(201);
 
     // Right by itself, but replicate 1 of that lot is stored already: only the server can know.
-    const again = csvFile(`again-${stamp}.csv`, `${header}\n${lot},HVL25,L1,2026-07-17T08:00,HVL25-AIR,3.4,1\n`);
+    const again = csvFile(`again-${stamp}.csv`, `${header}\n${lot},HVL25,L1,2021-07-17T08:00,HVL25-AIR,3.4,1\n`);
     await chooseFile(again);
     await page.getByRole('button', { name: 'Import 1 row' }).click();
     await page.getByText('Nothing was imported: 1 row needs correcting').waitFor();
@@ -162,7 +163,7 @@ describe('CSV upload', () => {
     expect(await storedValues(lot)).toEqual({ 'HVL25-AIR': [3.1] });
 
     // The first file once more, byte for byte: the server names the earlier upload.
-    const sameBytes = csvFile(`earlier-copy-${stamp}.csv`, `${header}\n${lot},HVL25,L1,2026-07-17T08:00,HVL25-AIR,3.1,1\n`);
+    const sameBytes = csvFile(`earlier-copy-${stamp}.csv`, `${header}\n${lot},HVL25,L1,2021-07-17T08:00,HVL25-AIR,3.1,1\n`);
     await chooseFile(sameBytes);
     await page.getByRole('button', { name: 'Import 1 row' }).click();
     const { id } = (await first.json()) as { id: number };
@@ -172,7 +173,7 @@ describe('CSV upload', () => {
   it('maps the columns of a wide export, saves the mapping and finds it again for the next file', async () => {
     const lot = newLot();
     const name = `Ring export ${stamp}`;
-    const wide = (lotNumber: string, a: string, b: string) => `Batch no;Prod;Line no;Made at;Spread 1;Spread 2\n${lotNumber};HVL25;L1;18.07.2026 06:10;${a};${b}\n`;
+    const wide = (lotNumber: string, a: string, b: string) => `Batch no;Prod;Line no;Made at;Spread 1;Spread 2\n${lotNumber};HVL25;L1;18.07.2021 06:10;${a};${b}\n`;
     await signInAt('/results/upload', 'technician');
     await chooseFile(csvFile(`ring-${stamp}.csv`, wide(lot, '144', '146')));
 
@@ -217,7 +218,7 @@ describe('manual entry', () => {
     // The product's own line is proposed.
     expect(await page.getByLabel('Production line').inputValue()).toBe('L1');
     await page.getByLabel('Lot number').fill(lot);
-    await page.getByLabel('Production time').fill('2026-11-02T06:20');
+    await page.getByLabel('Production time').fill('2021-11-02T06:20');
     await page.getByLabel('Shift (optional)').selectOption('early');
     await page.getByLabel('Add a characteristic').selectOption('HVL25-RC28');
     await page.getByRole('button', { name: 'Add', exact: true }).click();
@@ -257,7 +258,7 @@ describe('manual entry', () => {
     await signInAt('/results/enter', 'technician');
     await page.getByLabel('Product', { exact: true }).selectOption('HVL25');
     await page.getByLabel('Lot number').fill(lot);
-    await page.getByLabel('Production time').fill('2026-11-02T06:20');
+    await page.getByLabel('Production time').fill('2021-11-02T06:20');
     await page.getByLabel('Add a characteristic').selectOption('HVL25-FLOW');
     await page.getByRole('button', { name: 'Add', exact: true }).click();
     const card = page.getByRole('region', { name: /flow diameter$/ });
@@ -304,7 +305,7 @@ describe('roles', () => {
     await heading('Upload history').waitFor();
     const fileName = `void-me-${stamp}.csv`;
     const created = await page.request.post(`${baseUrl()}/api/v1/uploads`, {
-      multipart: { file: { name: fileName, mimeType: 'text/csv', buffer: Buffer.from(`lot,product,line,produced_at,characteristic,value\n${lot},HVL25,L1,2026-07-19T08:00,HVL25-AIR,9.9\n`) } },
+      multipart: { file: { name: fileName, mimeType: 'text/csv', buffer: Buffer.from(`lot,product,line,produced_at,characteristic,value\n${lot},HVL25,L1,2021-07-19T08:00,HVL25-AIR,9.9\n`) } },
     });
     expect(created.status()).toBe(201);
     await page.reload();
