@@ -13,20 +13,24 @@ export function parseNumber(cell: string, decimalComma: boolean): number | null 
   return Number.isFinite(n) ? n : null;
 }
 
-/** Offset of a time zone from UTC in minutes at an instant, from the IANA data the runtime carries. */
+const wallClockFormats = new Map<string, Intl.DateTimeFormat>();
+
+/** The wall-clock reading of an instant in a time zone, from the IANA data the runtime carries. */
+export function wallClock(utcMs: number, timeZone: string): { year: number; month: number; day: number; hour: number; minute: number; second: number } {
+  let format = wallClockFormats.get(timeZone);
+  if (!format) {
+    format = new Intl.DateTimeFormat('en-GB', { timeZone, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', second: '2-digit' });
+    wallClockFormats.set(timeZone, format);
+  }
+  const parts = format.formatToParts(new Date(utcMs));
+  const get = (t: Intl.DateTimeFormatPartTypes) => Number(parts.find((p) => p.type === t)?.value);
+  return { year: get('year'), month: get('month'), day: get('day'), hour: get('hour'), minute: get('minute'), second: get('second') };
+}
+
+/** Offset of a time zone from UTC in minutes at an instant. */
 export function zoneOffsetMinutes(utcMs: number, timeZone: string): number {
-  const parts = new Intl.DateTimeFormat('en-GB', {
-    timeZone,
-    hourCycle: 'h23',
-    year: 'numeric',
-    month: '2-digit',
-    day: '2-digit',
-    hour: '2-digit',
-    minute: '2-digit',
-    second: '2-digit',
-  }).formatToParts(new Date(utcMs));
-  const get = (t: string) => Number(parts.find((p) => p.type === t)?.value);
-  const asUtc = Date.UTC(get('year'), get('month') - 1, get('day'), get('hour'), get('minute'), get('second'));
+  const w = wallClock(utcMs, timeZone);
+  const asUtc = Date.UTC(w.year, w.month - 1, w.day, w.hour, w.minute, w.second);
   return Math.round((asUtc - Math.floor(utcMs / 1000) * 1000) / 60_000);
 }
 

@@ -1,4 +1,5 @@
 // Production and test times are read and written in the plant's time zone, whatever the browser's.
+import { wallClock } from '../../../../../shared/ingest/values';
 
 const dateTimeFormats = new Map<string, Intl.DateTimeFormat>();
 
@@ -16,15 +17,7 @@ export function formatPlantDateTime(iso: string, timeZone: string): string {
 
 /** The wall-clock time in the plant as a datetime-local value, e.g. "2026-11-30T06:15". */
 export function plantDateTimeInput(instant: Date, timeZone: string): string {
-  const parts = new Intl.DateTimeFormat('en-GB', {
-    timeZone,
-    hourCycle: 'h23',
-    year: 'numeric',
-    month: '2-digit',
-    day: '2-digit',
-    hour: '2-digit',
-    minute: '2-digit',
-  }).formatToParts(instant);
-  const get = (type: Intl.DateTimeFormatPartTypes) => parts.find((p) => p.type === type)?.value ?? '';
-  return `${get('year')}-${get('month')}-${get('day')}T${get('hour')}:${get('minute')}`;
+  const w = wallClock(instant.getTime(), timeZone);
+  const two = (n: number) => String(n).padStart(2, '0');
+  return `${w.year}-${two(w.month)}-${two(w.day)}T${two(w.hour)}:${two(w.minute)}`;
 }
