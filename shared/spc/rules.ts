@@ -199,10 +199,10 @@ function scanBlock(st: Scan, words: Int32Array, position: Int32Array): number {
 function scanBlockFast(st: Scan, words: Int32Array, spreadMode: number): number {
   const { values, center: c, sigma: s, spreadValues, ucl, lcl } = st;
   const plus1 = c + s, plus2 = c + 2 * s, minus1 = c - s, minus2 = c - 2 * s;
-  let previous = st.previous;
   const start = st.next;
   const end = Math.min(values.length, start + 32);
-  let A = 0, B = 0, H1 = 0, L1 = 0, H2 = 0, L2 = 0, U = 0, D = 0, R1 = 0;
+  // Two short loops over the block rather than one: fewer words live at once, none spilled.
+  let A = 0, B = 0, H1 = 0, L1 = 0, H2 = 0, L2 = 0;
   for (let i = start; i < end; i++) {
     const x = values[i];
     A = (A << 1) | bit(x > c);
@@ -211,17 +211,32 @@ function scanBlockFast(st: Scan, words: Int32Array, spreadMode: number): number 
     L1 = (L1 << 1) | bit(x < minus1);
     H2 = (H2 << 1) | bit(x > plus2);
     L2 = (L2 << 1) | bit(x < minus2);
-    U = (U << 1) | bit(x > previous);
-    D = (D << 1) | bit(x < previous);
-    if (spreadMode === 2) {
+  }
+  let previous = st.previous;
+  let U = 0, D = 0, R1 = 0;
+  if (spreadMode === 2) {
+    for (let i = start; i < end; i++) {
+      const x = values[i];
+      U = (U << 1) | bit(x > previous);
+      D = (D << 1) | bit(x < previous);
       // Moving ranges: the lower limit is zero, which no range falls below. The first point has
       // no moving range: |x − NaN| compares false.
       R1 = (R1 << 1) | bit(Math.abs(x - previous) > ucl);
-    } else if (spreadMode === 1 && spreadValues !== null) {
-      const d = spreadValues[i];
-      R1 = (R1 << 1) | bit(d > ucl) | bit(d < lcl);
+      previous = x;
     }
-    previous = x;
+  } else {
+    for (let i = start; i < end; i++) {
+      const x = values[i];
+      U = (U << 1) | bit(x > previous);
+      D = (D << 1) | bit(x < previous);
+      previous = x;
+    }
+    if (spreadMode === 1 && spreadValues !== null) {
+      for (let i = start; i < end; i++) {
+        const d = spreadValues[i];
+        R1 = (R1 << 1) | bit(d > ucl) | bit(d < lcl);
+      }
+    }
   }
   const j = end - start;
   if (j < 32) {
