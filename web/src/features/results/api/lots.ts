@@ -1,6 +1,8 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { http } from '../../../lib/http';
 import type { ManualEntry } from '../../../../../shared/ingest';
+import { chartKeys } from '../../charts/api/chart';
+import { overviewKeys } from '../../overview/api/overview';
 import { fileOutcome, type UploadOutcome } from './import-outcome';
 
 export interface LotResult {
@@ -63,5 +65,38 @@ export function useSaveManualEntry() {
   return useMutation({
     mutationFn: saveManualEntry,
     onSuccess: (_outcome, entry) => queryClient.invalidateQueries({ queryKey: lotKeys.detail(entry.lot) }),
+  });
+}
+
+export interface MeasurementCorrection {
+  id: number;
+  value: number;
+  reason: string;
+}
+
+/** The stored measurement after PATCH /api/v1/measurements/:id. */
+export interface CorrectedMeasurement {
+  id: number;
+  value: number;
+  characteristicId: number;
+  lotId: number;
+  replicate: number;
+}
+
+export function correctMeasurement({ id, value, reason }: MeasurementCorrection) {
+  return http<CorrectedMeasurement>(`/api/v1/measurements/${id}`, { method: 'PATCH', body: { value, reason } });
+}
+
+/** A corrected value changes the lot, its characteristic's chart and the overview tiles. */
+export function useCorrectMeasurement() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: correctMeasurement,
+    onSuccess: () =>
+      Promise.all([
+        queryClient.invalidateQueries({ queryKey: lotKeys.all }),
+        queryClient.invalidateQueries({ queryKey: chartKeys.all }),
+        queryClient.invalidateQueries({ queryKey: overviewKeys.all }),
+      ]),
   });
 }

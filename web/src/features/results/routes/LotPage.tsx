@@ -1,3 +1,4 @@
+import { useState } from 'react';
 import { Link, useParams } from 'react-router';
 import { ApiError } from '../../../lib/http';
 import { useLot, type LotResult } from '../api/lots';
@@ -5,6 +6,11 @@ import { useCharacteristics, usePlantTimeZone, type Characteristic } from '../ap
 import { formatPlantDateTime } from '../lib/plant-time';
 import { specLimitsText, specVerdict } from '../lib/spec';
 import { setResult } from '../lib/sets';
+import { entryRoles } from '../lib/roles';
+import { useSignedInUser } from '../../auth/api/session';
+import { CorrectMeasurementDialog, type CorrectedReading } from '../components/CorrectMeasurementDialog';
+import { Alert } from '../../../components/ui/Alert';
+import { Button } from '../../../components/ui/Button';
 import { PageHeader } from '../../../components/ui/PageHeader';
 import { Badge } from '../../../components/ui/Badge';
 import { Loading } from '../../../components/ui/Spinner';
@@ -15,7 +21,7 @@ interface CharacteristicResults {
   code: string;
   name: string;
   unit: string;
-  values: number[];
+  readings: LotResult[];
   sources: string[];
   characteristic: Characteristic | undefined;
 }
@@ -26,10 +32,10 @@ function byCharacteristic(results: LotResult[], characteristics: Characteristic[
   for (const r of results) {
     let group = groups.get(r.characteristicCode);
     if (!group) {
-      group = { code: r.characteristicCode, name: r.characteristicName, unit: r.unit, values: [], sources: [], characteristic: characteristics.find((c) => c.code === r.characteristicCode) };
+      group = { code: r.characteristicCode, name: r.characteristicName, unit: r.unit, readings: [], sources: [], characteristic: characteristics.find((c) => c.code === r.characteristicCode) };
       groups.set(r.characteristicCode, group);
     }
-    group.values.push(r.value);
+    group.readings.push(r);
     const source = r.source === 'manual' ? 'entered by hand' : `upload ${r.uploadId} (${r.uploadFile})`;
     if (!group.sources.includes(source)) group.sources.push(source);
   }
@@ -41,6 +47,10 @@ export default function LotPage() {
   const lot = useLot(lotNumber);
   const characteristics = useCharacteristics();
   const timeZone = usePlantTimeZone().data ?? 'UTC';
+  // Whoever may enter results may correct them; auditors only read.
+  const canCorrect = entryRoles.includes(useSignedInUser().role);
+  const [correcting, setCorrecting] = useState<{ reading: LotResult; decimals: number } | null>(null);
+  const [corrected, setCorrected] = useState<CorrectedReading | null>(null);
 
   if (lot.isPending) return <Loading label={`Loading lot ${lotNumber}…`} />;
   if (lot.isError) {
@@ -69,6 +79,13 @@ export default function LotPage() {
           </>
         }
       />
+      {corrected && (
+        <Alert tone="success" className="mb-4">
+          Reading {corrected.reading.replicate} of <span className="font-mono">{corrected.reading.characteristicCode}</span> corrected from{' '}
+          <span className="font-mono">{corrected.from.toFixed(corrected.decimals)}</span> to <span className="font-mono">{corrected.to.toFixed(corrected.decimals)}</span> {corrected.reading.unit}. The old value, your
+          name and the reason are in the audit trail.
+        </Alert>
+      )}
       {groups.length === 0 ? (
         <EmptyState title="No results stored for this lot">Voided uploads leave no results behind.</EmptyState>
       ) : (
@@ -87,7 +104,7 @@ export default function LotPage() {
             <tbody>
               {groups.map((g) => {
                 const decimals = g.characteristic?.decimals ?? 2;
-                const result = g.characteristic ? setResult(g.characteristic, g.values) : null;
+                const result = g.characteristic ? setResult(g.characteristic, g.readings.map((r) => r.value)) : null;
                 return (
                   <tr key={g.code} className="border-b border-zinc-100 align-top last:border-b-0">
                     <td className="px-3 py-2">
@@ -95,11 +112,30 @@ export default function LotPage() {
                       <span className="block text-sm text-zinc-600">{g.name}</span>
                     </td>
                     <td className="px-3 py-2">
-                      <span className="flex flex-wrap gap-x-3 font-mono">
-                        {g.values.map((v, i) => (
-                          <span key={i}>{v.toFixed(decimals)}</span>
-                        ))}
-                      </span>
+                      {canCorrect ? (
+                        <ul className="flex flex-wrap gap-x-4 gap-y-1">
+                          {g.readings.map((r) => (
+                            <li key={r.id} className="inline-flex items-center gap-1.5">
+                              <span className="font-mono">{r.value.toFixed(decimals)}</span>
+                              <Button
+                                variant="quiet"
+                                size="sm"
+                                className="h-7 px-2 text-accent-800 underline underline-offset-2"
+                                aria-label={`Correct reading ${r.replicate} of ${g.code}…`}
+                                onClick={() => setCorrecting({ reading: r, decimals })}
+                              >
+                                Correct…
+                              </Button>
+                            </li>
+                          ))}
+                        </ul>
+                      ) : (
+                        <span className="flex flex-wrap gap-x-3 font-mono">
+                          {g.readings.map((r) => (
+                            <span key={r.id}>{r.value.toFixed(decimals)}</span>
+                          ))}
+                        </span>
+                      )}
                     </td>
                     <td className="px-3 py-2 text-right font-mono whitespace-nowrap" title={result?.reason}>
                       {result?.value == null ? (result ? 'set rejected' : '—') : `${result.value.toFixed(decimals)} ${g.unit}`}
@@ -115,6 +151,17 @@ export default function LotPage() {
             </tbody>
           </table>
         </div>
+      )}
+      {correcting && (
+        <CorrectMeasurementDialog
+          reading={correcting.reading}
+          decimals={correcting.decimals}
+          onClose={() => setCorrecting(null)}
+          onCorrected={(correction) => {
+            setCorrecting(null);
+            setCorrected(correction);
+          }}
+        />
       )}
       <p className="mt-4 text-sm">
         <Link to="/results/history" className="text-accent-800 underline underline-offset-2">
