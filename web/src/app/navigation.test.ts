@@ -3,12 +3,12 @@ import { areas, areasFor } from './navigation';
 import { roles } from '../../../shared/schemas/users';
 
 // The role rules of the foundation issue, with results entry's: auditors read the upload history
-// and the test methods, so every role sees both areas.
+// and the test methods, and everyone reads specifications and process events.
 const expected = {
-  technician: ['overview', 'charts', 'results', 'methods'],
-  quality_manager: ['overview', 'charts', 'results', 'methods', 'alarms', 'ncrs', 'reports'],
-  auditor: ['overview', 'charts', 'results', 'methods', 'alarms', 'ncrs', 'reports'],
-  admin: ['overview', 'charts', 'results', 'methods', 'alarms', 'ncrs', 'reports', 'users', 'catalogue'],
+  technician: ['overview', 'charts', 'results', 'methods', 'records'],
+  quality_manager: ['overview', 'charts', 'results', 'methods', 'records', 'alarms', 'ncrs', 'reports'],
+  auditor: ['overview', 'charts', 'results', 'methods', 'records', 'alarms', 'ncrs', 'reports'],
+  admin: ['overview', 'charts', 'results', 'methods', 'records', 'alarms', 'ncrs', 'reports', 'users', 'catalogue'],
 } as const;
 
 describe('navigation', () => {

@@ -1,7 +1,7 @@
 import type { Role } from '../../../shared/schemas/roles';
 
 /** Every area of the app. The router builds its routes from this list and the menu shows it by role. */
-export type AreaId = 'overview' | 'charts' | 'results' | 'methods' | 'alarms' | 'ncrs' | 'reports' | 'users' | 'catalogue';
+export type AreaId = 'overview' | 'charts' | 'results' | 'methods' | 'records' | 'alarms' | 'ncrs' | 'reports' | 'users' | 'catalogue';
 
 export interface Area {
   id: AreaId;
@@ -50,6 +50,16 @@ export const areas: readonly Area[] = [
     path: '/test-methods',
     label: 'Test methods',
     purpose: 'How each characteristic is tested: standard, unit, possible range, how a machine reading becomes a result, and the handling cautions.',
+    roles: everyone,
+    group: 'work',
+  },
+  {
+    id: 'records',
+    path: '/records',
+    label: 'Specifications & events',
+    purpose:
+      'Specification limits per characteristic with every revision, and the process events (new sand source, press recalibrated) that mark the control charts.',
+    // Everyone reads; quality managers and administrators revise specifications, the lab staff record events.
     roles: everyone,
     group: 'work',
   },

@@ -18,10 +18,11 @@ const pages: Partial<Record<AreaId, LazyExoticComponent<ComponentType>>> = {
   users: lazy(() => import('../features/users/routes/UsersPage')),
   results: lazy(() => import('../features/results/routes/ResultsArea')),
   methods: lazy(() => import('../features/test-methods/routes/TestMethodsArea')),
+  records: lazy(() => import('../features/records/routes/RecordsArea')),
 };
 
 /** Areas whose page routes further pages below its address itself (/charts/12, /results/history, /test-methods/RC). */
-const withSubPages: ReadonlySet<AreaId> = new Set(['charts', 'results', 'methods']);
+const withSubPages: ReadonlySet<AreaId> = new Set(['charts', 'results', 'methods', 'records']);
 
 // Its form library and schemas are not needed by someone already signed in.
 const SignInPage = lazy(() => import('../features/auth/routes/SignInPage'));

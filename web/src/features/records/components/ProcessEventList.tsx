@@ -1,0 +1,38 @@
+import type { ProcessEvent } from '../api/process-events';
+import { formatWithZone } from '../lib/date-time';
+
+const th = 'border-b border-zinc-200 px-3 py-2.5 font-semibold whitespace-nowrap';
+
+/** Events newest first, as the API lists them. */
+export function ProcessEventList({ events }: { events: ProcessEvent[] }) {
+  return (
+    <div className="overflow-x-auto rounded-lg border border-zinc-200 bg-white">
+      <table className="w-full border-collapse text-left">
+        <caption className="sr-only">Recorded events</caption>
+        <thead className="bg-zinc-100/80 text-sm text-zinc-700">
+          <tr>
+            <th scope="col" className={th}>When</th>
+            <th scope="col" className={th}>Event</th>
+            <th scope="col" className={th}>Line</th>
+            <th scope="col" className={th}>Product</th>
+            <th scope="col" className={th}>Recorded by</th>
+          </tr>
+        </thead>
+        <tbody>
+          {events.map((e) => (
+            <tr key={e.id} className="border-b border-zinc-100 align-top last:border-b-0">
+              <td className="px-3 py-2 font-mono text-sm whitespace-nowrap">{formatWithZone(e.occurredAt)}</td>
+              <th scope="row" className="min-w-64 px-3 py-2 text-left font-normal">
+                <span className="block font-medium text-zinc-900">{e.title}</span>
+                {e.description && <span className="block text-sm text-zinc-600 [overflow-wrap:anywhere]">{e.description}</span>}
+              </th>
+              <td className="px-3 py-2 font-mono text-sm">{e.lineCode ?? <span className="font-sans text-zinc-600">Whole plant</span>}</td>
+              <td className="px-3 py-2 font-mono text-sm">{e.productCode ?? <span className="font-sans text-zinc-600">Every product</span>}</td>
+              <td className="px-3 py-2 text-sm text-zinc-700">{e.createdBy ?? '—'}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}

@@ -1,0 +1,75 @@
+import { useForm } from 'react-hook-form';
+import { zodResolver } from '@hookform/resolvers/zod';
+import type { Characteristic } from '../../results/api/catalogue';
+import { TextArea } from '../../charts/components/TextArea';
+import { useCreateSpecRevision, type SpecRevision } from '../api/specifications';
+import { specRevisionFormSchema } from '../lib/form-schemas';
+import { browserTimeZone, formatWithZone } from '../lib/date-time';
+import { showServerErrors } from '../lib/server-errors';
+import { Alert } from '../../../components/ui/Alert';
+import { Button } from '../../../components/ui/Button';
+import { Field, Input } from '../../../components/ui/Field';
+
+const fields = ['lsl', 'usl', 'target', 'effectiveFrom', 'reason'] as const;
+
+const typedLimit = (value: number | null | undefined) => (value == null ? '' : String(value));
+
+/**
+ * A new revision, starting from the latest one's limits since a revision usually moves one of them.
+ * The parent gives it a key per latest revision, so a saved revision brings fresh starting values.
+ */
+export function SpecRevisionForm({ characteristic, latest, onSaved }: { characteristic: Characteristic; latest: SpecRevision | undefined; onSaved: (revision: SpecRevision) => void }) {
+  const create = useCreateSpecRevision(characteristic.id);
+  const {
+    register,
+    handleSubmit,
+    setError,
+    formState: { errors },
+  } = useForm({
+    resolver: zodResolver(specRevisionFormSchema),
+    defaultValues: { lsl: typedLimit(latest?.lsl), usl: typedLimit(latest?.usl), target: typedLimit(latest?.target), effectiveFrom: '', reason: '' },
+  });
+
+  const onSubmit = handleSubmit((input) =>
+    create.mutate(input, {
+      onSuccess: onSaved,
+      onError: (error) => showServerErrors(error, setError, fields, (message) => setError('root', { message })),
+    }),
+  );
+
+  const unit = characteristic.unit;
+  const limitInput = (name: 'lsl' | 'usl' | 'target') => (control: { id: string; describedBy: string | undefined; invalid: boolean }) => (
+    <Input {...control} inputMode="decimal" autoComplete="off" className="font-mono" {...register(name)} />
+  );
+
+  return (
+    <form onSubmit={onSubmit} noValidate className="space-y-4" aria-label="Add a revision">
+      {errors.root && <Alert tone="error">{errors.root.message}</Alert>}
+      <div className="grid gap-4 sm:grid-cols-3">
+        <Field label={`LSL (${unit})`} hint="Lower specification limit; empty for none." error={errors.lsl?.message}>
+          {limitInput('lsl')}
+        </Field>
+        <Field label={`Target (${unit})`} hint="Optional." error={errors.target?.message}>
+          {limitInput('target')}
+        </Field>
+        <Field label={`USL (${unit})`} hint="Upper specification limit; empty for none." error={errors.usl?.message}>
+          {limitInput('usl')}
+        </Field>
+      </div>
+      <Field
+        label="Effective from (optional)"
+        hint={`Empty: from now. Your browser's time zone, ${browserTimeZone()}.${latest ? ` Not before revision ${latest.revision}, in force from ${formatWithZone(latest.effectiveFrom)}.` : ''}`}
+        error={errors.effectiveFrom?.message}
+        className="max-w-sm"
+      >
+        {(control) => <Input {...control} type="datetime-local" {...register('effectiveFrom')} />}
+      </Field>
+      <Field label="Reason" hint="Kept with the revision and in the audit trail, e.g. “Limit agreed with the customer for the new data sheet”." error={errors.reason?.message}>
+        {(control) => <TextArea {...control} {...register('reason')} />}
+      </Field>
+      <Button type="submit" busy={create.isPending}>
+        Save revision {(latest?.revision ?? 0) + 1}
+      </Button>
+    </form>
+  );
+}
