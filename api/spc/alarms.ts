@@ -59,7 +59,11 @@ export function findingsOf(chart: CharacteristicChart, inputs: ChartInputs, prev
     return inputs.lots[i].lastEnteredAt.getTime() > previous.computedAt.getTime() ? lateResultText(p.lotNumber) : EARLIER_POSITION_TEXT;
   };
 
+  // A pattern rule fires again at every point that prolongs the pattern; one alarm per episode, at
+  // the point that first completed it. Each point beyond a control limit is an alarm of its own.
+  const fired = new Set(chart.violations.map((v) => `${v.rule}|${v.chart}|${v.index}`));
   for (const v of chart.violations) {
+    if (v.rule !== 'we1' && fired.has(`${v.rule}|${v.chart}|${v.index - 1}`)) continue;
     const p = chart.points[v.index];
     const isLocation = v.chart === 'location';
     const statistic = isLocation ? p.location : p.dispersion!;
@@ -75,7 +79,7 @@ export function findingsOf(chart: CharacteristicChart, inputs: ChartInputs, prev
       limitValue = above ? ucl : lcl;
       what = `${label} = ${formatNumber(statistic, d)} ${unit} is ${above ? 'above the upper' : 'below the lower'} control limit ${limitValue === null ? '' : formatNumber(limitValue, d)} ${unit}.`;
     } else {
-      what = `${ruleDescriptions[v.rule]} The pattern ends here with ${label} = ${formatNumber(statistic, d)} ${unit}.`;
+      what = `${ruleDescriptions[v.rule]} The pattern is complete at this lot, ${label} = ${formatNumber(statistic, d)} ${unit}; later points that prolong it raise no further alarm.`;
     }
     out.push({
       lotId: p.lotId,

@@ -150,78 +150,81 @@ export interface ChartInputs {
   now: Date;
 }
 
-export async function loadChartInputs(db: Executor, characteristicId: number, window: ChartWindow = {}, now = new Date()): Promise<ChartInputs | null> {
-  const ch = await db.execute<CharacteristicRow>(sql`
+type MetaRow = CharacteristicRow & {
+  exclusions: { lotId: number; reason: string }[] | null;
+  revision: { id: number; chartType: ChartType; center: number; sigmaWithin: number; baselineFrom: string; baselineTo: string; createdAt: string; createdByName: string | null; reason: string } | null;
+  specs: { revision: number; lsl: number | null; usl: number | null; target: number | null; effectiveFrom: string }[] | null;
+};
+
+/**
+ * Reads a characteristic's chart inputs: its settings, exclusions, limit revision and
+ * specifications in one query, its values in a second, and (unless left out) the process events.
+ */
+export async function loadChartInputs(db: Executor, characteristicId: number, window: ChartWindow = {}, now = new Date(), opts: { events?: boolean } = {}): Promise<ChartInputs | null> {
+  const meta = await db.execute<MetaRow>(sql`
     select c.id, c.code, c.name, c.unit, c.chart_type, c.rule_set, c.subgroup_size, p.id as product_id, p.code as product_code,
-           p.name as product_name, p.plant_id, p.line_id, pl.code as line_code, tm.decimals
+           p.name as product_name, p.plant_id, p.line_id, pl.code as line_code, tm.decimals,
+           (select json_agg(json_build_object('lotId', e.lot_id, 'reason', e.reason)) from point_exclusions e
+             where e.characteristic_id = c.id and e.removed_at is null) as exclusions,
+           (select json_build_object('id', r.id, 'chartType', r.chart_type, 'center', r.center, 'sigmaWithin', r.sigma_within, 'baselineFrom', r.baseline_from,
+                                     'baselineTo', r.baseline_to, 'createdAt', r.created_at, 'createdByName', u.name, 'reason', r.reason)
+             from control_limit_revisions r left join users u on u.id = r.created_by
+             where r.characteristic_id = c.id and r.superseded_at is null) as revision,
+           (select json_agg(json_build_object('revision', s.revision, 'lsl', s.lsl, 'usl', s.usl, 'target', s.target, 'effectiveFrom', s.effective_from)
+                            order by s.effective_from, s.revision)
+             from spec_limits s where s.characteristic_id = c.id) as specs
     from characteristics c
     join products p on p.id = c.product_id
     join test_methods tm on tm.id = c.test_method_id
     left join production_lines pl on pl.id = p.line_id
     where c.id = ${characteristicId}`);
-  const characteristic = ch.rows[0];
-  if (!characteristic) return null;
+  const row = meta.rows[0];
+  if (!row) return null;
+  const { exclusions, revision, specs, ...characteristic } = row;
 
   const from = window.from ? sql`and l.produced_at >= ${window.from.toISOString()}::timestamptz` : sql``;
   const to = window.to ? sql`and l.produced_at <= ${window.to.toISOString()}::timestamptz` : sql``;
-  const lotRows = await db.execute<{ lot_id: number; lot_number: string; produced_at: Date; shift: string | null; vals: number[]; last_entered_at: Date }>(sql`
-    select l.id as lot_id, l.lot_number, l.produced_at, l.shift, array_agg(m.value order by m.replicate) as vals, max(m.created_at) as last_entered_at
-    from measurements m join lots l on l.id = m.lot_id
+  // One row per value, grouped into lots here. The lateral lookup (kept apart by OFFSET 0) reads
+  // only the characteristic's own lots by primary key instead of hashing every lot of the plant.
+  const valueRows = await db.execute<{ lot_id: number; lot_number: string; produced_ms: number; shift: string | null; value: number; entered_ms: number }>(sql`
+    select m.lot_id, l.lot_number, (extract(epoch from l.produced_at) * 1000)::float8 as produced_ms, l.shift, m.value,
+           (extract(epoch from m.created_at) * 1000)::float8 as entered_ms
+    from measurements m cross join lateral (select lot_number, produced_at, shift from lots where id = m.lot_id offset 0) l
     where m.characteristic_id = ${characteristicId} and m.voided_at is null ${from} ${to}
-    group by l.id
-    order by l.produced_at, l.lot_number collate "C"`);
-
-  const exclusionRows = await db
-    .select({ lotId: pointExclusions.lotId, reason: pointExclusions.reason })
-    .from(pointExclusions)
-    .where(and(eq(pointExclusions.characteristicId, characteristicId), isNull(pointExclusions.removedAt)));
-
-  const [revision] = await db
-    .select({
-      id: controlLimitRevisions.id,
-      chartType: controlLimitRevisions.chartType,
-      center: controlLimitRevisions.center,
-      sigmaWithin: controlLimitRevisions.sigmaWithin,
-      baselineFrom: controlLimitRevisions.baselineFrom,
-      baselineTo: controlLimitRevisions.baselineTo,
-      createdAt: controlLimitRevisions.createdAt,
-      createdByName: users.name,
-      reason: controlLimitRevisions.reason,
-    })
-    .from(controlLimitRevisions)
-    .leftJoin(users, eq(users.id, controlLimitRevisions.createdBy))
-    .where(and(eq(controlLimitRevisions.characteristicId, characteristicId), isNull(controlLimitRevisions.supersededAt)));
-
-  const specRows = await db.execute<{ revision: number; lsl: number | null; usl: number | null; target: number | null; effective_from: Date }>(sql`
-    select revision, lsl, usl, target, effective_from from spec_limits where characteristic_id = ${characteristicId} order by effective_from, revision`);
-
-  const lotsOut: LotSubgroup[] = lotRows.rows.map((r) => ({
-    lotId: r.lot_id,
-    lotNumber: r.lot_number,
-    producedAt: new Date(r.produced_at),
-    shift: r.shift,
-    values: r.vals.map(Number),
-    lastEnteredAt: new Date(r.last_entered_at),
-  }));
+    order by l.produced_at, l.lot_number collate "C", m.replicate`);
+  const lotsOut: LotSubgroup[] = [];
+  let current: LotSubgroup | null = null;
+  for (const r of valueRows.rows) {
+    if (current === null || current.lotId !== r.lot_id) {
+      current = { lotId: r.lot_id, lotNumber: r.lot_number, producedAt: new Date(Number(r.produced_ms)), shift: r.shift, values: [], lastEnteredAt: new Date(Number(r.entered_ms)) };
+      lotsOut.push(current);
+    }
+    current.values.push(Number(r.value));
+    const entered = Number(r.entered_ms);
+    if (entered > current.lastEnteredAt.getTime()) current.lastEnteredAt = new Date(entered);
+  }
 
   const eventsFrom = window.from ?? lotsOut[0]?.producedAt ?? null;
   const eventsTo = window.to ?? now;
-  const eventRows = eventsFrom
-    ? await db.execute<{ id: number; occurred_at: Date; title: string; description: string | null }>(sql`
-        select id, occurred_at, title, description from process_events
-        where plant_id = ${characteristic.plant_id}
-          and (line_id is null or line_id = ${characteristic.line_id})
-          and (product_id is null or product_id = ${characteristic.product_id})
-          and occurred_at >= ${eventsFrom.toISOString()}::timestamptz and occurred_at <= ${eventsTo.toISOString()}::timestamptz
-        order by occurred_at, id`)
-    : { rows: [] };
+  const eventRows =
+    opts.events !== false && eventsFrom
+      ? await db.execute<{ id: number; occurred_at: Date; title: string; description: string | null }>(sql`
+          select id, occurred_at, title, description from process_events
+          where plant_id = ${characteristic.plant_id}
+            and (line_id is null or line_id = ${characteristic.line_id})
+            and (product_id is null or product_id = ${characteristic.product_id})
+            and occurred_at >= ${eventsFrom.toISOString()}::timestamptz and occurred_at <= ${eventsTo.toISOString()}::timestamptz
+          order by occurred_at, id`)
+      : { rows: [] };
 
   return {
     characteristic,
     lots: lotsOut,
-    exclusions: new Map(exclusionRows.map((e) => [e.lotId, e.reason])),
-    revision: revision ?? null,
-    specs: specRows.rows.map((s) => ({ revision: s.revision, lsl: s.lsl, usl: s.usl, target: s.target, effectiveFrom: new Date(s.effective_from) })),
+    exclusions: new Map((exclusions ?? []).map((e) => [e.lotId, e.reason])),
+    revision: revision
+      ? { ...revision, baselineFrom: new Date(revision.baselineFrom), baselineTo: new Date(revision.baselineTo), createdAt: new Date(revision.createdAt) }
+      : null,
+    specs: (specs ?? []).map((s) => ({ revision: s.revision, lsl: s.lsl, usl: s.usl, target: s.target, effectiveFrom: new Date(s.effectiveFrom) })),
     events: eventRows.rows.map((e) => ({ id: e.id, occurredAt: new Date(e.occurred_at).toISOString(), title: e.title, description: e.description })),
     now,
   };

@@ -21,13 +21,15 @@ type ItemRow = { status: string; attempts: number };
 /** Marks the item running (attempt n) in its own short transaction, so that the runs page shows it. */
 async function startAttempt(db: Database, runId: number, characteristicId: number, worker: string): Promise<ItemRow | null> {
   const res = await db.execute<ItemRow>(sql`
-    update spc_run_items set status = case when status = 'succeeded' then status else 'running'::spc_run_status end,
-      attempts = case when status = 'succeeded' then attempts else attempts + 1 end,
-      worker = case when status = 'succeeded' then worker else ${worker} end,
-      started_at = coalesce(started_at, now())
-    where run_id = ${runId} and characteristic_id = ${characteristicId}
-    returning status, attempts`);
-  await db.execute(sql`update spc_runs set status = 'running', started_at = coalesce(started_at, now()) where id = ${runId} and status = 'queued'`);
+    with item as (
+      update spc_run_items set status = case when status = 'succeeded' then status else 'running'::spc_run_status end,
+        attempts = case when status = 'succeeded' then attempts else attempts + 1 end,
+        worker = case when status = 'succeeded' then worker else ${worker} end,
+        started_at = coalesce(started_at, now())
+      where run_id = ${runId} and characteristic_id = ${characteristicId}
+      returning status, attempts),
+    run as (update spc_runs set status = 'running', started_at = coalesce(started_at, now()) where id = ${runId} and status = 'queued')
+    select status, attempts from item`);
   return res.rows[0] ?? null;
 }
 
@@ -47,11 +49,13 @@ export async function runCharacteristic(db: Database, opts: RunCharacteristicOpt
 
   return db.transaction(async (tx) => {
     await tx.execute(sql`select pg_advisory_xact_lock(${CHARACTERISTIC_LOCK}, ${characteristicId})`);
+    // The job's queries are small; starting parallel query workers for them costs more than it saves.
+    await tx.execute(sql`set local max_parallel_workers_per_gather = 0`);
     const current = await tx.execute<{ status: string }>(sql`select status from spc_run_items where run_id = ${runId} and characteristic_id = ${characteristicId} for update`);
     if (current.rows[0]?.status === 'succeeded') return { skipped: true, changed: false, raised: 0, resolved: 0 };
 
     const now = new Date();
-    const inputs = await loadChartInputs(tx, characteristicId, {}, now);
+    const inputs = await loadChartInputs(tx, characteristicId, {}, now, { events: false });
     if (!inputs) throw new Error(`Characteristic ${characteristicId} does not exist`);
     const fingerprint = `${chartFingerprint(inputs)}:${specAt(inputs.specs, now)?.revision ?? '-'}`;
     const prevRes = await tx.execute<{ fingerprint: string; period_to: Date | null; computed_at: Date }>(sql`
