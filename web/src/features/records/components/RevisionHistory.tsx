@@ -24,7 +24,6 @@ export function RevisionHistory({ revisions, inForce, unit, decimals }: { revisi
             <th scope="col" className={`${th} text-right`}>USL ({unit})</th>
             <th scope="col" className={th}>Effective from</th>
             <th scope="col" className={th}>Reason</th>
-            <th scope="col" className={th}>Recorded</th>
           </tr>
         </thead>
         <tbody>
@@ -40,10 +39,11 @@ export function RevisionHistory({ revisions, inForce, unit, decimals }: { revisi
                 <td className="px-3 py-2 text-right font-mono">{figure(r.target, decimals)}</td>
                 <td className="px-3 py-2 text-right font-mono">{figure(r.usl, decimals)}</td>
                 <td className="px-3 py-2 font-mono text-sm whitespace-nowrap">{formatWithZone(r.effectiveFrom)}</td>
-                <td className="min-w-48 px-3 py-2 text-sm text-zinc-800 [overflow-wrap:anywhere]">{r.reason ?? '—'}</td>
-                <td className="px-3 py-2 text-sm text-zinc-700">
-                  <span className="block">{r.createdBy ?? '—'}</span>
-                  <span className="block font-mono whitespace-nowrap">{formatWithZone(r.createdAt)}</span>
+                <td className="min-w-56 px-3 py-2 text-sm">
+                  <span className="block text-zinc-900 [overflow-wrap:anywhere]">{r.reason ?? '—'}</span>
+                  <span className="mt-0.5 block text-zinc-600">
+                    {r.createdBy ?? 'Unknown user'}, <span className="font-mono">{formatWithZone(r.createdAt)}</span>
+                  </span>
                 </td>
               </tr>
             );

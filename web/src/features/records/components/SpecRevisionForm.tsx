@@ -30,12 +30,15 @@ export function SpecRevisionForm({ characteristic, latest, onSaved }: { characte
     defaultValues: { lsl: typedLimit(latest?.lsl), usl: typedLimit(latest?.usl), target: typedLimit(latest?.target), effectiveFrom: '', reason: '' },
   });
 
-  const onSubmit = handleSubmit((input) =>
-    create.mutate(input, {
-      onSuccess: onSaved,
-      onError: (error) => showServerErrors(error, setError, fields, (message) => setError('root', { message })),
-    }),
-  );
+  // The saved revision remounts this form with fresh starting values before mutate's own callbacks
+  // could run, so the outcome is taken from the promise.
+  const onSubmit = handleSubmit(async (input) => {
+    try {
+      onSaved(await create.mutateAsync(input));
+    } catch (error) {
+      showServerErrors(error, setError, fields, (message) => setError('root', { message }));
+    }
+  });
 
   const unit = characteristic.unit;
   const limitInput = (name: 'lsl' | 'usl' | 'target') => (control: { id: string; describedBy: string | undefined; invalid: boolean }) => (
