@@ -26,8 +26,8 @@ export function ProcessEventList({ events }: { events: ProcessEvent[] }) {
                 <span className="block font-medium text-zinc-900">{e.title}</span>
                 {e.description && <span className="block text-sm text-zinc-600 [overflow-wrap:anywhere]">{e.description}</span>}
               </th>
-              <td className="px-3 py-2 font-mono text-sm">{e.lineCode ?? <span className="font-sans text-zinc-600">Whole plant</span>}</td>
-              <td className="px-3 py-2 font-mono text-sm">{e.productCode ?? <span className="font-sans text-zinc-600">Every product</span>}</td>
+              <td className="px-3 py-2 font-mono text-sm whitespace-nowrap">{e.lineCode ?? <span className="font-sans text-zinc-600">Whole plant</span>}</td>
+              <td className="px-3 py-2 font-mono text-sm whitespace-nowrap">{e.productCode ?? <span className="font-sans text-zinc-600">Every product</span>}</td>
               <td className="px-3 py-2 text-sm text-zinc-700">{e.createdBy ?? '—'}</td>
             </tr>
           ))}

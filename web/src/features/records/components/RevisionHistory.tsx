@@ -42,7 +42,7 @@ export function RevisionHistory({ revisions, inForce, unit, decimals }: { revisi
                 <td className="min-w-56 px-3 py-2 text-sm">
                   <span className="block text-zinc-900 [overflow-wrap:anywhere]">{r.reason ?? '—'}</span>
                   <span className="mt-0.5 block text-zinc-600">
-                    {r.createdBy ?? 'Unknown user'}, <span className="font-mono">{formatWithZone(r.createdAt)}</span>
+                    {r.createdBy ?? 'Unknown user'}, <span className="font-mono whitespace-nowrap">{formatWithZone(r.createdAt)}</span>
                   </span>
                 </td>
               </tr>

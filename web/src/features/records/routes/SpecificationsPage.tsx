@@ -66,8 +66,18 @@ export default function SpecificationsPage() {
                 {product.lineCode && <span className="text-base font-normal text-zinc-600"> · line <span className="font-mono">{product.lineCode}</span></span>}
               </h2>
               <div className="overflow-x-auto rounded-lg border border-zinc-200 bg-white">
-                <table className="w-full border-collapse text-left">
+                {/* Fixed columns, so the figures of every product's table line up down the page. */}
+                <table className="w-full min-w-[48rem] table-fixed border-collapse text-left">
                   <caption className="sr-only">Specifications of {product.name}</caption>
+                  <colgroup>
+                    <col className="w-[32%]" />
+                    <col className="w-[10%]" />
+                    <col className="w-[10%]" />
+                    <col className="w-[10%]" />
+                    <col className="w-[9%]" />
+                    <col className="w-[9%]" />
+                    <col className="w-[20%]" />
+                  </colgroup>
                   <thead className="bg-zinc-100/80 text-sm text-zinc-700">
                     <tr>
                       <th scope="col" className={th}>Characteristic</th>
