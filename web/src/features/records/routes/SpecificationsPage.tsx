@@ -70,13 +70,13 @@ export default function SpecificationsPage() {
                 <table className="w-full min-w-[48rem] table-fixed border-collapse text-left">
                   <caption className="sr-only">Specifications of {product.name}</caption>
                   <colgroup>
-                    <col className="w-[32%]" />
-                    <col className="w-[10%]" />
-                    <col className="w-[10%]" />
-                    <col className="w-[10%]" />
+                    <col className="w-[30%]" />
                     <col className="w-[9%]" />
                     <col className="w-[9%]" />
-                    <col className="w-[20%]" />
+                    <col className="w-[9%]" />
+                    <col className="w-[8%]" />
+                    <col className="w-[9%]" />
+                    <col className="w-[26%]" />
                   </colgroup>
                   <thead className="bg-zinc-100/80 text-sm text-zinc-700">
                     <tr>
