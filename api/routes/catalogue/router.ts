@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { and, asc, desc, eq, ilike, isNull } from 'drizzle-orm';
+import { and, asc, desc, eq, ilike, isNull, sql } from 'drizzle-orm';
 import { methodCautions, testMethods as methodCatalogue } from '../../../shared/lab';
 import type { Database } from '../../db/client';
 import { characteristics, lots, measurements, plants, productionLines, products, uploads } from '../../db/schema';
@@ -74,7 +74,16 @@ export function catalogueRouter(db: Database): Router {
       .leftJoin(uploads, eq(uploads.id, measurements.uploadId))
       .where(and(eq(measurements.lotId, lot.id), isNull(measurements.voidedAt)))
       .orderBy(asc(characteristics.id), asc(measurements.replicate));
-    res.json({ ...lot, results });
+    // The revision in force when the lot was made judges it, not today's.
+    const specRows = await db.execute<{ code: string; revision: number; lsl: number | null; usl: number | null; target: number | null; effective_from: Date }>(sql`
+      select distinct on (c.code) c.code, s.revision, s.lsl, s.usl, s.target, s.effective_from
+      from spec_limits s join characteristics c on c.id = s.characteristic_id
+      where c.product_id = (select product_id from lots where id = ${lot.id}) and s.effective_from <= ${lot.producedAt.toISOString()}::timestamptz
+      order by c.code, s.effective_from desc, s.revision desc`);
+    const specs = Object.fromEntries(
+      specRows.rows.map((s) => [s.code, { revision: s.revision, lsl: s.lsl, usl: s.usl, target: s.target, effectiveFrom: new Date(s.effective_from).toISOString() }]),
+    );
+    res.json({ ...lot, results, specs });
   });
 
   return router;

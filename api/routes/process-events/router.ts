@@ -42,12 +42,12 @@ export function processEventsRouter(db: Database): Router {
       let productId: number | null = null;
       if (input.lineCode) {
         const [line] = await tx.select({ id: productionLines.id }).from(productionLines).where(eq(productionLines.code, input.lineCode));
-        if (!line) throw badRequest(`lineCode: unknown production line "${input.lineCode}"`);
+        if (!line) throw badRequest(`lineCode: unknown production line "${input.lineCode}"`, [{ path: 'lineCode', message: `Unknown production line "${input.lineCode}"` }]);
         lineId = line.id;
       }
       if (input.productCode) {
         const [product] = await tx.select({ id: products.id, lineId: products.lineId }).from(products).where(eq(products.code, input.productCode));
-        if (!product) throw badRequest(`productCode: unknown product "${input.productCode}"`);
+        if (!product) throw badRequest(`productCode: unknown product "${input.productCode}"`, [{ path: 'productCode', message: `Unknown product "${input.productCode}"` }]);
         productId = product.id;
         lineId ??= product.lineId;
       }

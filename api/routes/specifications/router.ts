@@ -42,7 +42,8 @@ export function specificationsRouter(db: Database): Router {
       const effectiveFrom = input.effectiveFrom ? new Date(input.effectiveFrom) : new Date();
       // Revisions follow each other in time, so "the revision in force at a lot's production time" has one answer.
       if (latest && effectiveFrom < latest.effectiveFrom) {
-        throw badRequest(`effectiveFrom: a new revision cannot take effect before revision ${latest.revision} (in force from ${latest.effectiveFrom.toISOString()})`);
+        const message = `A new revision cannot take effect before revision ${latest.revision}, in force from ${latest.effectiveFrom.toISOString().slice(0, 16).replace('T', ' ')} UTC`;
+        throw badRequest(`effectiveFrom: ${message}`, [{ path: 'effectiveFrom', message }]);
       }
       const next = (latest?.revision ?? 0) + 1;
       const [row] = await tx

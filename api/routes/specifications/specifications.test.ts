@@ -29,12 +29,21 @@ describe('specification revisions', () => {
     const ch = list.body.items.find((c: { id: number }) => c.id === id);
     expect(ch.spec).toMatchObject({ revision: 2, lsl: 2040, usl: 2120 });
 
+    // A lot made yesterday keeps revision 1; the lot page judges it by that.
+    const lot = `SPEC-${Date.now()}`;
+    const produced = new Date(Date.now() - 86_400_000).toISOString();
+    const csv = `lot,product,line,produced_at,characteristic,value\n${lot},HVR3,L2,${produced},HVR3-DENS,2035\n`;
+    const uploaded = await request(api.app).post('/api/v1/uploads').set(await as('technician')).attach('file', Buffer.from(csv), 'spec.csv');
+    expect(uploaded.status).toBe(201);
+    const detail = await request(api.app).get(`/api/v1/lots/${lot}`).set(await as('auditor'));
+    expect(detail.body.specs['HVR3-DENS']).toMatchObject({ revision: 1, lsl: 2030, usl: 2130 });
+
     const backdated = await request(api.app)
       .post(`/api/v1/characteristics/${id}/spec-revisions`)
       .set(await as('quality_manager'))
       .send({ lsl: 2000, usl: 2150, effectiveFrom: '2020-01-01T00:00:00Z', reason: 'Back-dated widening' });
     expect(backdated.status).toBe(400);
-    expect(backdated.body.error).toMatch(/cannot take effect before revision 2/);
+    expect(backdated.body.error).toMatch(/cannot take effect before revision 2/i);
   });
 
   it('allows one-sided specifications and refuses inconsistent ones with a message per field', async () => {

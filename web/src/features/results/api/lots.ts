@@ -29,6 +29,8 @@ export interface Lot {
   productName: string;
   lineCode: string;
   results: LotResult[];
+  /** Per characteristic code, the specification revision in force when the lot was produced. */
+  specs: Record<string, { revision: number; lsl: number | null; usl: number | null; target: number | null; effectiveFrom: string }>;
 }
 
 export const lotKeys = {

@@ -1,7 +1,7 @@
 import { useState } from 'react';
 import { Link, useParams } from 'react-router';
 import { ApiError } from '../../../lib/http';
-import { useLot, type LotResult } from '../api/lots';
+import { useLot, type Lot, type LotResult } from '../api/lots';
 import { useCharacteristics, usePlantTimeZone, type Characteristic } from '../api/catalogue';
 import { formatPlantDateTime } from '../lib/plant-time';
 import { specLimitsText, specVerdict } from '../lib/spec';
@@ -26,13 +26,15 @@ interface CharacteristicResults {
   characteristic: Characteristic | undefined;
 }
 
-/** The lot's stored results, one line per characteristic in the order the API gives them. */
-function byCharacteristic(results: LotResult[], characteristics: Characteristic[]): CharacteristicResults[] {
+/** The lot's stored results, one line per characteristic in the order the API gives them, judged by the revision in force when the lot was made. */
+function byCharacteristic(results: LotResult[], characteristics: Characteristic[], specs: Lot['specs']): CharacteristicResults[] {
   const groups = new Map<string, CharacteristicResults>();
   for (const r of results) {
     let group = groups.get(r.characteristicCode);
     if (!group) {
-      group = { code: r.characteristicCode, name: r.characteristicName, unit: r.unit, readings: [], sources: [], characteristic: characteristics.find((c) => c.code === r.characteristicCode) };
+      const configured = characteristics.find((c) => c.code === r.characteristicCode);
+      const characteristic = configured && { ...configured, spec: specs[r.characteristicCode] ?? null };
+      group = { code: r.characteristicCode, name: r.characteristicName, unit: r.unit, readings: [], sources: [], characteristic };
       groups.set(r.characteristicCode, group);
     }
     group.readings.push(r);
@@ -66,7 +68,7 @@ export default function LotPage() {
   }
 
   const { data } = lot;
-  const groups = byCharacteristic(data.results, characteristics.data ?? []);
+  const groups = byCharacteristic(data.results, characteristics.data ?? [], data.specs);
   return (
     <>
       <PageHeader
