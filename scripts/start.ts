@@ -18,6 +18,8 @@ async function main() {
 
   process.env.DATABASE_URL = databaseUrl;
   process.env.PRISMLINE_MODE ??= 'demo';
+  // The demo plant's first SPC run starts at once, so the alarms are there before the first night.
+  if (process.env.PRISMLINE_MODE === 'demo') process.env.PRISMLINE_INITIAL_RUN ??= '1';
   const { startServer } = await import('../api/server');
   const running = await startServer();
   console.log(`\nPrismline: open ${running.url} (demo users are listed in README.md). Ctrl-C stops it.\n`);
