@@ -154,7 +154,7 @@ describe('web app shell', () => {
     await heading('Control charts').waitFor();
     expect(new URL(page.url()).pathname).toBe('/charts');
     const labels = await mainMenu().getByRole('link').allTextContents();
-    expect(labels).toEqual(['Plant overview', 'Control charts', 'Results & uploads', 'Test methods', 'Specifications & events']);
+    expect(labels).toEqual(['Plant overview', 'Control charts', 'Results & uploads', 'Test methods', 'Specifications & events', 'SPC runs', 'Alerts by e-mail']);
 
     await page.goto(`${baseUrl()}/admin/users`);
     await heading('Not allowed for your role').waitFor();
@@ -168,7 +168,7 @@ describe('web app shell', () => {
     await heading('Page not found').waitFor();
     expect(await page.getByText('/no-such-page').isVisible()).toBe(true);
     const labels = await mainMenu().getByRole('link').allTextContents();
-    expect(labels).toEqual(['Plant overview', 'Control charts', 'Results & uploads', 'Test methods', 'Specifications & events', 'Alarms', 'Nonconformance reports', 'Reports & audit trail']);
+    expect(labels).toEqual(['Plant overview', 'Control charts', 'Results & uploads', 'Test methods', 'Specifications & events', 'Alarms', 'SPC runs', 'Nonconformance reports', 'Reports & audit trail', 'Alerts by e-mail']);
 
     await page.getByRole('button', { name: 'Sign out' }).click();
     await page.waitForURL('**/sign-in');

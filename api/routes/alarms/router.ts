@@ -102,9 +102,11 @@ export function alarmsRouter(db: Database, publicUrl: string): Router {
 
   router.get('/', async (req, res) => {
     const q = parseBody(listAlarmsQuerySchema, req.query);
+    const like = q.q ? `%${q.q.replace(/[%_\\]/g, '\\$&')}%` : null;
     const res2 = await db.execute<AlarmRow>(sql`${select}
       where (${q.status ?? null}::alarm_status is null or a.status = ${q.status ?? null}::alarm_status)
         and (${q.characteristicId ?? null}::int is null or a.characteristic_id = ${q.characteristicId ?? null}::int)
+        and (${like}::text is null or l.lot_number ilike ${like} or c.code ilike ${like})
       order by a.created_at desc, a.id desc limit ${q.limit}`);
     const counts = await db.execute<{ status: string; n: number }>(sql`select status, count(*)::int as n from alarms group by status`);
     res.json({ items: res2.rows.map((r) => toJson(r, publicUrl)), counts: Object.fromEntries(counts.rows.map((c) => [c.status, c.n])) });

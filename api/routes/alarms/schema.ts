@@ -4,6 +4,8 @@ import { z } from 'zod';
 export const listAlarmsQuerySchema = z.object({
   status: z.enum(['open', 'acknowledged', 'closed']).optional(),
   characteristicId: z.coerce.number().int().positive().optional(),
+  /** Part of a lot number or characteristic code. */
+  q: z.string().trim().max(100).optional(),
   limit: z.coerce.number().int().min(1).max(1000).default(200),
 });
 

@@ -3,12 +3,13 @@ import { areas, areasFor } from './navigation';
 import { roles } from '../../../shared/schemas/users';
 
 // The role rules of the foundation issue, with results entry's: auditors read the upload history
-// and the test methods, and everyone reads specifications and process events.
+// and the test methods, and everyone reads specifications and process events; everyone follows the
+// SPC runs and manages their own alert e-mails; the mail outbox is the administrator's.
 const expected = {
-  technician: ['overview', 'charts', 'results', 'methods', 'records'],
-  quality_manager: ['overview', 'charts', 'results', 'methods', 'records', 'alarms', 'ncrs', 'reports'],
-  auditor: ['overview', 'charts', 'results', 'methods', 'records', 'alarms', 'ncrs', 'reports'],
-  admin: ['overview', 'charts', 'results', 'methods', 'records', 'alarms', 'ncrs', 'reports', 'users', 'catalogue'],
+  technician: ['overview', 'charts', 'results', 'methods', 'records', 'runs', 'subscriptions'],
+  quality_manager: ['overview', 'charts', 'results', 'methods', 'records', 'alarms', 'runs', 'ncrs', 'reports', 'subscriptions'],
+  auditor: ['overview', 'charts', 'results', 'methods', 'records', 'alarms', 'runs', 'ncrs', 'reports', 'subscriptions'],
+  admin: ['overview', 'charts', 'results', 'methods', 'records', 'alarms', 'runs', 'ncrs', 'reports', 'subscriptions', 'users', 'catalogue', 'outbox'],
 } as const;
 
 describe('navigation', () => {

@@ -1,7 +1,7 @@
 import type { Role } from '../../../shared/schemas/roles';
 
 /** Every area of the app. The router builds its routes from this list and the menu shows it by role. */
-export type AreaId = 'overview' | 'charts' | 'results' | 'methods' | 'records' | 'alarms' | 'ncrs' | 'reports' | 'users' | 'catalogue';
+export type AreaId = 'overview' | 'charts' | 'results' | 'methods' | 'records' | 'alarms' | 'runs' | 'ncrs' | 'reports' | 'subscriptions' | 'users' | 'catalogue' | 'outbox';
 
 export interface Area {
   id: AreaId;
@@ -73,6 +73,14 @@ export const areas: readonly Area[] = [
     group: 'work',
   },
   {
+    id: 'runs',
+    path: '/spc-runs',
+    label: 'SPC runs',
+    purpose: 'The nightly and on-demand recomputation of every control chart, followed live, with any characteristic that failed and why.',
+    roles: everyone,
+    group: 'work',
+  },
+  {
     id: 'ncrs',
     path: '/ncrs',
     label: 'Nonconformance reports',
@@ -91,6 +99,14 @@ export const areas: readonly Area[] = [
     group: 'work',
   },
   {
+    id: 'subscriptions',
+    path: '/subscriptions',
+    label: 'Alerts by e-mail',
+    purpose: 'Which product lines and products send you alarm e-mails: at once, in the morning digest, or both.',
+    roles: everyone,
+    group: 'work',
+  },
+  {
     id: 'users',
     path: '/admin/users',
     label: 'Users',
@@ -104,6 +120,14 @@ export const areas: readonly Area[] = [
     label: 'Products, lines & characteristics',
     purpose:
       'The products made on each production line and the characteristics the lab tests on them.',
+    roles: ['admin'],
+    group: 'administration',
+  },
+  {
+    id: 'outbox',
+    path: '/admin/outbox',
+    label: 'Mail outbox',
+    purpose: 'The e-mails the local test mail server has received, while no mail relay is configured.',
     roles: ['admin'],
     group: 'administration',
   },

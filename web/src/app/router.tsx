@@ -19,6 +19,10 @@ const pages: Partial<Record<AreaId, LazyExoticComponent<ComponentType>>> = {
   results: lazy(() => import('../features/results/routes/ResultsArea')),
   methods: lazy(() => import('../features/test-methods/routes/TestMethodsArea')),
   records: lazy(() => import('../features/records/routes/RecordsArea')),
+  alarms: lazy(() => import('../features/alarms/routes/AlarmsPage')),
+  runs: lazy(() => import('../features/spc-runs/routes/RunsPage')),
+  subscriptions: lazy(() => import('../features/subscriptions/routes/SubscriptionsPage')),
+  outbox: lazy(() => import('../features/outbox/routes/OutboxPage')),
 };
 
 /** Areas whose page routes further pages below its address itself (/charts/12, /results/history, /test-methods/RC). */

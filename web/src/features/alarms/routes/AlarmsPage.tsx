@@ -1,0 +1,190 @@
+import { useState } from 'react';
+import { Link } from 'react-router';
+import { useAlarms, type Alarm, type AlarmStatus } from '../api/alarms';
+import { AlarmNoteDialog } from '../components/AlarmNoteDialog';
+import { useSignedInUser } from '../../auth/api/session';
+import { PageHeader } from '../../../components/ui/PageHeader';
+import { Button } from '../../../components/ui/Button';
+import { Badge } from '../../../components/ui/Badge';
+import { Input } from '../../../components/ui/Field';
+import { Loading } from '../../../components/ui/Spinner';
+import { ErrorState } from '../../../components/ui/ErrorState';
+import { EmptyState } from '../../../components/ui/EmptyState';
+import { cx } from '../../../components/ui/cx';
+
+const tabs: { status: AlarmStatus; label: string; empty: string }[] = [
+  { status: 'open', label: 'Open', empty: 'No open alarm: nothing waits for a decision.' },
+  { status: 'acknowledged', label: 'Acknowledged', empty: 'No alarm is acknowledged and still open.' },
+  { status: 'closed', label: 'Closed', empty: 'No alarm has been closed yet.' },
+];
+
+const time = new Intl.DateTimeFormat('en-GB', { day: '2-digit', month: 'short', year: 'numeric', hour: '2-digit', minute: '2-digit' });
+const when = (iso: string | null) => (iso ? time.format(new Date(iso)) : '—');
+const PAGE = 100;
+const fmt = (v: number, d: number) => v.toFixed(Math.max(0, Math.min(6, d)));
+
+function AlarmRow({ alarm, mayDecide, onAction }: { alarm: Alarm; mayDecide: boolean; onAction: (a: 'acknowledge' | 'close') => void }) {
+  const c = alarm.characteristic;
+  return (
+    <tr className="border-b border-zinc-100 align-top" data-alarm={alarm.id}>
+      <td className="figures px-3 py-2 text-sm whitespace-nowrap">{when(alarm.createdAt)}</td>
+      <td className="px-3 py-2">
+        <span className="block font-medium">{alarm.signal}</span>
+        <span className="block text-sm text-zinc-600">
+          {alarm.rule} · {alarm.chart === 'location' ? 'location chart' : 'dispersion chart'}
+        </span>
+        {alarm.late && <Badge tone="warning">Earlier position</Badge>}
+      </td>
+      <td className="px-3 py-2">
+        <span className="block font-mono text-sm">{c.code}</span>
+        <span className="block text-sm text-zinc-600">
+          {c.name} · {c.productCode}
+          {c.lineCode ? ` · line ${c.lineCode}` : ''}
+        </span>
+      </td>
+      <td className="px-3 py-2">
+        <span className="block font-mono text-sm">{alarm.lot.lotNumber}</span>
+        <span className="block text-sm text-zinc-600">produced {when(alarm.lot.producedAt)}</span>
+      </td>
+      <td className="figures px-3 py-2 text-sm">
+        <span className="block">
+          {alarm.values.map((v) => fmt(v, c.decimals)).join(', ')} {c.unit}
+        </span>
+        {alarm.limitName && alarm.limitValue !== null && (
+          <span className="block text-zinc-600">
+            {alarm.limitName} {fmt(alarm.limitValue, c.decimals + 1)} {c.unit}
+          </span>
+        )}
+      </td>
+      <td className="max-w-md px-3 py-2 text-sm">
+        <p>{alarm.description}</p>
+        {alarm.lateReason && <p className="mt-1 text-amber-900">{alarm.lateReason}</p>}
+        {alarm.acknowledgeNote && (
+          <p className="mt-1 text-zinc-600">
+            Acknowledged by {alarm.acknowledgedBy}: {alarm.acknowledgeNote}
+          </p>
+        )}
+        {alarm.closeNote && (
+          <p className="mt-1 text-zinc-600">
+            {alarm.resolution === 'data-changed' ? 'Resolved by changed data: ' : `Closed by ${alarm.closedBy}: `}
+            {alarm.closeNote}
+          </p>
+        )}
+      </td>
+      <td className="px-3 py-2">
+        <div className="flex flex-col items-start gap-1">
+          <Link className="text-sm font-medium text-accent-800 underline" to={`/charts/${c.id}?point=${alarm.pointIndex}`}>
+            Point {alarm.pointIndex + 1} on the chart
+          </Link>
+          {mayDecide && alarm.status === 'open' && (
+            <Button size="sm" variant="secondary" onClick={() => onAction('acknowledge')}>
+              Acknowledge
+            </Button>
+          )}
+          {mayDecide && alarm.status !== 'closed' && (
+            <Button size="sm" variant="secondary" onClick={() => onAction('close')}>
+              Close
+            </Button>
+          )}
+        </div>
+      </td>
+    </tr>
+  );
+}
+
+export default function AlarmsPage() {
+  const me = useSignedInUser();
+  const [status, setStatus] = useState<AlarmStatus>('open');
+  const [acting, setActing] = useState<{ alarm: Alarm; action: 'acknowledge' | 'close' } | null>(null);
+  const [typed, setTyped] = useState('');
+  const [q, setQ] = useState('');
+  const [limit, setLimit] = useState(PAGE);
+  const alarms = useAlarms({ status, q, limit });
+  const mayDecide = me.role === 'quality_manager' || me.role === 'admin';
+  const tab = tabs.find((t) => t.status === status)!;
+
+  return (
+    <>
+      <PageHeader
+        title="Alarms"
+        description="Out-of-specification results, raised as soon as they are stored, and the run-rule signals of the SPC runs. Decide whether there is an assignable cause; acknowledge with what was checked, close with what was found."
+      />
+      <div className="space-y-4">
+        <div role="tablist" aria-label="Alarm status" className="flex gap-1 border-b border-zinc-200">
+          {tabs.map((t) => (
+            <button
+              key={t.status}
+              role="tab"
+              type="button"
+              aria-selected={t.status === status}
+              onClick={() => {
+                setStatus(t.status);
+                setLimit(PAGE);
+              }}
+              className={cx(
+                '-mb-px border-b-2 px-4 py-2 font-medium',
+                t.status === status ? 'border-accent-700 text-accent-800' : 'border-transparent text-zinc-600 hover:text-zinc-900',
+              )}
+            >
+              {t.label}
+              {alarms.data?.counts[t.status] !== undefined && <span className="figures ml-1.5 text-sm">({alarms.data.counts[t.status]})</span>}
+            </button>
+          ))}
+        </div>
+        <form
+          role="search"
+          className="flex flex-wrap items-center gap-2"
+          onSubmit={(e) => {
+            e.preventDefault();
+            setQ(typed.trim());
+            setLimit(PAGE);
+          }}
+        >
+          <label htmlFor="alarm-search" className="text-sm font-medium text-zinc-800">
+            Lot or characteristic
+          </label>
+          <Input id="alarm-search" type="search" className="max-w-xs" placeholder="e.g. L1-2611 or HVL25-FLOW" value={typed} onChange={(e) => setTyped(e.target.value)} />
+          <Button type="submit" variant="secondary">
+            Find
+          </Button>
+        </form>
+        {alarms.isPending ? (
+          <Loading label="Loading alarms…" />
+        ) : alarms.isError ? (
+          <ErrorState title="Could not load the alarms" error={alarms.error} onRetry={() => alarms.refetch()} />
+        ) : alarms.data.items.length === 0 ? (
+          <EmptyState title={q ? `No ${tab.label.toLowerCase()} alarm matches “${q}”.` : tab.empty} />
+        ) : (
+          <div className="overflow-x-auto rounded-lg border border-zinc-200 bg-white">
+            <table className="w-full border-collapse text-left">
+              <caption className="sr-only">{tab.label} alarms, newest first</caption>
+              <thead className="bg-zinc-100/80 text-sm text-zinc-700">
+                <tr>
+                  {['Raised', 'Signal', 'Characteristic', 'Lot', 'Values and limit', 'What happened', ''].map((h) => (
+                    <th key={h} scope="col" className="border-b border-zinc-200 px-3 py-2.5 font-semibold whitespace-nowrap">
+                      {h}
+                    </th>
+                  ))}
+                </tr>
+              </thead>
+              <tbody>
+                {alarms.data.items.map((a) => (
+                  <AlarmRow key={a.id} alarm={a} mayDecide={mayDecide} onAction={(action) => setActing({ alarm: a, action })} />
+                ))}
+              </tbody>
+            </table>
+            {alarms.data.items.length === limit && (
+              <div className="border-t border-zinc-200 p-3">
+                <Button variant="secondary" size="sm" busy={alarms.isFetching} onClick={() => setLimit(limit + PAGE)}>
+                  Show {PAGE} more
+                </Button>
+              </div>
+            )}
+          </div>
+        )}
+        <p className="text-sm text-zinc-600">Alarms support the decision of trained staff; they do not replace their judgement, the specification or the plant procedures.</p>
+      </div>
+      {acting && <AlarmNoteDialog alarm={acting.alarm} action={acting.action} onDone={() => setActing(null)} />}
+    </>
+  );
+}

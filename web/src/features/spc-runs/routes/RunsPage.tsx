@@ -1,0 +1,131 @@
+import { Fragment, useState } from 'react';
+import { isActive, useRuns, useStartRun, type RunSummary } from '../api/runs';
+import { RunProgress } from '../components/RunProgress';
+import { RunDetails } from '../components/RunDetails';
+import { useSignedInUser } from '../../auth/api/session';
+import { errorMessage } from '../../../lib/http';
+import { PageHeader } from '../../../components/ui/PageHeader';
+import { Button } from '../../../components/ui/Button';
+import { Badge } from '../../../components/ui/Badge';
+import { Alert } from '../../../components/ui/Alert';
+import { Loading } from '../../../components/ui/Spinner';
+import { ErrorState } from '../../../components/ui/ErrorState';
+import { EmptyState } from '../../../components/ui/EmptyState';
+
+const statusWords: Record<RunSummary['status'], { label: string; tone: 'neutral' | 'accent' | 'positive' | 'negative' }> = {
+  queued: { label: 'Waiting', tone: 'neutral' },
+  running: { label: 'Running', tone: 'accent' },
+  succeeded: { label: 'Finished', tone: 'positive' },
+  failed: { label: 'Finished with failures', tone: 'negative' },
+};
+
+const triggerWords: Record<RunSummary['trigger'], string> = {
+  schedule: 'Nightly schedule',
+  manual: 'Started by hand',
+  upload: 'After an upload',
+  void: 'After a voided upload',
+  correction: 'After a corrected result',
+};
+
+const time = new Intl.DateTimeFormat('en-GB', { day: '2-digit', month: 'short', hour: '2-digit', minute: '2-digit', second: '2-digit' });
+const when = (iso: string | null) => (iso ? time.format(new Date(iso)) : '—');
+
+function duration(run: RunSummary): string {
+  if (!run.startedAt) return '—';
+  const end = run.finishedAt ? Date.parse(run.finishedAt) : Date.now();
+  const s = Math.max(0, (end - Date.parse(run.startedAt)) / 1000);
+  return s < 60 ? `${s.toFixed(1)} s` : `${Math.floor(s / 60)} min ${Math.round(s % 60)} s`;
+}
+
+export default function RunsPage() {
+  const me = useSignedInUser();
+  const runs = useRuns();
+  const start = useStartRun();
+  const [open, setOpen] = useState<number | null>(null);
+  const mayStart = me.role === 'quality_manager' || me.role === 'admin';
+  const busy = runs.data?.some(isActive) ?? false;
+
+  return (
+    <>
+      <PageHeader
+        title="SPC runs"
+        description="Every night, and after each upload, Prismline recomputes the control charts, run-rule signals and capability of each characteristic and raises alarms. This page follows each run live."
+        actions={
+          mayStart && (
+            <Button busy={start.isPending} onClick={() => start.mutate(undefined)}>
+              Start a full run now
+            </Button>
+          )
+        }
+      />
+      <div className="space-y-4">
+        {start.isError && <Alert tone="error">{errorMessage(start.error)}</Alert>}
+        {start.isSuccess && <Alert tone="success">Run {start.data.id} has been queued.{busy ? ' Its progress shows below.' : ''}</Alert>}
+        {runs.isPending ? (
+          <Loading label="Loading runs…" />
+        ) : runs.isError ? (
+          <ErrorState title="Could not load the runs" error={runs.error} onRetry={() => runs.refetch()} />
+        ) : runs.data.length === 0 ? (
+          <EmptyState title="No run yet">The first nightly run starts at the time set for the plant{mayStart ? ', or start one now' : ''}.</EmptyState>
+        ) : (
+          <div className="overflow-x-auto rounded-lg border border-zinc-200 bg-white">
+            <table className="w-full border-collapse text-left">
+              <caption className="sr-only">SPC runs, newest first</caption>
+              <thead className="bg-zinc-100/80 text-sm text-zinc-700">
+                <tr>
+                  {['Run', 'Why', 'Status', 'Progress', 'Alarms', 'Started', 'Took', ''].map((h) => (
+                    <th key={h} scope="col" className="border-b border-zinc-200 px-3 py-2.5 font-semibold whitespace-nowrap">
+                      {h}
+                    </th>
+                  ))}
+                </tr>
+              </thead>
+              <tbody>
+                {runs.data.map((run) => (
+                  <Fragment key={run.id}>
+                    <tr className="border-b border-zinc-100 align-top" data-run={run.id}>
+                      <td className="px-3 py-2 font-mono">{run.id}</td>
+                      <td className="px-3 py-2">
+                        <span className="block">{triggerWords[run.trigger]}</span>
+                        <span className="block text-sm text-zinc-600">
+                          {run.kind === 'full' ? 'All characteristics' : `${run.characteristics} characteristic${run.characteristics === 1 ? '' : 's'}`}
+                          {run.requestedBy ? ` · ${run.requestedBy}` : ''}
+                        </span>
+                      </td>
+                      <td className="px-3 py-2">
+                        <Badge tone={statusWords[run.status].tone}>{statusWords[run.status].label}</Badge>
+                      </td>
+                      <td className="px-3 py-2">
+                        <RunProgress run={run} />
+                      </td>
+                      <td className="figures px-3 py-2 text-sm">
+                        {run.alarmsRaised} raised
+                        {run.alarmsResolved ? <span className="block text-zinc-600">{run.alarmsResolved} resolved by changed data</span> : null}
+                      </td>
+                      <td className="figures px-3 py-2 text-sm whitespace-nowrap">{when(run.startedAt ?? run.createdAt)}</td>
+                      <td className="figures px-3 py-2 text-sm whitespace-nowrap">{duration(run)}</td>
+                      <td className="px-3 py-2">
+                        {(run.failed > 0 || isActive(run)) && (
+                          <Button variant="quiet" size="sm" aria-expanded={open === run.id} onClick={() => setOpen(open === run.id ? null : run.id)}>
+                            {open === run.id ? 'Hide details' : run.failed ? 'Show failures' : 'Details'}
+                          </Button>
+                        )}
+                      </td>
+                    </tr>
+                    {open === run.id && (
+                      <tr className="border-b border-zinc-100 bg-zinc-50">
+                        <td colSpan={8} className="px-5 py-3">
+                          <RunDetails id={run.id} />
+                        </td>
+                      </tr>
+                    )}
+                  </Fragment>
+                ))}
+              </tbody>
+            </table>
+          </div>
+        )}
+      </div>
+    </>
+  );
+}
