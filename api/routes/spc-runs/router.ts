@@ -1,6 +1,7 @@
 import { Router } from 'express';
 import type { Database } from '../../db/client';
-import { notFound, parseBody } from '../../http/errors';
+import { HttpError, notFound, parseBody } from '../../http/errors';
+import { logger } from '../../logger';
 import { requireRole, requireSession } from '../../auth/session';
 import { recordAudit } from '../../db/audit';
 import type { SpcQueue } from '../../spc/queue';
@@ -14,7 +15,13 @@ export function spcRunsRouter(db: Database, queue: SpcQueue): Router {
 
   router.post('/', requireRole('quality_manager', 'admin'), async (req, res) => {
     const body = parseBody(startRunSchema, req.body ?? {});
-    const id = await startRun(db, queue, { trigger: 'manual', characteristicIds: body.characteristicIds, requestedBy: req.user!.id });
+    let id: number | null;
+    try {
+      id = await startRun(db, queue, { trigger: 'manual', characteristicIds: body.characteristicIds, requestedBy: req.user!.id });
+    } catch (err) {
+      logger.error({ err: (err as Error).message }, 'SPC run not started');
+      throw new HttpError(503, 'The SPC job queue cannot be reached right now, so the run was not started. Try again in a minute.');
+    }
     await recordAudit(db, { actorId: req.user!.id, action: 'start', entity: 'spc run', entityId: id, after: { characteristicIds: body.characteristicIds ?? 'all' } });
     res.status(202).json({ id });
   });
