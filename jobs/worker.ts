@@ -1,5 +1,16 @@
 // npm run worker: an extra worker process of the SPC queue, on this machine or another one that
 // shares the database. Sends e-mail from the outbox too when SMTP_URL names a relay.
+//
+// Settings (environment; the server reads the same ones for the workers it runs itself):
+//   DATABASE_URL                  the shared PostgreSQL database
+//   SPC_WORKER_CONCURRENCY        job loops in this process (default 2; 0 in the server: no workers)
+//   SPC_POLL_MS                   pause when the queue is empty (default 500)
+//   SPC_SWEEP_MS                  how often items of jobs that died on their last attempt are failed (default 10000)
+//   SPC_JOB_RETRY_LIMIT, SPC_JOB_RETRY_DELAY_SECONDS   retries of a failed job, with doubling pauses (3, 5)
+//   SPC_JOB_EXPIRE_SECONDS        a job still active after this long (its worker died) is retried (600)
+//   PGBOSS_MAINTENANCE_SECONDS    how often expired jobs are looked for (30)
+//   SMTP_URL, MAIL_FROM, MAIL_POLL_MS, PUBLIC_URL      e-mail (api/mail/settings.ts)
+//   SPC_TEST_PAUSE_MS             reliability tests only: a pause inside each job's transaction
 import { createDatabase } from '../api/db/client';
 import { migrateDatabase } from '../api/db/migrate';
 import { logger } from '../api/logger';

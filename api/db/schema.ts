@@ -315,7 +315,12 @@ export const spcRunItems = pgTable(
     startedAt: timestamp('started_at', { withTimezone: true }),
     finishedAt: timestamp('finished_at', { withTimezone: true }),
   },
-  (t) => [uniqueIndex('spc_run_items_run_characteristic_key').on(t.runId, t.characteristicId), index('spc_run_items_job_idx').on(t.jobId)],
+  (t) => [
+    uniqueIndex('spc_run_items_run_characteristic_key').on(t.runId, t.characteristicId),
+    index('spc_run_items_job_idx').on(t.jobId),
+    // The sweep looks only at unfinished items.
+    index('spc_run_items_unfinished_idx').on(t.status).where(sql`status in ('queued', 'running')`),
+  ],
 );
 
 /** The latest computed chart of each characteristic: points in production order, limits, violations, capability. */

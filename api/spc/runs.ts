@@ -190,15 +190,18 @@ export async function settleRun(tx: Executor, runId: number): Promise<void> {
  */
 export async function sweepRuns(db: Database): Promise<number> {
   return db.transaction(async (tx) => {
+    // Driven by the few unfinished items, each job looked up by its primary key (name, id).
     const res = await tx.execute<{ run_id: number }>(sql`
       update spc_run_items i set status = 'failed', finished_at = now(),
-        error = coalesce(j.output->>'message', j.output->'value'->>'message', 'The job failed')
+        error = coalesce(f.output->>'message', f.output->'value'->>'message', 'The job failed')
       from (
-        select id, output from pgboss.job where name = ${CHARACTERISTIC_QUEUE} and state = 'failed'
-        union all
-        select id, output from pgboss.archive where name = ${CHARACTERISTIC_QUEUE} and state = 'failed'
-      ) j
-      where i.job_id = j.id::text and i.status in ('queued', 'running')
+        select u.id, coalesce(j.output, a.output) as output
+        from spc_run_items u
+        left join pgboss.job j on j.name = ${CHARACTERISTIC_QUEUE} and j.id = u.job_id::uuid and j.state = 'failed'
+        left join pgboss.archive a on a.name = ${CHARACTERISTIC_QUEUE} and a.id = u.job_id::uuid and a.state = 'failed'
+        where u.status in ('queued', 'running') and u.job_id is not null and (j.id is not null or a.id is not null)
+      ) f
+      where i.id = f.id
       returning i.run_id`);
     const runs = [...new Set(res.rows.map((r) => r.run_id))].sort((a, b) => a - b);
     for (const runId of runs) await settleRun(tx, runId);

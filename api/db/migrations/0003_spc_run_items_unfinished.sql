@@ -1,0 +1,1 @@
+CREATE INDEX "spc_run_items_unfinished_idx" ON "spc_run_items" USING btree ("status") WHERE status in ('queued', 'running');
