@@ -45,7 +45,7 @@ describe('nightly schedule', () => {
   it('starts one nightly run per plant and local date, however many schedulers ask, with one job per characteristic', async () => {
     const queue = fixedQueue(boss);
     const p = { id: plant.plantId, code: 'SCALE', timeZone: 'Europe/London', nightlyRunCron: '0 2 * * *' };
-    const at = new Date('2026-03-29T01:30:00Z'); // the night the clocks go forward in the UK
+    const at = new Date('2026-03-29T01:30:00Z'); // the night UK clocks go forward (last Sunday of March, from memory): 02:30 local
     const first = await startNightlyRun(cluster.db, queue, p, at);
     const second = await startNightlyRun(cluster.db, queue, p, new Date('2026-03-29T22:00:00Z'));
     expect(first).not.toBeNull();

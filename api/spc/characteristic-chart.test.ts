@@ -81,7 +81,7 @@ describe('computeCharacteristicChart', () => {
       ],
     });
     await t.addLot('OLD', day(5), [138, 138]); // inside revision 1
-    await t.addLot('MEAN', day(6), [133, 139]); // one value below 135, mean 136 inside: the set is judged by its mean
+    await t.addLot('MEAN', day(6), [133, 139]); // one value below 135, mean 136 inside: a set is judged by its mean, as EN 196-1 reports strength (from memory)
     await t.addLot('LOW', day(7), [130, 134]); // mean 132 below 135
     await t.addLot('NEW', day(12), [138, 138]); // below revision 2's 140
     const chart = await computeCharacteristicChart(db, t.characteristicId);

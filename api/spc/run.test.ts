@@ -156,7 +156,7 @@ describe('out-of-specification results at import', () => {
     await subscribeManager(t.productId, { immediate: true, digest: false });
 
     const inOld = await t.addLot('OA', day(5, 9), [136, 137]); // inside revision 1 (135–155)
-    const meanInside = await t.addLot('OB', day(6, 9), [133, 139]); // one value below 135, mean 136 inside
+    const meanInside = await t.addLot('OB', day(6, 9), [133, 139]); // one value below 135, mean 136 inside: judged by the set's mean, as EN 196-1 reports strength (from memory)
     const outNew = await t.addLot('OC', day(20, 9), [138, 139]); // below revision 2's 140
     const ids = await raiseOutOfSpecAlarms(db, [...inOld.measurementIds, ...meanInside.measurementIds, ...outNew.measurementIds], publicUrl);
     expect(ids).toHaveLength(1);
