@@ -1,8 +1,9 @@
 // The overview and the chart page in a real browser against the seeded demo plant: the quality
 // manager finds the planted step change in flow of HV Level 25 after the new sand source, reads the
 // rule in the tooltip, opens a lot, excludes a point and freezes limits from a baseline before it.
+import { resolve } from 'node:path';
 import { afterAll, afterEach, beforeAll, beforeEach, describe, expect, it } from 'vitest';
-import type { APIRequestContext, Page } from 'playwright-core';
+import type { APIRequestContext, Locator, Page } from 'playwright-core';
 import { baseUrl, launchBrowser, screenshot, type TestBrowser } from '../support/browser';
 import { DEMO_PASSWORD, demoUsers } from '../../api/db/seed';
 import { ruleDescriptions } from '../../shared/spc';
@@ -48,6 +49,11 @@ async function chartJson(request: APIRequestContext, id: number): Promise<Charac
   return (await res.json()) as CharacteristicChart;
 }
 
+/** One part of the page as test-artifacts/<name>.png, at full resolution, for a person to look at. */
+async function partShot(part: Locator, name: string) {
+  await part.screenshot({ path: resolve(import.meta.dirname, '..', '..', 'test-artifacts', `${name}.png`) });
+}
+
 /** A plant wall time as the datetime-local field takes it. */
 function plantInput(iso: string): string {
   const parts = new Intl.DateTimeFormat('en-GB', { timeZone: PLANT_ZONE, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit' }).formatToParts(new Date(iso));
@@ -78,6 +84,9 @@ describe('overview and control charts', () => {
     const lastSignal = states.map((t) => t.includes('▲ Signal')).lastIndexOf(true);
     expect(firstCalm === -1 || lastSignal < firstCalm).toBe(true);
     await screenshot(page, 'charts-overview');
+    await page.setViewportSize({ width: 820, height: 1180 });
+    await page.screenshot({ path: resolve(import.meta.dirname, '..', '..', 'test-artifacts', 'charts-overview-tablet.png') });
+    await page.setViewportSize({ width: 1600, height: 1000 });
 
     // Filters narrow the screen to one line.
     await page.getByLabel('Line', { exact: true }).selectOption('L2');
@@ -112,6 +121,7 @@ describe('overview and control charts', () => {
     expect(tipText).toMatch(/Early shift|Late shift|Night shift/);
     expect(tipText).toContain(ruleDescriptions[newest.rule]);
     expect(await page.getByTestId('selected-point').textContent()).toContain(`Point ${newest.index + 1} · lot ${newestPoint.lotNumber}`);
+    await partShot(page.locator('#chart-section'), 'charts-control-chart-tooltip');
     await screenshot(page, 'charts-chart-page');
 
     // Keyboard: End selects the newest point, Enter opens its lot with every result of it.
@@ -189,6 +199,8 @@ describe('overview and control charts', () => {
     // Against the limits of the old sand, the flow after the change is a sustained signal.
     const afterSand = frozen.violations.filter((v) => Date.parse(frozen.points[v.index].producedAt) >= sandMs);
     expect(afterSand.length).toBeGreaterThan(10);
+    await partShot(page.locator('#chart-section'), 'charts-control-chart-frozen');
+    await partShot(page.getByRole('region', { name: 'Control limits' }), 'charts-limits-frozen');
     await screenshot(page, 'charts-chart-frozen');
   });
 
@@ -205,6 +217,7 @@ describe('overview and control charts', () => {
     await page.getByRole('button', { name: 'Download CSV' }).click();
     const file = await download;
     expect(file.suggestedFilename()).toMatch(/-DENS-chart-points\.csv$/);
+    await partShot(page.getByRole('region', { name: 'Capability' }), 'charts-capability');
     await screenshot(page, 'charts-auditor-capability');
   });
 });

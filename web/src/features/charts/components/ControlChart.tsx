@@ -3,7 +3,7 @@ import { useCallback, useEffect, useMemo, useRef, useState, type KeyboardEvent }
 import ReactEChartsCore from 'echarts-for-react/esm/core';
 import type { EChartsType } from 'echarts/core';
 import { echarts } from '../lib/echarts';
-import { buildControlChartOption, indexChart, nearestPoint, SELECTED_SERIES_ID, type ChartIndex } from '../lib/control-chart-option';
+import { buildControlChartOption, indexChart, markerSets, nearestPoint, SELECTED_SERIES_ID, thinMarkers, type ChartIndex, type MarkerSets } from '../lib/control-chart-option';
 import type { CharacteristicChart, ChartPointRecord } from '../../../../../shared/schemas/charts';
 
 export interface ZoomWindow {
@@ -30,12 +30,24 @@ interface ControlChartProps {
 /** Points shown either side of a point brought into view. */
 const REVEAL_SPAN = 60;
 
-function zoomOf(instance: EChartsType, index: ChartIndex): ZoomWindow {
-  const zoom = (instance.getOption() as { dataZoom?: { startValue?: number; endValue?: number }[] }).dataZoom?.[0];
-  return {
-    first: Math.max(index.first, Math.ceil(zoom?.startValue ?? index.first)),
-    last: Math.min(index.last, Math.floor(zoom?.endValue ?? index.last)),
-  };
+interface ZoomEvent {
+  start?: number;
+  end?: number;
+  startValue?: number;
+  endValue?: number;
+  batch?: ZoomEvent[];
+}
+
+/**
+ * The window a zoom event leaves in view, from the event itself: reading it back with getOption()
+ * would copy every series of the chart on each step of the wheel.
+ */
+function zoomFromEvent(event: ZoomEvent, index: ChartIndex): ZoomWindow {
+  const e = event.batch?.[0] ?? event;
+  const span = index.last - index.first + 1;
+  const from = e.startValue ?? (e.start !== undefined ? index.first - 0.5 + (span * e.start) / 100 : index.first);
+  const to = e.endValue ?? (e.end !== undefined ? index.first - 0.5 + (span * e.end) / 100 : index.last);
+  return { first: Math.max(index.first, Math.ceil(from)), last: Math.min(index.last, Math.floor(to)) };
 }
 
 /**
@@ -49,10 +61,12 @@ export function ControlChart({ chart, timeZone, selected, onSelect, onOpen, onZo
   const instance = useRef<EChartsType | null>(null);
   const [ready, setReady] = useState(0);
   const positionOf = useMemo(() => new Map(chart.points.map((p, i) => [p.index, i])), [chart]);
+  const marks = useMemo(() => markerSets(chart, index), [chart, index]);
 
   // echarts keeps the listeners bound at start-up; they read the current props through this.
-  const latest = useRef({ chart, index, onSelect, onOpen, onZoom });
-  latest.current = { chart, index, onSelect, onOpen, onZoom };
+  const latest = useRef<{ chart: CharacteristicChart; index: ChartIndex; marks: MarkerSets; onSelect: typeof onSelect; onOpen: typeof onOpen; onZoom: typeof onZoom }>({ chart, index, marks, onSelect, onOpen, onZoom });
+  latest.current = { chart, index, marks, onSelect, onOpen, onZoom };
+  const rethin = useRef(0);
   const zoomed = useRef<ZoomWindow | null>(null);
 
   const showTipAt = useCallback((p: ChartPointRecord) => {
@@ -67,7 +81,8 @@ export function ControlChart({ chart, timeZone, selected, onSelect, onOpen, onZo
     (p: ChartPointRecord, centre: boolean) => {
       const chartInstance = instance.current;
       if (!chartInstance) return;
-      const view = zoomOf(chartInstance, index);
+      const known = zoomed.current;
+      const view = known && known.first >= index.first && known.last <= index.last ? known : { first: index.first, last: index.last };
       if (!centre && p.index >= view.first && p.index <= view.last) return;
       const span = centre ? Math.min(REVEAL_SPAN, Math.max(10, view.last - view.first)) : view.last - view.first;
       const start = Math.max(index.first, Math.min(index.last - span, p.index - Math.round(span / 2)));
@@ -75,6 +90,8 @@ export function ControlChart({ chart, timeZone, selected, onSelect, onOpen, onZo
     },
     [index],
   );
+
+  useEffect(() => () => window.clearTimeout(rethin.current), []);
 
   // The selection ring is its own series, so moving it never redraws the thousands of points.
   useEffect(() => {
@@ -112,10 +129,15 @@ export function ControlChart({ chart, timeZone, selected, onSelect, onOpen, onZo
       latest.current.onSelect(p.index);
       latest.current.onOpen(p.index);
     });
-    chartInstance.on('datazoom', () => {
-      const view = zoomOf(chartInstance, latest.current.index);
+    chartInstance.on('datazoom', (event: unknown) => {
+      const view = zoomFromEvent(event as ZoomEvent, latest.current.index);
       zoomed.current = view;
       latest.current.onZoom?.(view);
+      // Once the wheel rests, the markers are thinned again for the part in view (all of them when zoomed in).
+      window.clearTimeout(rethin.current);
+      rethin.current = window.setTimeout(() => {
+        chartInstance.setOption({ series: thinMarkers(latest.current.marks, view.first, view.last) });
+      }, 120);
     });
     setReady((n) => n + 1);
   }, []);

@@ -29,6 +29,9 @@ export type ControlChartOption = ComposeOption<
 /** Above this many points the line is drawn without symbols and thinned by LTTB for the pixels shown. */
 export const DENSE_POINTS = 1500;
 
+/** Markers of one kind above which they are drawn as one shape, without rims. */
+const LARGE_MARKERS = 400;
+
 /** Series ids the page updates on their own (selection) without rebuilding the option. */
 export const SELECTED_SERIES_ID = 'selected-point';
 
@@ -76,7 +79,7 @@ const lineStyle = (kind: LineKind) => ({
   type: lineStyles[kind].dash.length ? lineStyles[kind].dash : ('solid' as const),
 });
 
-const markerSeries = (kind: MarkerKind, name: string, xAxisIndex: number, data: [number, number][], id?: string): ScatterSeriesOption => ({
+const markerSeries = (kind: MarkerKind, name: string, xAxisIndex: number, data: [number, number][], id: string): ScatterSeriesOption => ({
   id,
   name,
   type: 'scatter',
@@ -86,11 +89,14 @@ const markerSeries = (kind: MarkerKind, name: string, xAxisIndex: number, data: 
   symbolSize: markers[kind].size,
   itemStyle: kind === 'excluded' || kind === 'selected'
     ? { color: markers[kind].color, borderColor: markers[kind].color, borderWidth: kind === 'selected' ? 3 : 2 }
-    : { color: markers[kind].color, borderColor: '#ffffff', borderWidth: 1 },
+    : // A white rim sets neighbouring markers apart; past a few hundred, stroking it costs more than it shows.
+      { color: markers[kind].color, borderColor: '#ffffff', borderWidth: data.length > LARGE_MARKERS ? 0 : 1 },
   z: kind === 'selected' ? 6 : 5,
   silent: true,
   animation: false,
-  large: data.length > 2000,
+  // Many markers drawn as one shape: a chart of thousands of signals stays quick to zoom.
+  large: true,
+  largeThreshold: LARGE_MARKERS,
   data,
 });
 
@@ -197,6 +203,97 @@ export function pointTooltipHtml(chart: CharacteristicChart, point: ChartPointRe
   return `<div class="pl-tip">${rows.join('')}</div>`;
 }
 
+type Mark = [number, number];
+
+/** Every marked point of the chart, by marker series id, with the value range of its grid. */
+export interface MarkerSets {
+  series: { id: MarkerSeriesId; grid: 0 | 1; data: Mark[] }[];
+  ranges: [{ min: number; max: number }, { min: number; max: number }];
+}
+
+export type MarkerSeriesId = 'signals' | 'signals-dispersion' | 'out-of-spec' | 'excluded' | 'excluded-dispersion';
+
+export function valueRanges(chart: CharacteristicChart) {
+  const { points, limits, spec } = chart;
+  const topRange = valueRange([
+    ...extent(points, (p) => p.location),
+    ...extent(points, (p) => p.ucl),
+    ...extent(points, (p) => p.lcl),
+    limits?.location.ucl,
+    limits?.location.lcl,
+    spec?.lsl,
+    spec?.usl,
+    spec?.target,
+  ]);
+  // Ranges and standard deviations start at zero.
+  const bottomRange = { ...valueRange([0, ...extent(points, (p) => p.dispersion), ...extent(points, (p) => p.dispersionUcl), limits?.dispersion.ucl]), min: 0 };
+  return { topRange, bottomRange };
+}
+
+/** The points to mark, from the full lists (rules, specification, exclusions), never from the thinned line. */
+export function markerSets(chart: CharacteristicChart, index: ChartIndex): MarkerSets {
+  const signals: Mark[] = [];
+  const signalsDispersion: Mark[] = [];
+  for (const [at, list] of index.violationsAt) {
+    const p = index.byIndex.get(at);
+    if (!p) continue;
+    if (list.some((v) => v.chart === 'location')) signals.push([at, p.location]);
+    if (list.some((v) => v.chart === 'dispersion') && p.dispersion !== null) signalsDispersion.push([at, p.dispersion]);
+  }
+  signals.sort((a, b) => a[0] - b[0]);
+  signalsDispersion.sort((a, b) => a[0] - b[0]);
+  const outOfSpec: Mark[] = [];
+  const excluded: Mark[] = [];
+  const excludedDispersion: Mark[] = [];
+  for (const p of chart.points) {
+    if (p.outOfSpec) outOfSpec.push([p.index, p.location]);
+    if (p.excluded) {
+      excluded.push([p.index, p.location]);
+      if (p.dispersion !== null) excludedDispersion.push([p.index, p.dispersion]);
+    }
+  }
+  const { topRange, bottomRange } = valueRanges(chart);
+  return {
+    series: [
+      { id: 'signals', grid: 0, data: signals },
+      { id: 'signals-dispersion', grid: 1, data: signalsDispersion },
+      { id: 'out-of-spec', grid: 0, data: outOfSpec },
+      { id: 'excluded', grid: 0, data: excluded },
+      { id: 'excluded-dispersion', grid: 1, data: excludedDispersion },
+    ],
+    ranges: [topRange, bottomRange],
+  };
+}
+
+/** Cells of the plot a marker stands for when markers are many: about 2 px wide and 1.5 px high on a chart of normal size. */
+export const MARKER_CELLS = { across: 600, up: 200 } as const;
+
+/**
+ * Markers for the part of the axis in view, at most one per cell of the plot. A marker is 12 px, so a
+ * marker left out lies within one cell of one that is drawn: every marked point stays marked where it
+ * is, while the canvas draws hundreds of shapes instead of thousands. Zoomed in far enough, every
+ * marker is its own cell and all are drawn.
+ */
+export function thinMarkers(sets: MarkerSets, first: number, last: number): { id: MarkerSeriesId; data: Mark[] }[] {
+  const across = Math.max(1, (last - first + 1) / MARKER_CELLS.across);
+  return sets.series.map(({ id, grid, data }) => {
+    if (data.length <= LARGE_MARKERS) return { id, data };
+    const { min, max } = sets.ranges[grid];
+    const up = (max - min) / MARKER_CELLS.up || 1;
+    const taken = new Set<number>();
+    const kept: Mark[] = [];
+    for (const m of data) {
+      const column = Math.floor((m[0] - first) / across);
+      const row = Math.min(MARKER_CELLS.up + 1, Math.max(-1, Math.floor((m[1] - min) / up)));
+      const cell = column * (MARKER_CELLS.up + 3) + row + 1;
+      if (taken.has(cell)) continue;
+      taken.add(cell);
+      kept.push(m);
+    }
+    return { id, data: kept };
+  });
+}
+
 export function buildControlChartOption(chart: CharacteristicChart, timeZone: string, index: ChartIndex = indexChart(chart)): ControlChartOption {
   const { points, limits, spec } = chart;
   const { decimals, chartType } = chart.characteristic;
@@ -211,8 +308,6 @@ export function buildControlChartOption(chart: CharacteristicChart, timeZone: st
   const dispersion: [number, number | null][] = new Array(points.length);
   const dUcl: [number, number | null][] = new Array(points.length);
   const dLcl: [number, number | null][] = new Array(points.length);
-  const outOfSpec: [number, number][] = [];
-  const excluded: [number, number][] = [];
   for (let i = 0; i < points.length; i++) {
     const p = points[i];
     location[i] = [p.index, p.location];
@@ -221,33 +316,18 @@ export function buildControlChartOption(chart: CharacteristicChart, timeZone: st
     dispersion[i] = [p.index, p.dispersion];
     dUcl[i] = [p.index, p.dispersionUcl];
     dLcl[i] = [p.index, p.dispersionLcl];
-    if (p.outOfSpec) outOfSpec.push([p.index, p.location]);
-    if (p.excluded) excluded.push([p.index, p.location]);
   }
-  // Rule markers come from the full list, not from the thinned line, so none is ever hidden.
-  const locationSignals: [number, number][] = [];
-  const dispersionSignals: [number, number][] = [];
-  for (const [at, list] of index.violationsAt) {
-    const p = index.byIndex.get(at);
-    if (!p) continue;
-    if (list.some((v) => v.chart === 'location')) locationSignals.push([at, p.location]);
-    if (list.some((v) => v.chart === 'dispersion') && p.dispersion !== null) dispersionSignals.push([at, p.dispersion]);
-  }
-
   const center = limits?.location.center ?? null;
   const zones = limits?.zones ?? null;
-  const topRange = valueRange([
-    ...extent(points, (p) => p.location),
-    ...extent(points, (p) => p.ucl),
-    ...extent(points, (p) => p.lcl),
-    limits?.location.ucl,
-    limits?.location.lcl,
-    spec?.lsl,
-    spec?.usl,
-    spec?.target,
-  ]);
-  // Ranges and standard deviations start at zero.
-  const bottomRange = { ...valueRange([0, ...extent(points, (p) => p.dispersion), ...extent(points, (p) => p.dispersionUcl), limits?.dispersion.ucl]), min: 0 };
+  // With one subgroup size throughout, every point has the headline limits: two marked lines then
+  // stand for them instead of four series as long as the data.
+  const same = (a: number | null, b: number | null | undefined) => a === b || (a !== null && b != null && Math.abs(a - b) <= 1e-9 * Math.max(1, Math.abs(b)));
+  const constantLimits = points.every(
+    (p) => same(p.ucl, limits?.location.ucl) && same(p.lcl, limits?.location.lcl) && same(p.dispersionUcl, limits?.dispersion.ucl) && same(p.dispersionLcl, limits?.dispersion.lcl),
+  );
+  const { topRange, bottomRange } = valueRanges(chart);
+  const sets = markerSets(chart, index);
+  const marked = new Map(thinMarkers(sets, index.first, index.last).map((m) => [m.id, m.data]));
 
   const zoneAreas: MarkAreaComponentOption = {
     silent: true,
@@ -266,6 +346,12 @@ export function buildControlChartOption(chart: CharacteristicChart, timeZone: st
   const topMarks = horizontalMarks(
     [
       { kind: 'centre', value: center, label: 'CL' },
+      ...(constantLimits
+        ? ([
+            { kind: 'control', value: limits?.location.ucl, label: 'UCL' },
+            { kind: 'control', value: limits?.location.lcl, label: 'LCL' },
+          ] satisfies HorizontalLine[])
+        : []),
       { kind: 'zone', value: zones?.plus1, label: '+1σ', inside: 'start', bare: true },
       { kind: 'zone', value: zones?.plus2, label: '+2σ', inside: 'start', bare: true },
       { kind: 'zone', value: zones?.minus1, label: '−1σ', inside: 'start', bare: true },
@@ -400,8 +486,7 @@ export function buildControlChartOption(chart: CharacteristicChart, timeZone: st
         markLine: topMarks,
         markArea: zoneAreas,
       },
-      limitLine('UCL', ucl, 0, 'UCL', locDecimals),
-      limitLine('LCL', lcl, 0, 'LCL', locDecimals),
+      ...(constantLimits ? [] : [limitLine('UCL', ucl, 0, 'UCL', locDecimals), limitLine('LCL', lcl, 0, 'LCL', locDecimals)]),
       {
         id: 'dispersion',
         name: names.dispersion,
@@ -418,14 +503,25 @@ export function buildControlChartOption(chart: CharacteristicChart, timeZone: st
         itemStyle: { color: markers.point.color },
         emphasis: { disabled: true },
         z: 3,
-        markLine: horizontalMarks([{ kind: 'centre', value: limits?.dispersion.center, label: `${names.dispersion}̄` }], dispDecimals),
+        markLine: horizontalMarks(
+          [
+            { kind: 'centre', value: limits?.dispersion.center, label: `${names.dispersion}̄` },
+            ...(constantLimits
+              ? ([
+                  { kind: 'control', value: limits?.dispersion.ucl, label: 'UCL' },
+                  { kind: 'control', value: limits?.dispersion.lcl, label: 'LCL' },
+                ] satisfies HorizontalLine[])
+              : []),
+          ],
+          dispDecimals,
+        ),
       },
-      limitLine(`${names.dispersion} UCL`, dUcl, 1, 'UCL', dispDecimals),
-      limitLine(`${names.dispersion} LCL`, dLcl, 1, 'LCL', dispDecimals),
-      markerSeries('outOfSpec', 'Outside specification', 0, outOfSpec),
-      markerSeries('excluded', 'Excluded', 0, excluded),
-      markerSeries('signal', 'Rule signal', 0, locationSignals),
-      markerSeries('signal', `${names.dispersion} rule signal`, 1, dispersionSignals),
+      ...(constantLimits ? [] : [limitLine(`${names.dispersion} UCL`, dUcl, 1, 'UCL', dispDecimals), limitLine(`${names.dispersion} LCL`, dLcl, 1, 'LCL', dispDecimals)]),
+      markerSeries('outOfSpec', 'Outside specification', 0, marked.get('out-of-spec')!, 'out-of-spec'),
+      markerSeries('excluded', 'Excluded', 0, marked.get('excluded')!, 'excluded'),
+      markerSeries('excluded', `${names.dispersion} of an excluded point`, 1, marked.get('excluded-dispersion')!, 'excluded-dispersion'),
+      markerSeries('signal', 'Rule signal', 0, marked.get('signals')!, 'signals'),
+      markerSeries('signal', `${names.dispersion} rule signal`, 1, marked.get('signals-dispersion')!, 'signals-dispersion'),
       markerSeries('selected', 'Selected point', 0, [], SELECTED_SERIES_ID),
       // Process events on a series of their own, above the points, so no point hides an event's name.
       {

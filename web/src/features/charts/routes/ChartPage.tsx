@@ -51,7 +51,7 @@ type Open =
 
 function Section({ title, actions, children, id }: { title: string; actions?: ReactNode; children: ReactNode; id?: string }) {
   return (
-    <section aria-labelledby={id} className="rounded-lg border border-zinc-200 bg-white shadow-xs">
+    <section aria-labelledby={id} className="scroll-mt-20 rounded-lg border border-zinc-200 bg-white shadow-xs">
       <header className="flex flex-wrap items-center justify-between gap-3 border-b border-zinc-200 px-5 py-3">
         <h2 id={id} className="text-lg font-semibold text-zinc-900">
           {title}
@@ -77,7 +77,11 @@ export default function ChartPage() {
   const pointParam = search.get('point');
   const [selected, setSelected] = useState<number | null>(pointParam !== null && /^\d+$/.test(pointParam) ? Number(pointParam) : null);
   const [reveal, setReveal] = useState(0);
-  const [view, setView] = useState<ZoomWindow | null>(null);
+  // Read only when the freeze dialog opens: a state would re-render the page on every zoom step.
+  const view = useRef<ZoomWindow | null>(null);
+  const onZoom = useCallback((window: ZoomWindow) => {
+    view.current = window;
+  }, []);
   const [open, setOpen] = useState<Open>(null);
   const [notice, setNotice] = useState<string | null>(null);
 
@@ -197,7 +201,7 @@ export default function ChartPage() {
                   selected={selected}
                   onSelect={setSelected}
                   onOpen={openLot}
-                  onZoom={setView}
+                  onZoom={onZoom}
                   revealRequest={reveal}
                 />
                 <ChartLegend hasSpec={data.spec?.lsl != null || data.spec?.usl != null} hasTarget={data.spec?.target != null} />
@@ -258,7 +262,7 @@ export default function ChartPage() {
       {open?.kind === 'lot' && openPoint && <LotDetailsDialog lotNumber={openPoint.lotNumber} currentCode={c.code} timeZone={timeZone} onClose={() => setOpen(null)} />}
       {open?.kind === 'exclude' && openPoint && <ExcludePointDialog chart={data} point={openPoint} timeZone={timeZone} onClose={() => setOpen(null)} onDone={done} />}
       {open?.kind === 'include' && openPoint && <IncludePointDialog chart={data} point={openPoint} timeZone={timeZone} onClose={() => setOpen(null)} onDone={done} />}
-      {open?.kind === 'freeze' && <FreezeLimitsDialog chart={data} timeZone={timeZone} view={view} onClose={() => setOpen(null)} onDone={done} />}
+      {open?.kind === 'freeze' && <FreezeLimitsDialog chart={data} timeZone={timeZone} view={view.current} onClose={() => setOpen(null)} onDone={done} />}
     </>
   );
 }
