@@ -1,0 +1,31 @@
+import { describe, expect, it } from 'vitest';
+import Papa from 'papaparse';
+import type { CharacteristicChart } from '../../../../../shared/schemas/charts';
+import { pointsCsv } from './points-csv';
+
+const chart = {
+  characteristic: { id: 1, code: 'T-RC28', name: 'Test · compressive strength', unit: 'MPa', chartType: 'xbar-r', ruleSet: 'we', subgroupSize: 3, productCode: 'T', productName: 'Test', lineCode: 'L1', decimals: 1 },
+  points: [
+    { index: 0, lotId: 1, lotNumber: 'L1-1', producedAt: '2026-01-01T06:00:00.000Z', shift: 'early', n: 3, values: [30.1, 30.5, 29.8], location: 30.133, dispersion: 0.7, ucl: 31, lcl: 29, dispersionUcl: 1.8, dispersionLcl: 0, excluded: false, exclusionReason: null, outOfSpec: false, rules: ['we1', 'we2'] },
+    { index: 1, lotId: 2, lotNumber: 'L1-2', producedAt: '2026-01-01T14:00:00.000Z', shift: null, n: 2, values: [24, 25.5], location: 24.75, dispersion: 1.5, ucl: 31.2, lcl: 28.8, dispersionUcl: 1.9, dispersionLcl: 0, excluded: true, exclusionReason: 'Press read high, "recalibrated", then retested', outOfSpec: true, rules: [] },
+  ],
+} as unknown as CharacteristicChart;
+
+describe('points CSV', () => {
+  // Read back with papaparse, a general-purpose RFC 4180 parser, not with our own code.
+  const parsed = Papa.parse<Record<string, string>>(pointsCsv(chart), { header: true, skipEmptyLines: true });
+
+  it('is RFC 4180 that a CSV reader takes back unchanged, one row per point', () => {
+    expect(parsed.errors).toEqual([]);
+    expect(parsed.data).toHaveLength(2);
+    expect(pointsCsv(chart).split('\r\n')[0]).toBe(
+      'point,lot,produced_at,shift,n,value_1,value_2,value_3,mean,range,lcl,ucl,range_ucl,out_of_spec,excluded,exclusion_reason,rules',
+    );
+  });
+
+  it('keeps every replicate, the flags and a reason with commas and quotes', () => {
+    const [first, second] = parsed.data;
+    expect(first).toMatchObject({ point: '1', lot: 'L1-1', value_1: '30.1', value_2: '30.5', value_3: '29.8', mean: '30.133', rules: 'we1 we2', excluded: 'false' });
+    expect(second).toMatchObject({ point: '2', shift: '', value_3: '', out_of_spec: 'true', excluded: 'true', exclusion_reason: 'Press read high, "recalibrated", then retested' });
+  });
+});
