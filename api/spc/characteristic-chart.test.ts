@@ -5,10 +5,13 @@ import { createDatabase } from '../db/client';
 import { auditEvents, lots, measurements, plants, processEvents, productionLines } from '../db/schema';
 import { databaseUrl } from '../../tests/support/api';
 import { computeCharacteristicChart, excludePoint, freezeLimits, includePoint, limitRevisions } from './characteristic-chart';
-import { createTestCharacteristic, userIdByEmail } from './testing/plant';
+import { createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from './testing/plant';
 
 const db = createDatabase(databaseUrl(), 4);
-afterAll(() => db.$client.end());
+afterAll(async () => {
+  await removeTestCharacteristics(db);
+  await db.$client.end();
+});
 
 const day = (d: number, hour = 6) => new Date(Date.UTC(2025, 0, 1 + d, hour)).toISOString();
 /** Deterministic pairs around 145 mm with ranges that vary from lot to lot. */

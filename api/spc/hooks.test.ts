@@ -7,10 +7,13 @@ import { alarms, spcRuns } from '../db/schema';
 import { DEMO_PASSWORD } from '../db/seed';
 import { databaseUrl, demoEmail, TEST_JWT_SECRET } from '../../tests/support/api';
 import { createSpcIngestHooks } from './hooks';
-import { createTestCharacteristic } from './testing/plant';
+import { createTestCharacteristic, removeTestCharacteristics } from './testing/plant';
 
 const db = createDatabase(databaseUrl(), 2);
-afterAll(() => db.$client.end());
+afterAll(async () => {
+  await removeTestCharacteristics(db);
+  await db.$client.end();
+});
 
 describe('ingest hooks', () => {
   it('never fail an upload: with the queue unreachable the upload is stored (201) and its out-of-spec alarm raised all the same', async () => {

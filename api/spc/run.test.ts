@@ -5,12 +5,15 @@ import { alarmSubscriptions, alarms, lots, mailOutbox, measurements, spcRunItems
 import { databaseUrl } from '../../tests/support/api';
 import { computeCharacteristicChart } from './characteristic-chart';
 import { runCharacteristic } from './run';
-import { createRunRow, createTestCharacteristic, userIdByEmail } from './testing/plant';
+import { createRunRow, createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from './testing/plant';
 import { raiseOutOfSpecAlarms } from './hooks';
 import { queueDigests } from '../mail/notify';
 
 const db = createDatabase(databaseUrl(), 4);
-afterAll(() => db.$client.end());
+afterAll(async () => {
+  await removeTestCharacteristics(db);
+  await db.$client.end();
+});
 
 const publicUrl = 'http://prismline.test';
 const day = (d: number, hour = 6) => new Date(Date.UTC(2025, 2, 1 + d, hour)).toISOString();

@@ -7,7 +7,7 @@ import { baseUrl, launchBrowser, screenshot, type TestBrowser } from '../support
 import { databaseUrl, demoEmail } from '../support/api';
 import { DEMO_PASSWORD } from '../../api/db/seed';
 import { createDatabase } from '../../api/db/client';
-import { createTestCharacteristic, userIdByEmail, type TestCharacteristic } from '../../api/spc/testing/plant';
+import { createTestCharacteristic, removeTestCharacteristics, userIdByEmail, type TestCharacteristic } from '../../api/spc/testing/plant';
 import type { Role } from '../../shared/schemas/users';
 
 const db = createDatabase(databaseUrl(), 2);
@@ -32,6 +32,7 @@ beforeAll(async () => {
 
 afterAll(async () => {
   await browser?.close();
+  await removeTestCharacteristics(db);
   await db.$client.end();
 });
 

@@ -190,8 +190,8 @@ describe('web app shell', () => {
       expect(await mainMenu().count()).toBe(0);
 
       await page.getByRole('button', { name: 'Menu' }).click();
-      await mainMenu().getByRole('link', { name: 'Alarms' }).click();
-      await heading('Alarms').waitFor();
+      await mainMenu().getByRole('link', { name: 'Nonconformance reports' }).click();
+      await heading('Nonconformance reports').waitFor();
       expect(await page.getByText('Not available yet').isVisible()).toBe(true);
       // Choosing a page closes the menu again.
       expect(await mainMenu().count()).toBe(0);

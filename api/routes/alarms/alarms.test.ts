@@ -3,10 +3,13 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { and, eq, sql } from 'drizzle-orm';
 import { alarms, alarmSubscriptions, auditEvents, mailOutbox, spcRuns } from '../../db/schema';
 import { createSpcTestApi, eventually, TEST_PUBLIC_URL } from '../../spc/testing/api';
-import { createTestCharacteristic, userIdByEmail } from '../../spc/testing/plant';
+import { createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from '../../spc/testing/plant';
 
 const api = createSpcTestApi();
-afterAll(() => api.close());
+afterAll(async () => {
+  await removeTestCharacteristics(api.db);
+  await api.close();
+});
 const day = (d: number) => new Date(Date.UTC(2025, 6, 1 + d, 6)).toISOString();
 const pair = (i: number): number[] => [145 + ((i * 7) % 5) - 2, 145 + ((i * 3) % 7) - 3];
 const header = 'lot,product,line,produced_at,characteristic,value,replicate';

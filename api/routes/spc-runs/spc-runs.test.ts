@@ -3,10 +3,13 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { and, eq, sql } from 'drizzle-orm';
 import { auditEvents, lots, spcRunItems, spcSnapshots } from '../../db/schema';
 import { createSpcTestApi } from '../../spc/testing/api';
-import { createTestCharacteristic } from '../../spc/testing/plant';
+import { createTestCharacteristic, removeTestCharacteristics } from '../../spc/testing/plant';
 
 const api = createSpcTestApi();
-afterAll(() => api.close());
+afterAll(async () => {
+  await removeTestCharacteristics(api.db);
+  await api.close();
+});
 const day = (d: number) => new Date(Date.UTC(2025, 4, 1 + d, 6)).toISOString();
 
 describe('POST /api/v1/spc-runs', () => {

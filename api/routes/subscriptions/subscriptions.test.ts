@@ -3,10 +3,13 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { productionLines } from '../../db/schema';
 import { createSpcTestApi } from '../../spc/testing/api';
-import { createTestCharacteristic } from '../../spc/testing/plant';
+import { createTestCharacteristic, removeTestCharacteristics } from '../../spc/testing/plant';
 
 const api = createSpcTestApi();
-afterAll(() => api.close());
+afterAll(async () => {
+  await removeTestCharacteristics(api.db);
+  await api.close();
+});
 
 describe('/api/v1/subscriptions', () => {
   it('lets each user add, change and remove their own subscriptions, and nobody else’s', async () => {

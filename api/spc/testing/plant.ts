@@ -17,6 +17,8 @@ export interface TestCharacteristic {
 }
 
 let counter = 0;
+/** What this test process created, so that it can leave the shared test database as it found it. */
+const created = { products: [] as number[], characteristics: [] as number[] };
 
 export async function createTestCharacteristic(
   db: Database,
@@ -42,6 +44,8 @@ export async function createTestCharacteristic(
     .insert(characteristics)
     .values({ code, productId: product.id, testMethodId: method.id, name: 'Flow diameter', unit: 'mm', subgroupSize: opts.subgroupSize, chartType: opts.chartType, ruleSet: opts.ruleSet ?? 'we' })
     .returning({ id: characteristics.id });
+  created.products.push(product.id);
+  created.characteristics.push(ch.id);
   if (opts.specs?.length) {
     await db.insert(specLimits).values(
       opts.specs.map((s, i) => ({ characteristicId: ch.id, revision: i + 1, lsl: s.lsl, usl: s.usl, target: s.target ?? null, effectiveFrom: new Date(s.effectiveFrom) })),
@@ -77,4 +81,31 @@ export async function createRunRow(db: Database, characteristicIds: number[]): P
   const runId = res.rows[0].id;
   await db.execute(sql`insert into spc_run_items (run_id, characteristic_id) select ${runId}, unnest(${sql.param(characteristicIds)}::int[])`);
   return runId;
+}
+
+/**
+ * Deletes the test products of this process with everything that hangs on them, so that later test
+ * files see the demo plant alone (their catalogue and overview checks count it). Audit rows,
+ * uploads and sent mail stay, as they would in the plant.
+ */
+export async function removeTestCharacteristics(db: Database): Promise<void> {
+  if (!created.products.length) return;
+  const ch = sql.param([...created.characteristics]);
+  const pr = sql.param([...created.products]);
+  await db.transaction(async (tx) => {
+    await tx.execute(sql`delete from alarms where characteristic_id = any(${ch}::int[])`);
+    await tx.execute(sql`delete from spc_snapshots where characteristic_id = any(${ch}::int[])`);
+    await tx.execute(sql`delete from spc_run_items where characteristic_id = any(${ch}::int[])`);
+    await tx.execute(sql`delete from point_exclusions where characteristic_id = any(${ch}::int[])`);
+    await tx.execute(sql`delete from control_limit_revisions where characteristic_id = any(${ch}::int[])`);
+    await tx.execute(sql`delete from alarm_subscriptions where product_id = any(${pr}::int[])`);
+    await tx.execute(sql`delete from measurements where characteristic_id = any(${ch}::int[]) or lot_id in (select id from lots where product_id = any(${pr}::int[]))`);
+    await tx.execute(sql`delete from lots where product_id = any(${pr}::int[])`);
+    await tx.execute(sql`delete from spec_limits where characteristic_id = any(${ch}::int[])`);
+    await tx.execute(sql`delete from process_events where product_id = any(${pr}::int[])`);
+    await tx.execute(sql`delete from characteristics where id = any(${ch}::int[])`);
+    await tx.execute(sql`delete from products where id = any(${pr}::int[])`);
+  });
+  created.products.length = 0;
+  created.characteristics.length = 0;
 }
