@@ -113,7 +113,7 @@ describe('overview and control charts', () => {
     await signals.getByRole('button', { name: `Show point ${newest.index + 1} on the chart` }).click();
 
     // The tooltip names the lot, the time and shift, every replicate and the rule in words.
-    const tip = page.getByTestId('control-chart').locator('.pl-tip');
+    const tip = page.getByTestId('control-chart').getByTestId('point-tooltip');
     await tip.waitFor();
     const tipText = (await tip.textContent()) ?? '';
     expect(tipText).toContain(`Lot ${newestPoint.lotNumber}`);
@@ -155,7 +155,7 @@ describe('overview and control charts', () => {
     await chartDrawn();
     const selectedPanel = page.getByTestId('selected-point');
     await selectedPanel.getByText(`Point ${widest.index + 1} · lot ${widest.lotNumber}`).waitFor();
-    await page.getByTestId('control-chart').locator('.pl-tip').getByText(`Lot ${widest.lotNumber}`).waitFor();
+    await page.getByTestId('control-chart').getByTestId('point-tooltip').getByText(`Lot ${widest.lotNumber}`).waitFor();
     const uclShown = page.getByTestId('limit-ucl');
     expect(await uclShown.textContent()).toBe(before.limits.location.ucl!.toFixed(2));
 

@@ -122,7 +122,7 @@ describe('control chart option', () => {
     const html = pointTooltipHtml(chart, p, indexChart(chart).violationsAt.get(11)!, 'Europe/London');
     expect(html).toContain('Lot L1-&lt;b&gt;&amp;');
     expect(html).toContain('Early shift');
-    expect(html).toContain(`Replicates (2): <span class="pl-tip-figures">${p.values.map((v) => v.toFixed(0)).join(' · ')}</span> mm`);
+    expect(html).toContain(`Replicates (2): <span class="font-mono">${p.values.map((v) => v.toFixed(0)).join(' · ')}</span> mm`);
     expect(html).toContain(ruleDescriptions.we4);
     expect(html).toContain('Ring &quot;lifted&quot;');
     expect(html).toContain('03 Jan 2026, 18:00');

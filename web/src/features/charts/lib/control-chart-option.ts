@@ -187,20 +187,20 @@ export function pointTooltipHtml(chart: CharacteristicChart, point: ChartPointRe
   const names = statisticNames[chartType];
   const esc = escapeHtml;
   const rows: string[] = [
-    `<div class="pl-tip-title">Lot ${esc(point.lotNumber)}</div>`,
+    `<div class="font-semibold">Lot ${esc(point.lotNumber)}</div>`,
     `<div>Point ${point.index + 1} · produced ${esc(formatDateTime(point.producedAt, timeZone))} · ${esc(shiftName(point.shift))}</div>`,
-    `<div>${point.n === 1 ? 'Result' : `Replicates (${point.n})`}: <span class="pl-tip-figures">${point.values.map((v) => v.toFixed(decimals)).join(' · ')}</span> ${esc(unit)}</div>`,
-    `<div>${names.location} <span class="pl-tip-figures">${figure(point.location, decimals + (point.n > 1 ? 1 : 0))}</span> ${esc(unit)}` +
-      (point.dispersion !== null ? ` · ${names.dispersion} <span class="pl-tip-figures">${figure(point.dispersion, decimals + 1)}</span> ${esc(unit)}` : '') +
+    `<div>${point.n === 1 ? 'Result' : `Replicates (${point.n})`}: <span class="font-mono">${point.values.map((v) => v.toFixed(decimals)).join(' · ')}</span> ${esc(unit)}</div>`,
+    `<div>${names.location} <span class="font-mono">${figure(point.location, decimals + (point.n > 1 ? 1 : 0))}</span> ${esc(unit)}` +
+      (point.dispersion !== null ? ` · ${names.dispersion} <span class="font-mono">${figure(point.dispersion, decimals + 1)}</span> ${esc(unit)}` : '') +
       '</div>',
   ];
-  if (point.outOfSpec) rows.push('<div class="pl-tip-flag">◆ Outside the specification</div>');
-  if (point.excluded) rows.push(`<div class="pl-tip-flag">▢ Excluded from the limits: ${esc(point.exclusionReason ?? 'no reason recorded')}</div>`);
+  if (point.outOfSpec) rows.push('<div class="font-medium">◆ Outside the specification</div>');
+  if (point.excluded) rows.push(`<div class="font-medium">▢ Excluded from the limits: ${esc(point.exclusionReason ?? 'no reason recorded')}</div>`);
   for (const v of violations) {
     const where = v.chart === 'location' ? `${names.location} chart` : `${names.dispersion} chart`;
-    rows.push(`<div class="pl-tip-rule">▲ ${esc(ruleLabels[v.rule] ?? v.rule)} (${where}): ${esc(v.description)}</div>`);
+    rows.push(`<div class="mt-1 text-red-900">▲ ${esc(ruleLabels[v.rule] ?? v.rule)} (${where}): ${esc(v.description)}</div>`);
   }
-  return `<div class="pl-tip">${rows.join('')}</div>`;
+  return `<div data-testid="point-tooltip" class="space-y-0.5">${rows.join('')}</div>`;
 }
 
 type Mark = [number, number];
