@@ -1,6 +1,6 @@
 // A private throw-away PostgreSQL cluster for tests that stop the database or start their own
 // workers (so that the test server's workers cannot take their jobs), and for the benchmark.
-import { mkdirSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync } from 'node:fs';
 import { createServer } from 'node:net';
 import { resolve } from 'node:path';
 import { dataRoot } from '../../config';
@@ -30,10 +30,28 @@ export interface PrivateCluster {
 }
 
 let counter = 0;
+const clusters = resolve(dataRoot, 'private-postgres');
+
+/** Stops and removes clusters left by test processes that were killed (the folder starts with their pid). */
+function removeStale(): void {
+  if (!existsSync(clusters)) return;
+  for (const dir of readdirSync(clusters)) {
+    const pid = Number(dir.split('-')[0]);
+    let alive = false;
+    try {
+      process.kill(pid, 0);
+      alive = true;
+    } catch {
+      // no such process
+    }
+    if (!alive) destroyCluster({ root: resolve(clusters, dir), port: 0 });
+  }
+}
 
 export async function startPrivateCluster(name: string): Promise<PrivateCluster> {
-  const root = resolve(dataRoot, 'private-postgres', `${process.pid}-${++counter}-${name}`);
-  mkdirSync(resolve(dataRoot, 'private-postgres'), { recursive: true });
+  removeStale();
+  const root = resolve(clusters, `${process.pid}-${++counter}-${name}`);
+  mkdirSync(clusters, { recursive: true });
   const cluster: Cluster = { root, port: await freePort() };
   destroyCluster(cluster);
   initCluster(cluster);
