@@ -248,7 +248,7 @@ export async function run(): Promise<BenchRow[]> {
       detail: `p95 ${chart.toFixed(1)} ms vs ${plain.toFixed(1)} ms static; ${(body.length / 1e6).toFixed(2)} MB; ${Math.round(chartRequests / (ROUNDS * SECONDS))} vs ${Math.round(staticRequests / (ROUNDS * SECONDS))} req/s; first, uncached request ${coldMs.toFixed(0)} ms`,
     });
 
-    const frames = await zoomFrames(base, [small, ten], 2);
+    const frames = await zoomFrames(base, [small, ten], 3);
     const large = frames.get(ten)!;
     const few = frames.get(small)!;
     const largeP95 = median(large.p95);

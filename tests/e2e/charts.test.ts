@@ -135,7 +135,7 @@ describe('overview and control charts', () => {
     const results = lotDialog.getByRole('list', { name: `Results of lot ${last.lotNumber}` });
     await results.getByText('(this chart)').waitFor();
     expect(await results.getByRole('listitem').count()).toBeGreaterThan(1);
-    await screenshot(page, 'charts-lot-details');
+    await partShot(lotDialog, 'charts-lot-details');
     await lotDialog.getByRole('button', { name: 'Close' }).click();
     await lotDialog.waitFor({ state: 'detached' });
   });

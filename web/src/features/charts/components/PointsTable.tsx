@@ -43,7 +43,7 @@ export function PointsTable({ chart, timeZone, canChangeLimits, onReveal, onOpen
         cell: (info) => (
           <button
             type="button"
-            className="font-mono text-sm font-medium text-accent-700 underline underline-offset-2 hover:text-accent-800"
+            className="font-mono text-sm font-medium whitespace-nowrap text-accent-700 underline underline-offset-2 hover:text-accent-800"
             onClick={() => onOpenLot(info.row.original.index)}
           >
             {info.getValue()}
