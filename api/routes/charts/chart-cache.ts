@@ -16,6 +16,8 @@ import { computeCharacteristicChart, type ChartWindow } from '../../spc/characte
 import type { CharacteristicChart } from '../../../shared/schemas/charts';
 
 const MAX_ENTRIES = 96;
+/** Points held over all entries: a 10,000-point chart weighs some 15 MB as object and JSON together. */
+const MAX_POINTS = 300_000;
 const MAX_AGE_MS = 5 * 60_000;
 
 export interface CachedChart {
@@ -29,6 +31,8 @@ interface Entry {
   version: string;
   at: number;
   value: Promise<CachedChart>;
+  /** Points of the chart once computed; 0 while it is being computed. */
+  points: number;
 }
 
 const windowKey = (id: number, w: ChartWindow) => `${id}|${w.from?.toISOString() ?? ''}|${w.to?.toISOString() ?? ''}`;
@@ -77,14 +81,31 @@ export class ChartCache {
     }
     // Concurrent requests for the same version share one computation.
     const value = this.compute(id, window, `${key}|${version}`);
-    const entry: Entry = { version, at: now, value };
+    const entry: Entry = { version, at: now, value, points: 0 };
     this.entries.delete(key);
     this.entries.set(key, entry);
-    value.catch(() => {
-      if (this.entries.get(key) === entry) this.entries.delete(key);
-    });
-    while (this.entries.size > MAX_ENTRIES) this.entries.delete(this.entries.keys().next().value as string);
+    value.then(
+      (cached) => {
+        entry.points = cached.chart.points.length;
+        this.trim();
+      },
+      () => {
+        if (this.entries.get(key) === entry) this.entries.delete(key);
+      },
+    );
+    this.trim();
     return value;
+  }
+
+  /** Drops the least recently used charts beyond the entry and point budgets. */
+  private trim(): void {
+    let points = 0;
+    for (const e of this.entries.values()) points += e.points;
+    for (const [key, e] of this.entries) {
+      if (this.entries.size <= MAX_ENTRIES && points <= MAX_POINTS) break;
+      this.entries.delete(key);
+      points -= e.points;
+    }
   }
 
   private async compute(id: number, window: ChartWindow, versionKey: string): Promise<CachedChart> {
