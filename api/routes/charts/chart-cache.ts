@@ -10,6 +10,7 @@
 // A version is read per request; a chart is also dropped after MAX_AGE_MS, because the
 // specification "in force now" can change with the clock alone.
 import { createHash } from 'node:crypto';
+import { gzipSync } from 'node:zlib';
 import { sql } from 'drizzle-orm';
 import type { Database } from '../../db/client';
 import { computeCharacteristicChart, type ChartWindow } from '../../spc/characteristic-chart';
@@ -24,6 +25,8 @@ export interface CachedChart {
   chart: CharacteristicChart;
   /** The chart as the JSON the endpoint sends, made on first use. */
   body(): Buffer;
+  /** The same JSON gzipped (a tenth of the size), made on first use. */
+  gzipped(): Buffer;
   etag: string;
 }
 
@@ -111,9 +114,12 @@ export class ChartCache {
   private async compute(id: number, window: ChartWindow, versionKey: string): Promise<CachedChart> {
     const chart: CharacteristicChart = await computeCharacteristicChart(this.db, id, window);
     let body: Buffer | null = null;
+    let gzipped: Buffer | null = null;
+    const json = () => (body ??= Buffer.from(JSON.stringify(chart)));
     return {
       chart,
-      body: () => (body ??= Buffer.from(JSON.stringify(chart))),
+      body: json,
+      gzipped: () => (gzipped ??= gzipSync(json(), { level: 6 })),
       etag: `"${createHash('sha1').update(versionKey).digest('base64url')}"`,
     };
   }

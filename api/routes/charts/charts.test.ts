@@ -97,6 +97,17 @@ describe('GET /api/v1/characteristics/:id/chart', () => {
     expect(new Set(side)).toEqual(new Set([-1]));
   });
 
+  it('sends the same chart gzipped to a client that accepts it', async () => {
+    const url = `/api/v1/characteristics/${idOf('HVL25-DENS')}/chart`;
+    const h = await as('auditor');
+    const plain = await request(api.app).get(url).set(h).set('Accept-Encoding', 'identity');
+    const zipped = await request(api.app).get(url).set(h).set('Accept-Encoding', 'gzip, deflate');
+    expect(plain.headers['content-encoding']).toBeUndefined();
+    expect(zipped.headers['content-encoding']).toBe('gzip');
+    expect(Number(zipped.headers['content-length'])).toBeLessThan(Number(plain.headers['content-length']) / 4);
+    expect(zipped.body).toEqual(plain.body);
+  });
+
   it('answers a browser that holds the same state of the chart with 304', async () => {
     const h = await as('technician');
     const url = `/api/v1/characteristics/${idOf('HVL25-FLOW')}/chart`;

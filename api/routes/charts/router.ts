@@ -47,9 +47,15 @@ export function chartsRouter(db: Database): Router {
     const window = parseBody(chartQuerySchema, req.query);
     const cached = await cache.get(id, window);
     // The version tag lets a browser that already holds this state of the chart revalidate for free.
-    res.set({ 'Content-Type': 'application/json; charset=utf-8', 'Cache-Control': 'private, no-cache', ETag: cached.etag });
+    res.set({ 'Content-Type': 'application/json; charset=utf-8', 'Cache-Control': 'private, no-cache', ETag: cached.etag, Vary: 'Accept-Encoding' });
     if (req.fresh) {
       res.status(304).end();
+      return;
+    }
+    // A long chart is megabytes of JSON: a browser gets it gzipped, compressed once per state of the data.
+    if (req.acceptsEncodings('gzip', 'identity') === 'gzip') {
+      res.set('Content-Encoding', 'gzip');
+      res.end(cached.gzipped());
       return;
     }
     res.end(cached.body());
