@@ -10,7 +10,6 @@ import { mailSettings } from '../api/mail/settings';
 import { createSpcIngestHooks } from '../api/spc/hooks';
 import { fixedQueue, startBoss, workerName, type SpcQueue } from '../api/spc/queue';
 import { startRun } from '../api/spc/runs';
-import { survivePostgresRestarts } from '../api/spc/db';
 import { startScheduler, type Scheduler } from './scheduler';
 import { startSpcWorkers, type SpcWorkers } from './spc-worker';
 import { workerSettings } from './worker';
@@ -28,7 +27,6 @@ const off = (v: string | undefined) => v === '0' || v === 'false';
 export async function startBackground(db: Database, opts: { databaseUrl: string; publicUrl: string; env?: NodeJS.ProcessEnv }): Promise<Background> {
   const env = opts.env ?? process.env;
   const settings = mailSettings(env);
-  survivePostgresRestarts(db.$client);
   const boss = await startBoss({ connectionString: opts.databaseUrl, supervise: true, env });
   const queue = fixedQueue(boss);
 

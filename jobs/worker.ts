@@ -17,7 +17,6 @@ import { logger } from '../api/logger';
 import { mailSettings } from '../api/mail/settings';
 import { createTransport, startMailSender, type MailSender } from '../api/mail/outbox';
 import { startBoss, workerName } from '../api/spc/queue';
-import { survivePostgresRestarts } from '../api/spc/db';
 import { startSpcWorkers } from './spc-worker';
 
 export function workerSettings(env: NodeJS.ProcessEnv = process.env) {
@@ -36,7 +35,6 @@ async function main() {
   const databaseUrl = process.env.DATABASE_URL;
   if (!databaseUrl) throw new Error('DATABASE_URL is required');
   const db = createDatabase(databaseUrl, 6);
-  survivePostgresRestarts(db.$client);
   await migrateDatabase(db.$client);
   const boss = await startBoss({ connectionString: databaseUrl, supervise: true });
   const settings = workerSettings();

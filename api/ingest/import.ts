@@ -16,6 +16,7 @@ import {
 } from '../../shared/ingest';
 import type { Database } from '../db/client';
 import { uploads } from '../db/schema';
+import { arr } from '../db/sql';
 import { recordAudit } from '../db/audit';
 import { loadCatalogue, type LoadedCatalogue } from './catalogue';
 
@@ -27,8 +28,6 @@ export type ImportOutcome =
 /** Serialises imports so duplicate checks and inserts see one consistent state. */
 const IMPORT_LOCK = 727_002;
 const BATCH = 20_000;
-/** One array parameter: drizzle would spread a bare JS array into a list of parameters. */
-const arr = (values: unknown[]) => sql.param(values);
 
 export interface ImportRequest {
   /** Original file name, or a label such as "manual entry". */
