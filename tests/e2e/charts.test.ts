@@ -8,6 +8,7 @@ import { baseUrl, launchBrowser, screenshot, type TestBrowser } from '../support
 import { DEMO_PASSWORD, demoUsers } from '../../api/db/seed';
 import { ruleDescriptions } from '../../shared/spc';
 import type { CharacteristicChart } from '../../shared/schemas/charts';
+import type { Overview } from '../../shared/schemas/overview';
 import type { Role } from '../../shared/schemas/roles';
 
 const emailOf = (role: Role) => demoUsers.find((u) => u.role === role)!.email;
@@ -78,11 +79,13 @@ describe('overview and control charts', () => {
     await tile.waitFor();
     expect(await tile.getByText('▲ Signal').isVisible()).toBe(true);
     expect(await tile.textContent()).toMatch(/Run-rule signal at \d+ points? in the period/);
-    // Needs attention first: a characteristic with a signal comes before every one that is in control.
-    const states = await page.locator('section[aria-labelledby="product-HVL25"] [data-testid^="tile-"]').allTextContents();
-    const firstCalm = states.findIndex((t) => t.includes('In control'));
-    const lastSignal = states.map((t) => t.includes('▲ Signal')).lastIndexOf(true);
-    expect(firstCalm === -1 || lastSignal < firstCalm).toBe(true);
+    // Needs attention first: the tiles of a product stand in the order of the server's attention score.
+    const overview = (await (await page.request.get(`${baseUrl()}/api/v1/overview?days=30`)).json()) as Overview;
+    const score = new Map(overview.items.map((i) => [i.code, i.attentionScore]));
+    const shown = await page.locator('section[aria-labelledby="product-HVL25"] article[data-testid^="tile-"]').evaluateAll((tiles) => tiles.map((t) => t.getAttribute('data-testid')!.slice(5)));
+    expect(shown.length).toBeGreaterThan(5);
+    const scores = shown.map((code) => score.get(code)!);
+    expect(scores).toEqual([...scores].sort((a, b) => b - a));
     await screenshot(page, 'charts-overview');
     await page.setViewportSize({ width: 820, height: 1180 });
     await page.screenshot({ path: resolve(import.meta.dirname, '..', '..', 'test-artifacts', 'charts-overview-tablet.png') });

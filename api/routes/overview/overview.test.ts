@@ -77,7 +77,9 @@ describe('GET /api/v1/overview', () => {
 
   it('counts open alarms per characteristic and ranks them for attention', async () => {
     const body = await overview('?days=182');
-    const target = body.items.find((i) => i.code === 'HVR3-AIR')!;
+    // The one with the fewest open alarms, so that two more still move it up (the count weighs up to five).
+    const target = body.items.filter((i) => i.latest).reduce((a, b) => (b.openAlarms < a.openAlarms ? b : a));
+    expect(target.openAlarms).toBeLessThan(4);
     const [lot] = await api.db.select({ id: lots.id }).from(lots).where(eq(lots.lotNumber, (await latestLot(target.id))!));
     const inserted = await api.db
       .insert(alarms)

@@ -46,7 +46,7 @@ export function CharacteristicTile({ item, timeZone }: { item: OverviewItem; tim
       <dl className="grid grid-cols-3 gap-2 text-sm">
         <div>
           <dt className="text-zinc-600">Cpk</dt>
-          <dd className="font-mono text-base" data-testid="tile-cpk">
+          <dd className="font-mono text-base" data-testid="cpk-value">
             {fixed(item.cpk, 2)}
             {item.capabilityPreliminary && item.cpk !== null && <span className="font-sans text-xs text-zinc-500"> prelim.</span>}
           </dd>
