@@ -146,6 +146,7 @@ describe('overview and control charts', () => {
   it('lets the quality manager exclude a point with a reason and freeze limits from a baseline', async () => {
     await signIn('quality_manager', '/charts');
     await heading('Control charts').waitFor();
+    await screenshot(page, 'charts-picker');
     await page.getByRole('link', { name: /^flow diameter X̄/ }).first().click();
     await heading('HV Level 25 · flow diameter').waitFor();
     const id = Number(new URL(page.url()).pathname.split('/').pop());
@@ -221,6 +222,10 @@ describe('overview and control charts', () => {
     const file = await download;
     expect(file.suggestedFilename()).toMatch(/-DENS-chart-points\.csv$/);
     await partShot(page.getByRole('region', { name: 'Capability' }), 'charts-capability');
+    await page.setViewportSize({ width: 820, height: 1180 });
+    await page.getByTestId('control-chart').scrollIntoViewIfNeeded();
+    await page.screenshot({ path: resolve(import.meta.dirname, '..', '..', 'test-artifacts', 'charts-chart-tablet.png') });
+    await page.setViewportSize({ width: 1600, height: 1000 });
     await screenshot(page, 'charts-auditor-capability');
   });
 });
