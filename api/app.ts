@@ -26,6 +26,7 @@ import { subscriptionsRouter } from './routes/subscriptions/router';
 import { devRouter } from './routes/dev/router';
 import { noIngestHooks, type IngestHooks } from './ingest/hooks';
 import { lazyQueue, type SpcQueue } from './spc/queue';
+import { requestIncrementalRun } from './spc/hooks';
 import type { FakeSmtp } from './mail/fake-smtp';
 import { mailSettings } from './mail/settings';
 
@@ -78,9 +79,13 @@ export function createApp({ db, config, serveWeb = true, ingestHooks = noIngestH
   app.use('/api/v1/uploads', uploadsRouter(db, ingestHooks));
   app.use('/api/v1/measurements', measurementsRouter(db, ingestHooks));
   app.use('/api/v1/column-mappings', columnMappingsRouter(db));
-  app.use('/api/v1/characteristics', chartsRouter(db));
+  const queue = spcQueue ?? lazyQueue(db.$client);
+  const limitsChanged = async (characteristicId: number, userId: number) => {
+    await requestIncrementalRun({ db, queue, publicUrl }, [characteristicId], 'limits', userId);
+  };
+  app.use('/api/v1/characteristics', chartsRouter(db, limitsChanged));
   app.use('/api/v1/overview', overviewRouter(db));
-  app.use('/api/v1/spc-runs', spcRunsRouter(db, spcQueue ?? lazyQueue(db.$client)));
+  app.use('/api/v1/spc-runs', spcRunsRouter(db, queue));
   app.use('/api/v1/alarms', alarmsRouter(db, publicUrl));
   app.use('/api/v1/subscriptions', subscriptionsRouter(db));
   if (fakeSmtp) app.use('/api/v1/dev', devRouter(fakeSmtp));

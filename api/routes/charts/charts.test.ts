@@ -3,10 +3,10 @@
 // also in the NIST/SEMATECH e-Handbook §6.3.2), capability against simple-statistics.
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { eq } from 'drizzle-orm';
+import { desc, eq } from 'drizzle-orm';
 import { mean as ssMean, sampleStandardDeviation } from 'simple-statistics';
 import { createTestApi } from '../../../tests/support/api';
-import { characteristics } from '../../db/schema';
+import { characteristics, spcRunItems, spcRuns } from '../../db/schema';
 import type { CharacteristicChart, ChartPointRecord, LimitRevisionRecord } from '../../../shared/schemas/charts';
 import type { Role } from '../../../shared/schemas/users';
 
@@ -187,6 +187,11 @@ describe('exclusions', () => {
     const reason = 'Water dosing valve stuck open during this lot';
     const done = await request(api.app).post(url).set(h).send({ lotId: farthest.lotId, reason });
     expect(done.status).toBe(201);
+    // The alarms follow the new limits without waiting for the night: an incremental run for this characteristic.
+    const [run] = await api.db.select({ id: spcRuns.id, trigger: spcRuns.trigger }).from(spcRuns).orderBy(desc(spcRuns.id)).limit(1);
+    expect(run.trigger).toBe('limits');
+    const items = await api.db.select({ characteristicId: spcRunItems.characteristicId }).from(spcRunItems).where(eq(spcRunItems.runId, run.id));
+    expect(items).toEqual([{ characteristicId: idOf(code) }]);
     const twice = await request(api.app).post(url).set(h).send({ lotId: farthest.lotId, reason });
     expect(twice.status).toBe(409);
 

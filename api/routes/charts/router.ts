@@ -36,7 +36,10 @@ function revisionJson(r: LimitRevision): LimitRevisionRecord {
  * One characteristic's control chart, its exclusions and its frozen-limit revisions. Every role
  * reads; quality managers and administrators change what the limits are computed from.
  */
-export function chartsRouter(db: Database): Router {
+/** Called after exclusions or frozen limits change; the alarms follow in an incremental run. */
+export type LimitsChanged = (characteristicId: number, userId: number) => Promise<void>;
+
+export function chartsRouter(db: Database, limitsChanged: LimitsChanged): Router {
   const router = Router();
   const cache = chartCacheFor(db);
   const managers = requireRole('quality_manager', 'admin');
@@ -65,6 +68,7 @@ export function chartsRouter(db: Database): Router {
     const { id } = parseBody(characteristicParamsSchema, req.params);
     const { lotId, reason } = parseBody(excludePointSchema, req.body);
     const row = await excludePoint(db, { characteristicId: id, lotId, reason, userId: req.user!.id });
+    await limitsChanged(id, req.user!.id);
     res.status(201).json({ id: row.id, characteristicId: id, lotId });
   });
 
@@ -72,6 +76,7 @@ export function chartsRouter(db: Database): Router {
     const { id, lotId } = parseBody(exclusionParamsSchema, req.params);
     const { reason } = parseBody(includePointSchema, req.body ?? {});
     const row = await includePoint(db, { characteristicId: id, lotId, reason, userId: req.user!.id });
+    await limitsChanged(id, req.user!.id);
     res.json({ id: row.id, characteristicId: id, lotId });
   });
 
@@ -87,6 +92,7 @@ export function chartsRouter(db: Database): Router {
     const { id } = parseBody(characteristicParamsSchema, req.params);
     const input = parseBody(freezeLimitsSchema, req.body);
     const revision = await freezeLimits(db, { characteristicId: id, ...input, userId: req.user!.id });
+    await limitsChanged(id, req.user!.id);
     res.status(201).json(revisionJson(revision));
   });
 
