@@ -41,7 +41,7 @@ export async function startBackground(db: Database, opts: { databaseUrl: string;
   if (env.PRISMLINE_INITIAL_RUN === '1') {
     const [{ n }] = (await db.execute<{ n: number }>(sql`select count(*)::int as n from spc_runs`)).rows;
     if (n === 0) {
-      const id = await startRun(db, queue, { trigger: 'manual' });
+      const id = await startRun(db, queue, { trigger: 'first' });
       logger.info({ runId: id }, 'first SPC run of the demo plant started');
     }
   }

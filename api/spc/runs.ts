@@ -7,7 +7,7 @@ import type { Database } from '../db/client';
 import { CHARACTERISTIC_QUEUE, jobSettings, type JobSettings, type SpcQueue } from './queue';
 import type { Executor } from './db';
 
-export type RunTrigger = 'schedule' | 'manual' | 'upload' | 'void' | 'correction' | 'limits';
+export type RunTrigger = 'schedule' | 'manual' | 'upload' | 'void' | 'correction' | 'limits' | 'first';
 export type RunStatus = 'queued' | 'running' | 'succeeded' | 'failed';
 
 export interface StartRunRequest {

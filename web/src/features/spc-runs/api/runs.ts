@@ -6,7 +6,7 @@ export type RunStatus = 'queued' | 'running' | 'succeeded' | 'failed';
 export interface RunSummary {
   id: number;
   kind: 'full' | 'incremental';
-  trigger: 'schedule' | 'manual' | 'upload' | 'void' | 'correction' | 'limits';
+  trigger: 'schedule' | 'manual' | 'upload' | 'void' | 'correction' | 'limits' | 'first';
   status: RunStatus;
   characteristics: number;
   done: number;

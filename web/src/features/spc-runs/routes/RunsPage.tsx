@@ -26,6 +26,7 @@ const triggerWords: Record<RunSummary['trigger'], string> = {
   void: 'After a voided upload',
   correction: 'After a corrected result',
   limits: 'After a point was excluded or limits frozen',
+  first: 'First run over the stored history',
 };
 
 const time = new Intl.DateTimeFormat('en-GB', { day: '2-digit', month: 'short', hour: '2-digit', minute: '2-digit', second: '2-digit' });
