@@ -35,9 +35,10 @@ export async function ensureReferenceData(db: Database): Promise<void> {
   }
 }
 
-/** Where the demo history ends: today 06:00 UTC, so a restart the same day rebuilds the same data. */
+/** Where the demo history ends: the last 06:00 UTC not after now, so no lot lies in the future and a reseed the same day rebuilds the same data. */
 export function demoEndDate(now = new Date()): Date {
-  return new Date(Date.UTC(now.getUTCFullYear(), now.getUTCMonth(), now.getUTCDate(), 6));
+  const today = Date.UTC(now.getUTCFullYear(), now.getUTCMonth(), now.getUTCDate(), 6);
+  return new Date(today <= now.getTime() ? today : today - 86_400_000);
 }
 
 /** Seeds the invented Harrow Vale plant when the database is empty; never touches existing data. */

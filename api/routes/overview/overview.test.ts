@@ -3,7 +3,7 @@ import request from 'supertest';
 import { afterAll, describe, expect, it } from 'vitest';
 import { and, eq, sql } from 'drizzle-orm';
 import { createTestApi } from '../../../tests/support/api';
-import { alarms, characteristics, lots, products } from '../../db/schema';
+import { alarms, characteristics, lots, products, uploads } from '../../db/schema';
 import { plantedCausesFor } from '../../db/seed/scenario';
 import { demoEndDate } from '../../db/seed';
 import type { CharacteristicChart } from '../../../shared/schemas/charts';
@@ -101,7 +101,9 @@ describe('GET /api/v1/overview', () => {
   });
 
   it('marks the planted out-of-specification lots of the period', async () => {
-    const causes = plantedCausesFor({ endDate: demoEndDate() }).filter((c) => c.kind === 'out-of-spec-lot');
+    // The seed's own end date, not today's: a suite that runs across midnight must not move the planted lots.
+    const [history] = await api.db.select({ uploadedAt: uploads.uploadedAt }).from(uploads).where(eq(uploads.fileName, 'harrow-vale-history.csv'));
+    const causes = plantedCausesFor({ endDate: demoEndDate(history.uploadedAt) }).filter((c) => c.kind === 'out-of-spec-lot');
     const body = await overview('?days=182');
     for (const cause of causes) {
       const item = body.items.find((i) => i.code === cause.characteristicCodes[0])!;
