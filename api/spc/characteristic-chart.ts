@@ -19,6 +19,7 @@ import type { Database } from '../db/client';
 import { controlLimitRevisions, lots, measurements, pointExclusions, users } from '../db/schema';
 import { HttpError, notFound } from '../http/errors';
 import type { Executor } from './db';
+import type { CharacteristicChart, ChartPointRecord } from '../../shared/schemas/charts';
 
 /** Fewer subgroups than this give preliminary trial limits (common practice: 20 to 25 subgroups). */
 export const PHASE_ONE_MIN_POINTS = 20;
@@ -28,69 +29,8 @@ export interface ChartWindow {
   to?: Date;
 }
 
-export interface ChartPointJson {
-  index: number;
-  lotId: number;
-  lotNumber: string;
-  producedAt: string;
-  shift: string | null;
-  n: number;
-  values: number[];
-  location: number;
-  dispersion: number | null;
-  ucl: number | null;
-  lcl: number | null;
-  dispersionUcl: number | null;
-  dispersionLcl: number | null;
-  excluded: boolean;
-  exclusionReason: string | null;
-  outOfSpec: boolean;
-  rules: RuleId[];
-}
-
-export interface ChartViolationJson {
-  rule: RuleId;
-  chart: 'location' | 'dispersion';
-  index: number;
-  points: number[];
-  description: string;
-}
-
-export interface CharacteristicChart {
-  characteristic: {
-    id: number;
-    code: string;
-    name: string;
-    unit: string;
-    chartType: ChartType;
-    ruleSet: 'we' | 'extended';
-    subgroupSize: number;
-    productCode: string;
-    productName: string;
-    lineCode: string | null;
-    decimals: number;
-  };
-  spec: { lsl: number | null; usl: number | null; target: number | null; revision: number } | null;
-  limits: {
-    source: 'trial' | 'frozen';
-    revisionId: number | null;
-    baselineFrom: string | null;
-    baselineTo: string | null;
-    frozenAt: string | null;
-    frozenBy: string | null;
-    reason: string | null;
-    location: { center: number | null; ucl: number | null; lcl: number | null; sigma: number | null };
-    dispersion: { center: number | null; ucl: number | null; lcl: number | null };
-    zones: { plus1: number; plus2: number; minus1: number; minus2: number } | null;
-    sigmaWithin: number | null;
-    sigmaOverall: number | null;
-  };
-  points: ChartPointJson[];
-  violations: ChartViolationJson[];
-  events: { id: number; occurredAt: string; title: string; description: string | null }[];
-  capability: CapabilityResult | null;
-  reasons: string[];
-}
+// The answer's shape is the one the web app reads (shared/schemas/charts.ts).
+export type { CharacteristicChart };
 
 type CharacteristicRow = {
   id: number;
@@ -310,7 +250,7 @@ export function buildChart(inputs: ChartInputs): Computed {
     ruleAt.set(v.index, list);
   }
 
-  const points: ChartPointJson[] = lotsIn.map((lot, i) => {
+  const points: ChartPointRecord[] = lotsIn.map((lot, i) => {
     const p = pointAt(result, i);
     const location = p.location;
     return {
