@@ -6,9 +6,9 @@ import type pg from 'pg';
 import type { Database } from '../db/client';
 import { CHARACTERISTIC_QUEUE, jobSettings, type JobSettings, type SpcQueue } from './queue';
 import type { Executor } from './db';
+import type { RunStatus, RunSummary, RunTrigger } from '../../shared/schemas/runs';
 
-export type RunTrigger = 'schedule' | 'manual' | 'upload' | 'void' | 'correction' | 'limits' | 'first';
-export type RunStatus = 'queued' | 'running' | 'succeeded' | 'failed';
+export type { RunStatus, RunSummary, RunTrigger } from '../../shared/schemas/runs';
 
 export interface StartRunRequest {
   trigger: RunTrigger;
@@ -77,23 +77,6 @@ export async function startRun(db: Database, queue: SpcQueue, req: StartRunReque
   } finally {
     client.release();
   }
-}
-
-export interface RunSummary {
-  id: number;
-  kind: 'full' | 'incremental';
-  trigger: RunTrigger;
-  status: RunStatus;
-  characteristics: number;
-  done: number;
-  failed: number;
-  running: number;
-  alarmsRaised: number;
-  alarmsResolved: number;
-  requestedBy: string | null;
-  createdAt: string;
-  startedAt: string | null;
-  finishedAt: string | null;
 }
 
 const summaryColumns = sql`

@@ -1,24 +1,8 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { http } from '../../../lib/http';
+import type { RunSummary } from '../../../../../shared/schemas/runs';
 
-export type RunStatus = 'queued' | 'running' | 'succeeded' | 'failed';
-
-export interface RunSummary {
-  id: number;
-  kind: 'full' | 'incremental';
-  trigger: 'schedule' | 'manual' | 'upload' | 'void' | 'correction' | 'limits' | 'first';
-  status: RunStatus;
-  characteristics: number;
-  done: number;
-  failed: number;
-  running: number;
-  alarmsRaised: number;
-  alarmsResolved: number;
-  requestedBy: string | null;
-  createdAt: string;
-  startedAt: string | null;
-  finishedAt: string | null;
-}
+export type { RunStatus, RunSummary } from '../../../../../shared/schemas/runs';
 
 export interface RunProblem {
   characteristicId: number;

@@ -1,0 +1,23 @@
+// The SPC run as the API answers it and the runs page reads it. Kept free of zod.
+
+/** Why a run was started. */
+export type RunTrigger = 'schedule' | 'manual' | 'upload' | 'void' | 'correction' | 'limits' | 'first';
+export type RunStatus = 'queued' | 'running' | 'succeeded' | 'failed';
+
+/** GET /api/v1/spc-runs and /api/v1/spc-runs/:id */
+export interface RunSummary {
+  id: number;
+  kind: 'full' | 'incremental';
+  trigger: RunTrigger;
+  status: RunStatus;
+  characteristics: number;
+  done: number;
+  failed: number;
+  running: number;
+  alarmsRaised: number;
+  alarmsResolved: number;
+  requestedBy: string | null;
+  createdAt: string;
+  startedAt: string | null;
+  finishedAt: string | null;
+}
