@@ -23,8 +23,12 @@ describe('GET /api/v1/dev/outbox', () => {
     expect(message).toMatchObject({ recipients: ['manager@harrowvale.example'], to: ['manager@harrowvale.example'], subject: `Prismline alarm: Beyond a control limit — ${key}` });
     expect(message.text).toBe('Lot L1-1: X̄ = 158.5 mm is above the UCL 151.2 mm.\nChart: http://x/charts/1?point=3');
     expect(message.html).toBe('<p>Lot L1-1: X̄ = 158.5 mm</p>');
-    const row = await api.db.execute<{ status: string; attempts: number }>(sql`select status, attempts from mail_outbox where dedupe_key = ${key}`);
-    expect(row.rows[0]).toEqual({ status: 'sent', attempts: 1 });
+    // The sender marks the row after the relay has answered, a moment after the message arrives there.
+    const row = await eventually(async () => {
+      const res = await api.db.execute<{ status: string; attempts: number }>(sql`select status, attempts from mail_outbox where dedupe_key = ${key}`);
+      return res.rows[0]?.status === 'sent' ? res.rows[0] : undefined;
+    }, 15_000, 'the outbox row to be marked sent');
+    expect(row).toEqual({ status: 'sent', attempts: 1 });
   });
 
   it('is for administrators only, and absent where no fake SMTP server is in use', async () => {
