@@ -1,8 +1,8 @@
 import { lazy, Suspense } from 'react';
-import { Navigate, NavLink, Route, Routes } from 'react-router';
+import { Navigate, Route, Routes } from 'react-router';
 import { NotFoundPage } from '../../../app/routes/NotFoundPage';
 import { Loading } from '../../../components/ui/Spinner';
-import { cx } from '../../../components/ui/cx';
+import { AreaTabs } from '../../../components/ui/AreaTabs';
 
 const SpecificationsPage = lazy(() => import('./SpecificationsPage'));
 const SpecificationPage = lazy(() => import('./SpecificationPage'));
@@ -17,25 +17,7 @@ const tabs = [
 export default function RecordsArea() {
   return (
     <>
-      <nav aria-label="Specification and event pages" className="mb-6 border-b border-zinc-200">
-        <ul className="-mb-px flex flex-wrap gap-x-1">
-          {tabs.map((tab) => (
-            <li key={tab.to}>
-              <NavLink
-                to={tab.to}
-                className={({ isActive }) =>
-                  cx(
-                    'block border-b-2 px-3 py-2 font-medium focus-visible:outline-2 focus-visible:outline-accent-600',
-                    isActive ? 'border-accent-600 text-accent-800' : 'border-transparent text-zinc-600 hover:border-zinc-300 hover:text-zinc-900',
-                  )
-                }
-              >
-                {tab.label}
-              </NavLink>
-            </li>
-          ))}
-        </ul>
-      </nav>
+      <AreaTabs label="Specification and event pages" tabs={tabs} />
       <Suspense fallback={<Loading />}>
         <Routes>
           <Route index element={<Navigate to="/records/specifications" replace />} />

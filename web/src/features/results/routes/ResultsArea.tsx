@@ -1,10 +1,10 @@
 import { lazy, Suspense } from 'react';
-import { Navigate, NavLink, Route, Routes } from 'react-router';
+import { Navigate, Route, Routes } from 'react-router';
 import { useSignedInUser } from '../../auth/api/session';
 import { RequireRole } from '../../../app/guards';
 import { NotFoundPage } from '../../../app/routes/NotFoundPage';
 import { Loading } from '../../../components/ui/Spinner';
-import { cx } from '../../../components/ui/cx';
+import { AreaTabs } from '../../../components/ui/AreaTabs';
 import { entryRoles } from '../lib/roles';
 
 const UploadPage = lazy(() => import('./UploadPage'));
@@ -26,25 +26,7 @@ export default function ResultsArea() {
 
   return (
     <>
-      <nav aria-label="Results pages" className="mb-6 border-b border-zinc-200">
-        <ul className="-mb-px flex flex-wrap gap-x-1">
-          {shown.map((tab) => (
-            <li key={tab.to}>
-              <NavLink
-                to={tab.to}
-                className={({ isActive }) =>
-                  cx(
-                    'block border-b-2 px-3 py-2 font-medium focus-visible:outline-2 focus-visible:outline-accent-600',
-                    isActive ? 'border-accent-600 text-accent-800' : 'border-transparent text-zinc-600 hover:border-zinc-300 hover:text-zinc-900',
-                  )
-                }
-              >
-                {tab.label}
-              </NavLink>
-            </li>
-          ))}
-        </ul>
-      </nav>
+      <AreaTabs label="Results pages" tabs={shown} />
       <Suspense fallback={<Loading />}>
         <Routes>
           <Route index element={<Navigate to={canEnter ? '/results/upload' : '/results/history'} replace />} />
