@@ -2,47 +2,16 @@
 // manager finds the planted step change in flow of HV Level 25 after the new sand source, reads the
 // rule in the tooltip, opens a lot, excludes a point and freezes limits from a baseline before it.
 import { resolve } from 'node:path';
-import { afterAll, afterEach, beforeAll, beforeEach, describe, expect, it } from 'vitest';
+import { describe, expect } from 'vitest';
 import type { APIRequestContext, Locator, Page } from 'playwright-core';
-import { baseUrl, launchBrowser, screenshot, type TestBrowser } from '../support/browser';
-import { DEMO_PASSWORD, demoUsers } from '../../api/db/seed';
+import { baseUrl, browserTest, pageHeading, screenshot, signIn } from '../support/browser';
 import { ruleDescriptions } from '../../shared/spc';
 import type { CharacteristicChart } from '../../shared/schemas/charts';
 import type { Overview } from '../../shared/schemas/overview';
-import type { Role } from '../../shared/schemas/roles';
 
-const emailOf = (role: Role) => demoUsers.find((u) => u.role === role)!.email;
 const PLANT_ZONE = 'Europe/London';
 
-let browser: TestBrowser;
-let page: Page;
-
-beforeAll(async () => {
-  browser = await launchBrowser({ viewport: { width: 1600, height: 1000 } });
-});
-
-afterAll(async () => {
-  await browser?.close();
-});
-
-beforeEach(async () => {
-  await browser.context.clearCookies();
-  page = await browser.context.newPage();
-  page.setDefaultTimeout(15_000);
-});
-
-afterEach(async () => {
-  await page?.close();
-});
-
-async function signIn(role: Role, path = '/') {
-  await page.goto(`${baseUrl()}${path}`);
-  await page.getByLabel('E-mail').fill(emailOf(role));
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-}
-
-const heading = (name: string | RegExp) => page.getByRole('heading', { level: 1, name });
+const it = browserTest({ viewport: { width: 1600, height: 1000 }, timeout: 15_000 });
 
 async function chartJson(request: APIRequestContext, id: number): Promise<CharacteristicChart> {
   const res = await request.get(`${baseUrl()}/api/v1/characteristics/${id}/chart`);
@@ -63,7 +32,7 @@ function plantInput(iso: string): string {
 }
 
 /** Waits until echarts has drawn into the chart's canvas. */
-async function chartDrawn() {
+async function chartDrawn(page: Page) {
   await page.getByTestId('control-chart').locator('canvas').first().waitFor();
   await page.waitForFunction(() => {
     const canvas = document.querySelector('[data-testid="control-chart"] canvas') as HTMLCanvasElement | null;
@@ -72,9 +41,9 @@ async function chartDrawn() {
 }
 
 describe('overview and control charts', () => {
-  it('leads the quality manager from the overview to the step change in flow, its rule and its lot', async () => {
-    await signIn('quality_manager');
-    await heading('Plant overview').waitFor();
+  it('leads the quality manager from the overview to the step change in flow, its rule and its lot', async ({ page }) => {
+    await signIn(page, 'quality_manager');
+    await pageHeading(page, 'Plant overview').waitFor();
     const tile = page.getByTestId('tile-HVL25-FLOW');
     await tile.waitFor();
     expect(await tile.getByText('▲ Signal').isVisible()).toBe(true);
@@ -101,8 +70,8 @@ describe('overview and control charts', () => {
     await tile.waitFor();
 
     await tile.getByRole('link', { name: 'flow diameter', exact: true }).click();
-    await heading('HV Level 25 · flow diameter').waitFor();
-    await chartDrawn();
+    await pageHeading(page, 'HV Level 25 · flow diameter').waitFor();
+    await chartDrawn(page);
     const id = Number(new URL(page.url()).pathname.split('/').pop());
     const chart = await chartJson(page.request, id);
 
@@ -143,12 +112,12 @@ describe('overview and control charts', () => {
     await lotDialog.waitFor({ state: 'detached' });
   });
 
-  it('lets the quality manager exclude a point with a reason and freeze limits from a baseline', async () => {
-    await signIn('quality_manager', '/charts');
-    await heading('Control charts').waitFor();
+  it('lets the quality manager exclude a point with a reason and freeze limits from a baseline', async ({ page }) => {
+    await signIn(page, 'quality_manager', '/charts');
+    await pageHeading(page, 'Control charts').waitFor();
     await screenshot(page, 'charts-picker');
     await page.getByRole('link', { name: /^flow diameter X̄/ }).first().click();
-    await heading('HV Level 25 · flow diameter').waitFor();
+    await pageHeading(page, 'HV Level 25 · flow diameter').waitFor();
     const id = Number(new URL(page.url()).pathname.split('/').pop());
     const before = await chartJson(page.request, id);
     expect(before.limits.source).toBe('trial');
@@ -156,7 +125,7 @@ describe('overview and control charts', () => {
     // The lot with the widest range, opened the way an alarm e-mail links to it.
     const widest = before.points.filter((p) => !p.excluded).reduce((a, b) => ((b.dispersion ?? 0) > (a.dispersion ?? 0) ? b : a));
     await page.goto(`${baseUrl()}/charts/${id}?point=${widest.index}`);
-    await chartDrawn();
+    await chartDrawn(page);
     const selectedPanel = page.getByTestId('selected-point');
     await selectedPanel.getByText(`Point ${widest.index + 1} · lot ${widest.lotNumber}`).waitFor();
     await page.getByTestId('control-chart').getByTestId('point-tooltip').getByText(`Lot ${widest.lotNumber}`).waitFor();
@@ -208,12 +177,12 @@ describe('overview and control charts', () => {
     await screenshot(page, 'charts-chart-frozen');
   });
 
-  it('shows the auditor the chart and its history without the controls that change limits', async () => {
-    await signIn('auditor', '/charts');
-    await heading('Control charts').waitFor();
+  it('shows the auditor the chart and its history without the controls that change limits', async ({ page }) => {
+    await signIn(page, 'auditor', '/charts');
+    await pageHeading(page, 'Control charts').waitFor();
     await page.getByRole('link', { name: /^fresh density I/ }).first().click();
-    await heading(/· fresh density$/).waitFor();
-    await chartDrawn();
+    await pageHeading(page, /· fresh density$/).waitFor();
+    await chartDrawn(page);
     await page.getByRole('region', { name: 'Capability' }).getByTestId('index-Cpk').waitFor();
     expect(await page.getByRole('button', { name: 'Freeze limits…' }).count()).toBe(0);
     expect(await page.getByRole('button', { name: /^Exclude/ }).count()).toBe(0);

@@ -1,65 +1,33 @@
 // Specifications, process events and corrections of stored readings in a real browser against the real
 // server started by scripts/run-tests.ts: a quality manager revises a specification, a technician records
 // an event and corrects a reading, and an auditor finds nothing to change.
-import { afterAll, afterEach, beforeAll, beforeEach, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect } from 'vitest';
 import { and, eq } from 'drizzle-orm';
 import type { Page } from 'playwright-core';
-import { baseUrl, launchBrowser, screenshot, type TestBrowser } from '../support/browser';
+import { baseUrl, browserTest, pageHeading, screenshot, signIn } from '../support/browser';
 import { databaseUrl } from '../support/api';
 import { createDatabase, type Database } from '../../api/db/client';
 import { auditEvents } from '../../api/db/schema';
-import { DEMO_PASSWORD, demoUsers } from '../../api/db/seed';
-import type { Role } from '../../shared/schemas/users';
 
-const demoEmail = (role: Role) => {
-  const user = demoUsers.find((candidate) => candidate.role === role);
-  if (!user) throw new Error(`The demo seed has no ${role}`);
-  return user.email;
-};
-
-let browser: TestBrowser;
-let page: Page;
+const it = browserTest();
 let db: Database;
 // Unique per run, so the suite can run again on the same database. The lot and the event lie in 2021,
 // years before the demo history, so the charts other tests read stay as they are.
 const stamp = Date.now().toString(36).toUpperCase();
 
-beforeAll(async () => {
-  browser = await launchBrowser();
+beforeAll(() => {
   db = createDatabase(databaseUrl(), 1);
 });
 
 afterAll(async () => {
-  await browser?.close();
   await db?.$client.end();
 });
 
-beforeEach(async () => {
-  await browser.context.clearCookies();
-  page = await browser.context.newPage();
-  page.setDefaultTimeout(10_000);
-});
-
-afterEach(async () => {
-  await page?.close();
-});
-
-async function signInAt(path: string, role: Role) {
-  await page.goto(`${baseUrl()}${path}`);
-  // The first page of a run loads the app cold, on a machine other suites may be loading too.
-  await page.waitForURL('**/sign-in', { timeout: 30_000 });
-  await page.getByLabel('E-mail').fill(demoEmail(role));
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-}
-
 /** Runs the page in a zone with summer time, so that local input really has to become an offset. */
-async function browserZone(timezoneId: string) {
+async function browserZone(page: Page, timezoneId: string) {
   const cdp = await page.context().newCDPSession(page);
   await cdp.send('Emulation.setTimezoneOverride', { timezoneId });
 }
-
-const heading = (name: string | RegExp) => page.getByRole('heading', { level: 1, name });
 
 interface CharacteristicItem {
   id: number;
@@ -67,7 +35,7 @@ interface CharacteristicItem {
   spec: { revision: number; lsl: number | null; usl: number | null; target: number | null } | null;
 }
 
-async function characteristic(code: string): Promise<CharacteristicItem> {
+async function characteristic(page: Page, code: string): Promise<CharacteristicItem> {
   const res = await page.request.get(`${baseUrl()}/api/v1/characteristics`);
   expect(res.status()).toBe(200);
   const found = ((await res.json()) as { items: CharacteristicItem[] }).items.find((c) => c.code === code);
@@ -75,13 +43,13 @@ async function characteristic(code: string): Promise<CharacteristicItem> {
   return found;
 }
 
-async function revisionCount(id: number): Promise<number> {
+async function revisionCount(page: Page, id: number): Promise<number> {
   const res = await page.request.get(`${baseUrl()}/api/v1/characteristics/${id}/spec-revisions`);
   return ((await res.json()) as { items: unknown[] }).items.length;
 }
 
 /** A one-row upload through the API as the signed-in user; returns the lot number. */
-async function uploadOneReading(code: string, product: string, line: string, value: string): Promise<string> {
+async function uploadOneReading(page: Page, code: string, product: string, line: string, value: string): Promise<string> {
   const lot = `REC-${stamp}-${code}`;
   const res = await page.request.post(`${baseUrl()}/api/v1/uploads`, {
     multipart: {
@@ -97,11 +65,11 @@ async function uploadOneReading(code: string, product: string, line: string, val
 }
 
 describe('specifications', () => {
-  it('lets a quality manager add a revision, refuses an inverted band and a back-dated one, and shows the new one in force', async () => {
-    await signInAt('/records', 'quality_manager');
-    await heading('Specifications').waitFor();
+  it('lets a quality manager add a revision, refuses an inverted band and a back-dated one, and shows the new one in force', async ({ page }) => {
+    await signIn(page, 'quality_manager', '/records');
+    await pageHeading(page, 'Specifications').waitFor();
     expect(new URL(page.url()).pathname).toBe('/records/specifications');
-    const air = await characteristic('HVR3-AIR');
+    const air = await characteristic(page, 'HVR3-AIR');
     // The demo seed gives HV Patch R3 air content one revision: USL 6 %, target 4 % (api/db/seed/scenario.ts).
     expect(air.spec).toMatchObject({ revision: 1, lsl: null, usl: 6, target: 4 });
     const product = page.getByRole('region', { name: /HV Patch R3/ });
@@ -109,7 +77,7 @@ describe('specifications', () => {
     await screenshot(page, 'records-specifications');
 
     await product.getByRole('link', { name: 'HVR3-AIR' }).click();
-    await heading(/^HVR3-AIR · air content/).waitFor();
+    await pageHeading(page, /^HVR3-AIR · air content/).waitFor();
     await page.getByTestId('spec-in-force').getByText('USL 6.0 % (target 4.0)').waitFor();
     const form = page.getByRole('form', { name: 'Add a revision' });
     // The form starts from the latest limits.
@@ -124,7 +92,7 @@ describe('specifications', () => {
     await form.getByText('The lower limit must be below the upper limit').waitFor();
     expect(await form.getByLabel('USL (%)').getAttribute('aria-invalid')).toBe('true');
     await screenshot(page, 'records-specification-inverted');
-    expect(await revisionCount(air.id)).toBe(1);
+    expect(await revisionCount(page, air.id)).toBe(1);
 
     // One-sided, as air content usually is; the decimal comma is read as a decimal.
     await form.getByLabel('LSL (%)').fill('');
@@ -143,7 +111,7 @@ describe('specifications', () => {
     ]);
     expect(await revisionRow(1).getByText('Superseded').isVisible()).toBe(true);
     await page.getByTestId('spec-in-force').getByText('USL 6.2 % (target 4.0)').waitFor();
-    expect((await characteristic('HVR3-AIR')).spec).toMatchObject({ revision: 2, lsl: null, usl: 6.2, target: 4 });
+    expect((await characteristic(page, 'HVR3-AIR')).spec).toMatchObject({ revision: 2, lsl: null, usl: 6.2, target: 4 });
     await screenshot(page, 'records-specification-revised');
 
     // Revisions follow each other in time: the server's refusal lands under the date.
@@ -153,17 +121,17 @@ describe('specifications', () => {
     await form.getByRole('button', { name: 'Save revision 3' }).click();
     await form.getByText(/^A new revision cannot take effect before revision 2/).waitFor();
     expect(await form.getByLabel('Effective from (optional)').getAttribute('aria-invalid')).toBe('true');
-    expect(await revisionCount(air.id)).toBe(2);
+    expect(await revisionCount(page, air.id)).toBe(2);
   });
 });
 
 describe('process events', () => {
-  it('lets a technician record an event typed in local time and find it in the list', async () => {
-    await signInAt('/records/events', 'technician');
-    await heading('Process events').waitFor();
-    await browserZone('Europe/Berlin');
+  it('lets a technician record an event typed in local time and find it in the list', async ({ page }) => {
+    await signIn(page, 'technician', '/records/events');
+    await pageHeading(page, 'Process events').waitFor();
+    await browserZone(page, 'Europe/Berlin');
     await page.reload();
-    await heading('Process events').waitFor();
+    await pageHeading(page, 'Process events').waitFor();
     // The demo events are listed for everyone.
     await page.getByRole('row', { name: /New sand source/ }).waitFor();
 
@@ -201,8 +169,8 @@ describe('process events', () => {
     expect(await page.getByRole('row', { name: /New sand source/ }).count()).toBe(0);
   });
 
-  it('names a too-short title under its field and records nothing', async () => {
-    await signInAt('/records/events', 'technician');
+  it('names a too-short title under its field and records nothing', async ({ page }) => {
+    await signIn(page, 'technician', '/records/events');
     const form = page.getByRole('form', { name: 'Record an event' });
     await form.getByLabel('Title').fill('ab');
     await form.getByRole('button', { name: 'Record event' }).click();
@@ -212,12 +180,12 @@ describe('process events', () => {
 });
 
 describe('corrections', () => {
-  it('lets a technician correct a stored reading with a reason, from the keyboard, and keeps the old value in the audit trail', async () => {
-    await signInAt('/results/history', 'technician');
-    await heading('Upload history').waitFor();
-    const lot = await uploadOneReading('HVR3-AIR', 'HVR3', 'L2', '4.1');
+  it('lets a technician correct a stored reading with a reason, from the keyboard, and keeps the old value in the audit trail', async ({ page }) => {
+    await signIn(page, 'technician', '/results/history');
+    await pageHeading(page, 'Upload history').waitFor();
+    const lot = await uploadOneReading(page, 'HVR3-AIR', 'HVR3', 'L2', '4.1');
     await page.goto(`${baseUrl()}/results/lots/${lot}`);
-    await heading(`Lot ${lot}`).waitFor();
+    await pageHeading(page, `Lot ${lot}`).waitFor();
 
     const button = page.getByRole('button', { name: 'Correct reading 1 of HVR3-AIR…' });
     await button.focus();
@@ -260,31 +228,34 @@ describe('corrections', () => {
 });
 
 describe('auditor', () => {
-  it('reads specifications, events and lots with no control to change them, and the server refuses a change', async () => {
-    await signInAt('/results/history', 'technician');
-    await heading('Upload history').waitFor();
-    const lot = await uploadOneReading('HVR3-DENS', 'HVR3', 'L2', '2081');
-    await browser.context.clearCookies();
+  it('reads specifications, events and lots with no control to change them, and the server refuses a change', async ({ page }) => {
+    await signIn(page, 'technician', '/results/history');
+    await pageHeading(page, 'Upload history').waitFor();
+    const lot = await uploadOneReading(page, 'HVR3-DENS', 'HVR3', 'L2', '2081');
+    await page.context().clearCookies();
 
-    await signInAt('/results/history', 'auditor');
-    await heading('Upload history').waitFor();
+    await signIn(page, 'auditor', '/results/history');
+    await pageHeading(page, 'Upload history').waitFor();
     await page.getByRole('navigation', { name: 'Main menu' }).getByRole('link', { name: 'Specifications & events' }).click();
-    await heading('Specifications').waitFor();
+    await pageHeading(page, 'Specifications').waitFor();
     await page.getByRole('link', { name: 'HVR3-AIR' }).click();
     await page.getByRole('table', { name: 'Revision history' }).waitFor();
     expect(await page.getByRole('form', { name: 'Add a revision' }).count()).toBe(0);
     expect(await page.getByRole('button', { name: /Save revision/ }).count()).toBe(0);
     await screenshot(page, 'records-specification-auditor');
 
-    await page.getByRole('navigation', { name: 'Specification and event pages' }).getByRole('link', { name: 'Process events' }).click();
-    await heading('Process events').waitFor();
+    const areaTabs = page.getByRole('navigation', { name: 'Specification and event pages' });
+    await areaTabs.getByRole('link', { name: 'Process events' }).click();
+    await pageHeading(page, 'Process events').waitFor();
+    expect(await areaTabs.getByRole('link', { name: 'Process events' }).getAttribute('aria-current')).toBe('page');
+    expect(await areaTabs.getByRole('link', { name: 'Specifications' }).getAttribute('aria-current')).toBeNull();
     await page.getByRole('row', { name: /New sand source/ }).waitFor();
     expect(await page.getByRole('form', { name: 'Record an event' }).count()).toBe(0);
     expect(await page.getByRole('button', { name: 'Record event' }).count()).toBe(0);
     await screenshot(page, 'records-events-auditor');
 
     await page.goto(`${baseUrl()}/results/lots/${lot}`);
-    await heading(`Lot ${lot}`).waitFor();
+    await pageHeading(page, `Lot ${lot}`).waitFor();
     expect(await page.getByRole('row', { name: /HVR3-DENS/ }).textContent()).toContain('2081');
     expect(await page.getByRole('button', { name: /Correct/ }).count()).toBe(0);
 

@@ -4,20 +4,11 @@
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { afterAll, afterEach, beforeAll, beforeEach, describe, expect, it } from 'vitest';
+import { describe, expect } from 'vitest';
 import type { Page } from 'playwright-core';
-import { baseUrl, launchBrowser, screenshot, type TestBrowser } from '../support/browser';
-import { DEMO_PASSWORD, demoUsers } from '../../api/db/seed';
-import type { Role } from '../../shared/schemas/users';
+import { baseUrl, browserTest, pageHeading, screenshot, signIn } from '../support/browser';
 
-const demoEmail = (role: Role) => {
-  const user = demoUsers.find((candidate) => candidate.role === role);
-  if (!user) throw new Error(`The demo seed has no ${role}`);
-  return user.email;
-};
-
-let browser: TestBrowser;
-let page: Page;
+const it = browserTest();
 const files = mkdtempSync(join(tmpdir(), 'prismline-results-'));
 // Lot numbers unique to this run, so the suite can run again on the same database. Production dates
 // lie in 2021, years before the demo history, so these lots stay out of the charts other tests read.
@@ -25,46 +16,18 @@ const stamp = Date.now().toString(36).toUpperCase();
 let lotCounter = 0;
 const newLot = () => `E2E-${stamp}-${++lotCounter}`;
 
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-
-afterAll(async () => {
-  await browser?.close();
-});
-
-beforeEach(async () => {
-  await browser.context.clearCookies();
-  page = await browser.context.newPage();
-  page.setDefaultTimeout(10_000);
-});
-
-afterEach(async () => {
-  await page?.close();
-});
-
-async function signInAt(path: string, role: Role) {
-  await page.goto(`${baseUrl()}${path}`);
-  await page.waitForURL('**/sign-in');
-  await page.getByLabel('E-mail').fill(demoEmail(role));
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-}
-
-const heading = (name: string | RegExp) => page.getByRole('heading', { level: 1, name });
-
 function csvFile(name: string, text: string): string {
   const path = join(files, name);
   writeFileSync(path, text);
   return path;
 }
 
-async function chooseFile(path: string) {
+async function chooseFile(page: Page, path: string) {
   await page.locator('input[type="file"]').setInputFiles(path);
 }
 
 /** The stored results of a lot, by characteristic code, as the API gives them to any role. */
-async function storedValues(lot: string): Promise<Record<string, number[]> | null> {
+async function storedValues(page: Page, lot: string): Promise<Record<string, number[]> | null> {
   const res = await page.request.get(`${baseUrl()}/api/v1/lots/${lot}`);
   if (res.status() === 404) return null;
   expect(res.status()).toBe(200);
@@ -75,17 +38,17 @@ async function storedValues(lot: string): Promise<Record<string, number[]> | nul
 }
 
 describe('CSV upload', () => {
-  it('previews a semicolon file with decimal commas, checks it in the browser and imports every row', async () => {
+  it('previews a semicolon file with decimal commas, checks it in the browser and imports every row', async ({ page }) => {
     const lot = newLot();
     const file = csvFile(
       `press-${stamp}.csv`,
       `lot;product;line;produced_at;characteristic;value;replicate\n${lot};HVL25;L1;15.07.2021 08:00;HVL25-RF28;7,45;1\n${lot};HVL25;L1;15.07.2021 08:00;HVL25-RF28;7,6;2\n${lot};HVL25;L1;15.07.2021 08:00;HVL25-AIR;2,95;1\n`,
     );
-    await signInAt('/results/upload', 'technician');
-    await heading('Upload results').waitFor();
+    await signIn(page, 'technician', '/results/upload');
+    await pageHeading(page, 'Upload results').waitFor();
     expect(await page.getByRole('link', { name: 'Download the CSV template' }).first().getAttribute('href')).toBe('/api/v1/uploads/template.csv');
 
-    await chooseFile(file);
+    await chooseFile(page, file);
     await page.getByTestId('detected-dialect').getByText('semicolon-separated, decimal comma').waitFor();
     expect(await page.getByLabel('Delimiter').inputValue()).toBe(';');
     expect(await page.getByLabel('Decimal mark').inputValue()).toBe('comma');
@@ -106,17 +69,17 @@ describe('CSV upload', () => {
     await screenshot(page, 'results-upload-imported');
 
     // The decimal commas were read as decimals: "7,45" is stored as 7.45.
-    expect(await storedValues(lot)).toEqual({ 'HVL25-AIR': [2.95], 'HVL25-RF28': [7.45, 7.6] });
+    expect(await storedValues(page, lot)).toEqual({ 'HVL25-AIR': [2.95], 'HVL25-RF28': [7.45, 7.6] });
   });
 
-  it('lists a bad row before anything is sent, and imports nothing', async () => {
+  it('lists a bad row before anything is sent, and imports nothing', async ({ page }) => {
     const lot = newLot();
     const file = csvFile(
       `bad-row-${stamp}.csv`,
       `lot;product;line;produced_at;characteristic;value;replicate\n${lot};HVL25;L1;16.07.2021 08:00;HVL25-DENS;1950;1\n${lot}-b;HVL25;L1;16.07.2021 08:00;HVL25-DENS;heavy;1\n${lot}-c;HVL25;L1;16.07.2021 08:00;HVL25-DENS;1948;1\n`,
     );
-    await signInAt('/results/upload', 'technician');
-    await chooseFile(file);
+    await signIn(page, 'technician', '/results/upload');
+    await chooseFile(page, file);
 
     const errors = page.getByRole('table', { name: 'Rows to correct' });
     await errors.waitFor();
@@ -131,16 +94,16 @@ describe('CSV upload', () => {
     await screenshot(page, 'results-upload-bad-row');
 
     // Nothing reached the server: no lot, and no upload of that name.
-    expect(await storedValues(lot)).toBeNull();
+    expect(await storedValues(page, lot)).toBeNull();
     const uploads = (await (await page.request.get(`${baseUrl()}/api/v1/uploads?limit=500`)).json()) as { items: { fileName: string }[] };
     expect(uploads.items.map((u) => u.fileName)).not.toContain(`bad-row-${stamp}.csv`);
   });
 
-  it('shows the server’s row errors with the error report, and which upload had the same file', async () => {
+  it('shows the server’s row errors with the error report, and which upload had the same file', async ({ page }) => {
     const lot = newLot();
     const header = 'lot,product,line,produced_at,characteristic,value,replicate';
-    await signInAt('/results/upload', 'technician');
-    await heading('Upload results').waitFor();
+    await signIn(page, 'technician', '/results/upload');
+    await pageHeading(page, 'Upload results').waitFor();
     const first = await page.request.post(`${baseUrl()}/api/v1/uploads`, {
       multipart: { file: { name: 'earlier.csv', mimeType: 'text/csv', buffer: Buffer.from(`${header}\n${lot},HVL25,L1,2021-07-17T08:00,HVL25-AIR,3.1,1\n`) } },
     });
@@ -148,7 +111,7 @@ describe('CSV upload', () => {
 
     // Right by itself, but replicate 1 of that lot is stored already: only the server can know.
     const again = csvFile(`again-${stamp}.csv`, `${header}\n${lot},HVL25,L1,2021-07-17T08:00,HVL25-AIR,3.4,1\n`);
-    await chooseFile(again);
+    await chooseFile(page, again);
     await page.getByRole('button', { name: 'Import 1 row' }).click();
     await page.getByText('Nothing was imported: 1 row needs correcting').waitFor();
     const serverErrors = page.getByRole('table', { name: 'Rows the server could not take' });
@@ -160,22 +123,22 @@ describe('CSV upload', () => {
     expect(csv.split('\r\n')[0]).toBe('row,column,message');
     expect(csv).toMatch(/^2,replicate,.*already stored/m);
     await screenshot(page, 'results-upload-server-rejected');
-    expect(await storedValues(lot)).toEqual({ 'HVL25-AIR': [3.1] });
+    expect(await storedValues(page, lot)).toEqual({ 'HVL25-AIR': [3.1] });
 
     // The first file once more, byte for byte: the server names the earlier upload.
     const sameBytes = csvFile(`earlier-copy-${stamp}.csv`, `${header}\n${lot},HVL25,L1,2021-07-17T08:00,HVL25-AIR,3.1,1\n`);
-    await chooseFile(sameBytes);
+    await chooseFile(page, sameBytes);
     await page.getByRole('button', { name: 'Import 1 row' }).click();
     const { id } = (await first.json()) as { id: number };
     await page.getByText(`this file was imported before, as upload ${id}`).waitFor();
   });
 
-  it('maps the columns of a wide export, saves the mapping and finds it again for the next file', async () => {
+  it('maps the columns of a wide export, saves the mapping and finds it again for the next file', async ({ page }) => {
     const lot = newLot();
     const name = `Ring export ${stamp}`;
     const wide = (lotNumber: string, a: string, b: string) => `Batch no;Prod;Line no;Made at;Spread 1;Spread 2\n${lotNumber};HVL25;L1;18.07.2021 06:10;${a};${b}\n`;
-    await signInAt('/results/upload', 'technician');
-    await chooseFile(csvFile(`ring-${stamp}.csv`, wide(lot, '144', '146')));
+    await signIn(page, 'technician', '/results/upload');
+    await chooseFile(page, csvFile(`ring-${stamp}.csv`, wide(lot, '144', '146')));
 
     await page.getByRole('heading', { name: '3. Which column holds what' }).waitFor();
     await page.getByLabel('One row per lot, a column per result').check();
@@ -196,24 +159,24 @@ describe('CSV upload', () => {
     await screenshot(page, 'results-upload-mapping');
     await page.getByRole('button', { name: 'Import 2 results from 1 row' }).click();
     await page.getByText(/Imported: 2 results/).waitFor();
-    expect(await storedValues(lot)).toEqual({ 'HVL25-FLOW': [144, 146] });
+    expect(await storedValues(page, lot)).toEqual({ 'HVL25-FLOW': [144, 146] });
 
     // The next export of that kind: the saved mapping fits its columns and is used at once.
     const next = newLot();
     await page.getByRole('button', { name: 'Upload another file' }).click();
-    await chooseFile(csvFile(`ring-next-${stamp}.csv`, wide(next, '145', '147')));
+    await chooseFile(page, csvFile(`ring-next-${stamp}.csv`, wide(next, '145', '147')));
     await page.getByText(`Using the saved mapping “${name}”.`).waitFor();
     await page.getByRole('button', { name: 'Import 2 results from 1 row' }).click();
     await page.getByText(/Imported: 2 results/).waitFor();
-    expect(await storedValues(next)).toEqual({ 'HVL25-FLOW': [145, 147] });
+    expect(await storedValues(page, next)).toEqual({ 'HVL25-FLOW': [145, 147] });
   });
 });
 
 describe('manual entry', () => {
-  it('converts compressive breaking loads in kN to MPa, evaluates the set and saves it', async () => {
+  it('converts compressive breaking loads in kN to MPa, evaluates the set and saves it', async ({ page }) => {
     const lot = newLot();
-    await signInAt('/results/enter', 'technician');
-    await heading('Enter a lot by hand').waitFor();
+    await signIn(page, 'technician', '/results/enter');
+    await pageHeading(page, 'Enter a lot by hand').waitFor();
     await page.getByLabel('Product', { exact: true }).selectOption('HVL25');
     // The product's own line is proposed.
     expect(await page.getByLabel('Production line').inputValue()).toBe('L1');
@@ -245,17 +208,17 @@ describe('manual entry', () => {
 
     await page.getByRole('button', { name: 'Save 6 results' }).click();
     await page.getByText(/Saved: 6 results of lot/).waitFor();
-    expect(await storedValues(lot)).toEqual({ 'HVL25-RC28': [25, 25.625, 26.25, 25, 25.625, 26.25] });
+    expect(await storedValues(page, lot)).toEqual({ 'HVL25-RC28': [25, 25.625, 26.25, 25, 25.625, 26.25] });
 
     await page.getByRole('link', { name: lot }).click();
-    await heading(`Lot ${lot}`).waitFor();
+    await pageHeading(page, `Lot ${lot}`).waitFor();
     expect(await page.getByRole('row', { name: /HVL25-RC28/ }).textContent()).toContain('25.6 MPa');
     await screenshot(page, 'results-lot');
   });
 
-  it('names an empty reading under its field and sends nothing', async () => {
+  it('names an empty reading under its field and sends nothing', async ({ page }) => {
     const lot = newLot();
-    await signInAt('/results/enter', 'technician');
+    await signIn(page, 'technician', '/results/enter');
     await page.getByLabel('Product', { exact: true }).selectOption('HVL25');
     await page.getByLabel('Lot number').fill(lot);
     await page.getByLabel('Production time').fill('2021-11-02T06:20');
@@ -266,17 +229,18 @@ describe('manual entry', () => {
     await page.getByRole('button', { name: 'Save 2 results' }).click();
     await card.getByText('Enter a number').waitFor();
     expect(await card.getByLabel('Reading 2').getAttribute('aria-invalid')).toBe('true');
-    expect(await storedValues(lot)).toBeNull();
+    expect(await storedValues(page, lot)).toBeNull();
   });
 });
 
 describe('roles', () => {
-  it('shows the auditor the history and the test methods, and no way to upload', async () => {
-    await signInAt('/results', 'auditor');
-    await heading('Upload history').waitFor();
+  it('shows the auditor the history and the test methods, and no way to upload', async ({ page }) => {
+    await signIn(page, 'auditor', '/results');
+    await pageHeading(page, 'Upload history').waitFor();
     expect(new URL(page.url()).pathname).toBe('/results/history');
     const tabs = page.getByRole('navigation', { name: 'Results pages' });
     expect(await tabs.getByRole('link').allTextContents()).toEqual(['Upload history']);
+    expect(await tabs.getByRole('link', { name: 'Upload history' }).getAttribute('aria-current')).toBe('page');
     expect(await page.getByText('Choose a CSV file').count()).toBe(0);
     expect(await page.getByRole('button', { name: 'Void…' }).count()).toBe(0);
     // The demo history came in through the upload path like any file.
@@ -284,13 +248,13 @@ describe('roles', () => {
     await screenshot(page, 'results-history-auditor');
 
     await page.goto(`${baseUrl()}/results/upload`);
-    await heading('Not allowed for your role').waitFor();
+    await pageHeading(page, 'Not allowed for your role').waitFor();
 
     await page.getByRole('navigation', { name: 'Main menu' }).getByRole('link', { name: 'Test methods' }).click();
-    await heading('Test methods').waitFor();
+    await pageHeading(page, 'Test methods').waitFor();
     await screenshot(page, 'results-test-methods');
     await page.getByRole('link', { name: /Compressive strength/ }).click();
-    await heading(/Compressive strength/).waitFor();
+    await pageHeading(page, /Compressive strength/).waitFor();
     // EN 196-1: Rc = Fc / 1600 mm²; 40 kN → 25.0 MPa.
     await page.getByText('Rc = Fc / 1600 mm² (EN 196-1).').waitFor();
     await page.getByText('A breaking load of 40 kN gives 25.0 MPa.').waitFor();
@@ -299,10 +263,10 @@ describe('roles', () => {
     await screenshot(page, 'results-test-method');
   });
 
-  it('lets a quality manager void an imported upload with a reason', async () => {
+  it('lets a quality manager void an imported upload with a reason', async ({ page }) => {
     const lot = newLot();
-    await signInAt('/results/history', 'quality_manager');
-    await heading('Upload history').waitFor();
+    await signIn(page, 'quality_manager', '/results/history');
+    await pageHeading(page, 'Upload history').waitFor();
     const fileName = `void-me-${stamp}.csv`;
     const created = await page.request.post(`${baseUrl()}/api/v1/uploads`, {
       multipart: { file: { name: fileName, mimeType: 'text/csv', buffer: Buffer.from(`lot,product,line,produced_at,characteristic,value\n${lot},HVL25,L1,2021-07-19T08:00,HVL25-AIR,9.9\n`) } },
@@ -320,6 +284,6 @@ describe('roles', () => {
     await dialog.getByRole('button', { name: 'Void upload' }).click();
     await row.getByText('Voided').waitFor();
     expect(await row.textContent()).toContain('Samples mixed with the wrong water dose');
-    expect(await storedValues(lot)).toEqual({});
+    expect(await storedValues(page, lot)).toEqual({});
   });
 });

@@ -1,9 +1,9 @@
 // SPC runs, alarms, the mail outbox and alert subscriptions in a real browser against the real
 // server of scripts/run-tests.ts, whose workers do the runs and whose fake SMTP server takes the mail.
-import { afterAll, afterEach, beforeAll, beforeEach, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect } from 'vitest';
 import type { Page } from 'playwright-core';
 import { sql } from 'drizzle-orm';
-import { baseUrl, launchBrowser, screenshot, type TestBrowser } from '../support/browser';
+import { baseUrl, browserTest, pageHeading, screenshot, signIn } from '../support/browser';
 import { databaseUrl, demoEmail } from '../support/api';
 import { DEMO_PASSWORD } from '../../api/db/seed';
 import { createDatabase } from '../../api/db/client';
@@ -11,14 +11,12 @@ import { createTestCharacteristic, removeTestCharacteristics, userIdByEmail, typ
 import type { Role } from '../../shared/schemas/users';
 
 const db = createDatabase(databaseUrl(), 2);
-let browser: TestBrowser;
-let page: Page;
+const it = browserTest({ timeout: 15_000 });
 let t: TestCharacteristic;
 const day = (d: number) => new Date(Date.UTC(2025, 9, 1 + d, 6)).toISOString();
 
 /** A characteristic with a subscriber, and one lot below its specification uploaded through the server (its hooks raise the alarm at once). */
 beforeAll(async () => {
-  browser = await launchBrowser();
   t = await createTestCharacteristic(db, { chartType: 'xbar-r', subgroupSize: 2, specs: [{ lsl: 135, usl: 155, effectiveFrom: day(-5) }] });
   for (let i = 0; i < 6; i++) await t.addLot(`W${i}`, day(i), [145, 146]);
   await db.execute(sql`insert into alarm_subscriptions (user_id, product_id, immediate, digest) values (${await userIdByEmail(db, demoEmail.admin)}, ${t.productId}, true, false)`);
@@ -31,36 +29,20 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-  await browser?.close();
   await removeTestCharacteristics(db);
   await db.$client.end();
 });
 
-beforeEach(async () => {
-  await browser.context.clearCookies();
-  page = await browser.context.newPage();
-  page.setDefaultTimeout(15_000);
-});
-
-afterEach(async () => {
-  await page?.close();
-});
-
-async function signInAs(role: Role, path: string) {
-  await page.goto(`${baseUrl()}${path}`);
-  await page.waitForURL('**/sign-in');
-  await page.getByLabel('E-mail').fill(demoEmail[role]);
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
+/** Signs in and waits until the app is back on the page asked for. */
+async function signInAt(page: Page, role: Role, path: string) {
+  await signIn(page, role, path);
   await page.waitForURL(`**${path}`);
 }
 
-const heading = (name: string) => page.getByRole('heading', { level: 1, name });
-
 describe('SPC runs page', () => {
-  it('lets a quality manager start a full run and follows its progress live to the end', async () => {
-    await signInAs('quality_manager', '/spc-runs');
-    await heading('SPC runs').waitFor();
+  it('lets a quality manager start a full run and follows its progress live to the end', async ({ page }) => {
+    await signInAt(page, 'quality_manager', '/spc-runs');
+    await pageHeading(page, 'SPC runs').waitFor();
     await page.getByRole('button', { name: 'Start a full run now' }).click();
     const notice = page.getByRole('status').filter({ hasText: /Run \d+ has been queued/ });
     await notice.waitFor();
@@ -78,18 +60,18 @@ describe('SPC runs page', () => {
     await screenshot(page, 'runs-finished');
   }, 150_000);
 
-  it('shows a technician the runs without the button that starts one', async () => {
-    await signInAs('technician', '/spc-runs');
-    await heading('SPC runs').waitFor();
+  it('shows a technician the runs without the button that starts one', async ({ page }) => {
+    await signInAt(page, 'technician', '/spc-runs');
+    await pageHeading(page, 'SPC runs').waitFor();
     await page.locator('tr[data-run]').first().waitFor();
     expect(await page.getByRole('button', { name: 'Start a full run now' }).count()).toBe(0);
   });
 });
 
 describe('alarms page', () => {
-  it('lists the out-of-specification lot with its values and limit, links the chart point, and takes an acknowledgement with a note', async () => {
-    await signInAs('quality_manager', '/alarms');
-    await heading('Alarms').waitFor();
+  it('lists the out-of-specification lot with its values and limit, links the chart point, and takes an acknowledgement with a note', async ({ page }) => {
+    await signInAt(page, 'quality_manager', '/alarms');
+    await pageHeading(page, 'Alarms').waitFor();
     // After a full run of the demo plant the list is long: find the lot.
     await page.getByLabel('Lot or characteristic').fill(t.lotNumber('LOW'));
     await page.getByRole('button', { name: 'Find' }).click();
@@ -120,9 +102,9 @@ describe('alarms page', () => {
 });
 
 describe('mail outbox page', () => {
-  it('shows the administrator the alarm e-mail the fake SMTP server received, with the chart link', async () => {
-    await signInAs('admin', '/admin/outbox');
-    await heading('Mail outbox').waitFor();
+  it('shows the administrator the alarm e-mail the fake SMTP server received, with the chart link', async ({ page }) => {
+    await signInAt(page, 'admin', '/admin/outbox');
+    await pageHeading(page, 'Mail outbox').waitFor();
     const item = page.locator('li[data-message]').filter({ hasText: `lot ${t.lotNumber('LOW')}` });
     await item.waitFor({ timeout: 20_000 });
     expect(await item.textContent()).toContain(`To ${demoEmail.admin}`);
@@ -135,9 +117,9 @@ describe('mail outbox page', () => {
 });
 
 describe('alerts by e-mail page', () => {
-  it('lets a technician subscribe to a product line for the morning digest and unsubscribe again', async () => {
-    await signInAs('technician', '/subscriptions');
-    await heading('Alerts by e-mail').waitFor();
+  it('lets a technician subscribe to a product line for the morning digest and unsubscribe again', async ({ page }) => {
+    await signInAt(page, 'technician', '/subscriptions');
+    await pageHeading(page, 'Alerts by e-mail').waitFor();
     await page.getByText('You receive no alarm e-mails').waitFor();
     await page.getByLabel('Product line or product').selectOption({ label: 'L2 · Line 2 · adhesives and repair mortars' });
     await page.getByLabel(/At once/).uncheck();

@@ -1,81 +1,44 @@
 // The web app shell in a real browser against the real server started by scripts/run-tests.ts:
 // sign-in, the role-aware menu and route guards, user administration, sign-out and not-found.
-import { afterAll, afterEach, beforeAll, beforeEach, describe, expect, it } from 'vitest';
+import { describe, expect } from 'vitest';
 import type { Page } from 'playwright-core';
-import { baseUrl, launchBrowser, screenshot, type TestBrowser } from '../support/browser';
-import { DEMO_PASSWORD, demoUsers } from '../../api/db/seed';
-import type { Role } from '../../shared/schemas/users';
+import { baseUrl, browserTest, demoEmailOf, pageHeading, screenshot, signIn, submitSignIn } from '../support/browser';
 
-const demoEmail = (role: Role) => {
-  const user = demoUsers.find((candidate) => candidate.role === role);
-  if (!user) throw new Error(`The demo seed has no ${role}`);
-  return user.email;
-};
+const it = browserTest();
 
-let browser: TestBrowser;
-let page: Page;
-
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-
-afterAll(async () => {
-  await browser?.close();
-});
-
-// Each test starts signed out in a page of its own, so one failure does not leak into the next.
-beforeEach(async () => {
-  await browser.context.clearCookies();
-  page = await browser.context.newPage();
-  // Well inside the test timeout, so a missing element fails with Playwright's message.
-  page.setDefaultTimeout(10_000);
-});
-
-afterEach(async () => {
-  await page?.close();
-});
-
-async function signIn(email: string, password: string) {
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(password);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-}
-
-const mainMenu = () => page.getByRole('navigation', { name: 'Main menu' });
-const heading = (name: string) => page.getByRole('heading', { level: 1, name });
+const mainMenu = (page: Page) => page.getByRole('navigation', { name: 'Main menu' });
 
 describe('web app shell', () => {
-  it('shows the server’s reason when the password is wrong and stays on sign-in', async () => {
+  it('shows the server’s reason when the password is wrong and stays on sign-in', async ({ page }) => {
     await page.goto(`${baseUrl()}/`);
     await page.waitForURL('**/sign-in');
     await page.getByRole('heading', { name: 'Sign in' }).waitFor();
     await screenshot(page, 'shell-sign-in');
 
-    await signIn(demoEmail('admin'), 'not-the-password');
+    await submitSignIn(page, demoEmailOf('admin'), 'not-the-password');
     const alert = page.getByRole('alert');
     await alert.waitFor();
     expect(await alert.textContent()).toContain('Wrong e-mail or password');
     expect(new URL(page.url()).pathname).toBe('/sign-in');
   });
 
-  it('checks the form before asking the server', async () => {
+  it('checks the form before asking the server', async ({ page }) => {
     await page.goto(`${baseUrl()}/sign-in`);
-    await signIn('not-an-address', '');
+    await submitSignIn(page, 'not-an-address', '');
     await page.getByText('Enter a valid e-mail address').waitFor();
     await page.getByText('Password is required').waitFor();
   });
 
-  it('lets the administrator add a user, change the role and deactivate it', async () => {
-    await page.goto(`${baseUrl()}/`);
-    await signIn(demoEmail('admin'), DEMO_PASSWORD);
-    await heading('Plant overview').waitFor();
+  it('lets the administrator add a user, change the role and deactivate it', async ({ page }) => {
+    await signIn(page, 'admin');
+    await pageHeading(page, 'Plant overview').waitFor();
     expect(await page.getByTestId('user-role').textContent()).toBe('Administrator');
-    expect(await mainMenu().getByText('Administration').isVisible()).toBe(true);
+    expect(await mainMenu(page).getByText('Administration').isVisible()).toBe(true);
     await screenshot(page, 'shell-layout-admin');
 
-    await mainMenu().getByRole('link', { name: 'Users' }).click();
-    await heading('Users').waitFor();
-    await page.getByRole('row').filter({ hasText: demoEmail('technician') }).waitFor();
+    await mainMenu(page).getByRole('link', { name: 'Users' }).click();
+    await pageHeading(page, 'Users').waitFor();
+    await page.getByRole('row').filter({ hasText: demoEmailOf('technician') }).waitFor();
 
     const stamp = Date.now().toString(36);
     const email = `tester.${stamp}@harrowvale.example`;
@@ -129,10 +92,9 @@ describe('web app shell', () => {
     expect(attempt.status()).toBe(401);
   });
 
-  it('sorts the user list by a column header', async () => {
-    await page.goto(`${baseUrl()}/admin/users`);
-    await signIn(demoEmail('admin'), DEMO_PASSWORD);
-    await heading('Users').waitFor();
+  it('sorts the user list by a column header', async ({ page }) => {
+    await signIn(page, 'admin', '/admin/users');
+    await pageHeading(page, 'Users').waitFor();
     const nameHeader = page.getByRole('columnheader', { name: 'Name and e-mail' });
     const firstName = () => page.locator('tbody tr').first().locator('td span').first().textContent();
 
@@ -145,29 +107,26 @@ describe('web app shell', () => {
     expect(descendingFirst!.localeCompare(ascendingFirst!)).toBeGreaterThan(0);
   });
 
-  it('keeps administration from a technician, in the menu and by address', async () => {
-    await page.goto(`${baseUrl()}/charts`);
-    await page.waitForURL('**/sign-in');
-    await signIn(demoEmail('technician'), DEMO_PASSWORD);
+  it('keeps administration from a technician, in the menu and by address', async ({ page }) => {
+    await signIn(page, 'technician', '/charts');
 
     // Back on the page asked for before signing in.
-    await heading('Control charts').waitFor();
+    await pageHeading(page, 'Control charts').waitFor();
     expect(new URL(page.url()).pathname).toBe('/charts');
-    const labels = await mainMenu().getByRole('link').allTextContents();
+    const labels = await mainMenu(page).getByRole('link').allTextContents();
     expect(labels).toEqual(['Plant overview', 'Control charts', 'Results & uploads', 'Test methods', 'Specifications & events', 'SPC runs', 'Alerts by e-mail']);
 
     await page.goto(`${baseUrl()}/admin/users`);
-    await heading('Not allowed for your role').waitFor();
+    await pageHeading(page, 'Not allowed for your role').waitFor();
     expect(await page.getByText('QC technician', { exact: true }).first().isVisible()).toBe(true);
     await screenshot(page, 'shell-not-allowed');
   });
 
-  it('shows not-found inside the layout, and sign-out returns to sign-in for good', async () => {
-    await page.goto(`${baseUrl()}/no-such-page`);
-    await signIn(demoEmail('auditor'), DEMO_PASSWORD);
-    await heading('Page not found').waitFor();
+  it('shows not-found inside the layout, and sign-out returns to sign-in for good', async ({ page }) => {
+    await signIn(page, 'auditor', '/no-such-page');
+    await pageHeading(page, 'Page not found').waitFor();
     expect(await page.getByText('/no-such-page').isVisible()).toBe(true);
-    const labels = await mainMenu().getByRole('link').allTextContents();
+    const labels = await mainMenu(page).getByRole('link').allTextContents();
     expect(labels).toEqual(['Plant overview', 'Control charts', 'Results & uploads', 'Test methods', 'Specifications & events', 'Alarms', 'SPC runs', 'Nonconformance reports', 'Reports & audit trail', 'Alerts by e-mail']);
 
     await page.getByRole('button', { name: 'Sign out' }).click();
@@ -181,25 +140,21 @@ describe('web app shell', () => {
     expect(me.status()).toBe(401);
   });
 
-  it('folds the menu behind a button on a narrow screen', async () => {
+  it('folds the menu behind a button on a narrow screen', async ({ page }) => {
+    // The page is the test's own, so its narrow size ends with it.
     await page.setViewportSize({ width: 768, height: 1024 });
-    try {
-      await page.goto(`${baseUrl()}/`);
-      await signIn(demoEmail('quality_manager'), DEMO_PASSWORD);
-      await heading('Plant overview').waitFor();
-      expect(await mainMenu().count()).toBe(0);
+    await signIn(page, 'quality_manager');
+    await pageHeading(page, 'Plant overview').waitFor();
+    expect(await mainMenu(page).count()).toBe(0);
 
-      await page.getByRole('button', { name: 'Menu' }).click();
-      await mainMenu().getByRole('link', { name: 'Nonconformance reports' }).click();
-      await heading('Nonconformance reports').waitFor();
-      expect(await page.getByText('Not available yet').isVisible()).toBe(true);
-      // Choosing a page closes the menu again.
-      expect(await mainMenu().count()).toBe(0);
-      await page.getByRole('button', { name: 'Menu' }).click();
-      await screenshot(page, 'shell-narrow-menu');
-      expect(await mainMenu().getByRole('link').allTextContents()).not.toContain('Users');
-    } finally {
-      await page.setViewportSize({ width: 1366, height: 900 });
-    }
+    await page.getByRole('button', { name: 'Menu' }).click();
+    await mainMenu(page).getByRole('link', { name: 'Nonconformance reports' }).click();
+    await pageHeading(page, 'Nonconformance reports').waitFor();
+    expect(await page.getByText('Not available yet').isVisible()).toBe(true);
+    // Choosing a page closes the menu again.
+    expect(await mainMenu(page).count()).toBe(0);
+    await page.getByRole('button', { name: 'Menu' }).click();
+    await screenshot(page, 'shell-narrow-menu');
+    expect(await mainMenu(page).getByRole('link').allTextContents()).not.toContain('Users');
   });
 });
