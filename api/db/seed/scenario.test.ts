@@ -258,6 +258,23 @@ describe('planted special causes', () => {
     }
   });
 
+  it('keeps the planted out-of-spec lots outside their specification whatever day the history ends', () => {
+    // The noise of each lot moves with the end date; a plant that lands near its limit fails on some days.
+    const spec = new Map(characteristics.map((c) => [c.code, c.spec]));
+    const inside: string[] = [];
+    for (let day = 0; day < 21; day++) {
+      const end = new Date(Date.UTC(2026, 10, 20 + day, 6));
+      const generated = generateDemoResults({ endDate: end });
+      for (const c of plantedCausesFor({ endDate: end }).filter((x) => x.kind === 'out-of-spec-lot')) {
+        const code = c.characteristicCodes[0];
+        const m = mean(generated.filter((r) => r.lot === c.lot && r.characteristic === code).map((r) => r.value));
+        const { lsl = -Infinity, usl = Infinity } = spec.get(code)!;
+        if (!(m < lsl || m > usl)) inside.push(`${end.toISOString().slice(0, 10)} ${c.id} ${m}`);
+      }
+    }
+    expect(inside).toEqual([]);
+  }, 30_000);
+
   it('leaves the processes capable outside the planted causes, with one marginal characteristic', () => {
     // Cpk = min(USL − x̄, x̄ − LSL) / 3σ within (ISO 22514-2), σ within from the ASTM E2587 constants.
     const cpk = new Map<string, number>();

@@ -5,6 +5,7 @@
  * the demo; spec limits follow the declared classes and common practice, not any real product.
  */
 import { type TestMethodCode, testMethod } from '../../../shared/lab';
+import { suggestedChartType } from '../../../shared/schemas/catalogue';
 
 // ---------------------------------------------------------------------------------------------
 // Plant, lines, shifts, products
@@ -216,12 +217,6 @@ const plans: readonly CharacteristicPlan[] = [
   hardened('HVR3', 'ADH', 28, 'tensile adhesion strength', 3, { lsl: 1.5 }, { mean: 2.1, sigmaWithin: 0.12, sigmaLot: 0.02, sampling: daySet, offsetMinutes: 0 }),
 ];
 
-/** X̄–R for small subgroups, X̄–S from ten replicates up, I–MR for single readings. */
-function chartTypeFor(replicates: number): ChartType {
-  if (replicates === 1) return 'imr';
-  return replicates >= 10 ? 'xbar-s' : 'xbar-r';
-}
-
 const productByCode = new Map(products.map((p) => [p.code, p]));
 
 // The pull-off method has one standard per product family.
@@ -253,7 +248,7 @@ export const characteristics: readonly Characteristic[] = plans.map((p) => ({
   name: `${productByCode.get(p.productCode)!.name} · ${p.label}`,
   unit: testMethod(p.testMethodCode).unit,
   replicates: p.replicates,
-  chartType: chartTypeFor(p.replicates),
+  chartType: suggestedChartType(p.replicates),
   ruleSet: p.ruleSet,
   spec: p.spec,
   samplingPlan: samplingPlanText(p),
@@ -475,13 +470,15 @@ interface OutOfSpecPlant {
   description: string;
 }
 
+// Each shift puts the lot's expected result at least four standard errors beyond its limit, so the
+// day's noise (which moves with the end date) never pulls a planted lot back inside.
 const outOfSpecPlants: readonly OutOfSpecPlant[] = [
-  { id: 'oos-hvlf-flow', characteristic: 'HVLF-FLOW', daysBefore: 150, add: -14, note: 'Mix looked stiff; second reading from a fresh mix', description: 'One lot of HV Level Fine with flow below the lower limit on both readings.' },
-  { id: 'oos-hvl25-rc28', characteristic: 'HVL25-RC28', daysBefore: 100, factor: 0.78, description: 'One lot of HV Level 25 below the declared C25 at 28 days.' },
-  { id: 'oos-hvfx-slip', characteristic: 'HVFX-SLIP', daysBefore: 75, add: 0.45, description: 'One lot of HV Fix Flex with slip above 0.5 mm.' },
-  { id: 'oos-hvfx-adh28', characteristic: 'HVFX-ADH28', daysBefore: 70, factor: 0.6, description: 'One lot of HV Fix Flex with tensile adhesion below 1.0 MPa at 28 days.' },
-  { id: 'oos-hvr3-dens', characteristic: 'HVR3-DENS', daysBefore: 45, add: -70, description: 'One lot of HV Patch R3 with fresh density below the lower limit.' },
-  { id: 'oos-hvl25-dens', characteristic: 'HVL25-DENS', daysBefore: 20, add: 60, description: 'One lot of HV Level 25 with fresh density above the upper limit.' },
+  { id: 'oos-hvlf-flow', characteristic: 'HVLF-FLOW', daysBefore: 150, add: -18, note: 'Mix looked stiff; second reading from a fresh mix', description: 'One lot of HV Level Fine with flow below the lower limit on both readings.' },
+  { id: 'oos-hvl25-rc28', characteristic: 'HVL25-RC28', daysBefore: 100, factor: 0.74, description: 'One lot of HV Level 25 below the declared C25 at 28 days.' },
+  { id: 'oos-hvfx-slip', characteristic: 'HVFX-SLIP', daysBefore: 75, add: 0.55, description: 'One lot of HV Fix Flex with slip above 0.5 mm.' },
+  { id: 'oos-hvfx-adh28', characteristic: 'HVFX-ADH28', daysBefore: 70, factor: 0.55, description: 'One lot of HV Fix Flex with tensile adhesion below 1.0 MPa at 28 days.' },
+  { id: 'oos-hvr3-dens', characteristic: 'HVR3-DENS', daysBefore: 45, add: -100, description: 'One lot of HV Patch R3 with fresh density below the lower limit.' },
+  { id: 'oos-hvl25-dens', characteristic: 'HVL25-DENS', daysBefore: 20, add: 100, description: 'One lot of HV Level 25 with fresh density above the upper limit.' },
 ];
 
 const planByCode = new Map(plans.map((p) => [p.code, p]));
