@@ -17,6 +17,9 @@ export const badRequest = (message: string, details?: unknown) => new HttpError(
 export const notFound = (what: string) => new HttpError(404, `${what} not found`);
 export const conflict = (message: string) => new HttpError(409, message);
 
+/** A unique index refused the row: PostgreSQL's 23505, as thrown by node-postgres or wrapped by Drizzle. */
+export const isUniqueViolation = (err: unknown) => (err as { code?: string })?.code === '23505' || (err as { cause?: { code?: string } })?.cause?.code === '23505';
+
 /** Parses with a shared zod schema; a failure becomes a 400 naming each field. */
 export function parseBody<T>(schema: ZodType<T>, input: unknown): T {
   const result = schema.safeParse(input);

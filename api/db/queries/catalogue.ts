@@ -2,8 +2,10 @@ import { asc, eq, sql } from 'drizzle-orm';
 import type { Database } from '../client';
 import { characteristics, productionLines, products, testMethods } from '../schema';
 
-/** Characteristics with product, test method and the specification revision in force now. */
-export async function listCharacteristics(db: Database) {
+type Reader = Pick<Database, 'select'>;
+
+/** Characteristics with product, test method and the specification revision in force now; one of them with `id`. */
+export async function listCharacteristics(db: Reader, id?: number) {
   return db
     .select({
       id: characteristics.id,
@@ -30,15 +32,19 @@ export async function listCharacteristics(db: Database) {
         select json_build_object('revision', s.revision, 'lsl', s.lsl, 'usl', s.usl, 'target', s.target, 'effectiveFrom', s.effective_from)
         from spec_limits s where s.characteristic_id = ${characteristics.id} and s.effective_from <= now()
         order by s.effective_from desc, s.revision desc limit 1)`,
+      /** Results were ever recorded under it (voided ones too): its code, product, method and age are fixed. */
+      hasResults: sql<boolean>`exists (select 1 from measurements m where m.characteristic_id = characteristics.id)`,
     })
     .from(characteristics)
     .innerJoin(products, eq(products.id, characteristics.productId))
     .innerJoin(testMethods, eq(testMethods.id, characteristics.testMethodId))
     .leftJoin(productionLines, eq(productionLines.id, products.lineId))
+    .where(id === undefined ? undefined : eq(characteristics.id, id))
     .orderBy(asc(products.code), asc(characteristics.id));
 }
 
-export async function listProducts(db: Database) {
+/** Products with their line; one of them with `id`. */
+export async function listProducts(db: Reader, id?: number) {
   return db
     .select({
       id: products.id,
@@ -49,8 +55,26 @@ export async function listProducts(db: Database) {
       active: products.active,
       lineCode: productionLines.code,
       lineName: productionLines.name,
+      /** Lots of it are recorded: its code is fixed. */
+      hasLots: sql<boolean>`exists (select 1 from lots l where l.product_id = products.id)`,
     })
     .from(products)
     .leftJoin(productionLines, eq(productionLines.id, products.lineId))
+    .where(id === undefined ? undefined : eq(products.id, id))
     .orderBy(asc(products.code));
+}
+
+/** Production lines; one of them with `id`. */
+export async function listLines(db: Reader, id?: number) {
+  return db
+    .select({
+      id: productionLines.id,
+      code: productionLines.code,
+      name: productionLines.name,
+      /** Lots were made on it: its code is fixed. */
+      hasLots: sql<boolean>`exists (select 1 from lots l where l.line_id = production_lines.id)`,
+    })
+    .from(productionLines)
+    .where(id === undefined ? undefined : eq(productionLines.id, id))
+    .orderBy(asc(productionLines.code));
 }

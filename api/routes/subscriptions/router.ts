@@ -3,11 +3,9 @@ import { and, eq, sql } from 'drizzle-orm';
 import type { Database } from '../../db/client';
 import { alarmSubscriptions, productionLines, products } from '../../db/schema';
 import { recordAudit } from '../../db/audit';
-import { badRequest, conflict, HttpError, notFound, parseBody } from '../../http/errors';
+import { badRequest, conflict, HttpError, isUniqueViolation, notFound, parseBody } from '../../http/errors';
 import { requireSession } from '../../auth/session';
 import { createSubscriptionSchema, subscriptionIdParamsSchema, updateSubscriptionSchema } from './schema';
-
-const isUniqueViolation = (err: unknown) => (err as { code?: string })?.code === '23505' || (err as { cause?: { code?: string } })?.cause?.code === '23505';
 
 /** Each signed-in user manages their own e-mail alerts. */
 export function subscriptionsRouter(db: Database): Router {

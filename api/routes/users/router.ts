@@ -5,7 +5,7 @@ import type { PublicUser } from '../../../shared/schemas/users';
 import type { Database } from '../../db/client';
 import { users } from '../../db/schema';
 import { recordAudit } from '../../db/audit';
-import { conflict, HttpError, notFound, parseBody } from '../../http/errors';
+import { conflict, HttpError, isUniqueViolation, notFound, parseBody } from '../../http/errors';
 import { requireRole, requireSession } from '../../auth/session';
 import { createUserSchema, updateUserSchema, userIdParamsSchema } from './schema';
 
@@ -22,8 +22,6 @@ const toPublic = (u: { id: number; email: string; name: string; role: PublicUser
   ...u,
   createdAt: u.createdAt.toISOString(),
 });
-
-const isUniqueViolation = (err: unknown) => (err as { code?: string })?.code === '23505' || (err as { cause?: { code?: string } })?.cause?.code === '23505';
 
 /** Administration of sign-ins. Admin only; every change lands in the audit trail. */
 export function usersRouter(db: Database): Router {

@@ -1,0 +1,305 @@
+import request from 'supertest';
+import { afterAll, describe, expect, it } from 'vitest';
+import { and, eq } from 'drizzle-orm';
+import { createTestApi } from '../../../tests/support/api';
+import { removeCatalogueRecords, testCodePrefix } from '../../../tests/support/catalogue';
+import { auditEvents, specLimits } from '../../db/schema';
+import type { Role } from '../../../shared/schemas/users';
+
+const api = createTestApi();
+const prefix = testCodePrefix('C');
+afterAll(async () => {
+  await removeCatalogueRecords(api.db, prefix);
+  await api.close();
+});
+
+const as = async (role: Role) => ({ authorization: `Bearer ${await api.tokenFor(role)}` });
+const admin = () => as('admin');
+let counter = 0;
+/** A fresh code of this run, in lower case to show that codes are stored in upper case. */
+const newCode = (kind: string) => `${prefix}${kind}${++counter}`;
+
+async function auditOf(entity: string, id: number) {
+  return api.db.select().from(auditEvents).where(and(eq(auditEvents.entity, entity), eq(auditEvents.entityId, String(id))));
+}
+
+async function newLine(): Promise<{ id: number; code: string }> {
+  const res = await request(api.app).post('/api/v1/lines').set(await admin()).send({ code: newCode('L'), name: 'Line 3 · renders' });
+  expect(res.status).toBe(201);
+  return res.body;
+}
+
+async function newProduct(lineCode = 'L1'): Promise<{ id: number; code: string }> {
+  const res = await request(api.app).post('/api/v1/products').set(await admin()).send({ code: newCode('P'), name: 'HV Render Light', family: 'render', declaredClass: 'GP CS II', lineCode });
+  expect(res.status).toBe(201);
+  return res.body;
+}
+
+const rc28 = (productCode: string, extra: Record<string, unknown> = {}) => ({
+  code: `${productCode}-RC28`,
+  name: 'HV Render Light · compressive strength · 28 d',
+  productCode,
+  testMethodCode: 'RC',
+  ageDays: 28,
+  subgroupSize: 6,
+  chartType: 'xbar-r',
+  ruleSet: 'we',
+  ...extra,
+});
+
+async function newCharacteristic(body: Record<string, unknown>) {
+  return request(api.app).post('/api/v1/characteristics').set(await admin()).send(body);
+}
+
+describe('who may change the catalogue', () => {
+  for (const role of ['technician', 'quality_manager', 'auditor'] as const) {
+    it(`refuses every write to ${role} (403) and still lets them read`, async () => {
+      const h = await as(role);
+      const writes = {
+        'POST /lines': request(api.app).post('/api/v1/lines').set(h).send({ code: newCode('L'), name: 'Line 9' }),
+        'PATCH /lines/1': request(api.app).patch('/api/v1/lines/1').set(h).send({ name: 'Renamed' }),
+        'POST /products': request(api.app).post('/api/v1/products').set(h).send({ code: newCode('P'), name: 'Some mortar', family: 'repair', lineCode: 'L1' }),
+        'PATCH /products/1': request(api.app).patch('/api/v1/products/1').set(h).send({ active: false }),
+        'POST /characteristics': request(api.app).post('/api/v1/characteristics').set(h).send(rc28('HVL25', { code: newCode('C') })),
+        'PATCH /characteristics/1': request(api.app).patch('/api/v1/characteristics/1').set(h).send({ active: false }),
+        'DELETE /characteristics/1': request(api.app).delete('/api/v1/characteristics/1').set(h),
+      };
+      for (const [label, write] of Object.entries(writes)) expect((await write).status, label).toBe(403);
+      for (const path of ['/api/v1/lines', '/api/v1/products', '/api/v1/characteristics']) {
+        expect((await request(api.app).get(path).set(h)).status).toBe(200);
+      }
+    });
+  }
+
+  it('answers 401 without a session', async () => {
+    expect((await request(api.app).post('/api/v1/lines').send({ code: newCode('L'), name: 'Line 9' })).status).toBe(401);
+    expect((await request(api.app).patch('/api/v1/characteristics/1').send({ active: false })).status).toBe(401);
+  });
+});
+
+describe('the lists other screens read', () => {
+  it('keep their fields and add only what the administrator needs', async () => {
+    const h = await as('technician');
+    const lines = (await request(api.app).get('/api/v1/lines').set(h)).body.items;
+    expect(lines.filter((l: { code: string }) => l.code === 'L1' || l.code === 'L2')).toEqual([
+      { id: expect.any(Number), code: 'L1', name: 'Line 1 · levelling compounds', hasLots: true },
+      { id: expect.any(Number), code: 'L2', name: 'Line 2 · adhesives and repair mortars', hasLots: true },
+    ]);
+    const product = (await request(api.app).get('/api/v1/products').set(h)).body.items.find((p: { code: string }) => p.code === 'HVL25');
+    expect(product).toEqual({ id: expect.any(Number), code: 'HVL25', name: 'HV Level 25', family: 'levelling', declaredClass: 'CT-C25-F6', active: true, lineCode: 'L1', lineName: 'Line 1 · levelling compounds', hasLots: true });
+    const flow = (await request(api.app).get('/api/v1/characteristics').set(h)).body.items.find((c: { code: string }) => c.code === 'HVL25-FLOW');
+    expect(Object.keys(flow).sort()).toEqual(
+      ['active', 'ageDays', 'chartType', 'code', 'decimals', 'hasResults', 'id', 'lineCode', 'name', 'productCode', 'productFamily', 'productId', 'productName', 'rawLoad', 'ruleSet', 'samplingPlan', 'spec', 'standard', 'subgroupSize', 'testMethodCode', 'testMethodName', 'unit'].sort(),
+    );
+    expect(flow).toMatchObject({ subgroupSize: 2, chartType: 'xbar-r', ageDays: null, hasResults: true });
+  });
+});
+
+describe('production lines', () => {
+  it('are added with an upper-case code, renamed and recoded while no lot was made on them, with an audit trail', async () => {
+    const code = newCode('l').toLowerCase();
+    const created = await request(api.app).post('/api/v1/lines').set(await admin()).send({ code, name: '  Line 3 · renders ' });
+    expect(created.status).toBe(201);
+    expect(created.body).toEqual({ id: expect.any(Number), code: code.toUpperCase(), name: 'Line 3 · renders', hasLots: false });
+    const id = created.body.id;
+
+    const renamed = await request(api.app).patch(`/api/v1/lines/${id}`).set(await admin()).send({ name: 'Line 3 · renders and plasters' });
+    expect(renamed.status).toBe(200);
+    expect(renamed.body.name).toBe('Line 3 · renders and plasters');
+    const recoded = newCode('L');
+    expect((await request(api.app).patch(`/api/v1/lines/${id}`).set(await admin()).send({ code: recoded })).body.code).toBe(recoded);
+
+    const trail = await auditOf('production line', id);
+    expect(trail.map((e) => e.action)).toEqual(['create', 'update', 'update']);
+    expect(trail[1].before).toMatchObject({ name: 'Line 3 · renders' });
+    expect(trail[1].after).toMatchObject({ name: 'Line 3 · renders and plasters' });
+  });
+
+  it('refuse a code in use (409), whatever its letter case, and a code change once lots were made (409)', async () => {
+    const taken = await request(api.app).post('/api/v1/lines').set(await admin()).send({ code: 'l1', name: 'Another line 1' });
+    expect(taken.status).toBe(409);
+    expect(taken.body.error).toBe('Line code L1 is already used by Line 1 · levelling compounds');
+
+    const lines = (await request(api.app).get('/api/v1/lines').set(await admin())).body.items;
+    const l1 = lines.find((l: { code: string }) => l.code === 'L1');
+    const recode = await request(api.app).patch(`/api/v1/lines/${l1.id}`).set(await admin()).send({ code: newCode('L') });
+    expect(recode.status).toBe(409);
+    expect(recode.body.error).toMatch(/^Lots were made on line L1/);
+  });
+
+  it('explain invalid input field by field, and are never deleted (405)', async () => {
+    const bad = await request(api.app).post('/api/v1/lines').set(await admin()).send({ code: 'L 3', name: '' });
+    expect(bad.status).toBe(400);
+    expect(bad.body.details.map((d: { path: string }) => d.path).sort()).toEqual(['code', 'name']);
+    const empty = await request(api.app).patch('/api/v1/lines/1').set(await admin()).send({});
+    expect(empty.status).toBe(400);
+    expect(empty.body.error).toMatch(/^Nothing to change/);
+    expect((await request(api.app).patch('/api/v1/lines/999999').set(await admin()).send({ name: 'Ghost line' })).status).toBe(404);
+    const line = await newLine();
+    const removed = await request(api.app).delete(`/api/v1/lines/${line.id}`).set(await admin());
+    expect(removed.status).toBe(405);
+    expect(removed.headers.allow).toBe('PATCH');
+    expect(removed.body.error).toMatch(/never deleted/);
+  });
+});
+
+describe('products', () => {
+  it('write an EN 13813 designation in its usual form and refuse a class the standard does not have', async () => {
+    // Compressive classes of EN 13813 (from memory of its Table 2, as in shared/lab/en13813.test.ts):
+    // … C20, C25, C30 …, so C25 is a class and C27 is not.
+    const line = await newLine();
+    const ok = await request(api.app).post('/api/v1/products').set(await admin()).send({ code: newCode('p'), name: 'HV Level 25 Plus', family: 'Levelling', declaredClass: 'ct-c25-f6', lineCode: line.code });
+    expect(ok.status).toBe(201);
+    expect(ok.body).toMatchObject({ family: 'levelling', declaredClass: 'CT-C25-F6', lineCode: line.code, active: true, hasLots: false });
+
+    const wrong = await request(api.app).post('/api/v1/products').set(await admin()).send({ code: newCode('P'), name: 'HV Level 27', family: 'levelling', declaredClass: 'CT-C27-F6', lineCode: 'L1' });
+    expect(wrong.status).toBe(400);
+    expect(wrong.body.details).toEqual([{ path: 'declaredClass', message: 'C27 is not a compressive class of EN 13813; write it like CT-C25-F6' }]);
+
+    // EN 12004 tile adhesive classes are kept as typed: they are not EN 13813 designations.
+    const adhesive = await request(api.app).post('/api/v1/products').set(await admin()).send({ code: newCode('P'), name: 'HV Fix Rapid', family: 'tile-adhesive', declaredClass: 'C2F S1', lineCode: 'L2' });
+    expect(adhesive.body.declaredClass).toBe('C2F S1');
+  });
+
+  it('refuse an unknown line (400) and a code in use (409)', async () => {
+    const unknown = await request(api.app).post('/api/v1/products').set(await admin()).send({ code: newCode('P'), name: 'HV Patch R4', family: 'repair', lineCode: 'NOSUCHLINE' });
+    expect(unknown.status).toBe(400);
+    expect(unknown.body.details).toEqual([{ path: 'lineCode', message: 'There is no production line NOSUCHLINE' }]);
+    const taken = await request(api.app).post('/api/v1/products').set(await admin()).send({ code: 'hvl25', name: 'HV Level 25 again', family: 'levelling', lineCode: 'L1' });
+    expect(taken.status).toBe(409);
+    expect(taken.body.error).toBe('Product code HVL25 is already used by HV Level 25');
+  });
+
+  it('are moved to another line, deactivated and reactivated, never deleted, and keep a code lots were made under', async () => {
+    const line = await newLine();
+    const product = await newProduct();
+    const h = await admin();
+    const moved = await request(api.app).patch(`/api/v1/products/${product.id}`).set(h).send({ lineCode: line.code, declaredClass: '' });
+    expect(moved.body).toMatchObject({ lineCode: line.code, declaredClass: null });
+    const off = await request(api.app).patch(`/api/v1/products/${product.id}`).set(h).send({ active: false });
+    expect(off.body.active).toBe(false);
+    expect((await request(api.app).patch(`/api/v1/products/${product.id}`).set(h).send({ active: true })).body.active).toBe(true);
+    expect((await auditOf('product', product.id)).map((e) => e.action)).toEqual(['create', 'update', 'deactivate', 'reactivate']);
+    expect((await request(api.app).delete(`/api/v1/products/${product.id}`).set(h)).status).toBe(405);
+
+    const demo = (await request(api.app).get('/api/v1/products').set(h)).body.items.find((p: { code: string }) => p.code === 'HVLF');
+    const recode = await request(api.app).patch(`/api/v1/products/${demo.id}`).set(h).send({ code: newCode('P') });
+    expect(recode.status).toBe(409);
+    expect(recode.body.error).toMatch(/^Lots of HVLF are recorded under that code/);
+  });
+});
+
+describe('characteristics', () => {
+  it('take the unit from the test method and may bring their first specification revision', async () => {
+    const product = await newProduct();
+    const created = await newCharacteristic(rc28(product.code, { samplingPlan: 'First lot of each shift; a set of three prisms', spec: { lsl: 25, reason: 'Lower limit from the declared class C25' } }));
+    expect(created.status).toBe(201);
+    // EN 196-1 gives compressive strength in MPa (N/mm²).
+    expect(created.body).toMatchObject({ code: `${product.code}-RC28`, unit: 'MPa', testMethodCode: 'RC', ageDays: 28, subgroupSize: 6, chartType: 'xbar-r', active: true, hasResults: false });
+    expect(created.body.spec).toMatchObject({ revision: 1, lsl: 25, usl: null, target: null });
+
+    const [revision] = await api.db.select().from(specLimits).where(eq(specLimits.characteristicId, created.body.id));
+    expect(revision.reason).toBe('Lower limit from the declared class C25');
+    const history = await request(api.app).get(`/api/v1/characteristics/${created.body.id}/spec-revisions`).set(await as('auditor'));
+    expect(history.body.items.map((r: { revision: number }) => r.revision)).toEqual([1]);
+    expect((await auditOf('characteristic', created.body.id)).map((e) => e.action)).toEqual(['create', 'revise specification']);
+
+    const fresh = await newCharacteristic({ code: `${product.code}-AIR`, name: 'HV Render Light · air content', productCode: product.code, testMethodCode: 'AIR', ageDays: null, subgroupSize: 1, chartType: 'imr', ruleSet: 'extended' });
+    expect(fresh.status).toBe(201);
+    // EN 1015-7 gives the air content of fresh mortar in per cent by volume.
+    expect(fresh.body).toMatchObject({ unit: '%', spec: null, ruleSet: 'extended', samplingPlan: null });
+  });
+
+  it('refuse an unknown product or method (400) and a code in use (409)', async () => {
+    const product = await newProduct();
+    const unknownProduct = await newCharacteristic(rc28('NOSUCHPRODUCT', { code: newCode('C') }));
+    expect(unknownProduct.status).toBe(400);
+    expect(unknownProduct.body.details).toEqual([{ path: 'productCode', message: 'There is no product NOSUCHPRODUCT' }]);
+    const unknownMethod = await newCharacteristic(rc28(product.code, { testMethodCode: 'SLUMP' }));
+    expect(unknownMethod.status).toBe(400);
+    expect(unknownMethod.body.details).toEqual([{ path: 'testMethodCode', message: 'Choose a test method from the catalogue' }]);
+    const taken = await newCharacteristic(rc28(product.code, { code: 'hvl25-flow' }));
+    expect(taken.status).toBe(409);
+    expect(taken.body.error).toBe('Characteristic code HVL25-FLOW is already used by HV Level 25 · flow diameter');
+  });
+
+  it('refuse a subgroup size out of range and a chart type that does not fit it', async () => {
+    const product = await newProduct();
+    const refusal = async (extra: Record<string, unknown>) => {
+      const res = await newCharacteristic(rc28(product.code, extra));
+      expect(res.status, JSON.stringify(extra)).toBe(400);
+      return res.body.details as { path: string; message: string }[];
+    };
+    // Control chart constants are tabled for subgroups of 2 to 25 (ASTM E2587, ISO 7870-2; from memory).
+    expect(await refusal({ subgroupSize: 0 })).toContainEqual({ path: 'subgroupSize', message: 'The subgroup size is at least 1' });
+    expect(await refusal({ subgroupSize: 26, chartType: 'xbar-s' })).toContainEqual({ path: 'subgroupSize', message: 'The subgroup size is at most 25' });
+    expect(await refusal({ subgroupSize: 2.5 })).toContainEqual({ path: 'subgroupSize', message: 'The subgroup size is a whole number' });
+    // An individuals chart plots one reading per lot; a range or standard deviation needs two (common practice).
+    expect(await refusal({ subgroupSize: 3, chartType: 'imr' })).toEqual([
+      { path: 'chartType', message: 'An individuals chart takes one reading per lot: set the subgroup size to 1, or choose X̄–R or X̄–S' },
+    ]);
+    expect((await refusal({ subgroupSize: 1, chartType: 'xbar-r' }))[0].path).toBe('chartType');
+    expect((await refusal({ subgroupSize: 1, chartType: 'xbar-s' }))[0].path).toBe('chartType');
+    // Above ten values the range wastes information and X̄–S serves (common practice; the engine's reason r-chart-large-subgroups).
+    expect(await refusal({ subgroupSize: 12, chartType: 'xbar-r' })).toEqual([{ path: 'chartType', message: 'An X̄–R chart takes at most 10 readings per lot; choose the X̄–S chart' }]);
+    expect((await newCharacteristic(rc28(product.code, { subgroupSize: 12, chartType: 'xbar-s' }))).status).toBe(201);
+  });
+
+  it('give an age to hardened-mortar tests only', async () => {
+    const product = await newProduct();
+    // Strength is tested on hardened prisms at an age; flow on fresh mortar minutes after mixing (EN 196-1, EN 12706).
+    const noAge = await newCharacteristic(rc28(product.code, { ageDays: null }));
+    expect(noAge.body.details).toEqual([{ path: 'ageDays', message: 'Compressive strength (prism halves, 40 × 40 mm platens) is tested on hardened specimens: give their age in days, e.g. 28' }]);
+    const flowWithAge = await newCharacteristic(rc28(product.code, { code: `${product.code}-FLOW`, testMethodCode: 'FLOW', ageDays: 7, subgroupSize: 2 }));
+    expect(flowWithAge.body.details).toEqual([{ path: 'ageDays', message: 'Flow diameter (ring spread on glass) is a fresh-mortar test: leave the age empty' }]);
+  });
+
+  it('keep code, product, method and age once results are recorded, and are deactivated rather than deleted', async () => {
+    const product = await newProduct();
+    const h = await admin();
+    const created = await newCharacteristic(rc28(product.code, { subgroupSize: 3, chartType: 'xbar-r' }));
+    const id = created.body.id;
+
+    // Before any result, everything may still change.
+    const recoded = await request(api.app).patch(`/api/v1/characteristics/${id}`).set(h).send({ code: `${product.code}-RC7`, ageDays: 7 });
+    expect(recoded.status).toBe(200);
+    expect(recoded.body).toMatchObject({ code: `${product.code}-RC7`, ageDays: 7 });
+    // A change of method brings the method's unit: air content in % (EN 1015-7).
+    const air = await request(api.app).patch(`/api/v1/characteristics/${id}`).set(h).send({ testMethodCode: 'AIR', ageDays: null });
+    expect(air.body).toMatchObject({ testMethodCode: 'AIR', unit: '%' });
+    await request(api.app).patch(`/api/v1/characteristics/${id}`).set(h).send({ testMethodCode: 'RC', ageDays: 7 }).expect(200);
+
+    // A merged change is judged whole: size 1 with the stored X̄–R chart does not fit.
+    const misfit = await request(api.app).patch(`/api/v1/characteristics/${id}`).set(h).send({ subgroupSize: 1 });
+    expect(misfit.status).toBe(400);
+    expect(misfit.body.details[0].path).toBe('chartType');
+
+    const csv = `lot,product,line,produced_at,characteristic,value,replicate\n${product.code}-1,${product.code},L1,2021-03-01T07:00,${product.code}-RC7,21.5,1\n${product.code}-1,${product.code},L1,2021-03-01T07:00,${product.code}-RC7,22.1,2\n`;
+    expect((await request(api.app).post('/api/v1/uploads').set(h).attach('file', Buffer.from(csv), `${product.code}.csv`)).status).toBe(201);
+    expect((await request(api.app).get('/api/v1/characteristics').set(h)).body.items.find((c: { id: number }) => c.id === id).hasResults).toBe(true);
+
+    const frozen = await request(api.app).patch(`/api/v1/characteristics/${id}`).set(h).send({ code: `${product.code}-RC7B`, ageDays: 28 });
+    expect(frozen.status).toBe(409);
+    expect(frozen.body.error).toBe(`Results are recorded under ${product.code}-RC7, so its code, age cannot change. Deactivate it and add a new characteristic instead`);
+    const shrink = await request(api.app).patch(`/api/v1/characteristics/${id}`).set(h).send({ subgroupSize: 1, chartType: 'imr' });
+    expect(shrink.status).toBe(409);
+    expect(shrink.body.error).toMatch(/up to 2 readings stored, so the subgroup size cannot go below 2$/);
+    const renamed = await request(api.app).patch(`/api/v1/characteristics/${id}`).set(h).send({ name: 'HV Render Light · compressive strength · 7 d', subgroupSize: 2 });
+    expect(renamed.body).toMatchObject({ name: 'HV Render Light · compressive strength · 7 d', subgroupSize: 2 });
+
+    const removed = await request(api.app).delete(`/api/v1/characteristics/${id}`).set(h);
+    expect(removed.status).toBe(405);
+    expect(removed.body.error).toMatch(/^Characteristics are never deleted.*Deactivate it instead/);
+    const off = await request(api.app).patch(`/api/v1/characteristics/${id}`).set(h).send({ active: false });
+    expect(off.body.active).toBe(false);
+    // A deactivated characteristic takes no more results.
+    const later = csv.replaceAll(`${product.code}-1`, `${product.code}-2`);
+    const refused = await request(api.app).post('/api/v1/uploads').set(h).attach('file', Buffer.from(later), `${product.code}-later.csv`);
+    expect(refused.status).toBe(422);
+    expect(refused.body.errors[0]).toMatchObject({ column: 'characteristic', message: `Unknown characteristic code "${product.code}-RC7"` });
+
+    const trail = await auditOf('characteristic', id);
+    expect(trail.map((e) => e.action)).toEqual(['create', 'update', 'update', 'update', 'update', 'deactivate']);
+    expect(trail.at(-1)!.before).toMatchObject({ code: `${product.code}-RC7`, active: true });
+  });
+});

@@ -1,0 +1,39 @@
+// The catalogue tests add lines, products and characteristics through the API as an administrator
+// would. The product never deletes them; the tests do, so that the files after them see the demo
+// plant alone (their catalogue and overview checks count it). Audit rows and uploads stay.
+import { sql } from 'drizzle-orm';
+import type { Database } from '../../api/db/client';
+
+/** A code prefix unique to one test run, e.g. "ZK3F9Q": upper case, as codes are stored. */
+export function testCodePrefix(letter: string): string {
+  return `Z${letter}${Date.now().toString(36).toUpperCase()}`;
+}
+
+/** Deletes the lines, products and characteristics whose codes start with `prefix`, with what hangs on them. */
+export async function removeCatalogueRecords(db: Database, prefix: string): Promise<void> {
+  const like = `${prefix.replace(/[%_\\]/g, '\\$&')}%`;
+  await db.transaction(async (tx) => {
+    await tx.execute(sql`create temporary table doomed_products on commit drop as select id from products where code like ${like}`);
+    await tx.execute(sql`create temporary table doomed_lines on commit drop as select id from production_lines where code like ${like}`);
+    await tx.execute(sql`
+      create temporary table doomed_characteristics on commit drop as
+      select id from characteristics where code like ${like} or product_id in (select id from doomed_products)`);
+    await tx.execute(sql`
+      create temporary table doomed_lots on commit drop as
+      select id from lots where product_id in (select id from doomed_products) or line_id in (select id from doomed_lines)`);
+    for (const table of ['alarms', 'spc_snapshots', 'spc_run_items', 'point_exclusions', 'control_limit_revisions', 'spec_limits']) {
+      await tx.execute(sql`delete from ${sql.identifier(table)} where characteristic_id in (select id from doomed_characteristics)`);
+    }
+    await tx.execute(sql`delete from alarms where lot_id in (select id from doomed_lots)`);
+    await tx.execute(sql`delete from point_exclusions where lot_id in (select id from doomed_lots)`);
+    await tx.execute(sql`delete from measurements where characteristic_id in (select id from doomed_characteristics) or lot_id in (select id from doomed_lots)`);
+    await tx.execute(sql`delete from lots where id in (select id from doomed_lots)`);
+    await tx.execute(sql`delete from characteristics where id in (select id from doomed_characteristics)`);
+    await tx.execute(sql`
+      delete from alarm_subscriptions where product_id in (select id from doomed_products) or line_id in (select id from doomed_lines)`);
+    await tx.execute(sql`
+      delete from process_events where product_id in (select id from doomed_products) or line_id in (select id from doomed_lines)`);
+    await tx.execute(sql`delete from products where id in (select id from doomed_products)`);
+    await tx.execute(sql`delete from production_lines where id in (select id from doomed_lines)`);
+  });
+}
