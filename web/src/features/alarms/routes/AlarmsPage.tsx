@@ -1,6 +1,10 @@
 import { useState } from 'react';
 import { Link } from 'react-router';
 import { useAlarms, type Alarm, type AlarmStatus } from '../api/alarms';
+import { usePlantTimeZone } from '../../results/api/catalogue';
+import { formatPlantDateTime } from '../../results/lib/plant-time';
+import { ruleLabels } from '../../charts/lib/format';
+import type { RuleId } from '../../../../../shared/spc';
 import { AlarmNoteDialog } from '../components/AlarmNoteDialog';
 import { useSignedInUser } from '../../auth/api/session';
 import { PageHeader } from '../../../components/ui/PageHeader';
@@ -18,21 +22,28 @@ const tabs: { status: AlarmStatus; label: string; empty: string }[] = [
   { status: 'closed', label: 'Closed', empty: 'No alarm has been closed yet.' },
 ];
 
-const time = new Intl.DateTimeFormat('en-GB', { day: '2-digit', month: 'short', year: 'numeric', hour: '2-digit', minute: '2-digit' });
-const when = (iso: string | null) => (iso ? time.format(new Date(iso)) : '—');
 const PAGE = 100;
 const fmt = (v: number, d: number) => v.toFixed(Math.max(0, Math.min(6, d)));
 
-function AlarmRow({ alarm, mayDecide, onAction }: { alarm: Alarm; mayDecide: boolean; onAction: (a: 'acknowledge' | 'close') => void }) {
+/** "Rule 4", "Trend": the run rule as the chart page names it; null for an out-of-specification alarm. */
+function ruleName(rule: string): string | null {
+  const label = ruleLabels[rule as RuleId] as string | undefined;
+  return label ? label.split(' · ')[0] : null;
+}
+
+function AlarmRow({ alarm, timeZone, mayDecide, onAction }: { alarm: Alarm; timeZone: string; mayDecide: boolean; onAction: (a: 'acknowledge' | 'close') => void }) {
   const c = alarm.characteristic;
+  const rule = ruleName(alarm.rule);
   return (
     <tr className="border-b border-zinc-100 align-top" data-alarm={alarm.id}>
-      <td className="figures px-3 py-2 text-sm whitespace-nowrap">{when(alarm.createdAt)}</td>
+      <td className="figures px-3 py-2 text-sm">{formatPlantDateTime(alarm.createdAt, timeZone)}</td>
       <td className="px-3 py-2">
         <span className="block font-medium">{alarm.signal}</span>
-        <span className="block text-sm text-zinc-600">
-          {alarm.rule} · {alarm.chart === 'location' ? 'location chart' : 'dispersion chart'}
-        </span>
+        {rule && (
+          <span className="block text-sm text-zinc-600">
+            {rule} · {alarm.chart === 'location' ? 'location chart' : 'dispersion chart'}
+          </span>
+        )}
         {alarm.late && <Badge tone="warning">Earlier position</Badge>}
       </td>
       <td className="px-3 py-2">
@@ -43,8 +54,8 @@ function AlarmRow({ alarm, mayDecide, onAction }: { alarm: Alarm; mayDecide: boo
         </span>
       </td>
       <td className="px-3 py-2">
-        <span className="block font-mono text-sm">{alarm.lot.lotNumber}</span>
-        <span className="block text-sm text-zinc-600">produced {when(alarm.lot.producedAt)}</span>
+        <span className="block font-mono text-sm whitespace-nowrap">{alarm.lot.lotNumber}</span>
+        <span className="block text-sm text-zinc-600">produced {formatPlantDateTime(alarm.lot.producedAt, timeZone)}</span>
       </td>
       <td className="figures px-3 py-2 text-sm">
         <span className="block">
@@ -56,7 +67,8 @@ function AlarmRow({ alarm, mayDecide, onAction }: { alarm: Alarm; mayDecide: boo
           </span>
         )}
       </td>
-      <td className="max-w-md px-3 py-2 text-sm">
+      {/* The account of what happened is the longest text of the row: it gets the room, the date wraps instead. */}
+      <td className="max-w-md min-w-52 px-3 py-2 text-sm">
         <p>{alarm.description}</p>
         {alarm.lateReason && <p className="mt-1 text-amber-900">{alarm.lateReason}</p>}
         {alarm.acknowledgeNote && (
@@ -100,6 +112,7 @@ export default function AlarmsPage() {
   const [q, setQ] = useState('');
   const [limit, setLimit] = useState(PAGE);
   const alarms = useAlarms({ status, q, limit });
+  const timeZone = usePlantTimeZone().data ?? 'UTC';
   const mayDecide = me.role === 'quality_manager' || me.role === 'admin';
   const tab = tabs.find((t) => t.status === status)!;
 
@@ -160,8 +173,8 @@ export default function AlarmsPage() {
               <caption className="sr-only">{tab.label} alarms, newest first</caption>
               <thead className="bg-zinc-100/80 text-sm text-zinc-700">
                 <tr>
-                  {['Raised', 'Signal', 'Characteristic', 'Lot', 'Values and limit', 'What happened', ''].map((h) => (
-                    <th key={h} scope="col" className="border-b border-zinc-200 px-3 py-2.5 font-semibold whitespace-nowrap">
+                  {['Raised (plant time)', 'Signal', 'Characteristic', 'Lot', 'Values and limit', 'What happened', ''].map((h) => (
+                    <th key={h} scope="col" className="border-b border-zinc-200 px-3 py-2.5 align-bottom font-semibold">
                       {h}
                     </th>
                   ))}
@@ -169,7 +182,7 @@ export default function AlarmsPage() {
               </thead>
               <tbody>
                 {alarms.data.items.map((a) => (
-                  <AlarmRow key={a.id} alarm={a} mayDecide={mayDecide} onAction={(action) => setActing({ alarm: a, action })} />
+                  <AlarmRow key={a.id} alarm={a} timeZone={timeZone} mayDecide={mayDecide} onAction={(action) => setActing({ alarm: a, action })} />
                 ))}
               </tbody>
             </table>
