@@ -95,6 +95,8 @@ describe('cautions and degenerate input', () => {
     expect(cap.normality?.p).toBeLessThan(0.001);
     const note = cap.notes.find((n) => n.code === 'not-normal');
     expect(note?.message).toMatch(/not look normally distributed/);
+    // A bound reads "p < 0.001", never "p = < 0.001".
+    expect(note?.message).toContain('(Anderson–Darling p < 0.001)');
   });
   it('no specification: indices null with a reason', () => {
     const cap = computeCapability({ values: [1, 2, 3], sigmaWithin: 1 });

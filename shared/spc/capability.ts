@@ -236,7 +236,7 @@ export function computeCapability(input: CapabilityInput): CapabilityResult {
     else if (normality.p < 0.05) {
       notes.push({
         code: 'not-normal',
-        message: `The values do not look normally distributed (Anderson–Darling p = ${normality.p < 0.001 ? '< 0.001' : normality.p.toFixed(3)}). The indices and the expected ppm assume a normal distribution and may mislead; compare with the observed ppm and look at the histogram.`,
+        message: `The values do not look normally distributed (Anderson–Darling p ${normality.p < 0.001 ? '< 0.001' : `= ${normality.p.toFixed(3)}`}). The indices and the expected ppm assume a normal distribution and may mislead; compare with the observed ppm and look at the histogram.`,
       });
     }
   }

@@ -33,14 +33,16 @@ export function LimitsSummary({ chart, timeZone }: { chart: CharacteristicChart;
             : 'Estimated from every kept point shown (phase I). They move as points are added or excluded, until limits are frozen.'}
         </p>
       </div>
-      <dl className="grid grid-cols-2 gap-x-6 gap-y-2 sm:grid-cols-4 lg:grid-cols-8">
+      {/* One number per cell, so that a figure never breaks over two lines at 1366 px or on a tablet. */}
+      <dl className="grid grid-cols-2 gap-x-4 gap-y-2 sm:grid-cols-3 md:grid-cols-5 xl:grid-cols-9">
         <Figure label={`${names.location} centre line`} value={figure(limits.location.center, loc)} testId="limit-center" />
         <Figure label="UCL" value={figure(limits.location.ucl, loc)} testId="limit-ucl" />
         <Figure label="LCL" value={figure(limits.location.lcl, loc)} testId="limit-lcl" />
         <Figure label="σ within" value={figure(limits.sigmaWithin, disp)} />
         <Figure label={`${names.dispersion} centre line`} value={figure(limits.dispersion.center, disp)} />
         <Figure label={`${names.dispersion} UCL`} value={figure(limits.dispersion.ucl, disp)} />
-        <Figure label="LSL / USL" value={`${figure(spec?.lsl, decimals)} / ${figure(spec?.usl, decimals)}`} />
+        <Figure label="LSL" value={figure(spec?.lsl, decimals)} />
+        <Figure label="USL" value={figure(spec?.usl, decimals)} />
         <Figure label="Target" value={figure(spec?.target, decimals)} />
       </dl>
       <p className="text-sm text-zinc-500">Figures in {unit}. Specification revision {spec?.revision ?? '–'} in force now.</p>

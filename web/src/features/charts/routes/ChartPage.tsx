@@ -134,24 +134,26 @@ export default function ChartPage() {
             <label htmlFor="chart-period" className="self-center text-sm font-medium text-zinc-800">
               Period
             </label>
-            <Select
-              id="chart-period"
-              value={period}
-              onChange={(e) =>
-                setSearch((s) => {
-                  s.set('period', e.target.value);
-                  s.delete('point');
-                  return s;
-                })
-              }
-              className="w-44"
-            >
-              {periods.map((p) => (
-                <option key={p.value} value={p.value}>
-                  {p.label}
-                </option>
-              ))}
-            </Select>
+            {/* The select fills its box; the box keeps it beside its label and the link. */}
+            <div className="w-44">
+              <Select
+                id="chart-period"
+                value={period}
+                onChange={(e) =>
+                  setSearch((s) => {
+                    s.set('period', e.target.value);
+                    s.delete('point');
+                    return s;
+                  })
+                }
+              >
+                {periods.map((p) => (
+                  <option key={p.value} value={p.value}>
+                    {p.label}
+                  </option>
+                ))}
+              </Select>
+            </div>
             <Link to="/charts" className="inline-flex h-10 items-center rounded-md border border-zinc-300 bg-white px-4 font-medium text-zinc-800 hover:bg-zinc-100">
               All charts
             </Link>
