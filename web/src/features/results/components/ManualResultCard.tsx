@@ -6,8 +6,9 @@ import type { TestMethodEntry } from '../../test-methods/api/test-methods';
 import { MethodCautions } from '../../test-methods/components/MethodCautions';
 import { pullHeads, readingResult, readingWord } from '../lib/readings';
 import { blankAsUndefined, typedNumber } from '../lib/form-values';
-import { setResult } from '../lib/sets';
-import { specLimitsText, specVerdict } from '../lib/spec';
+import { setResult, setStatusText } from '../lib/sets';
+import { specInForceAt, specLimitsText, specVerdict } from '../lib/spec';
+import { useSpecRevisions } from '../../records/api/specifications';
 import { Badge } from '../../../components/ui/Badge';
 import { Button } from '../../../components/ui/Button';
 import { Field, Input, Select } from '../../../components/ui/Field';
@@ -16,6 +17,8 @@ import { cx } from '../../../components/ui/cx';
 interface ManualResultCardProps {
   index: number;
   characteristic: Characteristic;
+  /** The lot's production time, once typed: it picks the specification revision that judges the readings. */
+  producedAtMs: number | null;
   method: TestMethodEntry | undefined;
   control: Control<ManualEntryInput, unknown, ManualEntry>;
   register: UseFormRegister<ManualEntryInput>;
@@ -29,15 +32,14 @@ const loadWords: Record<NonNullable<Characteristic['rawLoad']>, string> = {
   'pull-off': 'Pull-off forces',
 };
 
-const setStatusText = {
-  accepted: { tone: 'positive', label: 'Set accepted' },
-  'accepted-one-discarded': { tone: 'warning', label: 'Set accepted, one value discarded' },
-  rejected: { tone: 'negative', label: 'Set rejected: repeat the test' },
-} as const;
-
 /** One characteristic of the lot: its readings, what they give, the verdict against the specification, and the method's cautions. */
-export function ManualResultCard({ index, characteristic: c, method, control, register, errors, onRemove }: ManualResultCardProps) {
+export function ManualResultCard({ index, characteristic, producedAtMs, method, control, register, errors, onRemove }: ManualResultCardProps) {
   const headingId = useId();
+  const revisions = useSpecRevisions(characteristic.id);
+  // The lot page judges a lot by the revision in force when it was made; the form shows the same verdict.
+  const spec = producedAtMs === null || !revisions.data ? characteristic.spec : specInForceAt(revisions.data, producedAtMs);
+  const c: Characteristic = { ...characteristic, spec };
+  const earlierRevision = (spec?.revision ?? null) !== (characteristic.spec?.revision ?? null);
   const entry = useWatch({ control, name: `results.${index}` });
   const fieldErrors = errors?.[index];
   const entryUnit = entry?.entryUnit ?? 'result';
@@ -57,7 +59,14 @@ export function ManualResultCard({ index, characteristic: c, method, control, re
             </h3>
             <p className="text-sm text-zinc-600">
               <span className="font-mono">{c.code}</span> · {c.testMethodName} · {c.standard} · specification:{' '}
-              <span className="font-mono">{specLimitsText(c.spec, c.unit, c.decimals)}</span>
+              {earlierRevision && !spec ? (
+                'none was in force when the lot was made'
+              ) : (
+                <>
+                  <span className="font-mono">{specLimitsText(spec, c.unit, c.decimals)}</span>
+                  {earlierRevision && ` (revision ${spec!.revision}, in force when the lot was made)`}
+                </>
+              )}
             </p>
           </div>
           <Button variant="quiet" size="sm" onClick={onRemove}>

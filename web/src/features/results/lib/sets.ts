@@ -27,3 +27,10 @@ export function setResult(characteristic: Pick<Characteristic, 'testMethodCode'>
   const mean = values.reduce((sum, v) => sum + v, 0) / values.length;
   return { value: mean, status: null, discardedIndex: null, reason: values.length === 1 ? 'A single reading.' : `The mean of ${values.length} readings.` };
 }
+
+/** The state of an EN 196-1 prism set in words, with the tone of its badge. */
+export const setStatusText = {
+  accepted: { tone: 'positive', label: 'Set accepted' },
+  'accepted-one-discarded': { tone: 'warning', label: 'Set accepted, one value discarded' },
+  rejected: { tone: 'negative', label: 'Set rejected: repeat the test' },
+} as const;

@@ -22,3 +22,21 @@ export function specLimitsText(spec: SpecInForce | null, unit: string, decimals:
   if (spec.lsl !== null) return `LSL ${f(spec.lsl)} ${unit}${target}`;
   return `USL ${f(spec.usl!)} ${unit}${target}`;
 }
+
+/**
+ * The revision in force at an instant, as the lot page's server answer picks it: the latest effective date
+ * not after the instant, the higher revision on a tie; null when none had taken effect yet.
+ */
+export function specInForceAt<T extends Pick<SpecInForce, 'revision' | 'effectiveFrom'>>(revisions: readonly T[], instantMs: number): T | null {
+  let found: T | null = null;
+  let foundMs = -Infinity;
+  for (const r of revisions) {
+    const from = Date.parse(r.effectiveFrom);
+    if (from > instantMs) continue;
+    if (from > foundMs || (from === foundMs && found !== null && r.revision > found.revision)) {
+      found = r;
+      foundMs = from;
+    }
+  }
+  return found;
+}

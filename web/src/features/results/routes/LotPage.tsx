@@ -5,7 +5,7 @@ import { useLot, type Lot, type LotResult } from '../api/lots';
 import { useCharacteristics, usePlantTimeZone, type Characteristic } from '../api/catalogue';
 import { formatPlantDateTime } from '../lib/plant-time';
 import { specLimitsText, specVerdict } from '../lib/spec';
-import { setResult } from '../lib/sets';
+import { setResult, setStatusText, type SetResult } from '../lib/sets';
 import { entryRoles } from '../lib/roles';
 import { useSignedInUser } from '../../auth/api/session';
 import { CorrectMeasurementDialog, type CorrectedReading } from '../components/CorrectMeasurementDialog';
@@ -107,6 +107,7 @@ export default function LotPage() {
               {groups.map((g) => {
                 const decimals = g.characteristic?.decimals ?? 2;
                 const result = g.characteristic ? setResult(g.characteristic, g.readings.map((r) => r.value)) : null;
+                const discarded = (i: number) => result?.discardedIndex === i;
                 return (
                   <tr key={g.code} className="border-b border-zinc-100 align-top last:border-b-0">
                     <td className="px-3 py-2">
@@ -116,9 +117,9 @@ export default function LotPage() {
                     <td className="px-3 py-2">
                       {canCorrect ? (
                         <ul className="flex flex-wrap gap-x-4 gap-y-1">
-                          {g.readings.map((r) => (
+                          {g.readings.map((r, i) => (
                             <li key={r.id} className="inline-flex items-center gap-1.5">
-                              <span className="font-mono">{r.value.toFixed(decimals)}</span>
+                              <Reading value={r.value.toFixed(decimals)} discarded={discarded(i)} />
                               <Button
                                 variant="quiet"
                                 size="sm"
@@ -132,19 +133,24 @@ export default function LotPage() {
                           ))}
                         </ul>
                       ) : (
-                        <span className="flex flex-wrap gap-x-3 font-mono">
-                          {g.readings.map((r) => (
-                            <span key={r.id}>{r.value.toFixed(decimals)}</span>
+                        <span className="flex flex-wrap gap-x-3">
+                          {g.readings.map((r, i) => (
+                            <Reading key={r.id} value={r.value.toFixed(decimals)} discarded={discarded(i)} />
                           ))}
                         </span>
                       )}
+                      {result && <SetNote result={result} />}
                     </td>
-                    <td className="px-3 py-2 text-right font-mono whitespace-nowrap" title={result?.reason}>
+                    <td className="px-3 py-2 text-right font-mono whitespace-nowrap">
                       {result?.value == null ? (result ? 'set rejected' : '—') : `${result.value.toFixed(decimals)} ${g.unit}`}
                     </td>
                     <td className="px-3 py-2">
                       {result?.value != null && <Verdict value={result.value} characteristic={g.characteristic!} />}
-                      <span className="mt-1 block font-mono text-sm text-zinc-600">{specLimitsText(g.characteristic?.spec ?? null, g.unit, decimals)}</span>
+                      {hasLimits(g.characteristic?.spec) ? (
+                        <span className="mt-1 block font-mono text-sm text-zinc-600">{specLimitsText(g.characteristic!.spec, g.unit, decimals)}</span>
+                      ) : (
+                        result?.value == null && <span className="text-sm text-zinc-600">No specification in force</span>
+                      )}
                     </td>
                     <td className="px-3 py-2 text-sm text-zinc-700">{g.sources.join('; ')}</td>
                   </tr>
@@ -171,6 +177,30 @@ export default function LotPage() {
         </Link>
       </p>
     </>
+  );
+}
+
+const hasLimits = (spec: Characteristic['spec'] | undefined) => !!spec && (spec.lsl !== null || spec.usl !== null);
+
+/** A stored reading; the one EN 196-1 left out of the set's result is struck through and named. */
+function Reading({ value, discarded }: { value: string; discarded: boolean }) {
+  if (!discarded) return <span className="font-mono">{value}</span>;
+  return (
+    <span className="text-zinc-500">
+      <span className="font-mono line-through">{value}</span> <span className="text-xs">(discarded)</span>
+    </span>
+  );
+}
+
+/** Why a prism set's result is what it is, where a value was discarded or the set rejected. */
+function SetNote({ result }: { result: SetResult }) {
+  if (result.status !== 'accepted-one-discarded' && result.status !== 'rejected') return null;
+  const status = setStatusText[result.status];
+  return (
+    <div className="mt-1.5 space-y-1 text-sm">
+      <Badge tone={status.tone}>{status.label}</Badge>
+      <p className="text-zinc-600">{result.reason}</p>
+    </div>
   );
 }
 

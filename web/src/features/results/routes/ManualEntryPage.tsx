@@ -2,7 +2,7 @@ import { useMemo, useState } from 'react';
 import { Link } from 'react-router';
 import { useFieldArray, useForm, useWatch, type FieldPath } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { manualEntrySchema, type ManualEntryInput, type RowError } from '../../../../../shared/ingest';
+import { manualEntrySchema, parsePlantDateTime, type ManualEntryInput, type RowError } from '../../../../../shared/ingest';
 import { ApiError, errorMessage } from '../../../lib/http';
 import { useEntryCatalogue, type EntryCatalogue } from '../api/catalogue';
 import { useSaveManualEntry } from '../api/lots';
@@ -63,6 +63,8 @@ function ManualEntryForm({ catalogue }: { catalogue: EntryCatalogue }) {
   } = useForm({ resolver: zodResolver(manualEntrySchema), defaultValues: emptyEntry });
   const results = useFieldArray({ control, name: 'results' });
   const productCode = useWatch({ control, name: 'product' });
+  const producedAt = useWatch({ control, name: 'producedAt' });
+  const producedAtMs = producedAt ? parsePlantDateTime(producedAt, catalogue.timeZone) : null;
 
   const products = catalogue.products.filter((p) => p.active);
   const ofProduct = useMemo(() => catalogue.characteristics.filter((c) => c.active && c.productCode === productCode), [catalogue, productCode]);
@@ -148,7 +150,8 @@ function ManualEntryForm({ catalogue }: { catalogue: EntryCatalogue }) {
       )}
 
       <Card title="The lot">
-        <div className="grid gap-x-5 gap-y-4 sm:grid-cols-2 xl:grid-cols-3">
+        {/* The middle column is wider so that a line's full name fits its select at 1366 px. */}
+        <div className="grid gap-x-5 gap-y-4 sm:grid-cols-2 xl:grid-cols-[minmax(0,1fr)_minmax(0,1.3fr)_minmax(0,1fr)]">
           <Field label="Product" error={errors.product?.message} hint="Changing the product clears the characteristics below.">
             {(ids) => (
               <Select {...ids} {...register('product', { onChange: (event) => chooseProduct(event.target.value) })}>
@@ -167,7 +170,7 @@ function ManualEntryForm({ catalogue }: { catalogue: EntryCatalogue }) {
                 <option value="">Choose a line…</option>
                 {catalogue.lines.map((l) => (
                   <option key={l.code} value={l.code}>
-                    {l.name} ({l.code})
+                    {l.code} · {l.name}
                   </option>
                 ))}
               </Select>
@@ -203,6 +206,7 @@ function ManualEntryForm({ catalogue }: { catalogue: EntryCatalogue }) {
               key={field.id}
               index={index}
               characteristic={c}
+              producedAtMs={producedAtMs}
               method={methods.get(c.testMethodCode)}
               control={control}
               register={register}
