@@ -82,9 +82,11 @@ export function MappingEditor({ headers, draft, onChange, mapping, mappingError,
           {draftColumns(draft.format).map((column) => {
             const chosen = draft.columns[column] ?? NONE;
             const required = isRequired(column, draft.format);
-            const error = required && !chosen ? `Choose the column that holds the ${columnLabels[column].toLowerCase()}` : chosen && missing.includes(chosen) ? `The file has no column “${chosen}”` : undefined;
+            // A choice not made yet is a step still to take, not a mistake: it is named, not marked in red.
+            const hint = required && !chosen ? `Choose the column that holds the ${columnLabels[column].toLowerCase()}` : undefined;
+            const error = chosen && missing.includes(chosen) ? `The file has no column “${chosen}”` : undefined;
             return (
-              <Field key={column} label={`${columnLabels[column]}${required ? '' : ' (optional)'}`} error={error}>
+              <Field key={column} label={`${columnLabels[column]}${required ? '' : ' (optional)'}`} hint={hint} error={error}>
                 {(control) => (
                   <Select {...control} value={headers.includes(chosen) ? chosen : NONE} onChange={(event) => setColumn(column, event.target.value)}>
                     <option value={NONE}>{required ? 'Choose a column…' : '— not in the file —'}</option>

@@ -26,8 +26,16 @@ export function PreviewTable({ parsed, rowsWithErrors }: { parsed: ParsedFile; r
             const bad = rowsWithErrors.has(row);
             return (
               <tr key={row} className={cx('border-b border-zinc-100 last:border-b-0', bad && 'bg-red-50')}>
-                <th scope="row" className={cx('px-3 py-1.5 text-right font-mono font-normal whitespace-nowrap', bad ? 'text-red-800' : 'text-zinc-500')}>
-                  {bad && <span className="font-sans text-xs font-semibold uppercase">needs correcting </span>}
+                <th scope="row" className={cx('px-3 py-1.5 text-right font-mono font-normal whitespace-nowrap', bad ? 'font-semibold text-red-800' : 'text-zinc-500')}>
+                  {/* A narrow mark keeps the file's own columns in view on a tablet; screen readers hear the words. */}
+                  {bad && (
+                    <>
+                      <span aria-hidden="true" className="mr-1.5 inline-block rounded bg-red-700 px-1.5 font-sans text-xs font-bold text-white">
+                        !
+                      </span>
+                      <span className="sr-only">needs correcting </span>
+                    </>
+                  )}
                   {row}
                 </th>
                 {parsed.headers.map((header, j) => (

@@ -182,7 +182,7 @@ function UploadSteps({ catalogue }: { catalogue: EntryCatalogue }) {
         <Card title="4. Check and import">
           <div className="flex flex-wrap items-center gap-3">
             <Button disabled>Finish the mapping first</Button>
-            <p className="text-zinc-700">Every column marked in red above needs a choice before the rows can be checked.</p>
+            <p className="text-zinc-700">Choose the columns step 3 still asks for; the rows are checked as soon as the mapping is complete.</p>
           </div>
         </Card>
       )}
