@@ -43,21 +43,22 @@ export function CharacteristicTile({ item, timeZone }: { item: OverviewItem; tim
       ) : (
         <p className="text-zinc-600">No result recorded yet.</p>
       )}
+      {/* A label that wraps in a narrow tile must not lift its figure above the others. */}
       <dl className="grid grid-cols-3 gap-2 text-sm">
-        <div>
+        <div className="flex flex-col">
           <dt className="text-zinc-600">Cpk</dt>
-          <dd className="font-mono text-base" data-testid="cpk-value">
+          <dd className="mt-auto font-mono text-base" data-testid="cpk-value">
             {fixed(item.cpk, 2)}
             {item.capabilityPreliminary && item.cpk !== null && <span className="font-sans text-xs text-zinc-500"> prelim.</span>}
           </dd>
         </div>
-        <div>
+        <div className="flex flex-col">
           <dt className="text-zinc-600">95 % interval</dt>
-          <dd className="font-mono">{item.cpkCi95 ? `${fixed(item.cpkCi95[0], 2)}–${fixed(item.cpkCi95[1], 2)}` : '–'}</dd>
+          <dd className="mt-auto font-mono">{item.cpkCi95 ? `${fixed(item.cpkCi95[0], 2)}–${fixed(item.cpkCi95[1], 2)}` : '–'}</dd>
         </div>
-        <div>
+        <div className="flex flex-col">
           <dt className="text-zinc-600">Open alarms</dt>
-          <dd className="font-mono text-base">{item.openAlarms}</dd>
+          <dd className="mt-auto font-mono text-base">{item.openAlarms}</dd>
         </div>
       </dl>
       <TrendLine item={item} />
