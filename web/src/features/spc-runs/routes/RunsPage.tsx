@@ -22,7 +22,8 @@ const statusWords: Record<RunSummary['status'], { label: string; tone: 'neutral'
 const triggerWords: Record<RunSummary['trigger'], string> = {
   schedule: 'Nightly schedule',
   manual: 'Started by hand',
-  upload: 'After an upload',
+  // Uploads and lots entered by hand both start this run.
+  upload: 'After new results were stored',
   void: 'After a voided upload',
   correction: 'After a corrected result',
   limits: 'After a point was excluded or limits frozen',
@@ -51,7 +52,7 @@ export default function RunsPage() {
     <>
       <PageHeader
         title="SPC runs"
-        description="Every night, and after each upload, Prismline recomputes the control charts, run-rule signals and capability of each characteristic and raises alarms. This page follows each run live."
+        description="Every night, and whenever new results are stored, Prismline recomputes the control charts, run-rule signals and capability of each characteristic and raises alarms. This page follows each run live."
         actions={
           mayStart && (
             <Button busy={start.isPending} onClick={() => start.mutate(undefined)}>
