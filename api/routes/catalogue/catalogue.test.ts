@@ -119,6 +119,7 @@ describe('production lines', () => {
     const taken = await request(api.app).post('/api/v1/lines').set(await admin()).send({ code: 'l1', name: 'Another line 1' });
     expect(taken.status).toBe(409);
     expect(taken.body.error).toBe('Line code L1 is already used by Line 1 · levelling compounds');
+    expect(taken.body.details).toEqual([{ path: 'code', message: taken.body.error }]);
 
     const lines = (await request(api.app).get('/api/v1/lines').set(await admin())).body.items;
     const l1 = lines.find((l: { code: string }) => l.code === 'L1');
@@ -280,10 +281,11 @@ describe('characteristics', () => {
 
     const frozen = await request(api.app).patch(`/api/v1/characteristics/${id}`).set(h).send({ code: `${product.code}-RC7B`, ageDays: 28 });
     expect(frozen.status).toBe(409);
-    expect(frozen.body.error).toBe(`Results are recorded under ${product.code}-RC7, so its code, age cannot change. Deactivate it and add a new characteristic instead`);
+    expect(frozen.body.error).toBe(`Results are recorded under ${product.code}-RC7, so its code and age cannot change. Deactivate it and add a new characteristic instead`);
     const shrink = await request(api.app).patch(`/api/v1/characteristics/${id}`).set(h).send({ subgroupSize: 1, chartType: 'imr' });
     expect(shrink.status).toBe(409);
     expect(shrink.body.error).toMatch(/up to 2 readings stored, so the subgroup size cannot go below 2$/);
+    expect(shrink.body.details[0].path).toBe('subgroupSize');
     const renamed = await request(api.app).patch(`/api/v1/characteristics/${id}`).set(h).send({ name: 'HV Render Light · compressive strength · 7 d', subgroupSize: 2 });
     expect(renamed.body).toMatchObject({ name: 'HV Render Light · compressive strength · 7 d', subgroupSize: 2 });
 

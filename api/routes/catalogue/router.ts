@@ -24,13 +24,14 @@ type Tx = Parameters<Parameters<Database['transaction']>[0]>[0];
 
 /** A refusal that concerns one field of the request, so a form can show it under that field. */
 const fieldError = (path: string, message: string) => badRequest(`${path}: ${message}`, [{ path, message }]);
+const fieldConflict = (path: string, message: string) => new HttpError(409, message, [{ path, message }]);
 
 /** A second writer may take the code between our check and the insert: the unique index has the last word. */
 async function claimingCode<T>(taken: string, write: () => Promise<T>): Promise<T> {
   try {
     return await write();
   } catch (err) {
-    if (isUniqueViolation(err)) throw conflict(taken);
+    if (isUniqueViolation(err)) throw fieldConflict('code', taken);
     throw err;
   }
 }
@@ -63,7 +64,7 @@ async function methodFor(tx: Tx, code: string): Promise<{ id: number; unit: stri
 async function refuseTakenCode(tx: Tx, kind: 'Line' | 'Product' | 'Characteristic', code: string): Promise<void> {
   const table = { Line: productionLines, Product: products, Characteristic: characteristics }[kind];
   const [other] = await tx.select({ name: table.name }).from(table).where(eq(table.code, code));
-  if (other) throw conflict(`${kind} code ${code} is already used by ${other.name}`);
+  if (other) throw fieldConflict('code', `${kind} code ${code} is already used by ${other.name}`);
 }
 
 const auditAction = (changes: object, active: boolean | undefined) =>
@@ -131,7 +132,7 @@ export function catalogueRouter(db: Database): Router {
         const changes: Partial<typeof productionLines.$inferInsert> = {};
         if (input.code !== undefined && input.code !== before.code) {
           const [made] = await tx.select({ id: lots.id }).from(lots).where(eq(lots.lineId, id)).limit(1);
-          if (made) throw conflict(`Lots were made on line ${before.code}, and they are recorded under that code: it stays as it is. Change the name instead`);
+          if (made) throw fieldConflict('code', `Lots were made on line ${before.code}, and they are recorded under that code: it stays as it is. Change the name instead`);
           await refuseTakenCode(tx, 'Line', input.code);
           changes.code = input.code;
         }
@@ -178,7 +179,7 @@ export function catalogueRouter(db: Database): Router {
         const after = { ...before };
         if (input.code !== undefined && input.code !== before.code) {
           const [made] = await tx.select({ id: lots.id }).from(lots).where(eq(lots.productId, id)).limit(1);
-          if (made) throw conflict(`Lots of ${before.code} are recorded under that code: it stays as it is. Add a new product if the code must change`);
+          if (made) throw fieldConflict('code', `Lots of ${before.code} are recorded under that code: it stays as it is. Add a new product if the code must change`);
           await refuseTakenCode(tx, 'Product', input.code);
           changes.code = after.code = input.code;
         }
@@ -289,7 +290,8 @@ export function catalogueRouter(db: Database): Router {
           const [recorded] = await tx.select({ id: measurements.id }).from(measurements).where(eq(measurements.characteristicId, id)).limit(1);
           const names = { code: 'code', productCode: 'product', testMethodCode: 'test method', ageDays: 'age' };
           if (recorded) {
-            throw conflict(`Results are recorded under ${before.code}, so its ${fixed.map((key) => names[key]).join(', ')} cannot change. Deactivate it and add a new characteristic instead`);
+            const listed = new Intl.ListFormat('en-GB').format(fixed.map((key) => names[key]));
+            throw conflict(`Results are recorded under ${before.code}, so its ${listed} cannot change. Deactivate it and add a new characteristic instead`);
           }
         }
         if (after.subgroupSize < before.subgroupSize) {
@@ -298,7 +300,7 @@ export function catalogueRouter(db: Database): Router {
             .from(measurements)
             .where(and(eq(measurements.characteristicId, id), isNull(measurements.voidedAt)));
           if (most !== null && most > after.subgroupSize) {
-            throw conflict(`Lots of ${before.code} already have up to ${most} readings stored, so the subgroup size cannot go below ${most}`);
+            throw fieldConflict('subgroupSize', `Lots of ${before.code} already have up to ${most} readings stored, so the subgroup size cannot go below ${most}`);
           }
         }
 
