@@ -23,10 +23,11 @@ const pages: Partial<Record<AreaId, LazyExoticComponent<ComponentType>>> = {
   runs: lazy(() => import('../features/spc-runs/routes/RunsPage')),
   subscriptions: lazy(() => import('../features/subscriptions/routes/SubscriptionsPage')),
   outbox: lazy(() => import('../features/outbox/routes/OutboxPage')),
+  catalogue: lazy(() => import('../features/catalogue/routes/CatalogueArea')),
 };
 
 /** Areas whose page routes further pages below its address itself (/charts/12, /results/history, /test-methods/RC). */
-const withSubPages: ReadonlySet<AreaId> = new Set(['charts', 'results', 'methods', 'records']);
+const withSubPages: ReadonlySet<AreaId> = new Set(['charts', 'results', 'methods', 'records', 'catalogue']);
 
 // Its form library and schemas are not needed by someone already signed in.
 const SignInPage = lazy(() => import('../features/auth/routes/SignInPage'));

@@ -1,17 +1,10 @@
-import { useMemo, useState } from 'react';
-import {
-  createColumnHelper,
-  getCoreRowModel,
-  getFilteredRowModel,
-  getSortedRowModel,
-  useReactTable,
-  type SortingState,
-} from '@tanstack/react-table';
+import { useMemo } from 'react';
+import { createColumnHelper } from '@tanstack/react-table';
 import { roleLabels, type PublicUser } from '../../../../../shared/schemas/users';
 import { formatDate } from '../../../lib/format';
 import { DataTable } from '../../../components/ui/Table';
 import { Badge } from '../../../components/ui/Badge';
-import { Input } from '../../../components/ui/Field';
+import { TableFilter, useFilteredTable } from '../../../components/ui/FilteredTable';
 import { EmptyState } from '../../../components/ui/EmptyState';
 import { RoleSelect, UserActions, type Notice } from './UserActions';
 
@@ -24,9 +17,6 @@ function matches(user: PublicUser, query: string): boolean {
 }
 
 export function UsersTable({ users, currentUserId, onNotice }: { users: PublicUser[]; currentUserId: number; onNotice: (notice: Notice) => void }) {
-  const [sorting, setSorting] = useState<SortingState>([{ id: 'name', desc: false }]);
-  const [filter, setFilter] = useState('');
-
   const columns = useMemo(
     () => [
       column.accessor('name', {
@@ -62,38 +52,11 @@ export function UsersTable({ users, currentUserId, onNotice }: { users: PublicUs
     [currentUserId, onNotice],
   );
 
-  const table = useReactTable({
-    data: users,
-    columns,
-    state: { sorting, globalFilter: filter },
-    onSortingChange: setSorting,
-    onGlobalFilterChange: setFilter,
-    globalFilterFn: (row, _columnId, query: string) => matches(row.original, query),
-    getCoreRowModel: getCoreRowModel(),
-    getSortedRowModel: getSortedRowModel(),
-    getFilteredRowModel: getFilteredRowModel(),
-  });
-
-  const shown = table.getRowModel().rows.length;
+  const { table, filter, setFilter, shown } = useFilteredTable({ data: users, columns, matches, initialSorting: [{ id: 'name', desc: false }] });
 
   return (
     <div className="space-y-3">
-      <div className="flex flex-wrap items-center gap-3">
-        <label htmlFor="user-filter" className="text-sm font-medium text-zinc-800">
-          Filter
-        </label>
-        <Input
-          id="user-filter"
-          type="search"
-          placeholder="Name, e-mail or role"
-          value={filter}
-          onChange={(event) => setFilter(event.target.value)}
-          className="max-w-xs"
-        />
-        <p className="figures text-sm text-zinc-600" aria-live="polite">
-          {shown === users.length ? `${users.length} users` : `${shown} of ${users.length} users`}
-        </p>
-      </div>
+      <TableFilter id="user-filter" placeholder="Name, e-mail or role" value={filter} onChange={setFilter} shown={shown} total={users.length} noun="users" />
       <DataTable
         table={table}
         caption="Users of Prismline"

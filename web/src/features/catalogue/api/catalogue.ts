@@ -1,0 +1,96 @@
+import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { http } from '../../../lib/http';
+import type { ChartType } from '../../../../../shared/spc';
+import type {
+  CreateCharacteristicInput,
+  CreateLineInput,
+  CreateProductInput,
+  RuleSetId,
+  UpdateCharacteristicInput,
+  UpdateLineInput,
+  UpdateProductInput,
+} from '../../../../../shared/schemas/catalogue';
+import { catalogueKeys, type Characteristic, type Product, type ProductionLine } from '../../results/api/catalogue';
+import { chartKeys } from '../../charts/api/chart';
+import { overviewKeys } from '../../overview/api/overview';
+
+/** A line as the administrator sees it: whether lots were made on it decides if its code may change. */
+export interface CatalogueLine extends ProductionLine {
+  hasLots: boolean;
+}
+
+export interface CatalogueProduct extends Product {
+  hasLots: boolean;
+}
+
+/** A characteristic with the settings the administrator edits. */
+export interface CatalogueCharacteristic extends Characteristic {
+  chartType: ChartType;
+  ruleSet: RuleSetId;
+  samplingPlan: string | null;
+  hasResults: boolean;
+}
+
+/**
+ * Keys under the shared catalogue key: a change here invalidates `catalogueKeys.all`, which refreshes
+ * these lists and the ones the results, records and charts screens read from the same endpoints.
+ */
+export const catalogueAdminKeys = {
+  all: [...catalogueKeys.all, 'admin'] as const,
+  lines: () => [...catalogueAdminKeys.all, 'lines'] as const,
+  products: () => [...catalogueAdminKeys.all, 'products'] as const,
+  characteristics: () => [...catalogueAdminKeys.all, 'characteristics'] as const,
+};
+
+const items = async <T>(path: string, signal?: AbortSignal) => (await http<{ items: T[] }>(path, { signal })).items;
+
+export const fetchLines = (signal?: AbortSignal) => items<CatalogueLine>('/api/v1/lines', signal);
+export const fetchProducts = (signal?: AbortSignal) => items<CatalogueProduct>('/api/v1/products', signal);
+export const fetchCharacteristics = (signal?: AbortSignal) => items<CatalogueCharacteristic>('/api/v1/characteristics', signal);
+
+export const createLine = (input: CreateLineInput) => http<CatalogueLine>('/api/v1/lines', { method: 'POST', body: input });
+export const updateLine = (id: number, changes: UpdateLineInput) => http<CatalogueLine>(`/api/v1/lines/${id}`, { method: 'PATCH', body: changes });
+export const createProduct = (input: CreateProductInput) => http<CatalogueProduct>('/api/v1/products', { method: 'POST', body: input });
+export const updateProduct = (id: number, changes: UpdateProductInput) => http<CatalogueProduct>(`/api/v1/products/${id}`, { method: 'PATCH', body: changes });
+export const createCharacteristic = (input: CreateCharacteristicInput) => http<CatalogueCharacteristic>('/api/v1/characteristics', { method: 'POST', body: input });
+export const updateCharacteristic = (id: number, changes: UpdateCharacteristicInput) =>
+  http<CatalogueCharacteristic>(`/api/v1/characteristics/${id}`, { method: 'PATCH', body: changes });
+
+export const catalogueLinesQueryOptions = () => queryOptions({ queryKey: catalogueAdminKeys.lines(), queryFn: ({ signal }) => fetchLines(signal) });
+export const catalogueProductsQueryOptions = () => queryOptions({ queryKey: catalogueAdminKeys.products(), queryFn: ({ signal }) => fetchProducts(signal) });
+export const catalogueCharacteristicsQueryOptions = () =>
+  queryOptions({ queryKey: catalogueAdminKeys.characteristics(), queryFn: ({ signal }) => fetchCharacteristics(signal) });
+
+export function useCatalogueLines() {
+  return useQuery(catalogueLinesQueryOptions());
+}
+
+export function useCatalogueProducts() {
+  return useQuery(catalogueProductsQueryOptions());
+}
+
+export function useCatalogueCharacteristics() {
+  return useQuery(catalogueCharacteristicsQueryOptions());
+}
+
+/** Names, codes and chart settings show on every screen, so a change refreshes the catalogue, the charts and the overview. */
+function useCatalogueMutation<Args, Result>(mutationFn: (args: Args) => Promise<Result>) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn,
+    onSuccess: () =>
+      Promise.all([
+        queryClient.invalidateQueries({ queryKey: catalogueKeys.all }),
+        queryClient.invalidateQueries({ queryKey: chartKeys.all }),
+        queryClient.invalidateQueries({ queryKey: overviewKeys.all }),
+      ]),
+  });
+}
+
+export const useCreateLine = () => useCatalogueMutation(createLine);
+export const useUpdateLine = () => useCatalogueMutation(({ id, changes }: { id: number; changes: UpdateLineInput }) => updateLine(id, changes));
+export const useCreateProduct = () => useCatalogueMutation(createProduct);
+export const useUpdateProduct = () => useCatalogueMutation(({ id, changes }: { id: number; changes: UpdateProductInput }) => updateProduct(id, changes));
+export const useCreateCharacteristic = () => useCatalogueMutation(createCharacteristic);
+export const useUpdateCharacteristic = () =>
+  useCatalogueMutation(({ id, changes }: { id: number; changes: UpdateCharacteristicInput }) => updateCharacteristic(id, changes));

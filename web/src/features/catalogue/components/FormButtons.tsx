@@ -1,0 +1,14 @@
+import { Button } from '../../../components/ui/Button';
+
+export function FormButtons({ saveLabel, busy, onCancel }: { saveLabel: string; busy: boolean; onCancel: () => void }) {
+  return (
+    <div className="flex gap-2">
+      <Button type="submit" busy={busy}>
+        {saveLabel}
+      </Button>
+      <Button variant="secondary" onClick={onCancel}>
+        Cancel
+      </Button>
+    </div>
+  );
+}

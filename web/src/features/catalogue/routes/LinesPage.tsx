@@ -1,0 +1,95 @@
+import { useMemo, useState } from 'react';
+import { createColumnHelper, getCoreRowModel, useReactTable } from '@tanstack/react-table';
+import type { Notice } from '../../users/components/UserActions';
+import { useCatalogueLines, useCatalogueProducts, type CatalogueLine } from '../api/catalogue';
+import { LineForm } from '../components/LineForm';
+import { EditorCard } from '../components/EditorCard';
+import { PageHeader } from '../../../components/ui/PageHeader';
+import { DataTable } from '../../../components/ui/Table';
+import { Button } from '../../../components/ui/Button';
+import { Alert } from '../../../components/ui/Alert';
+import { Loading } from '../../../components/ui/Spinner';
+import { ErrorState } from '../../../components/ui/ErrorState';
+import { EmptyState } from '../../../components/ui/EmptyState';
+
+const column = createColumnHelper<CatalogueLine & { products: string[] }>();
+
+/** /admin/catalogue/lines: the production lines lots are made on. */
+export default function LinesPage() {
+  const lines = useCatalogueLines();
+  const products = useCatalogueProducts();
+  const [editing, setEditing] = useState<'new' | CatalogueLine | null>(null);
+  const [notice, setNotice] = useState<Notice | null>(null);
+
+  const rows = useMemo(
+    () => (lines.data ?? []).map((line) => ({ ...line, products: (products.data ?? []).filter((p) => p.lineCode === line.code).map((p) => p.code) })),
+    [lines.data, products.data],
+  );
+  const columns = useMemo(
+    () => [
+      column.accessor('code', { header: 'Code', cell: (info) => <span className="font-mono">{info.getValue()}</span> }),
+      column.accessor('name', { header: 'Name' }),
+      column.accessor((line) => line.products.join(', '), {
+        id: 'products',
+        header: 'Products made on it',
+        cell: (info) => <span className="font-mono text-sm">{info.getValue() || '–'}</span>,
+      }),
+      column.display({
+        id: 'actions',
+        header: 'Actions',
+        cell: (info) => (
+          <Button
+            variant="secondary"
+            size="sm"
+            aria-label={`Edit line ${info.row.original.code}`}
+            onClick={() => {
+              setNotice(null);
+              setEditing(info.row.original);
+            }}
+          >
+            Edit
+          </Button>
+        ),
+      }),
+    ],
+    [],
+  );
+  const table = useReactTable({ data: rows, columns, getCoreRowModel: getCoreRowModel() });
+
+  const failed = [lines, products].find((q) => q.isError);
+  const header = (
+    <PageHeader
+      title="Production lines"
+      description="The lines lots are made on. A line is never deleted; once lots were made on it its code stays, and its name may change."
+      actions={
+        <Button onClick={() => setEditing('new')} disabled={editing === 'new'}>
+          Add a line
+        </Button>
+      }
+    />
+  );
+  if (failed) return <>{header}<ErrorState title="Could not load the lines" error={failed.error} onRetry={() => [lines, products].forEach((q) => q.refetch())} /></>;
+  if (!lines.data || !products.data) return <>{header}<Loading label="Loading the lines…" /></>;
+
+  return (
+    <>
+      {header}
+      <div className="space-y-4">
+        {editing && (
+          <EditorCard key={editing === 'new' ? 'new' : editing.id} title={editing === 'new' ? 'Add a line' : `Change line ${editing.code}`}>
+            <LineForm
+              line={editing === 'new' ? undefined : editing}
+              onSaved={(line) => {
+                setEditing(null);
+                setNotice({ tone: 'success', text: editing === 'new' ? `Line ${line.code} added. Products can now be made on it.` : `Line ${line.code} saved.` });
+              }}
+              onCancel={() => setEditing(null)}
+            />
+          </EditorCard>
+        )}
+        {notice && <Alert tone={notice.tone}>{notice.text}</Alert>}
+        {lines.data.length === 0 ? <EmptyState title="No production line yet">Add the first one with “Add a line”.</EmptyState> : <DataTable table={table} caption="Production lines" />}
+      </div>
+    </>
+  );
+}
