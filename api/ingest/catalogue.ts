@@ -1,12 +1,18 @@
-import { eq } from 'drizzle-orm';
+import { eq, max, min } from 'drizzle-orm';
 import type { IngestCatalogue } from '../../shared/ingest';
 import type { Database } from '../db/client';
-import { characteristics, plants, productionLines, products, testMethods } from '../db/schema';
+import { characteristics, plants, productionLines, products, specLimits, testMethods } from '../db/schema';
 
 export interface LoadedCatalogue extends IngestCatalogue {
   lineIds: Map<string, number>;
   productIds: Map<string, number>;
   characteristicIds: Map<string, number>;
+  /**
+   * Per characteristic id, the highest lower and the lowest upper limit of any specification revision.
+   * A lot's mean outside the revision in force needs a value beyond these, so only lots with such a
+   * value (or with results stored before) are judged against the specification after an import.
+   */
+  strictestLimits: Map<number, { lsl: number | null; usl: number | null }>;
 }
 
 /** The plant's configuration as validation needs it: codes, subgroup sizes, physical ranges. */
@@ -30,6 +36,10 @@ export async function loadCatalogue(db: Pick<Database, 'select'>): Promise<Loade
     .innerJoin(products, eq(products.id, characteristics.productId))
     .innerJoin(testMethods, eq(testMethods.id, characteristics.testMethodId))
     .where(eq(characteristics.active, true));
+  const limits = await db
+    .select({ id: specLimits.characteristicId, lsl: max(specLimits.lsl), usl: min(specLimits.usl) })
+    .from(specLimits)
+    .groupBy(specLimits.characteristicId);
   return {
     timeZone: plant?.timeZone ?? 'UTC',
     lineCodes: new Set(lineRows.map((l) => l.code)),
@@ -38,5 +48,6 @@ export async function loadCatalogue(db: Pick<Database, 'select'>): Promise<Loade
     lineIds: new Map(lineRows.map((l) => [l.code, l.id])),
     productIds: new Map(productRows.map((p) => [p.code, p.id])),
     characteristicIds: new Map(chRows.map((c) => [c.code, c.id])),
+    strictestLimits: new Map(limits.map((l) => [l.id, { lsl: l.lsl, usl: l.usl }])),
   };
 }

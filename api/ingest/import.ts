@@ -1,33 +1,44 @@
 // The one path by which results enter the database: CSV uploads, manual entry and the demo seed.
 // All or nothing: a file with one bad row stores no measurement, only the rejected upload as evidence.
+//
+// A file is read piece by piece (shared/ingest/read.ts). While the next piece is parsed and checked,
+// the one before it goes to PostgreSQL by COPY in the same transaction, so parsing and storing overlap
+// and the server never holds the whole file as objects. The first bad row stops the storing; the rest
+// of the file is still checked so the 422 names every row to correct, and the transaction rolls back.
 import { createHash } from 'node:crypto';
-import { eq, ne, and, sql } from 'drizzle-orm';
-import {
-  applyMapping,
-  decodeText,
-  fileErrors,
-  parseCsv,
-  validateRows,
-  type CanonicalRow,
-  type ColumnMapping,
-  type CsvDialect,
-  type RowError,
-  type ValidMeasurement,
-} from '../../shared/ingest';
+import { once } from 'node:events';
+import { drizzle } from 'drizzle-orm/node-postgres';
+import type pg from 'pg';
+import { from as copyFrom } from 'pg-copy-streams';
+import { decodeText, readResults, validateRows, type CanonicalRow, type ColumnMapping, type CsvDialect, type RowError, type ValidMeasurement } from '../../shared/ingest';
 import type { Database } from '../db/client';
-import { uploads } from '../db/schema';
-import { arr } from '../db/sql';
+import * as schema from '../db/schema';
 import { recordAudit } from '../db/audit';
 import { loadCatalogue, type LoadedCatalogue } from './catalogue';
 
+/** One lot's results for one characteristic: a point of its chart. */
+export interface Subgroup {
+  lotId: number;
+  characteristicId: number;
+}
+
 export type ImportOutcome =
-  | { kind: 'imported'; uploadId: number | null; rowsImported: number; characteristicIds: number[]; measurementIds: number[] }
+  | {
+      kind: 'imported';
+      uploadId: number | null;
+      rowsImported: number;
+      characteristicIds: number[];
+      measurementIds: number[];
+      /** The lots and characteristics whose result may now be outside the specification: judged after the import. */
+      toJudge: Subgroup[];
+    }
   | { kind: 'rejected'; uploadId: number | null; rowsTotal: number; errors: RowError[] }
   | { kind: 'duplicate-file'; uploadId: number; uploadedAt: Date };
 
 /** Serialises imports so duplicate checks and inserts see one consistent state. */
 const IMPORT_LOCK = 727_002;
-const BATCH = 20_000;
+/** Pieces parsed but not yet stored before parsing waits for the database. */
+const MAX_PIECES_AHEAD = 2;
 
 export interface ImportRequest {
   /** Original file name, or a label such as "manual entry". */
@@ -47,161 +58,240 @@ export interface ImportRequest {
 /** Validates everything, then stores every measurement in one transaction, or nothing. */
 export async function importResults(db: Database, req: ImportRequest): Promise<ImportOutcome> {
   const sha256 = req.content ? createHash('sha256').update(req.content).digest('hex') : null;
-  const mapping: ColumnMapping = req.mapping ?? { format: 'long', columns: {} };
-
-  return db.transaction(async (tx) => {
-    await tx.execute(sql`select pg_advisory_xact_lock(${IMPORT_LOCK})`);
-    if (sha256) {
-      const [earlier] = await tx
-        .select({ id: uploads.id, uploadedAt: uploads.uploadedAt })
-        .from(uploads)
-        .where(and(eq(uploads.sha256, sha256), ne(uploads.status, 'rejected')));
-      if (earlier) return { kind: 'duplicate-file', uploadId: earlier.id, uploadedAt: earlier.uploadedAt } as const;
-    }
-
-    let rows = req.rows;
-    let decimalComma = req.decimalComma ?? false;
-    let fileLevel: RowError[] = [];
-    let rowsTotal = rows?.length ?? 0;
-    if (!rows) {
-      const text = decodeText(req.content ?? Buffer.alloc(0));
-      const parsed = parseCsv(text, req.dialect);
-      decimalComma = parsed.decimalComma;
-      rowsTotal = parsed.records.length;
-      fileLevel = fileErrors(text, parsed, mapping);
-      rows = fileLevel.length ? [] : applyMapping(parsed.records, mapping);
-    }
-
-    const catalogue = await loadCatalogue(tx);
-    const { valid, errors } = validateRows(rows, catalogue, { decimalComma });
-    errors.unshift(...fileLevel);
-    if (!errors.length) errors.push(...(await storedConflicts(tx, valid, catalogue)));
-
-    if (errors.length) {
-      errors.sort((a, b) => a.row - b.row);
-      const uploadId = req.content ? await saveUpload(tx, req, sha256!, 'rejected', rowsTotal, 0, errors) : null;
-      return { kind: 'rejected', uploadId, rowsTotal, errors } as const;
-    }
-
-    const uploadId = req.content ? await saveUpload(tx, req, sha256!, 'imported', rowsTotal, valid.length, null) : null;
-    const lotIds = await upsertLots(tx, valid, catalogue);
-    const measurementIds = await insertMeasurements(tx, valid, lotIds, catalogue, uploadId, req);
-    await recordAudit(tx, {
-      actorId: req.actorId,
-      action: req.source === 'upload' ? 'import' : 'manual entry',
-      entity: req.source === 'upload' ? 'upload' : 'measurement',
-      entityId: uploadId ?? measurementIds[0],
-      after: { fileName: req.fileName, rowsImported: valid.length, lots: lotIds.size },
-    });
-    const characteristicIds = [...new Set(valid.map((v) => catalogue.characteristicIds.get(v.characteristic)!))];
-    return { kind: 'imported', uploadId, rowsImported: valid.length, characteristicIds, measurementIds } as const;
-  });
-}
-
-type Tx = Parameters<Parameters<Database['transaction']>[0]>[0];
-
-async function saveUpload(tx: Tx, req: ImportRequest, sha256: string, status: 'imported' | 'rejected', rowsTotal: number, rowsImported: number, errors: RowError[] | null) {
-  const [row] = await tx
-    .insert(uploads)
-    .values({
-      fileName: req.fileName,
-      sha256,
-      uploadedBy: req.actorId,
-      status,
-      format: req.mapping?.format ?? 'long',
-      rowsTotal,
-      rowsImported,
-      rowsRejected: errors ? new Set(errors.map((e) => e.row)).size : 0,
-      errors,
-      content: req.content!,
-    })
-    .returning({ id: uploads.id });
-  return row.id;
-}
-
-/** Rows that clash with what is stored: a lot recorded differently, or a measurement already there. */
-async function storedConflicts(tx: Tx, valid: ValidMeasurement[], cat: LoadedCatalogue): Promise<RowError[]> {
-  const errors: RowError[] = [];
-  const lotNumbers = [...new Set(valid.map((v) => v.lot))];
-  const existing = new Map<string, { id: number; productId: number; lineId: number; producedAt: Date }>();
-  for (let i = 0; i < lotNumbers.length; i += BATCH) {
-    const chunk = lotNumbers.slice(i, i + BATCH);
-    const res = await tx.execute<{ id: number; lot_number: string; product_id: number; line_id: number; produced_at: Date }>(
-      sql`select id, lot_number, product_id, line_id, produced_at from lots where lot_number = any(${arr(chunk)}::text[])`,
+  const client = await db.$client.connect();
+  let broken: Error | undefined;
+  try {
+    return await importOn(client, req, sha256);
+  } catch (err) {
+    broken = err as Error;
+    await client.query('rollback').then(
+      () => (broken = undefined),
+      () => undefined,
     );
-    for (const r of res.rows) existing.set(r.lot_number, { id: r.id, productId: r.product_id, lineId: r.line_id, producedAt: new Date(r.produced_at) });
+    throw err;
+  } finally {
+    client.release(broken);
   }
-  const reported = new Set<string>();
-  for (const v of valid) {
-    const lot = existing.get(v.lot);
-    if (!lot || reported.has(v.lot)) continue;
-    if (lot.productId !== cat.productIds.get(v.product) || lot.lineId !== cat.lineIds.get(v.line)) {
-      errors.push({ row: v.row, column: 'lot', message: `Lot ${v.lot} is already recorded for another product or line` });
-      reported.add(v.lot);
-    } else if (Math.abs(lot.producedAt.getTime() - v.producedAt) >= 60_000) {
-      errors.push({ row: v.row, column: 'produced_at', message: `Lot ${v.lot} is already recorded as produced at ${lot.producedAt.toISOString()}` });
-      reported.add(v.lot);
-    }
-  }
-  if (existing.size === 0) return errors;
-
-  const candidates = valid.filter((v) => existing.has(v.lot));
-  for (let i = 0; i < candidates.length; i += BATCH) {
-    const chunk = candidates.slice(i, i + BATCH);
-    const res = await tx.execute<{ idx: number }>(sql`
-      select k.idx from unnest(${arr(chunk.map((v) => existing.get(v.lot)!.id))}::int[], ${arr(chunk.map((v) => cat.characteristicIds.get(v.characteristic)!))}::int[],
-                              ${arr(chunk.map((v) => v.replicate))}::int[], ${arr(chunk.map((_, j) => j))}::int[]) as k(lot_id, characteristic_id, replicate, idx)
-      join measurements m on m.lot_id = k.lot_id and m.characteristic_id = k.characteristic_id and m.replicate = k.replicate and m.voided_at is null`);
-    for (const r of res.rows) {
-      const v = chunk[r.idx];
-      errors.push({
-        row: v.row,
-        column: 'replicate',
-        message: `Duplicate: ${v.characteristic} replicate ${v.replicate} of lot ${v.lot} is already stored; correct a stored value through an edit with a reason`,
-      });
-    }
-  }
-  return errors;
 }
 
-async function upsertLots(tx: Tx, valid: ValidMeasurement[], cat: LoadedCatalogue): Promise<Map<string, number>> {
-  const firstByLot = new Map<string, ValidMeasurement>();
-  for (const v of valid) if (!firstByLot.has(v.lot)) firstByLot.set(v.lot, v);
-  const lots = [...firstByLot.values()];
-  const ids = new Map<string, number>();
-  for (let i = 0; i < lots.length; i += BATCH) {
-    const chunk = lots.slice(i, i + BATCH);
-    // New lots come back from the insert; the second select sees the snapshot before it, so only lots stored earlier.
-    const res = await tx.execute<{ id: number; lot_number: string }>(sql`
-      with added as (
-        insert into lots (lot_number, product_id, line_id, produced_at, shift)
-        select * from unnest(${arr(chunk.map((l) => l.lot))}::text[], ${arr(chunk.map((l) => cat.productIds.get(l.product)!))}::int[],
-                             ${arr(chunk.map((l) => cat.lineIds.get(l.line)!))}::int[], ${arr(chunk.map((l) => new Date(l.producedAt).toISOString()))}::timestamptz[],
-                             ${arr(chunk.map((l) => l.shift))}::text[])
-        on conflict (lot_number) do nothing
-        returning id, lot_number)
-      select id, lot_number from added
-      union all
-      select id, lot_number from lots where lot_number = any(${arr(chunk.map((l) => l.lot))}::text[])`);
-    for (const r of res.rows) ids.set(r.lot_number, r.id);
+async function importOn(client: pg.PoolClient, req: ImportRequest, sha256: string | null): Promise<ImportOutcome> {
+  const tx = drizzle(client, { schema });
+  await client.query('begin');
+  await client.query('select pg_advisory_xact_lock($1)', [IMPORT_LOCK]);
+  if (sha256) {
+    const earlier = await client.query<{ id: number; uploaded_at: Date }>(`select id, uploaded_at from uploads where sha256 = $1 and status <> 'rejected'`, [sha256]);
+    if (earlier.rows[0]) {
+      await client.query('rollback');
+      return { kind: 'duplicate-file', uploadId: earlier.rows[0].id, uploadedAt: earlier.rows[0].uploaded_at };
+    }
   }
-  return ids;
+  const catalogue = await loadCatalogue(tx);
+
+  // The file's bytes go in first, while the first piece is parsed; counts are set once all is stored.
+  const uploadRow = req.content ? insertUpload(client, req, sha256!, 'imported', 0, 0, null) : Promise.resolve(null);
+  uploadRow.catch(() => undefined);
+
+  const store = new MeasurementStore(client, catalogue, req, uploadRow);
+  let rowsTotal: number;
+  let readErrors: RowError[];
+  if (req.rows) {
+    const { valid, errors } = validateRows(req.rows, catalogue, { decimalComma: req.decimalComma ?? false });
+    rowsTotal = req.rows.length;
+    readErrors = errors;
+    await store.add(valid, errors.length > 0);
+  } else {
+    const reading = readResults(decodeText(req.content ?? Buffer.alloc(0)), { dialect: req.dialect, mapping: req.mapping, catalogue });
+    readErrors = reading.errors;
+    let stored: Promise<void> = Promise.resolve();
+    let ahead = 0;
+    let databaseFailed = false;
+    for (const batch of reading.batches) {
+      if (databaseFailed) break;
+      const failedSoFar = readErrors.length > 0;
+      ahead++;
+      stored = stored.then(() => store.add(batch, failedSoFar)).finally(() => ahead--);
+      // Handled here so a failure between pieces is no unhandled rejection; awaited below all the same.
+      stored.catch(() => (databaseFailed = true));
+      // Let the database's answers in between pieces; wait for it when it falls behind.
+      if (ahead > MAX_PIECES_AHEAD) await stored;
+      else await new Promise((resolve) => setImmediate(resolve));
+    }
+    await stored;
+    rowsTotal = reading.rowsTotal;
+  }
+
+  const errors = [...readErrors, ...store.errors].sort((a, b) => a.row - b.row);
+  if (errors.length) {
+    await uploadRow.catch(() => undefined);
+    await client.query('rollback');
+    let uploadId: number | null = null;
+    if (req.content) {
+      await client.query('begin');
+      uploadId = await insertUpload(client, req, sha256!, 'rejected', rowsTotal, 0, errors);
+      await client.query('commit');
+    }
+    return { kind: 'rejected', uploadId, rowsTotal, errors };
+  }
+
+  const uploadId = await uploadRow;
+  if (uploadId !== null) await client.query('update uploads set rows_total = $2, rows_imported = $3 where id = $1', [uploadId, rowsTotal, store.rowsImported]);
+  await recordAudit(tx, {
+    actorId: req.actorId,
+    action: req.source === 'upload' ? 'import' : 'manual entry',
+    entity: req.source === 'upload' ? 'upload' : 'measurement',
+    entityId: uploadId ?? store.measurementIds[0],
+    after: { fileName: req.fileName, rowsImported: store.rowsImported, lots: store.lotsTouched },
+  });
+  await client.query('commit');
+  return {
+    kind: 'imported',
+    uploadId,
+    rowsImported: store.rowsImported,
+    characteristicIds: [...store.characteristicIds],
+    measurementIds: store.measurementIds,
+    toJudge: store.toJudge,
+  };
 }
 
-async function insertMeasurements(tx: Tx, valid: ValidMeasurement[], lotIds: Map<string, number>, cat: LoadedCatalogue, uploadId: number | null, req: ImportRequest): Promise<number[]> {
-  const ids: number[] = [];
-  for (let i = 0; i < valid.length; i += BATCH) {
-    const c = valid.slice(i, i + BATCH);
-    const res = await tx.execute<{ id: number }>(sql`
-      insert into measurements (lot_id, characteristic_id, replicate, value, tested_at, operator, note, source, upload_id, entered_by)
-      select lot_id, characteristic_id, replicate, value, tested_at, operator, note, ${req.source}::measurement_source, ${uploadId}::int, ${req.actorId}::int
-      from unnest(${arr(c.map((v) => lotIds.get(v.lot)!))}::int[], ${arr(c.map((v) => cat.characteristicIds.get(v.characteristic)!))}::int[],
-                  ${arr(c.map((v) => v.replicate))}::int[], ${arr(c.map((v) => v.value))}::float8[],
-                  ${arr(c.map((v) => (v.testedAt === null ? null : new Date(v.testedAt).toISOString())))}::timestamptz[],
-                  ${arr(c.map((v) => v.operator))}::text[], ${arr(c.map((v) => v.note))}::text[])
-           as u(lot_id, characteristic_id, replicate, value, tested_at, operator, note)
-      returning id`);
-    ids.push(...res.rows.map((r) => r.id));
+async function insertUpload(client: pg.PoolClient, req: ImportRequest, sha256: string, status: 'imported' | 'rejected', rowsTotal: number, rowsImported: number, errors: RowError[] | null): Promise<number> {
+  const res = await client.query<{ id: number }>(
+    `insert into uploads (file_name, sha256, uploaded_by, status, format, rows_total, rows_imported, rows_rejected, errors, content)
+     values ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10) returning id`,
+    [req.fileName, sha256, req.actorId, status, req.mapping?.format ?? 'long', rowsTotal, rowsImported, errors ? new Set(errors.map((e) => e.row)).size : 0, errors ? JSON.stringify(errors) : null, req.content!],
+  );
+  return res.rows[0].id;
+}
+
+interface KnownLot {
+  id: number;
+  /** Stored before this import, so its stored measurements may clash with the file's. */
+  stored: boolean;
+  /** Recorded with another product, line or production time: the file's rows of it are refused. */
+  clash: boolean;
+}
+
+/** COPY text format: backslash, tab and line breaks escaped; \N for null. */
+const copyText = (v: string | null) => (v === null ? '\\N' : /[\\\t\n\r]/.test(v) ? v.replace(/[\\\t\n\r]/g, (c) => ({ '\\': '\\\\', '\t': '\\t', '\n': '\\n', '\r': '\\r' })[c]!) : v);
+const copyTime = (ms: number | null) => (ms === null ? '\\N' : new Date(ms).toISOString());
+
+async function copyIn(client: pg.PoolClient, statement: string, text: string): Promise<void> {
+  const stream = client.query(copyFrom(statement));
+  const done = once(stream, 'finish');
+  stream.end(text);
+  await done;
+}
+
+/** Stores checked measurements piece by piece, after comparing each piece with what is stored. */
+class MeasurementStore {
+  readonly errors: RowError[] = [];
+  readonly measurementIds: number[] = [];
+  readonly characteristicIds = new Set<number>();
+  readonly toJudge: Subgroup[] = [];
+  rowsImported = 0;
+  lotsTouched = 0;
+  private readonly lots = new Map<string, KnownLot>();
+  private readonly judgeKeys = new Set<string>();
+  private failed = false;
+
+  constructor(
+    private readonly client: pg.PoolClient,
+    private readonly cat: LoadedCatalogue,
+    private readonly req: ImportRequest,
+    private readonly uploadRow: Promise<number | null>,
+  ) {}
+
+  /** Checks a piece against the stored lots and measurements, then stores it unless anything failed so far. */
+  async add(batch: ValidMeasurement[], fileHasErrors: boolean): Promise<void> {
+    if (fileHasErrors) this.failed = true;
+    const firstOfLot = new Map<string, ValidMeasurement>();
+    for (const v of batch) if (!this.lots.has(v.lot) && !firstOfLot.has(v.lot)) firstOfLot.set(v.lot, v);
+    const newLots = [...firstOfLot.values()];
+
+    const res = await this.client.query<{ stored: { id: number; n: string; p: number; l: number; t: number }[]; lot_ids: number[] | null; measurement_ids: number[] | null }>(
+      `select coalesce((select json_agg(json_build_object('id', id, 'n', lot_number, 'p', product_id, 'l', line_id, 't', extract(epoch from produced_at) * 1000))
+                        from lots where lot_number = any($1::text[])), '[]') as stored,
+              (select array_agg(nextval('lots_id_seq')::int) from generate_series(1, $2::int)) as lot_ids,
+              (select array_agg(nextval('measurements_id_seq')::int) from generate_series(1, $3::int)) as measurement_ids`,
+      [newLots.map((v) => v.lot), this.failed ? 0 : newLots.length, this.failed ? 0 : batch.length],
+    );
+    const { stored, lot_ids: lotIds, measurement_ids: measurementIds } = res.rows[0];
+    const storedByNumber = new Map(stored.map((s) => [s.n, s]));
+
+    let nextLotId = 0;
+    const addedLots: { id: number; v: ValidMeasurement }[] = [];
+    for (const v of newLots) {
+      const s = storedByNumber.get(v.lot);
+      if (!s) {
+        const id = lotIds?.[nextLotId++] ?? 0;
+        this.lots.set(v.lot, { id, stored: false, clash: false });
+        addedLots.push({ id, v });
+        continue;
+      }
+      let clash = true;
+      if (s.p !== this.cat.productIds.get(v.product) || s.l !== this.cat.lineIds.get(v.line)) {
+        this.errors.push({ row: v.row, column: 'lot', message: `Lot ${v.lot} is already recorded for another product or line` });
+      } else if (Math.abs(s.t - v.producedAt) >= 60_000) {
+        this.errors.push({ row: v.row, column: 'produced_at', message: `Lot ${v.lot} is already recorded as produced at ${new Date(s.t).toISOString()}` });
+      } else clash = false;
+      this.lots.set(v.lot, { id: s.id, stored: true, clash });
+    }
+    this.lotsTouched += newLots.length;
+
+    // Readings this piece gives for lots stored before: does the database hold any of them already?
+    const onStored = batch.filter((v) => {
+      const lot = this.lots.get(v.lot)!;
+      return lot.stored && !lot.clash;
+    });
+    if (onStored.length) {
+      const keys = await this.client.query<{ i: number }>(
+        `select u.i::int as i from unnest($1::int[], $2::int[], $3::int[]) with ordinality as u(lot_id, characteristic_id, replicate, i)
+         where exists (select 1 from measurements m where m.characteristic_id = u.characteristic_id and m.lot_id = u.lot_id and m.replicate = u.replicate and m.voided_at is null)`,
+        [onStored.map((v) => this.lots.get(v.lot)!.id), onStored.map((v) => this.cat.characteristicIds.get(v.characteristic)!), onStored.map((v) => v.replicate)],
+      );
+      for (const { i } of keys.rows) {
+        const v = onStored[i - 1];
+        this.errors.push({
+          row: v.row,
+          column: 'replicate',
+          message: `Duplicate: ${v.characteristic} replicate ${v.replicate} of lot ${v.lot} is already stored; correct a stored value through an edit with a reason`,
+        });
+      }
+    }
+
+    if (this.errors.length) this.failed = true;
+    if (this.failed || batch.length === 0) return;
+    await this.copy(batch, addedLots, measurementIds!);
   }
-  return ids;
+
+  private async copy(batch: ValidMeasurement[], addedLots: { id: number; v: ValidMeasurement }[], ids: number[]): Promise<void> {
+    const uploadId = await this.uploadRow;
+    if (addedLots.length) {
+      let lotsText = '';
+      for (const { id, v } of addedLots) {
+        lotsText += `${id}\t${v.lot}\t${this.cat.productIds.get(v.product)}\t${this.cat.lineIds.get(v.line)}\t${copyTime(v.producedAt)}\t${copyText(v.shift)}\n`;
+      }
+      await copyIn(this.client, 'COPY lots (id, lot_number, product_id, line_id, produced_at, shift) FROM STDIN', lotsText);
+    }
+    const tail = `\t${this.req.source}\t${uploadId ?? '\\N'}\t${this.req.actorId ?? '\\N'}\n`;
+    let text = '';
+    for (let i = 0; i < batch.length; i++) {
+      const v = batch[i];
+      const lotId = this.lots.get(v.lot)!.id;
+      const characteristicId = this.cat.characteristicIds.get(v.characteristic)!;
+      text += `${ids[i]}\t${lotId}\t${characteristicId}\t${v.replicate}\t${v.value}\t${copyTime(v.testedAt)}\t${copyText(v.operator)}\t${copyText(v.note)}${tail}`;
+      this.measurementIds.push(ids[i]);
+      this.characteristicIds.add(characteristicId);
+      const limits = this.cat.strictestLimits.get(characteristicId);
+      const beyond = limits !== undefined && ((limits.lsl !== null && v.value < limits.lsl) || (limits.usl !== null && v.value > limits.usl));
+      if (beyond || this.lots.get(v.lot)!.stored) {
+        const key = `${lotId}:${characteristicId}`;
+        if (!this.judgeKeys.has(key)) {
+          this.judgeKeys.add(key);
+          this.toJudge.push({ lotId, characteristicId });
+        }
+      }
+    }
+    await copyIn(this.client, 'COPY measurements (id, lot_id, characteristic_id, replicate, value, tested_at, operator, note, source, upload_id, entered_by) FROM STDIN', text);
+    this.rowsImported += batch.length;
+  }
 }

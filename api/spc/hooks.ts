@@ -3,6 +3,7 @@
 import { sql } from 'drizzle-orm';
 import type { Database } from '../db/client';
 import type { IngestHooks } from '../ingest/hooks';
+import type { Subgroup } from '../ingest/import';
 import { logger } from '../logger';
 import { queueAlarmMail } from '../mail/notify';
 import { OUT_OF_SPEC, lateResultText, outOfSpecText } from './alarms';
@@ -37,11 +38,11 @@ async function positionOf(tx: Executor, characteristicId: number, lotId: number)
  * production time and raises an out-of-spec alarm (with its e-mails) for every lot outside it.
  * The lot's result is the mean of its live replicates, as on the chart. Returns the alarm ids.
  */
-export async function raiseOutOfSpecAlarms(db: Database, measurementIds: number[], publicUrl: string): Promise<number[]> {
-  if (!measurementIds.length) return [];
+export async function raiseOutOfSpecAlarms(db: Database, subgroups: Subgroup[], publicUrl: string): Promise<number[]> {
+  if (!subgroups.length) return [];
   return db.transaction(async (tx) => {
     const res = await tx.execute<LotResultRow>(sql`
-      with touched as (select distinct lot_id, characteristic_id from measurements where id = any(${arr(measurementIds)}::int[]))
+      with touched as (select * from unnest(${arr(subgroups.map((s) => s.lotId))}::int[], ${arr(subgroups.map((s) => s.characteristicId))}::int[]) as t(lot_id, characteristic_id))
       select t.characteristic_id, t.lot_id, l.lot_number, l.produced_at, c.unit, tm.decimals,
         (select array_agg(m.value order by m.replicate) from measurements m where m.lot_id = t.lot_id and m.characteristic_id = t.characteristic_id and m.voided_at is null) as vals
       from touched t join lots l on l.id = t.lot_id join characteristics c on c.id = t.characteristic_id join test_methods tm on tm.id = c.test_method_id`);
@@ -106,7 +107,7 @@ export function createSpcIngestHooks(deps: SpcHookDeps): IngestHooks {
   return {
     async afterImport(outcome) {
       try {
-        await raiseOutOfSpecAlarms(deps.db, outcome.measurementIds, deps.publicUrl);
+        await raiseOutOfSpecAlarms(deps.db, outcome.toJudge, deps.publicUrl);
       } catch (err) {
         logger.error({ err: (err as Error).message, uploadId: outcome.uploadId }, 'out-of-specification check after import failed; the next run will raise the alarms');
       }

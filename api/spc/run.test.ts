@@ -161,7 +161,7 @@ describe('out-of-specification results at import', () => {
     const inOld = await t.addLot('OA', day(5, 9), [136, 137]); // inside revision 1 (135–155)
     const meanInside = await t.addLot('OB', day(6, 9), [133, 139]); // one value below 135, mean 136 inside: judged by the set's mean, as EN 196-1 reports strength (from memory)
     const outNew = await t.addLot('OC', day(20, 9), [138, 139]); // below revision 2's 140
-    const ids = await raiseOutOfSpecAlarms(db, [...inOld.measurementIds, ...meanInside.measurementIds, ...outNew.measurementIds], publicUrl);
+    const ids = await raiseOutOfSpecAlarms(db, [...inOld.toJudge, ...meanInside.toJudge, ...outNew.toJudge], publicUrl);
     expect(ids).toHaveLength(1);
     const [alarm] = await db.select().from(alarms).where(eq(alarms.id, ids[0]));
     expect(alarm).toMatchObject({ rule: 'out-of-spec', source: 'ingest', limitName: 'LSL', limitValue: 140, statistic: 138.5, late: false });
@@ -170,7 +170,7 @@ describe('out-of-specification results at import', () => {
     expect(alarm.description).toMatch(/the mean of 2 values \(138, 139\), is below the lower specification limit 140 mm \(specification revision 2\)/);
     expect(await outboxFor(ids)).toHaveLength(1);
 
-    expect(await raiseOutOfSpecAlarms(db, outNew.measurementIds, publicUrl)).toEqual([]);
+    expect(await raiseOutOfSpecAlarms(db, outNew.toJudge, publicUrl)).toEqual([]);
     await run(t.characteristicId);
     const all = (await alarmsOf(t.characteristicId)).filter((a) => a.rule === 'out-of-spec');
     expect(all.map((a) => a.id)).toEqual(ids);

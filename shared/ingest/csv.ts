@@ -1,4 +1,5 @@
 // Reading a lab export the same way in the browser preview and on the server, so both see the same rows.
+// Large files are read in pieces cut at line ends, so the server never holds a 100,000-row file as objects.
 import Papa from 'papaparse';
 import { detectDialect, type CsvDialect } from './dialect';
 import { missingColumns, type ColumnMapping } from './mapping';
@@ -13,6 +14,132 @@ export function decodeText(bytes: Uint8Array): string {
   }
 }
 
+/** Number of double quotes in text[from, to). */
+function quotesBetween(text: string, from: number, to: number): number {
+  let n = 0;
+  for (let i = text.indexOf('"', from); i !== -1 && i < to; i = text.indexOf('"', i + 1)) n++;
+  return n;
+}
+
+/**
+ * Cuts a CSV text into pieces of about `size` characters, each ending at a line break outside quotes, so
+ * that every piece parses on its own into whole rows. Quotes in CSV come in pairs ("" escapes one), so a
+ * line break is outside quotes when the quotes before it are even in number.
+ */
+export function* csvPieces(text: string, size: number): Generator<string> {
+  let start = 0;
+  let scanned = 0;
+  let insideQuotes = false;
+  while (start < text.length) {
+    let cut = text.length;
+    let from = Math.min(text.length, start + size);
+    while (from < text.length) {
+      const lineEnd = text.indexOf('\n', from);
+      if (lineEnd === -1) break;
+      if (quotesBetween(text, scanned, lineEnd) % 2 === 1) insideQuotes = !insideQuotes;
+      scanned = lineEnd;
+      if (!insideQuotes) {
+        cut = lineEnd + 1;
+        break;
+      }
+      from = lineEnd + 1;
+    }
+    if (cut === text.length) scanned = text.length;
+    yield text.slice(start, cut);
+    start = cut;
+  }
+}
+
+/** Rows of cells from one piece, with the file row number of the first (the header is row 1). */
+export interface CsvRows {
+  /** Every data row of the piece, in file order; unreadable ones too, so that numbering stays the file's. */
+  rows: string[][];
+  /** File row number of rows[0], counting data rows after the header from 2. */
+  firstRow: number;
+  /** Rows that cannot be read (unbalanced quotes, too few or too many fields). */
+  errors: RowError[];
+  /** Indexes into `rows` of the unreadable rows, which validation leaves to their error. */
+  unreadable: Set<number>;
+}
+
+export interface CsvReading {
+  headers: string[];
+  dialect: CsvDialect;
+  /** The data rows, piece by piece; taking a piece parses it. */
+  pieces: Generator<CsvRows>;
+}
+
+const PIECE_SIZE = 1 << 20;
+
+/** A row of nothing but blanks and delimiters, which a spreadsheet leaves at the end of an export. */
+const isBlankRow = (cells: string[]) => cells.every((c) => c.trim() === '');
+
+function parsePiece(piece: string, delimiter: CsvDialect['delimiter']): { data: string[][]; bad: Map<number, string> } {
+  const parsed = Papa.parse<string[]>(piece, { header: false, delimiter, skipEmptyLines: true, dynamicTyping: false });
+  const errorsByRow = new Map<number, string>();
+  for (const e of parsed.errors) if (e.code !== 'UndetectableDelimiter' && e.row !== undefined && !errorsByRow.has(e.row)) errorsByRow.set(e.row, e.message);
+  // Blank rows are dropped here rather than by Papa's "greedy" option, which joins every row to test it;
+  // the first cell decides for almost every row.
+  const data: string[][] = [];
+  const bad = new Map<number, string>();
+  parsed.data.forEach((cells, i) => {
+    if (cells[0].trim() === '' && isBlankRow(cells)) return;
+    const problem = errorsByRow.get(i);
+    if (problem !== undefined) bad.set(data.length, problem);
+    data.push(cells);
+  });
+  return { data, bad };
+}
+
+/** Names the rows that cannot be read, with the same words Papa Parse uses for field counts. */
+function checkRows(rows: string[][], firstRow: number, fields: number, bad: Map<number, string>): CsvRows {
+  const errors: RowError[] = [];
+  const unreadable = new Set<number>();
+  for (let i = 0; i < rows.length; i++) {
+    const n = rows[i].length;
+    const problem =
+      bad.get(i) ??
+      (n < fields ? `Too few fields: expected ${fields} fields but parsed ${n}` : n > fields ? `Too many fields: expected ${fields} fields but parsed ${n}` : undefined);
+    if (problem === undefined) continue;
+    errors.push({ row: firstRow + i, column: '', message: `The file cannot be read here: ${problem}` });
+    unreadable.add(i);
+  }
+  return { rows, firstRow, errors, unreadable };
+}
+
+/** Reads a CSV text by its detected dialect, what the person uploading chose overriding the detection. */
+export function readCsv(text: string, override: Partial<CsvDialect> = {}, pieceSize = PIECE_SIZE): CsvReading {
+  const detected = detectDialect(text);
+  const dialect: CsvDialect = { delimiter: override.delimiter ?? detected.delimiter, decimalComma: override.decimalComma ?? detected.decimalComma };
+  const source = csvPieces(text, pieceSize);
+  let headers: string[] = [];
+  let first: CsvRows | null = null;
+  let nextRow = 2;
+
+  // The header is the first row of the first piece that has one; the rest of that piece is data.
+  // (next() rather than for-of: leaving a for-of would close the generator.)
+  for (let step = source.next(); !step.done; step = source.next()) {
+    const { data, bad } = parsePiece(step.value, dialect.delimiter);
+    if (data.length === 0) continue;
+    headers = data[0].map((h) => h.trim());
+    const shifted = new Map([...bad].filter(([i]) => i > 0).map(([i, m]) => [i - 1, m] as const));
+    first = checkRows(data.slice(1), 2, headers.length, shifted);
+    nextRow = 2 + first.rows.length;
+    break;
+  }
+
+  function* pieces(): Generator<CsvRows> {
+    if (first) yield first;
+    for (const piece of source) {
+      const { data, bad } = parsePiece(piece, dialect.delimiter);
+      const out = checkRows(data, nextRow, headers.length, bad);
+      nextRow += data.length;
+      yield out;
+    }
+  }
+  return { headers, dialect, pieces: pieces() };
+}
+
 export interface ParsedFile {
   headers: string[];
   records: Record<string, string>[];
@@ -21,30 +148,29 @@ export interface ParsedFile {
   errors: RowError[];
 }
 
-/** Parses a CSV text by its detected dialect; what the person uploading chose overrides the detection. */
+/** Parses a whole CSV text into records by header, for the preview of a file in the browser. */
 export function parseCsv(text: string, override: Partial<CsvDialect> = {}): ParsedFile {
-  const detected = detectDialect(text);
-  const dialect: CsvDialect = { delimiter: override.delimiter ?? detected.delimiter, decimalComma: override.decimalComma ?? detected.decimalComma };
-  const parsed = Papa.parse<Record<string, string>>(text, {
-    header: true,
-    delimiter: dialect.delimiter,
-    skipEmptyLines: 'greedy',
-    transformHeader: (h) => h.trim(),
-    dynamicTyping: false,
-  });
-  const errors: RowError[] = parsed.errors
-    .filter((e) => e.code !== 'UndetectableDelimiter')
-    .map((e) => ({ row: (e.row ?? 0) + 2, column: '', message: `The file cannot be read here: ${e.message}` }));
-  return { headers: parsed.meta.fields ?? [], records: parsed.data, decimalComma: dialect.decimalComma, delimiter: dialect.delimiter, errors };
+  const reading = readCsv(text, override);
+  const records: Record<string, string>[] = [];
+  const errors: RowError[] = [];
+  for (const piece of reading.pieces) {
+    errors.push(...piece.errors);
+    for (const cells of piece.rows) {
+      const rec: Record<string, string> = {};
+      reading.headers.forEach((h, i) => {
+        if (cells[i] !== undefined) rec[h] = cells[i];
+      });
+      records.push(rec);
+    }
+  }
+  return { headers: reading.headers, records, decimalComma: reading.dialect.decimalComma, delimiter: reading.dialect.delimiter, errors };
 }
 
 /** What is wrong with the file as a whole, before any row is read: the same words in the preview and in the server's 422. */
-export function fileErrors(text: string, parsed: ParsedFile, mapping: ColumnMapping): RowError[] {
-  if (parsed.headers.length === 0 || text.trim() === '') return [{ row: 1, column: '', message: 'The file is empty: it needs a header row and at least one data row' }];
-  const errors: RowError[] = [];
-  const missing = missingColumns(parsed.headers, mapping);
-  if (missing.length) errors.push({ row: 1, column: missing.join(', '), message: `Missing column${missing.length > 1 ? 's' : ''}: ${missing.join(', ')}` });
-  else if (parsed.records.length === 0) errors.push({ row: 2, column: '', message: 'The file has a header but no data rows' });
-  errors.push(...parsed.errors);
-  return errors;
+export function fileErrors(text: string, headers: string[], rowsTotal: number | null, mapping: ColumnMapping): RowError[] {
+  if (headers.length === 0 || text.trim() === '') return [{ row: 1, column: '', message: 'The file is empty: it needs a header row and at least one data row' }];
+  const missing = missingColumns(headers, mapping);
+  if (missing.length) return [{ row: 1, column: missing.join(', '), message: `Missing column${missing.length > 1 ? 's' : ''}: ${missing.join(', ')}` }];
+  if (rowsTotal === 0) return [{ row: 2, column: '', message: 'The file has a header but no data rows' }];
+  return [];
 }

@@ -4,3 +4,4 @@ export * from './mapping';
 export * from './validate';
 export * from './manual-entry';
 export * from './csv';
+export * from './read';

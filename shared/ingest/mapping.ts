@@ -49,36 +49,66 @@ export interface CanonicalRow {
   sourceColumn: Partial<Record<CanonicalColumn, string>>;
 }
 
-/** Turns parsed records (header → cell) into canonical long rows through a mapping. */
-export function applyMapping(records: Record<string, string>[], mapping: ColumnMapping, firstRow = 2): CanonicalRow[] {
-  const out: CanonicalRow[] = [];
+/**
+ * Turns a file's rows of cells into canonical long rows through a mapping: one row a measurement for a
+ * long file, one per filled characteristic cell for a wide one. Built once per file from its headers.
+ */
+export function rowMapper(headers: readonly string[], mapping: ColumnMapping): (cells: readonly string[], row: number) => CanonicalRow[] {
+  const indexOf = new Map<string, number>();
+  headers.forEach((h, i) => {
+    if (!indexOf.has(h)) indexOf.set(h, i);
+  });
   if (mapping.format === 'long') {
     const source = Object.fromEntries(canonicalColumns.map((c) => [c, mapping.columns[c] ?? c])) as Record<CanonicalColumn, string>;
-    records.forEach((rec, i) => {
-      const cells: CanonicalRow['cells'] = {};
-      for (const c of canonicalColumns) if (rec[source[c]] !== undefined) cells[c] = rec[source[c]];
-      out.push({ row: firstRow + i, cells, sourceColumn: source });
-    });
-    return out;
+    // One object shape for every row (absent columns undefined): a 100,000-row file stays on V8's fast path.
+    const [lot, product, line, producedAt, characteristic, value, shift, replicate, testedAt, operator, note] = canonicalColumns.map((c) => indexOf.get(source[c]) ?? -1);
+    return (cells, row) => [
+      {
+        row,
+        cells: {
+          lot: cells[lot],
+          product: cells[product],
+          line: cells[line],
+          produced_at: cells[producedAt],
+          characteristic: cells[characteristic],
+          value: cells[value],
+          shift: cells[shift],
+          replicate: cells[replicate],
+          tested_at: cells[testedAt],
+          operator: cells[operator],
+          note: cells[note],
+        },
+        sourceColumn: source,
+      },
+    ];
   }
   const lotSource = Object.fromEntries(wideLotColumns.map((c) => [c, mapping.columns[c] ?? c])) as Record<string, string>;
-  records.forEach((rec, i) => {
+  const lotColumns = wideLotColumns.map((c) => [c, indexOf.get(lotSource[c])] as const).filter((e): e is readonly [(typeof wideLotColumns)[number], number] => e[1] !== undefined);
+  const valueColumns = Object.entries(mapping.characteristicColumns).map(([headerName, code]) => ({ headerName, code, index: indexOf.get(headerName) }));
+  return (cells, row) => {
     const base: CanonicalRow['cells'] = {};
-    for (const c of wideLotColumns) if (rec[lotSource[c]] !== undefined) base[c] = rec[lotSource[c]];
+    for (const [c, i] of lotColumns) if (cells[i] !== undefined) base[c] = cells[i];
     const replicateCounter = new Map<string, number>();
-    for (const [headerName, code] of Object.entries(mapping.characteristicColumns)) {
-      const cell = rec[headerName];
+    const out: CanonicalRow[] = [];
+    for (const { headerName, code, index } of valueColumns) {
+      const cell = index === undefined ? undefined : cells[index];
       if (cell === undefined || cell.trim() === '') continue;
       const replicate = (replicateCounter.get(code) ?? 0) + 1;
       replicateCounter.set(code, replicate);
       out.push({
-        row: firstRow + i,
+        row,
         cells: { ...base, characteristic: code, value: cell, replicate: String(replicate) },
         sourceColumn: { ...lotSource, characteristic: headerName, value: headerName, replicate: headerName },
       });
     }
-  });
-  return out;
+    return out;
+  };
+}
+
+/** Turns parsed records (header → cell) into canonical long rows through a mapping. */
+export function applyMapping(headers: readonly string[], records: Record<string, string>[], mapping: ColumnMapping, firstRow = 2): CanonicalRow[] {
+  const map = rowMapper(headers, mapping);
+  return records.flatMap((rec, i) => map(headers.map((h) => rec[h]), firstRow + i));
 }
 
 /** Columns a file lacks for a mapping: named in the 422 before any row is read. */

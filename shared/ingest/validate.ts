@@ -48,24 +48,46 @@ function fail(out: RowError[], r: CanonicalRow, c: CanonicalColumn, message: str
 }
 
 const cellText = (r: CanonicalRow, c: CanonicalColumn) => (r.cells[c] ?? '').trim();
+const freeTextColumns = ['shift', 'operator', 'note'] as const;
 
 /**
- * Checks every row against the catalogue and against the other rows of the same file. Nothing is
- * guessed: a cell that does not parse is an error naming the row and the file's column.
+ * Checks rows one at a time against the catalogue and against the rows of the same file seen before,
+ * so a large file can be checked piece by piece. Nothing is guessed: a cell that does not parse is an
+ * error naming the row and the file's column.
  */
-export function validateRows(rows: CanonicalRow[], cat: IngestCatalogue, opts: { decimalComma: boolean }): ValidationResult {
-  const valid: ValidMeasurement[] = [];
-  const errors: RowError[] = [];
-  const lotsSeen = new Map<string, { product: string; line: string; producedAt: number; row: number }>();
-  const keysSeen = new Map<string, number>();
-  const implicitReplicate = new Map<string, number>();
+export class RowValidator {
+  /** Every problem found so far, in the order found. */
+  readonly errors: RowError[] = [];
+  /**
+   * Per lot number: how the file first gave the lot (null until a row gave it completely), and the
+   * readings given so far as flat (characteristic code, replicate, row) triples. One entry a lot keeps a
+   * 100,000-row file to one map of lots instead of another of every reading.
+   */
+  private readonly lots = new Map<string, { first: { product: string; line: string; producedAt: number; row: number } | null; readings: (string | number)[] }>();
+  /** The last date cell read and its instant: a lot's rows repeat the same times. */
+  private lastDate: { text: string; ms: number | null } = { text: '', ms: null };
 
-  for (const r of rows) {
+  constructor(
+    private readonly cat: IngestCatalogue,
+    private readonly opts: { decimalComma: boolean },
+  ) {}
+
+  private date(text: string): number | null {
+    if (text !== this.lastDate.text) this.lastDate = { text, ms: parsePlantDateTime(text, this.cat.timeZone) };
+    return this.lastDate.ms;
+  }
+
+  /** The row as a measurement to store, or null when it has errors (added to `errors`). */
+  check(r: CanonicalRow): ValidMeasurement | null {
+    const { cat, opts } = this;
     const rowErrors: RowError[] = [];
 
     const lot = cellText(r, 'lot');
+    // A lot number seen before passed the pattern then: only lots that did are remembered.
+    const entry = lot ? this.lots.get(lot) : undefined;
+    const lotOk = lot !== '' && (entry !== undefined || lotPattern.test(lot));
     if (!lot) fail(rowErrors, r, 'lot', 'Lot number is missing');
-    else if (!lotPattern.test(lot)) fail(rowErrors, r, 'lot', `Lot number "${lot}" may hold only letters, digits and . _ / - (at most 64)`);
+    else if (!lotOk) fail(rowErrors, r, 'lot', `Lot number "${lot}" may hold only letters, digits and . _ / - (at most 64)`);
 
     const product = cellText(r, 'product');
     if (!product) fail(rowErrors, r, 'product', 'Product code is missing');
@@ -76,7 +98,7 @@ export function validateRows(rows: CanonicalRow[], cat: IngestCatalogue, opts: {
     else if (!cat.lineCodes.has(line)) fail(rowErrors, r, 'line', `Unknown production line "${line}"`);
 
     const producedText = cellText(r, 'produced_at');
-    const producedAt = producedText ? parsePlantDateTime(producedText, cat.timeZone) : null;
+    const producedAt = producedText ? this.date(producedText) : null;
     if (!producedText) fail(rowErrors, r, 'produced_at', 'Production date is missing');
     else if (producedAt === null) fail(rowErrors, r, 'produced_at', `"${producedText}" is not a date: use ISO 8601 (2026-11-30T06:15) or dd.mm.yyyy HH:MM`);
 
@@ -105,52 +127,70 @@ export function validateRows(rows: CanonicalRow[], cat: IngestCatalogue, opts: {
       replicate = /^\d+$/.test(replicateText) ? Number(replicateText) : null;
       if (replicate === null || replicate < 1) fail(rowErrors, r, 'replicate', `Replicate "${replicateText}" must be a whole number from 1`);
     } else if (lot && code) {
-      replicate = (implicitReplicate.get(`${lot}\u0000${code}`) ?? 0) + 1;
-      implicitReplicate.set(`${lot}\u0000${code}`, replicate);
+      // Without a replicate column, a lot's readings of a characteristic count 1, 2, 3 in file order.
+      const given = entry?.readings ?? [];
+      replicate = 1;
+      for (let i = 0; i < given.length; i += 3) if (given[i] === code) replicate = Math.max(replicate, (given[i + 1] as number) + 1);
     }
     if (replicate !== null && replicate >= 1 && ch && replicate > ch.subgroupSize) {
       fail(rowErrors, r, 'replicate', `${code} takes ${ch.subgroupSize} replicate${ch.subgroupSize === 1 ? '' : 's'} per lot; replicate ${replicate} is one too many`);
     }
 
     const testedText = cellText(r, 'tested_at');
-    const testedAt = testedText ? parsePlantDateTime(testedText, cat.timeZone) : null;
+    const testedAt = testedText ? this.date(testedText) : null;
     if (testedText && testedAt === null) fail(rowErrors, r, 'tested_at', `"${testedText}" is not a date: use ISO 8601 or dd.mm.yyyy HH:MM`);
     else if (testedAt !== null && producedAt !== null && testedAt < producedAt - 60_000) fail(rowErrors, r, 'tested_at', 'Test time is before the lot was produced');
 
-    for (const c of ['shift', 'operator', 'note'] as const) if (cellText(r, c).length > MAX_TEXT) fail(rowErrors, r, c, `Keep ${c} under ${MAX_TEXT} characters`);
+    for (const c of freeTextColumns) if (cellText(r, c).length > MAX_TEXT) fail(rowErrors, r, c, `Keep ${c} under ${MAX_TEXT} characters`);
 
-    if (lot && producedAt !== null && product && line) {
-      const seen = lotsSeen.get(lot);
-      if (!seen) lotsSeen.set(lot, { product, line, producedAt, row: r.row });
-      else if (seen.product !== product || seen.line !== line || seen.producedAt !== producedAt) {
-        fail(rowErrors, r, 'lot', `Lot ${lot} has another product, line or production time on row ${seen.row}`);
+    if (lotOk) {
+      let known = entry;
+      if (!known) this.lots.set(lot, (known = { first: null, readings: [] }));
+      const seen = known.first;
+      if (producedAt !== null && product && line) {
+        if (!seen) known.first = { product, line, producedAt, row: r.row };
+        else if (seen.product !== product || seen.line !== line || seen.producedAt !== producedAt) {
+          fail(rowErrors, r, 'lot', `Lot ${lot} has another product, line or production time on row ${seen.row}`);
+        }
       }
-    }
-    if (lot && code && replicate !== null) {
-      const key = `${lot}\u0000${code}\u0000${replicate}`;
-      const first = keysSeen.get(key);
-      if (first !== undefined) fail(rowErrors, r, 'replicate', `Duplicate: row ${first} already gives ${code} replicate ${replicate} of lot ${lot}`);
-      else keysSeen.set(key, r.row);
+      if (code && replicate !== null) {
+        const given = known.readings;
+        let first: number | undefined;
+        for (let i = 0; i < given.length && first === undefined; i += 3) if (given[i] === code && given[i + 1] === replicate) first = given[i + 2] as number;
+        if (first !== undefined) fail(rowErrors, r, 'replicate', `Duplicate: row ${first} already gives ${code} replicate ${replicate} of lot ${lot}`);
+        else given.push(code, replicate, r.row);
+      }
     }
 
     if (rowErrors.length) {
-      errors.push(...rowErrors);
-      continue;
+      this.errors.push(...rowErrors);
+      return null;
     }
-    valid.push({
+    const shift = cellText(r, 'shift');
+    return {
       row: r.row,
       lot,
       product,
       line,
       producedAt: producedAt!,
-      shift: cellText(r, 'shift') ? cellText(r, 'shift').toLowerCase() : null,
+      shift: shift ? shift.toLowerCase() : null,
       characteristic: code,
       replicate: replicate!,
       value: value!,
       testedAt,
       operator: cellText(r, 'operator') || null,
       note: cellText(r, 'note') || null,
-    });
+    };
   }
-  return { valid, errors };
+}
+
+/** Checks a whole set of rows at once (the browser's preview of a file, manual entry). */
+export function validateRows(rows: CanonicalRow[], cat: IngestCatalogue, opts: { decimalComma: boolean }): ValidationResult {
+  const validator = new RowValidator(cat, opts);
+  const valid: ValidMeasurement[] = [];
+  for (const r of rows) {
+    const m = validator.check(r);
+    if (m) valid.push(m);
+  }
+  return { valid, errors: validator.errors };
 }

@@ -27,11 +27,33 @@ export function wallClock(utcMs: number, timeZone: string): { year: number; mont
   return { year: get('year'), month: get('month'), day: get('day'), hour: get('hour'), minute: get('minute'), second: get('second') };
 }
 
-/** Offset of a time zone from UTC in minutes at an instant. */
-export function zoneOffsetMinutes(utcMs: number, timeZone: string): number {
+function offsetFromWallClock(utcMs: number, timeZone: string): number {
   const w = wallClock(utcMs, timeZone);
   const asUtc = Date.UTC(w.year, w.month - 1, w.day, w.hour, w.minute, w.second);
   return Math.round((asUtc - Math.floor(utcMs / 1000) * 1000) / 60_000);
+}
+
+const HOUR = 3_600_000;
+/** Per zone, the offset of each UTC hour that has no change of offset inside it. */
+const steadyHours = new Map<string, Map<number, number>>();
+
+/**
+ * Offset of a time zone from UTC in minutes at an instant. Asking the runtime's zone data costs
+ * microseconds and a large file asks twice a row, so an hour whose two ends agree is remembered
+ * (no zone changes its offset twice within an hour).
+ */
+export function zoneOffsetMinutes(utcMs: number, timeZone: string): number {
+  const hour = Math.floor(utcMs / HOUR);
+  let hours = steadyHours.get(timeZone);
+  const known = hours?.get(hour);
+  if (known !== undefined) return known;
+  const exact = offsetFromWallClock(utcMs, timeZone);
+  const first = offsetFromWallClock(hour * HOUR, timeZone);
+  if (first === offsetFromWallClock((hour + 1) * HOUR - 1000, timeZone) && first === exact) {
+    if (!hours || hours.size > 100_000) steadyHours.set(timeZone, (hours = new Map()));
+    hours.set(hour, exact);
+  }
+  return exact;
 }
 
 /** The instant of a wall-clock time in a zone. In the autumn overlap the earlier instant is taken. */

@@ -85,7 +85,14 @@ export function measurementsRouter(db: Database, hooks: IngestHooks): Router {
       await recordAudit(tx, { actorId: req.user!.id, action: 'correct', entity: 'measurement', entityId: id, before: { value: before.value }, after: { value }, reason });
       return after;
     });
-    await hooks.afterImport({ kind: 'imported', uploadId: updated.uploadId, rowsImported: 0, characteristicIds: [updated.characteristicId], measurementIds: [id] });
+    await hooks.afterImport({
+      kind: 'imported',
+      uploadId: updated.uploadId,
+      rowsImported: 0,
+      characteristicIds: [updated.characteristicId],
+      measurementIds: [id],
+      toJudge: [{ lotId: updated.lotId, characteristicId: updated.characteristicId }],
+    });
     res.json(updated);
   });
 

@@ -3,7 +3,7 @@
 import { eq, sql } from 'drizzle-orm';
 import type { Database } from '../../db/client';
 import { characteristics, plants, productionLines, products, specLimits, testMethods } from '../../db/schema';
-import { importResults } from '../../ingest/import';
+import { importResults, type Subgroup } from '../../ingest/import';
 
 export interface TestCharacteristic {
   productId: number;
@@ -12,7 +12,7 @@ export interface TestCharacteristic {
   characteristicId: number;
   code: string;
   /** Imports one lot's values through the one ingest path; returns the outcome's ids. */
-  addLot(lot: string, producedAt: string, values: number[]): Promise<{ characteristicIds: number[]; measurementIds: number[] }>;
+  addLot(lot: string, producedAt: string, values: number[]): Promise<{ characteristicIds: number[]; measurementIds: number[]; toJudge: Subgroup[] }>;
   lotNumber(suffix: string): string;
 }
 

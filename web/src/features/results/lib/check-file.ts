@@ -1,4 +1,4 @@
-import { applyMapping, fileErrors, validateRows, type ColumnMapping, type IngestCatalogue, type ParsedFile, type RowError, type ValidMeasurement } from '../../../../../shared/ingest';
+import { readResults, type ColumnMapping, type IngestCatalogue, type ParsedFile, type RowError, type ValidMeasurement } from '../../../../../shared/ingest';
 
 export interface FileCheck {
   valid: ValidMeasurement[];
@@ -8,14 +8,11 @@ export interface FileCheck {
   rowsWithErrors: Set<number>;
 }
 
-const canonicalLong: ColumnMapping = { format: 'long', columns: {} };
-
 /** The checks the server runs on an upload, short of comparing with what is stored already. */
 export function checkFile(text: string, parsed: ParsedFile, mapping: ColumnMapping | undefined, catalogue: IngestCatalogue): FileCheck {
-  const used = mapping ?? canonicalLong;
-  const problems = fileErrors(text, parsed, used);
-  const rows = problems.length ? [] : applyMapping(parsed.records, used);
-  const { valid, errors } = validateRows(rows, catalogue, { decimalComma: parsed.decimalComma });
-  const all = [...problems, ...errors].sort((a, b) => a.row - b.row);
+  const reading = readResults(text, { dialect: { delimiter: parsed.delimiter, decimalComma: parsed.decimalComma }, mapping, catalogue });
+  const valid: ValidMeasurement[] = [];
+  for (const batch of reading.batches) valid.push(...batch);
+  const all = [...reading.errors].sort((a, b) => a.row - b.row);
   return { valid, errors: all, rowsWithErrors: new Set(all.map((e) => e.row)) };
 }
