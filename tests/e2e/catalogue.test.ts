@@ -169,8 +169,11 @@ describe('products, lines and characteristics', () => {
     expect(await edit.getByLabel('Subgroup size').inputValue()).toBe('2');
     expect(await edit.getByLabel('Run rules').inputValue()).toBe('extended');
     await screenshot(page, 'catalogue-characteristic-fixed');
-    await edit.getByRole('button', { name: 'Cancel' }).click();
+    // Saved unchanged, the settings not offered travel as they are: the server finds nothing to change.
+    await edit.getByRole('button', { name: 'Save changes' }).click();
+    await page.getByText('HVL25-FLOW saved.').waitFor();
     expect(await edit.count()).toBe(0);
+    expect(await listed(page, 'characteristics', 'HVL25-FLOW')).toMatchObject({ active: true, unit: 'mm' });
   });
 
   it('keeps the catalogue from a quality manager, in the menu, by address and at the API', async ({ page }) => {
