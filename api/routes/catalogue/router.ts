@@ -109,8 +109,7 @@ export function catalogueRouter(db: Database): Router {
 
   router.post('/lines', requireSession, admin, async (req, res) => {
     const input = parseBody(createLineSchema, req.body);
-    const taken = `Line code ${input.code} is already in use`;
-    const id = await claimingCode(taken, () =>
+    const id = await claimingCode(`Line code ${input.code} is already in use`, () =>
       db.transaction(async (tx) => {
         await refuseTakenCode(tx, 'Line', input.code);
         const [row] = await tx.insert(productionLines).values({ plantId: await plantId(tx), code: input.code, name: input.name }).returning({ id: productionLines.id });
