@@ -4,12 +4,10 @@
 import { resolve } from 'node:path';
 import { describe, expect } from 'vitest';
 import type { APIRequestContext, Locator, Page } from 'playwright-core';
-import { baseUrl, browserTest, pageHeading, screenshot, signIn } from '../support/browser';
+import { baseUrl, browserTest, pageHeading, plantInput, screenshot, signIn } from '../support/browser';
 import { ruleDescriptions } from '../../shared/spc';
 import type { CharacteristicChart } from '../../shared/schemas/charts';
 import type { Overview } from '../../shared/schemas/overview';
-
-const PLANT_ZONE = 'Europe/London';
 
 const it = browserTest({ viewport: { width: 1600, height: 1000 }, timeout: 15_000 });
 
@@ -22,13 +20,6 @@ async function chartJson(request: APIRequestContext, id: number): Promise<Charac
 /** One part of the page as test-artifacts/<name>.png, at full resolution, for a person to look at. */
 async function partShot(part: Locator, name: string) {
   await part.screenshot({ path: resolve(import.meta.dirname, '..', '..', 'test-artifacts', `${name}.png`) });
-}
-
-/** A plant wall time as the datetime-local field takes it. */
-function plantInput(iso: string): string {
-  const parts = new Intl.DateTimeFormat('en-GB', { timeZone: PLANT_ZONE, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit' }).formatToParts(new Date(iso));
-  const get = (t: string) => parts.find((p) => p.type === t)!.value;
-  return `${get('year')}-${get('month')}-${get('day')}T${get('hour')}:${get('minute')}`;
 }
 
 /** Waits until echarts has drawn into the chart's canvas. */

@@ -113,3 +113,10 @@ export async function signIn(page: Page, role: Role, path = '/'): Promise<void> 
 export function pageHeading(page: Page, name: string | RegExp) {
   return page.getByRole('heading', { level: 1, name });
 }
+
+/** An instant as the plant's wall clock, the way a datetime-local field takes it: "2026-11-30T06:15". The demo plant keeps Europe/London time (api/db/seed/scenario.ts). */
+export function plantInput(iso: string, timeZone = 'Europe/London'): string {
+  const parts = new Intl.DateTimeFormat('en-GB', { timeZone, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit' }).formatToParts(new Date(iso));
+  const get = (t: string) => parts.find((p) => p.type === t)!.value;
+  return `${get('year')}-${get('month')}-${get('day')}T${get('hour')}:${get('minute')}`;
+}
