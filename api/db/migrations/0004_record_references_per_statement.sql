@@ -13,8 +13,10 @@ ALTER TABLE "measurements" DROP CONSTRAINT "measurements_entered_by_users_id_fk"
 DROP INDEX "measurements_characteristic_idx";--> statement-breakpoint
 DROP INDEX "measurements_live_key";--> statement-breakpoint
 DROP INDEX "measurements_upload_idx";--> statement-breakpoint
+CREATE INDEX "measurements_voided_idx" ON "measurements" USING btree ("characteristic_id") WHERE voided_at is not null;--> statement-breakpoint
 CREATE UNIQUE INDEX "measurements_live_key" ON "measurements" USING btree ("characteristic_id","lot_id","replicate") WHERE voided_at is null;--> statement-breakpoint
-CREATE INDEX "measurements_upload_idx" ON "measurements" USING brin ("upload_id");--> statement-breakpoint
+CREATE INDEX "measurements_upload_idx" ON "measurements" USING brin ("upload_id");
+--> statement-breakpoint
 -- Lots and measurements arrive by the hundred thousand in one upload. A declared foreign key checks
 -- each row with its own lookup and lock; these triggers check every reference of a statement with one
 -- join instead. The parent side refuses to remove a row that is still referenced. Both sides meet on

@@ -57,8 +57,10 @@ export class ChartCache {
              concat_ws('.', g.audit, g.events, m.newest, m.live, e.newest, e.active, r.newest, r.active, s.newest, s.total) as v
       from ids cross join globals g
       cross join lateral (
-        select coalesce(max(id), 0) as newest, count(*) filter (where voided_at is null) as live
-        from measurements where characteristic_id = ids.id) m
+        -- Live and voided rows apart: each has an index that leads with the characteristic.
+        select greatest((select coalesce(max(id), 0) from measurements where characteristic_id = ids.id and voided_at is not null), coalesce(max(id), 0)) as newest,
+               count(*) as live
+        from measurements where characteristic_id = ids.id and voided_at is null) m
       cross join lateral (
         select coalesce(max(id), 0) as newest, count(*) filter (where removed_at is null) as active
         from point_exclusions where characteristic_id = ids.id) e
