@@ -60,10 +60,18 @@ export function findingsOf(chart: CharacteristicChart, inputs: ChartInputs, prev
   };
 
   // A pattern rule fires again at every point that prolongs the pattern; one alarm per episode, at
-  // the point that first completed it. Each point beyond a control limit is an alarm of its own.
-  const fired = new Set(chart.violations.map((v) => `${v.rule}|${v.chart}|${v.index}`));
+  // the point that first completed it. A violation prolongs the episode when its pattern reaches
+  // back to the previous violation of the same rule: "two of three" fires again two points later,
+  // and a run goes on across an excluded point, which the rules skip. Each point beyond a control
+  // limit is an alarm of its own.
+  const lastAt = new Map<string, number>();
   for (const v of chart.violations) {
-    if (v.rule !== 'we1' && fired.has(`${v.rule}|${v.chart}|${v.index - 1}`)) continue;
+    if (v.rule !== 'we1') {
+      const key = `${v.rule}|${v.chart}`;
+      const previous = lastAt.get(key);
+      lastAt.set(key, v.index);
+      if (previous !== undefined && v.points[0] <= previous) continue;
+    }
     const p = chart.points[v.index];
     const isLocation = v.chart === 'location';
     const statistic = isLocation ? p.location : p.dispersion!;
