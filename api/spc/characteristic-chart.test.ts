@@ -165,7 +165,7 @@ describe('exclusions and frozen limits', () => {
     ]);
   });
 
-  it('judges later lots against frozen limits (phase II) and keeps superseded revisions', async () => {
+  it('judges later lots against frozen limits (phase II), revised limits from their baseline on, and keeps superseded revisions', async () => {
     const t = await createTestCharacteristic(db, { chartType: 'xbar-r', subgroupSize: 2 });
     const baseline = Array.from({ length: 20 }, (_, i) => pair(i));
     for (let i = 0; i < baseline.length; i++) await t.addLot(`F${i}`, day(i), baseline[i]);
@@ -188,9 +188,31 @@ describe('exclusions and frozen limits', () => {
     const history = await limitRevisions(db, t.characteristicId);
     expect(history.map((r) => [r.revision, r.supersededAt === null])).toEqual([[2, true], [1, false]]);
     expect(second.center).toBeCloseTo(mean(Array.from({ length: 10 }, (_, i) => mean([158 + (i % 2), 159]))), 9);
+
+    // Revised limits judge the lots from the start of their baseline on; the lots before it keep the
+    // limits of their time (common practice: limits are recalculated from the new level after an
+    // assignable cause, not laid back over data they were not computed from).
+    const revised = await computeCharacteristicChart(db, t.characteristicId);
+    expect(revised.limits).toMatchObject({ source: 'frozen', revisionId: second.id, reason: 'New sand source accepted' });
+    for (const p of revised.points.slice(0, 20)) {
+      expect(p.center).toBeCloseTo(first.center, 9);
+      expect(p.ucl).toBeCloseTo(first.locationUcl, 9);
+    }
+    for (const p of revised.points.slice(20)) {
+      expect(p.center).toBeCloseTo(second.center, 9);
+      expect(p.ucl).toBeCloseTo(second.locationUcl, 9);
+    }
+    expect(revised.violations.filter((v) => v.index >= 20)).toEqual([]);
+    expect(chart.violations.filter((v) => v.index < 20)).toEqual(revised.violations.filter((v) => v.index < 20));
+
+    // A later revision whose baseline starts earlier takes over from its own start.
+    const third = await freezeLimits(db, { characteristicId: t.characteristicId, baselineFrom: new Date(day(0)), baselineTo: new Date(day(29)), reason: 'Both sands in one baseline', userId: manager });
+    const merged = await computeCharacteristicChart(db, t.characteristicId);
+    expect(merged.points.every((p) => Math.abs(p.center! - third.center) < 1e-9)).toBe(true);
+    expect(merged.limits.revisionId).toBe(third.id);
     const audit = await db.select({ n: sql<number>`count(*)::int` }).from(auditEvents)
       .where(and(eq(auditEvents.action, 'freeze limits'), eq(auditEvents.entityId, String(t.characteristicId))));
-    expect(audit[0].n).toBe(2);
+    expect(audit[0].n).toBe(3);
     await expect(freezeLimits(db, { characteristicId: t.characteristicId, baselineFrom: new Date(day(100)), baselineTo: new Date(day(120)), reason: 'empty', userId: manager })).rejects.toMatchObject({ status: 422 });
     await expect(freezeLimits(db, { characteristicId: t.characteristicId, baselineFrom: new Date(day(0)), baselineTo: new Date(day(19)), reason: ' ', userId: manager })).rejects.toMatchObject({ status: 400 });
   });

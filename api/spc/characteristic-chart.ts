@@ -4,8 +4,12 @@
 //   plotted at its lot's position, not at its test date.
 // - The subgroup is the lot's live (not voided) replicates. An I–MR characteristic charts the lot's
 //   result, the mean of its replicates, so that a point is always a lot.
-// - Limits: the frozen revision in force (phase II) when a quality manager froze one for the chart
-//   type in use, else trial limits from every kept point of the window (phase I).
+// - Limits: a frozen revision (phase II) judges the points from the start of its baseline on, until
+//   a later revision's baseline starts, so revising the limits after a process change leaves the
+//   points before it judged by the limits of their time (common practice: limits are revised from
+//   the new level onward, never back over data they were not computed from). Points before any
+//   revision's baseline get trial limits of their own (phase I). Run rules start afresh at each
+//   change of limits: a run counted against one centre line means nothing against another.
 // - Out of specification: the lot's result — the mean of its replicates, as EN 196-1 reports a
 //   strength set by its mean (from memory) — against the specification revision in force at the lot's
 //   production time. A result exactly on a limit is inside.
@@ -69,6 +73,7 @@ interface SpecRevision {
 
 interface LimitRevisionRow {
   id: number;
+  revision: number;
   chartType: ChartType;
   center: number;
   sigmaWithin: number;
@@ -84,7 +89,8 @@ export interface ChartInputs {
   characteristic: CharacteristicRow;
   lots: LotSubgroup[];
   exclusions: Map<number, string>;
-  revision: LimitRevisionRow | null;
+  /** Every frozen-limit revision of the characteristic, oldest first; the last one is in force. */
+  revisions: LimitRevisionRow[];
   specs: SpecRevision[];
   events: CharacteristicChart['events'];
   now: Date;
@@ -92,7 +98,7 @@ export interface ChartInputs {
 
 type MetaRow = CharacteristicRow & {
   exclusions: { lotId: number; reason: string }[] | null;
-  revision: { id: number; chartType: ChartType; center: number; sigmaWithin: number; baselineFrom: string; baselineTo: string; createdAt: string; createdByName: string | null; reason: string } | null;
+  revisions: { id: number; revision: number; chartType: ChartType; center: number; sigmaWithin: number; baselineFrom: string; baselineTo: string; createdAt: string; createdByName: string | null; reason: string }[] | null;
   specs: { revision: number; lsl: number | null; usl: number | null; target: number | null; effectiveFrom: string }[] | null;
 };
 
@@ -106,10 +112,11 @@ export async function loadChartInputs(db: Executor, characteristicId: number, wi
            p.name as product_name, p.plant_id, p.line_id, pl.code as line_code, tm.decimals,
            (select json_agg(json_build_object('lotId', e.lot_id, 'reason', e.reason)) from point_exclusions e
              where e.characteristic_id = c.id and e.removed_at is null) as exclusions,
-           (select json_build_object('id', r.id, 'chartType', r.chart_type, 'center', r.center, 'sigmaWithin', r.sigma_within, 'baselineFrom', r.baseline_from,
-                                     'baselineTo', r.baseline_to, 'createdAt', r.created_at, 'createdByName', u.name, 'reason', r.reason)
+           (select json_agg(json_build_object('id', r.id, 'revision', r.revision, 'chartType', r.chart_type, 'center', r.center, 'sigmaWithin', r.sigma_within,
+                                              'baselineFrom', r.baseline_from, 'baselineTo', r.baseline_to, 'createdAt', r.created_at, 'createdByName', u.name, 'reason', r.reason)
+                            order by r.revision)
              from control_limit_revisions r left join users u on u.id = r.created_by
-             where r.characteristic_id = c.id and r.superseded_at is null) as revision,
+             where r.characteristic_id = c.id) as revisions,
            (select json_agg(json_build_object('revision', s.revision, 'lsl', s.lsl, 'usl', s.usl, 'target', s.target, 'effectiveFrom', s.effective_from)
                             order by s.effective_from, s.revision)
              from spec_limits s where s.characteristic_id = c.id) as specs
@@ -120,7 +127,7 @@ export async function loadChartInputs(db: Executor, characteristicId: number, wi
     where c.id = ${characteristicId}`);
   const row = meta.rows[0];
   if (!row) return null;
-  const { exclusions, revision, specs, ...characteristic } = row;
+  const { exclusions, revisions, specs, ...characteristic } = row;
 
   const from = window.from ? sql`and l.produced_at >= ${window.from.toISOString()}::timestamptz` : sql``;
   const to = window.to ? sql`and l.produced_at <= ${window.to.toISOString()}::timestamptz` : sql``;
@@ -161,9 +168,7 @@ export async function loadChartInputs(db: Executor, characteristicId: number, wi
     characteristic,
     lots: lotsOut,
     exclusions: new Map((exclusions ?? []).map((e) => [e.lotId, e.reason])),
-    revision: revision
-      ? { ...revision, baselineFrom: new Date(revision.baselineFrom), baselineTo: new Date(revision.baselineTo), createdAt: new Date(revision.createdAt) }
-      : null,
+    revisions: (revisions ?? []).map((r) => ({ ...r, baselineFrom: new Date(r.baselineFrom), baselineTo: new Date(r.baselineTo), createdAt: new Date(r.createdAt) })),
     specs: (specs ?? []).map((s) => ({ revision: s.revision, lsl: s.lsl, usl: s.usl, target: s.target, effectiveFrom: new Date(s.effectiveFrom) })),
     events: eventRows.rows.map((e) => ({ id: e.id, occurredAt: new Date(e.occurred_at).toISOString(), title: e.title, description: e.description })),
     now,
@@ -188,7 +193,7 @@ export function isOutOfSpec(result: number, spec: SpecRevision | null): boolean 
 export function chartFingerprint(inputs: ChartInputs): string {
   const h = createHash('sha256');
   const c = inputs.characteristic;
-  h.update(JSON.stringify([c.chart_type, c.rule_set, inputs.revision?.id ?? null, inputs.specs, [...inputs.exclusions.keys()].sort((a, b) => a - b)]));
+  h.update(JSON.stringify([c.chart_type, c.rule_set, inputs.revisions.map((r) => r.id), inputs.specs, [...inputs.exclusions.keys()].sort((a, b) => a - b)]));
   const ids = new Int32Array(inputs.lots.length);
   let valueCount = 0;
   for (const lot of inputs.lots) valueCount += lot.values.length + 1;
@@ -206,7 +211,43 @@ export function chartFingerprint(inputs: ChartInputs): string {
 
 interface Computed {
   chart: CharacteristicChart;
+  /** The result of the newest stretch of points (all of them with no frozen revision): the headline limits. */
   result: ChartResult;
+}
+
+/** A run of consecutive points judged against one set of limits. */
+interface Stretch {
+  from: number;
+  to: number;
+  revision: LimitRevisionRow | null;
+}
+
+/**
+ * Which limits judge which points: each revision from the start of its baseline until a later
+ * revision's baseline starts (a later revision whose baseline starts earlier takes over from there),
+ * trial limits before the first. Returns the stretches in point order.
+ */
+function stretchesOf(lotsIn: LotSubgroup[], revisions: LimitRevisionRow[]): Stretch[] {
+  const spans: { from: number; revision: LimitRevisionRow }[] = [];
+  let until = Infinity;
+  for (let k = revisions.length - 1; k >= 0; k--) {
+    const from = revisions[k].baselineFrom.getTime();
+    if (from >= until) continue;
+    spans.unshift({ from, revision: revisions[k] });
+    until = from;
+  }
+  if (lotsIn.length === 0) return [{ from: 0, to: 0, revision: spans.at(-1)?.revision ?? null }];
+  const out: Stretch[] = [];
+  let span = -1;
+  lotsIn.forEach((lot, i) => {
+    const t = lot.producedAt.getTime();
+    while (span + 1 < spans.length && spans[span + 1].from <= t) span++;
+    const revision = span >= 0 ? spans[span].revision : null;
+    const last = out.at(-1);
+    if (last && last.revision === revision) last.to = i + 1;
+    else out.push({ from: i, to: i + 1, revision });
+  });
+  return out;
 }
 
 /** Pure part: the chart from its loaded inputs. */
@@ -222,16 +263,29 @@ export function buildChart(inputs: ChartInputs): Computed {
   });
 
   const trial = computeChart({ subgroups, chart: c.chart_type, excluded, rules: c.rule_set });
-  let result = trial;
-  let frozenUsed = false;
-  const rev = inputs.revision;
-  if (rev && rev.chartType !== c.chart_type) {
-    reasons.push(`The frozen limits (revision ${rev.id}) belong to the ${rev.chartType} chart but the characteristic is now charted as ${c.chart_type}, so trial limits are shown until limits are frozen again.`);
-  } else if (rev) {
-    result = computeChart({ subgroups, chart: c.chart_type, excluded, rules: c.rule_set, frozen: { chart: rev.chartType, center: rev.center, sigmaWithin: rev.sigmaWithin } });
-    frozenUsed = true;
+  const inForce = inputs.revisions.at(-1) ?? null;
+  let stretches: Stretch[] = [{ from: 0, to: lotsIn.length, revision: null }];
+  if (inForce && inForce.chartType !== c.chart_type) {
+    reasons.push(`The frozen limits (revision ${inForce.id}) belong to the ${inForce.chartType} chart but the characteristic is now charted as ${c.chart_type}, so trial limits are shown until limits are frozen again.`);
+  } else if (inForce) {
+    stretches = stretchesOf(lotsIn, inputs.revisions.filter((r) => r.chartType === c.chart_type));
   }
-  for (const r of result.reasons) reasons.push(r.message);
+
+  const results = stretches.map((s) => {
+    if (s.revision === null && s.from === 0 && s.to === lotsIn.length) return trial;
+    const own = excluded.filter((i) => i >= s.from && i < s.to).map((i) => i - s.from);
+    const frozen = s.revision ? { chart: s.revision.chartType, center: s.revision.center, sigmaWithin: s.revision.sigmaWithin } : undefined;
+    return computeChart({ subgroups: subgroups.slice(s.from, s.to), chart: c.chart_type, excluded: own, rules: c.rule_set, frozen });
+  });
+  for (const r of results) for (const reason of r.reasons) reasons.push(reason.message);
+  const last = stretches.length - 1;
+  const result = results[last];
+  const rev = stretches[last].revision;
+  const frozenUsed = rev !== null;
+  if (stretches.length > 1 && stretches[0].revision === null) {
+    const n = stretches[0].to - stretches[0].from;
+    reasons.push(`The ${n} point(s) before the baseline of the first frozen limits are judged against trial limits of their own.`);
+  }
 
   const keptPoints = lotsIn.length - excluded.length;
   if (!frozenUsed && lotsIn.length > 0 && keptPoints < PHASE_ONE_MIN_POINTS) {
@@ -243,35 +297,44 @@ export function buildChart(inputs: ChartInputs): Computed {
     reasons.push('No specification limit is in force, so results are not judged against a specification and capability indices are not given.');
   }
 
+  const violations: CharacteristicChart['violations'] = [];
   const ruleAt = new Map<number, RuleId[]>();
-  for (const v of result.violations) {
-    const list = ruleAt.get(v.index) ?? [];
-    if (!list.includes(v.rule)) list.push(v.rule);
-    ruleAt.set(v.index, list);
-  }
+  stretches.forEach((s, k) => {
+    for (const v of results[k].violations) {
+      const index = v.index + s.from;
+      violations.push({ rule: v.rule, chart: v.chart, index, points: v.points.map((i) => i + s.from), description: ruleDescriptions[v.rule] });
+      const list = ruleAt.get(index) ?? [];
+      if (!list.includes(v.rule)) list.push(v.rule);
+      ruleAt.set(index, list);
+    }
+  });
 
-  const points: ChartPointRecord[] = lotsIn.map((lot, i) => {
-    const p = pointAt(result, i);
-    const location = p.location;
-    return {
-      index: i,
-      lotId: lot.lotId,
-      lotNumber: lot.lotNumber,
-      producedAt: lot.producedAt.toISOString(),
-      shift: lot.shift,
-      n: lot.values.length,
-      values: lot.values,
-      location,
-      dispersion: p.dispersion,
-      ucl: p.locationLimits.ucl,
-      lcl: p.locationLimits.lcl,
-      dispersionUcl: p.dispersionLimits.ucl,
-      dispersionLcl: p.dispersionLimits.lcl,
-      excluded: p.excluded,
-      exclusionReason: inputs.exclusions.get(lot.lotId) ?? null,
-      outOfSpec: isOutOfSpec(lotResult(lot.values), specAt(inputs.specs, lot.producedAt)),
-      rules: ruleAt.get(i) ?? [],
-    };
+  const points: ChartPointRecord[] = [];
+  stretches.forEach((s, k) => {
+    for (let i = s.from; i < s.to; i++) {
+      const lot = lotsIn[i];
+      const p = pointAt(results[k], i - s.from);
+      points.push({
+        index: i,
+        lotId: lot.lotId,
+        lotNumber: lot.lotNumber,
+        producedAt: lot.producedAt.toISOString(),
+        shift: lot.shift,
+        n: lot.values.length,
+        values: lot.values,
+        location: p.location,
+        dispersion: p.dispersion,
+        center: p.locationLimits.center,
+        ucl: p.locationLimits.ucl,
+        lcl: p.locationLimits.lcl,
+        dispersionUcl: p.dispersionLimits.ucl,
+        dispersionLcl: p.dispersionLimits.lcl,
+        excluded: p.excluded,
+        exclusionReason: inputs.exclusions.get(lot.lotId) ?? null,
+        outOfSpec: isOutOfSpec(lotResult(lot.values), specAt(inputs.specs, lot.producedAt)),
+        rules: ruleAt.get(i) ?? [],
+      });
+    }
   });
 
   let capability: CapabilityResult | null = null;
@@ -317,7 +380,7 @@ export function buildChart(inputs: ChartInputs): Computed {
       sigmaOverall: trial.sigmaOverall,
     },
     points,
-    violations: result.violations.map((v) => ({ rule: v.rule, chart: v.chart, index: v.index, points: v.points, description: ruleDescriptions[v.rule] })),
+    violations,
     events: inputs.events,
     capability,
     reasons: [...new Set(reasons)],
@@ -411,7 +474,7 @@ export async function freezeLimits(db: Database, req: FreezeRequest): Promise<Li
     await tx.execute(sql`select pg_advisory_xact_lock(${CHARACTERISTIC_LOCK}, ${req.characteristicId})`);
     const inputs = await loadChartInputs(tx, req.characteristicId, { from: req.baselineFrom, to: req.baselineTo });
     if (!inputs) throw notFound(`Characteristic ${req.characteristicId}`);
-    const { result } = buildChart({ ...inputs, revision: null });
+    const { result } = buildChart({ ...inputs, revisions: [] });
     const kept = inputs.lots.filter((l) => !inputs.exclusions.has(l.lotId)).length;
     if (kept === 0) throw new HttpError(422, 'The baseline window holds no kept points');
     if (result.sigmaWithin === null || result.location.center === null || result.location.ucl === null || result.location.lcl === null) {

@@ -64,13 +64,13 @@ export async function runCharacteristic(db: Database, opts: RunCharacteristicOpt
 
     let outcome: CharacteristicOutcome = { skipped: false, changed: false, raised: 0, resolved: 0 };
     if (!prev || prev.fingerprint !== fingerprint) {
-      const { chart, result } = buildChart(inputs);
+      const { chart } = buildChart(inputs);
       const previous: PreviousSnapshot | null = prev ? { periodTo: prev.period_to ? new Date(prev.period_to) : null, computedAt: new Date(prev.computed_at) } : null;
       // The first run of a characteristic takes over its history: alarms are raised but nobody is
       // e-mailed about months-old lots; they appear in the alarm list and the next digest.
       const reconciled = await reconcileAlarms(tx, { characteristicId, findings: findingsOf(chart, inputs, previous), runId, notify: prev !== undefined, publicUrl: opts.publicUrl });
-      const p = result.points;
-      const dispersion = Array.from(p.dispersion, (v, i) => (p.hasDispersion[i] ? v : null));
+      const location = chart.points.map((pt) => pt.location);
+      const dispersion = chart.points.map((pt) => pt.dispersion);
       const values = {
         lotIds: chart.points.map((pt) => pt.lotId),
         excluded: chart.points.filter((pt) => pt.excluded).map((pt) => pt.lotId),
@@ -79,9 +79,9 @@ export async function runCharacteristic(db: Database, opts: RunCharacteristicOpt
       await tx.execute(sql`
         insert into spc_snapshots (characteristic_id, run_id, computed_at, fingerprint, phase, point_count, period_from, period_to, lot_ids, location, dispersion,
                                    excluded_lot_ids, out_of_spec_lot_ids, limits, violations, capability, reasons)
-        values (${characteristicId}, ${runId}, ${now.toISOString()}::timestamptz, ${fingerprint}, ${result.phase}, ${chart.points.length},
+        values (${characteristicId}, ${runId}, ${now.toISOString()}::timestamptz, ${fingerprint}, ${chart.limits.source === 'frozen' ? 'II' : 'I'}, ${chart.points.length},
                 ${inputs.lots[0]?.producedAt.toISOString() ?? null}::timestamptz, ${inputs.lots.at(-1)?.producedAt.toISOString() ?? null}::timestamptz,
-                ${arr(values.lotIds)}::int[], ${arr(Array.from(p.location))}::float8[], ${arr(dispersion)}::float8[], ${arr(values.excluded)}::int[], ${arr(values.outOfSpec)}::int[],
+                ${arr(values.lotIds)}::int[], ${arr(location)}::float8[], ${arr(dispersion)}::float8[], ${arr(values.excluded)}::int[], ${arr(values.outOfSpec)}::int[],
                 ${JSON.stringify(chart.limits)}::jsonb, ${JSON.stringify(chart.violations)}::jsonb, ${chart.capability ? JSON.stringify(chart.capability) : null}::jsonb, ${JSON.stringify(chart.reasons)}::jsonb)
         on conflict (characteristic_id) do update set
           run_id = excluded.run_id, computed_at = excluded.computed_at, fingerprint = excluded.fingerprint, phase = excluded.phase, point_count = excluded.point_count,

@@ -78,6 +78,8 @@ export interface ChartPointRecord {
   values: number[];
   location: number;
   dispersion: number | null;
+  /** The centre line this point is judged against: it moves where a limit revision takes over. */
+  center: number | null;
   ucl: number | null;
   lcl: number | null;
   dispersionUcl: number | null;

@@ -9,7 +9,7 @@ const end = Date.UTC(2026, 11, 1);
 function chart(count: number, opts: { violationsAt?: number[]; outOfSpecAt?: number[]; ucl?: number | null; source?: 'trial' | 'frozen'; cpk?: number | null } = {}): CharacteristicChart {
   const points = Array.from({ length: count }, (_, i): ChartPointRecord => ({
     index: i, lotId: i + 1, lotNumber: `L-${i}`, producedAt: new Date(end - (count - 1 - i) * day).toISOString(), shift: 'early', n: 2, values: [145, 145],
-    location: 145, dispersion: 0, ucl: 149, lcl: 141, dispersionUcl: 7, dispersionLcl: 0, excluded: false, exclusionReason: null,
+    location: 145, dispersion: 0, center: 145, ucl: 149, lcl: 141, dispersionUcl: 7, dispersionLcl: 0, excluded: false, exclusionReason: null,
     outOfSpec: (opts.outOfSpecAt ?? []).includes(i), rules: [],
   }));
   return {

@@ -32,6 +32,7 @@ function fixture(count: number, flagged: (i: number) => boolean = () => false): 
       values: [a, b],
       location: (a + b) / 2,
       dispersion: Math.abs(a - b),
+      center: 145,
       ucl: 149,
       lcl: 141,
       dispersionUcl: 7,
@@ -82,6 +83,23 @@ describe('control chart option', () => {
     expect(new Set(patterns).size).toBe(5);
     expect(labelled.get('UCL')).toBe(labelled.get('LCL'));
     expect(labelled.get('USL')).toBe(JSON.stringify(lineStyles.spec.dash));
+  });
+
+  it('steps the centre and control lines where a limit revision takes over, and shades the zones only from there', () => {
+    const chart = fixture(40);
+    // Points 0–19 keep the limits of their time (centre 150); the revision in force applies from 20.
+    for (const p of chart.points.slice(0, 20)) Object.assign(p, { center: 150, ucl: 154, lcl: 146 });
+    const option = buildControlChartOption(chart, 'UTC');
+    const series = option.series as (Series & { markArea?: { data?: { xAxis?: number; yAxis?: number }[][] } })[];
+    const centre = series.find((s) => s.name === 'CL')!;
+    expect(centre.data).toEqual(chart.points.map((p) => [p.index, p.center]));
+    expect(series.find((s) => s.name === 'UCL')!.data).toEqual(chart.points.map((p) => [p.index, p.ucl]));
+    const labels = series.flatMap((s) => s.markLine?.data ?? []).map((l) => String(l.label?.formatter).split(' ')[0]);
+    expect(labels).not.toContain('CL');
+    expect(labels).not.toContain('+1σ');
+    const areas = series.find((s) => s.id === 'location')!.markArea!.data!;
+    expect(areas).toHaveLength(4);
+    expect(areas.every(([from]) => from.xAxis === 19.5)).toBe(true);
   });
 
   it('marks every rule-breaking point even when the line itself is thinned for thousands of points', () => {

@@ -303,6 +303,7 @@ export function buildControlChartOption(chart: CharacteristicChart, timeZone: st
   const dispDecimals = decimals + 1;
 
   const location: [number, number][] = new Array(points.length);
+  const cl: [number, number | null][] = new Array(points.length);
   const ucl: [number, number | null][] = new Array(points.length);
   const lcl: [number, number | null][] = new Array(points.length);
   const dispersion: [number, number | null][] = new Array(points.length);
@@ -311,6 +312,7 @@ export function buildControlChartOption(chart: CharacteristicChart, timeZone: st
   for (let i = 0; i < points.length; i++) {
     const p = points[i];
     location[i] = [p.index, p.location];
+    cl[i] = [p.index, p.center];
     ucl[i] = [p.index, p.ucl];
     lcl[i] = [p.index, p.lcl];
     dispersion[i] = [p.index, p.dispersion];
@@ -325,6 +327,12 @@ export function buildControlChartOption(chart: CharacteristicChart, timeZone: st
   const constantLimits = points.every(
     (p) => same(p.ucl, limits?.location.ucl) && same(p.lcl, limits?.location.lcl) && same(p.dispersionUcl, limits?.dispersion.ucl) && same(p.dispersionLcl, limits?.dispersion.lcl),
   );
+  // After a limit revision the points before it keep the centre line of their time: the centre is
+  // then a stepped line, and the zones are shaded only where the limits in force apply.
+  let currentFrom = points.length;
+  while (currentFrom > 0 && same(points[currentFrom - 1].center, center)) currentFrom--;
+  const centreVaries = currentFrom > 0;
+  const zoneStart = centreVaries ? { xAxis: points[currentFrom].index - 0.5 } : {};
   const { topRange, bottomRange } = valueRanges(chart);
   const sets = markerSets(chart, index);
   const marked = new Map(thinMarkers(sets, index.first, index.last).map((m) => [m.id, m.data]));
@@ -334,10 +342,10 @@ export function buildControlChartOption(chart: CharacteristicChart, timeZone: st
     animation: false,
     data: zones && limits?.location.ucl != null && limits.location.lcl != null
       ? [
-          [{ yAxis: zones.plus2, itemStyle: { color: zoneFill.A }, label: { show: true, position: 'insideRight', formatter: 'A', color: '#71717a' } }, { yAxis: limits.location.ucl }],
-          [{ yAxis: zones.plus1, itemStyle: { color: zoneFill.B }, label: { show: true, position: 'insideRight', formatter: 'B', color: '#71717a' } }, { yAxis: zones.plus2 }],
-          [{ yAxis: zones.minus2, itemStyle: { color: zoneFill.B }, label: { show: true, position: 'insideRight', formatter: 'B', color: '#71717a' } }, { yAxis: zones.minus1 }],
-          [{ yAxis: limits.location.lcl, itemStyle: { color: zoneFill.A }, label: { show: true, position: 'insideRight', formatter: 'A', color: '#71717a' } }, { yAxis: zones.minus2 }],
+          [{ ...zoneStart, yAxis: zones.plus2, itemStyle: { color: zoneFill.A }, label: { show: true, position: 'insideRight', formatter: 'A', color: '#71717a' } }, { yAxis: limits.location.ucl }],
+          [{ ...zoneStart, yAxis: zones.plus1, itemStyle: { color: zoneFill.B }, label: { show: true, position: 'insideRight', formatter: 'B', color: '#71717a' } }, { yAxis: zones.plus2 }],
+          [{ ...zoneStart, yAxis: zones.minus2, itemStyle: { color: zoneFill.B }, label: { show: true, position: 'insideRight', formatter: 'B', color: '#71717a' } }, { yAxis: zones.minus1 }],
+          [{ ...zoneStart, yAxis: limits.location.lcl, itemStyle: { color: zoneFill.A }, label: { show: true, position: 'insideRight', formatter: 'A', color: '#71717a' } }, { yAxis: zones.minus2 }],
         ]
       : [],
   };
@@ -345,17 +353,21 @@ export function buildControlChartOption(chart: CharacteristicChart, timeZone: st
   const events = eventPositions(chart);
   const topMarks = horizontalMarks(
     [
-      { kind: 'centre', value: center, label: 'CL' },
+      ...(centreVaries ? [] : ([{ kind: 'centre', value: center, label: 'CL' }] satisfies HorizontalLine[])),
       ...(constantLimits
         ? ([
             { kind: 'control', value: limits?.location.ucl, label: 'UCL' },
             { kind: 'control', value: limits?.location.lcl, label: 'LCL' },
           ] satisfies HorizontalLine[])
         : []),
-      { kind: 'zone', value: zones?.plus1, label: '+1σ', inside: 'start', bare: true },
-      { kind: 'zone', value: zones?.plus2, label: '+2σ', inside: 'start', bare: true },
-      { kind: 'zone', value: zones?.minus1, label: '−1σ', inside: 'start', bare: true },
-      { kind: 'zone', value: zones?.minus2, label: '−2σ', inside: 'start', bare: true },
+      ...(centreVaries
+        ? []
+        : ([
+            { kind: 'zone', value: zones?.plus1, label: '+1σ', inside: 'start', bare: true },
+            { kind: 'zone', value: zones?.plus2, label: '+2σ', inside: 'start', bare: true },
+            { kind: 'zone', value: zones?.minus1, label: '−1σ', inside: 'start', bare: true },
+            { kind: 'zone', value: zones?.minus2, label: '−2σ', inside: 'start', bare: true },
+          ] satisfies HorizontalLine[])),
       { kind: 'spec', value: spec?.usl, label: 'USL' },
       { kind: 'spec', value: spec?.lsl, label: 'LSL' },
       { kind: 'target', value: spec?.target, label: 'Target', inside: 'end' },
@@ -363,7 +375,7 @@ export function buildControlChartOption(chart: CharacteristicChart, timeZone: st
     locDecimals,
   );
 
-  const limitLine = (name: string, data: [number, number | null][], axis: number, label: string, digits: number): LineSeriesOption => ({
+  const limitLine = (name: string, data: [number, number | null][], axis: number, label: string, digits: number, kind: 'control' | 'centre' = 'control'): LineSeriesOption => ({
     name,
     type: 'line',
     xAxisIndex: axis,
@@ -374,14 +386,14 @@ export function buildControlChartOption(chart: CharacteristicChart, timeZone: st
     silent: true,
     animation: false,
     sampling: dense ? 'lttb' : undefined,
-    lineStyle: lineStyle('control'),
+    lineStyle: lineStyle(kind),
     endLabel: {
       show: true,
       formatter: (params: { value?: unknown }) => {
         const v = Array.isArray(params.value) ? params.value[1] : null;
         return typeof v === 'number' ? `${label} ${v.toFixed(digits)}` : '';
       },
-      color: lineStyles.control.color,
+      color: lineStyles[kind].color,
       fontFamily: 'Roboto Mono',
       fontSize: 12,
     },
@@ -486,6 +498,7 @@ export function buildControlChartOption(chart: CharacteristicChart, timeZone: st
         markLine: topMarks,
         markArea: zoneAreas,
       },
+      ...(centreVaries ? [limitLine('CL', cl, 0, 'CL', locDecimals, 'centre')] : []),
       ...(constantLimits ? [] : [limitLine('UCL', ucl, 0, 'UCL', locDecimals), limitLine('LCL', lcl, 0, 'LCL', locDecimals)]),
       {
         id: 'dispersion',
