@@ -21,8 +21,11 @@ beforeAll(async () => {
   ({ p: productId, l: lineId, c: characteristicId } = ids.rows[0]);
 });
 
-async function newLot(suffix: string): Promise<number> {
-  const res = await pool.query<{ id: number }>(`insert into lots (lot_number, product_id, line_id, produced_at) values ($1, $2, $3, now()) returning id`, [`${tag}-${suffix}`, productId, lineId]);
+async function newLot(suffix: string, id?: number): Promise<number> {
+  const res = await pool.query<{ id: number }>(
+    `insert into lots (id, lot_number, product_id, line_id, produced_at) values (coalesce($4, nextval('lots_id_seq')), $1, $2, $3, now()) returning id`,
+    [`${tag}-${suffix}`, productId, lineId, id ?? null],
+  );
   return res.rows[0].id;
 }
 
@@ -45,6 +48,19 @@ describe('references of lots and measurements', () => {
     expect(await code(insert(lot, characteristicId, null, null))).toBe('ok');
     expect(await code(pool.query('update measurements set lot_id = 2000000000 where lot_id = $1', [lot]))).toBe('23503');
     await removeLot(lot);
+  });
+
+  it('find a missing lot inside a run of consecutive lot ids, the case checked by one range count', async () => {
+    // Ids of our own choosing, far above the sequence, so that other tests' lots cannot fall between.
+    const base = 1_500_000_000 + (process.pid % 10_000) * 10;
+    const [a, b, c] = [await newLot('E1', base), await newLot('E2', base + 1), await newLot('E3', base + 2)];
+    await pool.query('delete from lots where id = $1', [b]);
+    const insert = (ids: number[]) =>
+      pool.query(`insert into measurements (lot_id, characteristic_id, replicate, value, source) select unnest($1::int[]), $2, 1, 146, 'manual'`, [ids, characteristicId]);
+    expect(await code(insert([a, a + 1, c]))).toBe('23503');
+    expect(await code(insert([a, c]))).toBe('ok');
+    await removeLot(a);
+    await removeLot(c);
   });
 
   it('refuse a lot of a product or line that does not exist', async () => {

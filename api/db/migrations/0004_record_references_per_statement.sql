@@ -10,46 +10,52 @@ ALTER TABLE "measurements" DROP CONSTRAINT "measurements_upload_id_uploads_id_fk
 --> statement-breakpoint
 ALTER TABLE "measurements" DROP CONSTRAINT "measurements_entered_by_users_id_fk";
 --> statement-breakpoint
+DROP INDEX "lots_product_produced_idx";--> statement-breakpoint
 DROP INDEX "measurements_characteristic_idx";--> statement-breakpoint
 DROP INDEX "measurements_live_key";--> statement-breakpoint
 DROP INDEX "measurements_upload_idx";--> statement-breakpoint
 CREATE INDEX "measurements_voided_idx" ON "measurements" USING btree ("characteristic_id") WHERE voided_at is not null;--> statement-breakpoint
 CREATE UNIQUE INDEX "measurements_live_key" ON "measurements" USING btree ("characteristic_id","lot_id","replicate") WHERE voided_at is null;--> statement-breakpoint
-CREATE INDEX "measurements_upload_idx" ON "measurements" USING brin ("upload_id");
---> statement-breakpoint
+CREATE INDEX "measurements_upload_idx" ON "measurements" USING brin ("upload_id");--> statement-breakpoint
 -- Lots and measurements arrive by the hundred thousand in one upload. A declared foreign key checks
--- each row with its own lookup and lock; these triggers check every reference of a statement with one
--- join instead. The parent side refuses to remove a row that is still referenced. Both sides meet on
--- one advisory lock (shared for writers of references, exclusive for removers of parents), so a
--- parent removed while an insert is in flight is caught by whichever of the two commits second.
+-- each row with its own lookup and lock; these triggers check every reference of a statement at once.
+-- The parent side refuses to remove a row that is still referenced. Both sides meet on one advisory
+-- lock (shared for writers of references, exclusive for removers of parents), so a parent removed
+-- while an insert is in flight is caught by whichever of the two commits second (READ COMMITTED).
 CREATE FUNCTION record_reference_missing(parent text, id integer) RETURNS void LANGUAGE plpgsql AS $$
 BEGIN
   RAISE EXCEPTION 'insert or update violates a reference: % % does not exist', parent, id USING ERRCODE = 'foreign_key_violation';
 END $$;
 --> statement-breakpoint
 CREATE FUNCTION lots_references_present() RETURNS trigger LANGUAGE plpgsql AS $$
-DECLARE missing integer;
+DECLARE r record;
 BEGIN
   PERFORM pg_advisory_xact_lock_shared(727003);
-  SELECT n.product_id INTO missing FROM (SELECT DISTINCT product_id FROM new_rows) n WHERE NOT EXISTS (SELECT 1 FROM products p WHERE p.id = n.product_id) LIMIT 1;
-  IF FOUND THEN PERFORM record_reference_missing('product', missing); END IF;
-  SELECT n.line_id INTO missing FROM (SELECT DISTINCT line_id FROM new_rows) n WHERE NOT EXISTS (SELECT 1 FROM production_lines p WHERE p.id = n.line_id) LIMIT 1;
-  IF FOUND THEN PERFORM record_reference_missing('production line', missing); END IF;
+  -- A statement names a handful of products and lines: one pass groups them, then one lookup each.
+  FOR r IN SELECT product_id, line_id FROM new_rows GROUP BY 1, 2 LOOP
+    IF NOT EXISTS (SELECT 1 FROM products p WHERE p.id = r.product_id) THEN PERFORM record_reference_missing('product', r.product_id); END IF;
+    IF NOT EXISTS (SELECT 1 FROM production_lines p WHERE p.id = r.line_id) THEN PERFORM record_reference_missing('production line', r.line_id); END IF;
+  END LOOP;
   RETURN NULL;
 END $$;
 --> statement-breakpoint
 CREATE FUNCTION measurements_references_present() RETURNS trigger LANGUAGE plpgsql AS $$
-DECLARE missing integer;
+DECLARE r record; lowest integer; highest integer; named integer; missing integer;
 BEGIN
   PERFORM pg_advisory_xact_lock_shared(727003);
+  FOR r IN SELECT characteristic_id, upload_id, entered_by FROM new_rows GROUP BY 1, 2, 3 LOOP
+    IF NOT EXISTS (SELECT 1 FROM characteristics p WHERE p.id = r.characteristic_id) THEN PERFORM record_reference_missing('characteristic', r.characteristic_id); END IF;
+    IF r.upload_id IS NOT NULL AND NOT EXISTS (SELECT 1 FROM uploads p WHERE p.id = r.upload_id) THEN PERFORM record_reference_missing('upload', r.upload_id); END IF;
+    IF r.entered_by IS NOT NULL AND NOT EXISTS (SELECT 1 FROM users p WHERE p.id = r.entered_by) THEN PERFORM record_reference_missing('user', r.entered_by); END IF;
+  END LOOP;
+  -- Lots are many. A file of new lots names a run of consecutive ids: when the table holds as many ids
+  -- in that range as the run is long, every one is there, and one range count on the primary key
+  -- replaces a lookup per lot. Otherwise each distinct lot is looked up.
+  SELECT min(lot_id), max(lot_id), count(DISTINCT lot_id) INTO lowest, highest, named FROM new_rows;
+  IF named = 0 THEN RETURN NULL; END IF;
+  IF highest - lowest + 1 = named AND (SELECT count(*) FROM lots p WHERE p.id BETWEEN lowest AND highest) = named THEN RETURN NULL; END IF;
   SELECT n.lot_id INTO missing FROM (SELECT DISTINCT lot_id FROM new_rows) n WHERE NOT EXISTS (SELECT 1 FROM lots p WHERE p.id = n.lot_id) LIMIT 1;
   IF FOUND THEN PERFORM record_reference_missing('lot', missing); END IF;
-  SELECT n.characteristic_id INTO missing FROM (SELECT DISTINCT characteristic_id FROM new_rows) n WHERE NOT EXISTS (SELECT 1 FROM characteristics p WHERE p.id = n.characteristic_id) LIMIT 1;
-  IF FOUND THEN PERFORM record_reference_missing('characteristic', missing); END IF;
-  SELECT n.upload_id INTO missing FROM (SELECT DISTINCT upload_id FROM new_rows WHERE upload_id IS NOT NULL) n WHERE NOT EXISTS (SELECT 1 FROM uploads p WHERE p.id = n.upload_id) LIMIT 1;
-  IF FOUND THEN PERFORM record_reference_missing('upload', missing); END IF;
-  SELECT n.entered_by INTO missing FROM (SELECT DISTINCT entered_by FROM new_rows WHERE entered_by IS NOT NULL) n WHERE NOT EXISTS (SELECT 1 FROM users p WHERE p.id = n.entered_by) LIMIT 1;
-  IF FOUND THEN PERFORM record_reference_missing('user', missing); END IF;
   RETURN NULL;
 END $$;
 --> statement-breakpoint

@@ -1,8 +1,17 @@
-import { asc, eq, sql } from 'drizzle-orm';
+import { asc, eq, sql, type SQLWrapper } from 'drizzle-orm';
 import type { Database } from '../client';
 import { characteristics, productionLines, products, testMethods } from '../schema';
 
 type Reader = Pick<Database, 'select'>;
+
+/**
+ * Results were ever recorded under a characteristic, live or voided. Asked as two questions because
+ * live and voided measurements each have an index that leads with the characteristic, and no index
+ * holds both.
+ */
+export const hasRecordedResults = (characteristicId: SQLWrapper) =>
+  sql<boolean>`(exists (select 1 from measurements m where m.characteristic_id = ${characteristicId} and m.voided_at is null)
+             or exists (select 1 from measurements m where m.characteristic_id = ${characteristicId} and m.voided_at is not null))`;
 
 /** Characteristics with product, test method and the specification revision in force now; one of them with `id`. */
 export async function listCharacteristics(db: Reader, id?: number) {
@@ -33,7 +42,7 @@ export async function listCharacteristics(db: Reader, id?: number) {
         from spec_limits s where s.characteristic_id = ${characteristics.id} and s.effective_from <= now()
         order by s.effective_from desc, s.revision desc limit 1)`,
       /** Results were ever recorded under it (voided ones too): its code, product, method and age are fixed. */
-      hasResults: sql<boolean>`exists (select 1 from measurements m where m.characteristic_id = characteristics.id)`,
+      hasResults: hasRecordedResults(characteristics.id),
     })
     .from(characteristics)
     .innerJoin(products, eq(products.id, characteristics.productId))

@@ -4,7 +4,7 @@ import { methodCautions, testMethods as methodCatalogue } from '../../../shared/
 import { characteristicIssues } from '../../../shared/schemas/catalogue';
 import type { Database } from '../../db/client';
 import { characteristics, lots, measurements, plants, productionLines, products, specLimits, testMethods, uploads } from '../../db/schema';
-import { listCharacteristics, listLines, listProducts } from '../../db/queries/catalogue';
+import { hasRecordedResults, listCharacteristics, listLines, listProducts } from '../../db/queries/catalogue';
 import { recordAudit } from '../../db/audit';
 import { badRequest, conflict, HttpError, isUniqueViolation, notFound, parseBody } from '../../http/errors';
 import { requireRole, requireSession } from '../../auth/session';
@@ -286,7 +286,7 @@ export function catalogueRouter(db: Database): Router {
 
         const fixed = changed.filter((key) => key === 'code' || key === 'productCode' || key === 'testMethodCode' || key === 'ageDays');
         if (fixed.length) {
-          const [recorded] = await tx.select({ id: measurements.id }).from(measurements).where(eq(measurements.characteristicId, id)).limit(1);
+          const [{ recorded }] = (await tx.execute<{ recorded: boolean }>(sql`select ${hasRecordedResults(sql`${id}::int`)} as recorded`)).rows;
           const names = { code: 'code', productCode: 'product', testMethodCode: 'test method', ageDays: 'age' };
           if (recorded) {
             const listed = new Intl.ListFormat('en-GB').format(fixed.map((key) => names[key]));
@@ -363,7 +363,14 @@ export function catalogueRouter(db: Database): Router {
       .from(measurements)
       .innerJoin(characteristics, eq(characteristics.id, measurements.characteristicId))
       .leftJoin(uploads, eq(uploads.id, measurements.uploadId))
-      .where(and(eq(measurements.lotId, lot.id), isNull(measurements.voidedAt)))
+      // Naming the lot's characteristics lets the live key, which leads with the characteristic, find them.
+      .where(
+        and(
+          eq(measurements.lotId, lot.id),
+          isNull(measurements.voidedAt),
+          sql`${measurements.characteristicId} in (select c.id from characteristics c join lots l on l.product_id = c.product_id where l.id = ${lot.id})`,
+        ),
+      )
       .orderBy(asc(characteristics.id), asc(measurements.replicate));
     // The revision in force when the lot was made judges it, not today's.
     const specRows = await db.execute<{ code: string; revision: number; lsl: number | null; usl: number | null; target: number | null; effective_from: Date }>(sql`
