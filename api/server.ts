@@ -19,7 +19,7 @@ export interface RunningServer {
 export async function startServer(config: Config = loadConfig()): Promise<RunningServer> {
   const db = createDatabase(config.databaseUrl);
   await migrateDatabase(db.$client);
-  if (config.mode === 'demo') await seedDemo(db);
+  if (config.mode === 'demo') await seedDemo(db, { publicUrl: config.publicUrl });
   const background = await startBackground(db, { databaseUrl: config.databaseUrl, publicUrl: config.publicUrl });
   const app = createApp({ db, config, ingestHooks: background.ingestHooks, spcQueue: background.queue, fakeSmtp: background.fakeSmtp, publicUrl: config.publicUrl });
   const server = await new Promise<Server>((resolvePromise, reject) => {

@@ -2,6 +2,9 @@
 // lot (the dedupe key), so a re-run finds the row it raised before instead of raising it again.
 import { sql } from 'drizzle-orm';
 import { ruleDescriptions, type RuleId } from '../../shared/spc';
+import { recordAudit } from '../db/audit';
+import type { Database } from '../db/client';
+import { HttpError, notFound } from '../http/errors';
 import { queueAlarmMail } from '../mail/notify';
 import type { CharacteristicChart, ChartInputs } from './characteristic-chart';
 import { lotResult, specAt } from './characteristic-chart';
@@ -213,4 +216,30 @@ export async function reconcileAlarms(
       where id = any(${arr(toResolve)}::int[])`);
   }
   return { raised, reopened: toReopen.map((r) => r.id), resolved: toResolve };
+}
+
+export interface TriageRequest {
+  id: number;
+  action: 'acknowledge' | 'close';
+  /** What was checked or decided, for the record. */
+  note: string;
+  userId: number;
+}
+
+/** A person acknowledges or closes an alarm with a note, recorded in the audit trail; a closed alarm stays closed. */
+export async function triageAlarm(db: Database, req: TriageRequest): Promise<void> {
+  const { id, action, note, userId } = req;
+  await db.transaction(async (tx) => {
+    const cur = await tx.execute<{ status: string }>(sql`select status from alarms where id = ${id} for update`);
+    if (!cur.rows[0]) throw notFound(`Alarm ${id}`);
+    const status = cur.rows[0].status;
+    if (status === 'closed') throw new HttpError(409, `Alarm ${id} is already closed`);
+    if (action === 'acknowledge' && status !== 'open') throw new HttpError(409, `Alarm ${id} is already acknowledged`);
+    if (action === 'acknowledge') {
+      await tx.execute(sql`update alarms set status = 'acknowledged', acknowledged_at = now(), acknowledged_by = ${userId}, acknowledge_note = ${note}, updated_at = now() where id = ${id}`);
+    } else {
+      await tx.execute(sql`update alarms set status = 'closed', resolution = 'by-user', closed_at = now(), closed_by = ${userId}, close_note = ${note}, updated_at = now() where id = ${id}`);
+    }
+    await recordAudit(tx, { actorId: userId, action, entity: 'alarm', entityId: id, before: { status }, after: { status: action === 'acknowledge' ? 'acknowledged' : 'closed' }, reason: note });
+  });
 }

@@ -79,6 +79,16 @@ export async function startRun(db: Database, queue: SpcQueue, req: StartRunReque
   }
 }
 
+/** A run whose items the caller works through itself with runCharacteristic, without queue jobs: the demo seed's runs. */
+export async function createRunRecord(db: Executor, req: { kind: 'full' | 'incremental'; trigger: RunTrigger; characteristicIds: number[]; requestedBy?: number | null }): Promise<number> {
+  const res = await db.execute<{ id: number }>(sql`
+    insert into spc_runs (kind, trigger, requested_by, characteristics)
+    values (${req.kind}, ${req.trigger}, ${req.requestedBy ?? null}, ${req.characteristicIds.length}) returning id`);
+  const runId = res.rows[0].id;
+  await db.execute(sql`insert into spc_run_items (run_id, characteristic_id) select ${runId}, unnest(${sql.param(req.characteristicIds)}::int[])`);
+  return runId;
+}
+
 const summaryColumns = sql`
   r.id, r.kind, r.trigger, r.status, r.characteristics, u.name as requested_by,
   r.created_at, r.started_at, r.finished_at,

@@ -5,6 +5,7 @@ import type { Role } from '../../../shared/schemas/users';
 import type { Database } from '../client';
 import { characteristics, plants, processEvents, productionLines, products, specLimits, testMethods, users } from '../schema';
 import { importResults } from '../../ingest/import';
+import { recordManagerDecisions } from './decisions';
 import * as scenario from './scenario';
 
 /** The demo sign-ins printed in the README. Demo mode only. */
@@ -41,8 +42,13 @@ export function demoEndDate(now = new Date()): Date {
   return new Date(today <= now.getTime() ? today : today - 86_400_000);
 }
 
-/** Seeds the invented Harrow Vale plant when the database is empty; never touches existing data. */
-export async function seedDemo(db: Database, now = new Date()): Promise<void> {
+/**
+ * Seeds the invented Harrow Vale plant when the database is empty, with the quality manager's
+ * decisions on its history (decisions.ts); never touches existing data. `publicUrl` goes into the
+ * links of any alarm e-mail the seed's SPC runs send.
+ */
+export async function seedDemo(db: Database, opts: { publicUrl: string; now?: Date }): Promise<void> {
+  const now = opts.now ?? new Date();
   await ensureReferenceData(db);
   const [{ count }] = await db.select({ count: sql<number>`count(*)::int` }).from(users);
   if (count === 0) {
@@ -55,6 +61,7 @@ export async function seedDemo(db: Database, now = new Date()): Promise<void> {
   const endDate = demoEndDate(now);
   const months = 6;
   const [admin] = await db.select({ id: users.id }).from(users).where(eq(users.email, demoUsers[0].email));
+  const [manager] = await db.select({ id: users.id }).from(users).where(eq(users.email, demoUsers[1].email));
   const windowStart = new Date(endDate.getTime() - 200 * 86_400_000);
 
   await db.transaction(async (tx) => {
@@ -122,4 +129,5 @@ export async function seedDemo(db: Database, now = new Date()): Promise<void> {
   if (outcome.kind !== 'imported') {
     throw new Error(`The demo history did not import: ${outcome.kind === 'rejected' ? JSON.stringify(outcome.errors.slice(0, 3)) : outcome.kind}`);
   }
+  await recordManagerDecisions(db, { endDate, months, managerId: manager.id, publicUrl: opts.publicUrl });
 }

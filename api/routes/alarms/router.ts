@@ -2,11 +2,10 @@ import { Router } from 'express';
 import { sql } from 'drizzle-orm';
 import { ruleDescriptions, type RuleId } from '../../../shared/spc';
 import type { Database } from '../../db/client';
-import { recordAudit } from '../../db/audit';
-import { HttpError, notFound, parseBody } from '../../http/errors';
+import { notFound, parseBody } from '../../http/errors';
 import { requireRole, requireSession } from '../../auth/session';
 import { signalNames, chartLink } from '../../mail/compose';
-import { OUT_OF_SPEC } from '../../spc/alarms';
+import { OUT_OF_SPEC, triageAlarm } from '../../spc/alarms';
 import { alarmIdParamsSchema, alarmNoteSchema, listAlarmsQuerySchema } from './schema';
 
 type AlarmRow = {
@@ -123,19 +122,7 @@ export function alarmsRouter(db: Database, publicUrl: string): Router {
     async (req: Parameters<Parameters<Router['post']>[1]>[0], res: Parameters<Parameters<Router['post']>[1]>[1]) => {
       const { id } = parseBody(alarmIdParamsSchema, req.params);
       const { note } = parseBody(alarmNoteSchema, req.body);
-      await db.transaction(async (tx) => {
-        const cur = await tx.execute<{ status: string }>(sql`select status from alarms where id = ${id} for update`);
-        if (!cur.rows[0]) throw notFound(`Alarm ${id}`);
-        const status = cur.rows[0].status;
-        if (status === 'closed') throw new HttpError(409, `Alarm ${id} is already closed`);
-        if (action === 'acknowledge' && status !== 'open') throw new HttpError(409, `Alarm ${id} is already acknowledged`);
-        if (action === 'acknowledge') {
-          await tx.execute(sql`update alarms set status = 'acknowledged', acknowledged_at = now(), acknowledged_by = ${req.user!.id}, acknowledge_note = ${note}, updated_at = now() where id = ${id}`);
-        } else {
-          await tx.execute(sql`update alarms set status = 'closed', resolution = 'by-user', closed_at = now(), closed_by = ${req.user!.id}, close_note = ${note}, updated_at = now() where id = ${id}`);
-        }
-        await recordAudit(tx, { actorId: req.user!.id, action, entity: 'alarm', entityId: id, before: { status }, after: { status: action === 'acknowledge' ? 'acknowledged' : 'closed' }, reason: note });
-      });
+      await triageAlarm(db, { id, action, note, userId: req.user!.id });
       const r = await db.execute<AlarmRow>(sql`${select} where a.id = ${id}`);
       res.json(toJson(r.rows[0], publicUrl));
     };

@@ -4,6 +4,7 @@ import { eq, sql } from 'drizzle-orm';
 import type { Database } from '../../db/client';
 import { characteristics, plants, productionLines, products, specLimits, testMethods } from '../../db/schema';
 import { importResults, type Subgroup } from '../../ingest/import';
+import { createRunRecord } from '../runs';
 
 export interface TestCharacteristic {
   productId: number;
@@ -75,13 +76,8 @@ export async function userIdByEmail(db: Database, email: string): Promise<number
 }
 
 /** A run with its items but no queue jobs, for tests that call runCharacteristic themselves. */
-export async function createRunRow(db: Database, characteristicIds: number[]): Promise<number> {
-  const res = await db.execute<{ id: number }>(sql`
-    insert into spc_runs (kind, trigger, characteristics) values ('incremental', 'manual', ${characteristicIds.length}) returning id`);
-  const runId = res.rows[0].id;
-  await db.execute(sql`insert into spc_run_items (run_id, characteristic_id) select ${runId}, unnest(${sql.param(characteristicIds)}::int[])`);
-  return runId;
-}
+export const createRunRow = (db: Database, characteristicIds: number[]): Promise<number> =>
+  createRunRecord(db, { kind: 'incremental', trigger: 'manual', characteristicIds });
 
 /**
  * Deletes the test products of this process with everything that hangs on them, so that later test
