@@ -1,6 +1,6 @@
 // The overview and the chart page in a real browser against the seeded demo plant: the quality
-// manager finds the planted step change in flow of HV Level 25 after the new sand source, reads the
-// rule in the tooltip, opens a lot, excludes a point and freezes limits from a baseline before it.
+// manager finds the flow of HV Level 25 with its limits recalculated after the new sand source, reads
+// a rule in the tooltip, opens a lot, excludes a point and freezes limits from a baseline before it.
 import { resolve } from 'node:path';
 import { describe, expect } from 'vitest';
 import type { APIRequestContext, Locator, Page } from 'playwright-core';
@@ -32,13 +32,11 @@ async function chartDrawn(page: Page) {
 }
 
 describe('overview and control charts', () => {
-  it('leads the quality manager from the overview to the step change in flow, its rule and its lot', async ({ page }) => {
+  it('leads the quality manager from the overview to the step change in flow, its revised limits, a rule and a lot', async ({ page }) => {
     await signIn(page, 'quality_manager');
     await pageHeading(page, 'Plant overview').waitFor();
     const tile = page.getByTestId('tile-HVL25-FLOW');
     await tile.waitFor();
-    expect(await tile.getByText('▲ Signal').isVisible()).toBe(true);
-    expect(await tile.textContent()).toMatch(/Run-rule signal at \d+ points? in the period/);
     // Needs attention first: the tiles of a product stand in the order of the server's attention score.
     const overview = (await (await page.request.get(`${baseUrl()}/api/v1/overview?days=30`)).json()) as Overview;
     const score = new Map(overview.items.map((i) => [i.code, i.attentionScore]));
@@ -66,8 +64,11 @@ describe('overview and control charts', () => {
     const id = Number(new URL(page.url()).pathname.split('/').pop());
     const chart = await chartJson(page.request, id);
 
-    // The sand source change is logged as an event and the run rule fires after it.
+    // The sand source change is logged as an event, and the limits in force come from the level after it.
     expect(await page.getByRole('region', { name: 'Process events' }).getByText('New sand source').isVisible()).toBe(true);
+    const revised = 'New sand source: limits recalculated from the new level';
+    expect(chart.limits).toMatchObject({ source: 'frozen', reason: revised });
+    await page.getByTestId('limits-source').getByText(revised, { exact: false }).waitFor();
     const signals = page.getByRole('list', { name: 'Run-rule signals' });
     await signals.waitFor();
     expect(await page.getByTestId('signal-count').textContent()).toContain(`${chart.violations.length} signal`);
@@ -111,7 +112,7 @@ describe('overview and control charts', () => {
     await pageHeading(page, 'HV Level 25 · flow diameter').waitFor();
     const id = Number(new URL(page.url()).pathname.split('/').pop());
     const before = await chartJson(page.request, id);
-    expect(before.limits.source).toBe('trial');
+    expect(before.limits.source).toBe('frozen');
 
     // The lot with the widest range, opened the way an alarm e-mail links to it.
     const widest = before.points.filter((p) => !p.excluded).reduce((a, b) => ((b.dispersion ?? 0) > (a.dispersion ?? 0) ? b : a));
@@ -130,12 +131,12 @@ describe('overview and control charts', () => {
     const reason = 'Ring lifted unevenly on the first reading; retrained the operator';
     await dialog.getByLabel('Assignable cause').fill(reason);
     await dialog.getByRole('button', { name: 'Exclude point' }).click();
-    await page.getByText(/is excluded and the trial limits were recomputed/).waitFor();
+    await page.getByText(/is excluded; the frozen limits stay as they are until limits are frozen again/).waitFor();
 
+    // Phase II: the point leaves the run rules; the frozen limits stay until the next freeze.
     const after = await chartJson(page.request, id);
-    expect(after.points[widest.index]).toMatchObject({ excluded: true, exclusionReason: reason });
-    expect(after.limits.location.ucl).not.toBe(before.limits.location.ucl);
-    expect(after.limits.dispersion.center!).toBeLessThan(before.limits.dispersion.center!);
+    expect(after.points[widest.index]).toMatchObject({ excluded: true, exclusionReason: reason, rules: [] });
+    expect(after.limits.location.ucl).toBe(before.limits.location.ucl);
     await page.getByTestId('limit-ucl').getByText(after.limits.location.ucl!.toFixed(2), { exact: true }).waitFor();
     expect(await selectedPanel.textContent()).toContain(`excluded from the limits: ${reason}`);
 

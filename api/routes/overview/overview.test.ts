@@ -35,13 +35,14 @@ describe('GET /api/v1/overview', () => {
     expect(body.families).toEqual(['levelling', 'repair', 'tile-adhesive']);
 
     const flow = body.items.find((i) => i.code === 'HVL25-FLOW')!;
-    expect(flow).toMatchObject({ lineCode: 'L1', productName: 'HV Level 25', productFamily: 'levelling', chartType: 'xbar-r', unit: 'mm' });
-    // The planted step change after the new sand source keeps the flow below the centre line.
-    expect(flow.controlState).toBe('signal');
-    expect(flow.signals).toBeGreaterThan(0);
-    expect(flow.attention.join(' ')).toMatch(/Run-rule signal/);
+    // The demo's manager recalculated the flow limits after the new sand source: phase II.
+    expect(flow).toMatchObject({ lineCode: 'L1', productName: 'HV Level 25', productFamily: 'levelling', chartType: 'xbar-r', unit: 'mm', limitsSource: 'frozen' });
     expect(flow.trend.length).toBeGreaterThan(10);
-    expect(flow.trend.some((t) => t.signal)).toBe(true);
+    // The planted lot of HV Level 25 far above its density limit, three weeks back, is a signal of the period.
+    const density = body.items.find((i) => i.code === 'HVL25-DENS')!;
+    expect(density.controlState).toBe('signal');
+    expect(density.signals).toBeGreaterThan(0);
+    expect(density.attention.join(' ')).toMatch(/Run-rule signal/);
 
     // The latest lot is the newest lot of the product that has a flow result.
     const [newest] = await api.db.execute<{ lot_number: string }>(sql`
