@@ -15,6 +15,7 @@ import type { Database } from '../db/client';
 import * as schema from '../db/schema';
 import { recordAudit } from '../db/audit';
 import { loadCatalogue, type LoadedCatalogue } from './catalogue';
+import { BinaryCopyWriter } from './copy-binary';
 
 /** One lot's results for one characteristic: a point of its chart. */
 export interface Subgroup {
@@ -37,8 +38,12 @@ export type ImportOutcome =
 
 /** Serialises imports so duplicate checks and inserts see one consistent state. */
 const IMPORT_LOCK = 727_002;
-/** Pieces parsed but not yet stored before parsing waits for the database. */
-const MAX_PIECES_AHEAD = 2;
+/** Characters parsed in one go before the event loop takes the database's answers. */
+const PIECE_CHARACTERS = 128 * 1024;
+/** Checked rows gathered into one round of lookups and COPY statements. */
+const ROWS_PER_STORE = 10_000;
+/** Rounds handed to the database but not yet stored before parsing waits for it. */
+const MAX_STORES_AHEAD = 2;
 
 export interface ImportRequest {
   /** Original file name, or a label such as "manual entry". */
@@ -59,9 +64,13 @@ export interface ImportRequest {
 export async function importResults(db: Database, req: ImportRequest): Promise<ImportOutcome> {
   const sha256 = req.content ? createHash('sha256').update(req.content).digest('hex') : null;
   const client = await db.$client.connect();
+  // A file's lookups of stored lots go over a second connection while the first is busy with COPY;
+  // taken before the import lock, so an import holding the lock never waits for a connection.
+  let reader: pg.PoolClient | undefined;
   let broken: Error | undefined;
   try {
-    return await importOn(client, req, sha256);
+    reader = req.content ? await db.$client.connect() : client;
+    return await importOn(client, reader, req, sha256);
   } catch (err) {
     broken = err as Error;
     await client.query('rollback').then(
@@ -71,10 +80,11 @@ export async function importResults(db: Database, req: ImportRequest): Promise<I
     throw err;
   } finally {
     client.release(broken);
+    if (reader && reader !== client) reader.release();
   }
 }
 
-async function importOn(client: pg.PoolClient, req: ImportRequest, sha256: string | null): Promise<ImportOutcome> {
+async function importOn(client: pg.PoolClient, reader: pg.PoolClient, req: ImportRequest, sha256: string | null): Promise<ImportOutcome> {
   const tx = drizzle(client, { schema });
   await client.query('begin');
   await client.query('select pg_advisory_xact_lock($1)', [IMPORT_LOCK]);
@@ -91,31 +101,47 @@ async function importOn(client: pg.PoolClient, req: ImportRequest, sha256: strin
   const uploadRow = req.content ? insertUpload(client, req, sha256!, 'imported', 0, 0, null) : Promise.resolve(null);
   uploadRow.catch(() => undefined);
 
-  const store = new MeasurementStore(client, catalogue, req, uploadRow);
+  const store = new MeasurementStore(client, reader, catalogue, req, uploadRow);
   let rowsTotal: number;
   let readErrors: RowError[];
   if (req.rows) {
     const { valid, errors } = validateRows(req.rows, catalogue, { decimalComma: req.decimalComma ?? false });
     rowsTotal = req.rows.length;
     readErrors = errors;
-    await store.add(valid, errors.length > 0);
+    await store.store(await store.prepare(valid, errors.length > 0));
   } else {
-    const reading = readResults(decodeText(req.content ?? Buffer.alloc(0)), { dialect: req.dialect, mapping: req.mapping, catalogue });
+    const reading = readResults(decodeText(req.content ?? Buffer.alloc(0)), { dialect: req.dialect, mapping: req.mapping, catalogue, pieceSize: PIECE_CHARACTERS });
     readErrors = reading.errors;
+    // Two chains: lookups of round k + 1 on the reading connection overlap the COPY of round k.
+    let looked: Promise<unknown> = Promise.resolve();
     let stored: Promise<void> = Promise.resolve();
     let ahead = 0;
     let databaseFailed = false;
-    for (const batch of reading.batches) {
-      if (databaseFailed) break;
+    let pending: ValidMeasurement[] = [];
+    const submit = () => {
+      const batch = pending;
       const failedSoFar = readErrors.length > 0;
+      pending = [];
       ahead++;
-      stored = stored.then(() => store.add(batch, failedSoFar)).finally(() => ahead--);
+      const prepared = looked.then(() => store.prepare(batch, failedSoFar));
+      looked = prepared;
+      stored = Promise.all([stored, prepared])
+        .then(([, ready]) => store.store(ready))
+        .finally(() => ahead--);
       // Handled here so a failure between pieces is no unhandled rejection; awaited below all the same.
+      looked.catch(() => (databaseFailed = true));
       stored.catch(() => (databaseFailed = true));
-      // Let the database's answers in between pieces; wait for it when it falls behind.
-      if (ahead > MAX_PIECES_AHEAD) await stored;
+    };
+    for (const piece of reading.batches) {
+      if (databaseFailed) break;
+      for (const v of piece) pending.push(v);
+      if (pending.length >= ROWS_PER_STORE) submit();
+      // Small pieces keep each stretch of parsing short, so the database's answers are taken up at once
+      // and the next COPY starts while parsing goes on; wait for the database when it falls behind.
+      if (ahead > MAX_STORES_AHEAD) await stored;
       else await new Promise((resolve) => setImmediate(resolve));
     }
+    if (pending.length) submit();
     await stored;
     rowsTotal = reading.rowsTotal;
   }
@@ -162,6 +188,14 @@ async function insertUpload(client: pg.PoolClient, req: ImportRequest, sha256: s
   return res.rows[0].id;
 }
 
+interface PreparedRound {
+  batch: ValidMeasurement[];
+  /** Lots first named in this round and not stored before, with their new ids. */
+  addedLots: { id: number; v: ValidMeasurement }[];
+  /** Ids of the round's measurements, in batch order. */
+  ids: number[];
+}
+
 interface KnownLot {
   id: number;
   /** Stored before this import, so its stored measurements may clash with the file's. */
@@ -170,14 +204,10 @@ interface KnownLot {
   clash: boolean;
 }
 
-/** COPY text format: backslash, tab and line breaks escaped; \N for null. */
-const copyText = (v: string | null) => (v === null ? '\\N' : /[\\\t\n\r]/.test(v) ? v.replace(/[\\\t\n\r]/g, (c) => ({ '\\': '\\\\', '\t': '\\t', '\n': '\\n', '\r': '\\r' })[c]!) : v);
-const copyTime = (ms: number | null) => (ms === null ? '\\N' : new Date(ms).toISOString());
-
-async function copyIn(client: pg.PoolClient, statement: string, text: string): Promise<void> {
+async function copyIn(client: pg.PoolClient, statement: string, data: Buffer): Promise<void> {
   const stream = client.query(copyFrom(statement));
   const done = once(stream, 'finish');
-  stream.end(text);
+  stream.end(data);
   await done;
 }
 
@@ -195,19 +225,24 @@ class MeasurementStore {
 
   constructor(
     private readonly client: pg.PoolClient,
+    /** Reads what other imports committed; under the import lock nothing else adds lots or measurements. */
+    private readonly reader: pg.PoolClient,
     private readonly cat: LoadedCatalogue,
     private readonly req: ImportRequest,
     private readonly uploadRow: Promise<number | null>,
   ) {}
 
-  /** Checks a piece against the stored lots and measurements, then stores it unless anything failed so far. */
-  async add(batch: ValidMeasurement[], fileHasErrors: boolean): Promise<void> {
+  /**
+   * Compares a round of checked rows with the stored lots and measurements and gives ids to its new lots
+   * and measurements. Rounds are prepared in file order: a lot is looked up once, in its first round.
+   */
+  async prepare(batch: ValidMeasurement[], fileHasErrors: boolean): Promise<PreparedRound> {
     if (fileHasErrors) this.failed = true;
     const firstOfLot = new Map<string, ValidMeasurement>();
     for (const v of batch) if (!this.lots.has(v.lot) && !firstOfLot.has(v.lot)) firstOfLot.set(v.lot, v);
     const newLots = [...firstOfLot.values()];
 
-    const res = await this.client.query<{ stored: { id: number; n: string; p: number; l: number; t: number }[]; lot_ids: number[] | null; measurement_ids: number[] | null }>(
+    const res = await this.reader.query<{ stored: { id: number; n: string; p: number; l: number; t: number }[]; lot_ids: number[] | null; measurement_ids: number[] | null }>(
       `select coalesce((select json_agg(json_build_object('id', id, 'n', lot_number, 'p', product_id, 'l', line_id, 't', extract(epoch from produced_at) * 1000))
                         from lots where lot_number = any($1::text[])), '[]') as stored,
               (select array_agg(nextval('lots_id_seq')::int) from generate_series(1, $2::int)) as lot_ids,
@@ -243,7 +278,7 @@ class MeasurementStore {
       return lot.stored && !lot.clash;
     });
     if (onStored.length) {
-      const keys = await this.client.query<{ i: number }>(
+      const keys = await this.reader.query<{ i: number }>(
         `select u.i::int as i from unnest($1::int[], $2::int[], $3::int[]) with ordinality as u(lot_id, characteristic_id, replicate, i)
          where exists (select 1 from measurements m where m.characteristic_id = u.characteristic_id and m.lot_id = u.lot_id and m.replicate = u.replicate and m.voided_at is null)`,
         [onStored.map((v) => this.lots.get(v.lot)!.id), onStored.map((v) => this.cat.characteristicIds.get(v.characteristic)!), onStored.map((v) => v.replicate)],
@@ -259,39 +294,43 @@ class MeasurementStore {
     }
 
     if (this.errors.length) this.failed = true;
-    if (this.failed || batch.length === 0) return;
-    await this.copy(batch, addedLots, measurementIds!);
+    return { batch, addedLots, ids: measurementIds ?? [] };
   }
 
-  private async copy(batch: ValidMeasurement[], addedLots: { id: number; v: ValidMeasurement }[], ids: number[]): Promise<void> {
+  /** Stores a prepared round by COPY in the import's transaction, unless anything failed so far. */
+  async store({ batch, addedLots, ids }: PreparedRound): Promise<void> {
+    if (this.failed || batch.length === 0) return;
     const uploadId = await this.uploadRow;
     if (addedLots.length) {
-      let lotsText = '';
+      const lotRows = new BinaryCopyWriter(addedLots.length * 80);
       for (const { id, v } of addedLots) {
-        lotsText += `${id}\t${v.lot}\t${this.cat.productIds.get(v.product)}\t${this.cat.lineIds.get(v.line)}\t${copyTime(v.producedAt)}\t${copyText(v.shift)}\n`;
+        lotRows.row(6).int4(id).text(v.lot).int4(this.cat.productIds.get(v.product)!).int4(this.cat.lineIds.get(v.line)!).timestamptz(v.producedAt).text(v.shift);
       }
-      await copyIn(this.client, 'COPY lots (id, lot_number, product_id, line_id, produced_at, shift) FROM STDIN', lotsText);
+      await copyIn(this.client, 'COPY lots (id, lot_number, product_id, line_id, produced_at, shift) FROM STDIN (FORMAT binary)', lotRows.finish());
     }
-    const tail = `\t${this.req.source}\t${uploadId ?? '\\N'}\t${this.req.actorId ?? '\\N'}\n`;
-    let text = '';
+    const rows = new BinaryCopyWriter(batch.length * 110);
     for (let i = 0; i < batch.length; i++) {
       const v = batch[i];
-      const lotId = this.lots.get(v.lot)!.id;
+      const lot = this.lots.get(v.lot)!;
       const characteristicId = this.cat.characteristicIds.get(v.characteristic)!;
-      text += `${ids[i]}\t${lotId}\t${characteristicId}\t${v.replicate}\t${v.value}\t${copyTime(v.testedAt)}\t${copyText(v.operator)}\t${copyText(v.note)}${tail}`;
+      rows.row(11).int4(ids[i]).int4(lot.id).int4(characteristicId).int4(v.replicate).float8(v.value).timestamptz(v.testedAt).text(v.operator).text(v.note).text(this.req.source);
+      if (uploadId === null) rows.null();
+      else rows.int4(uploadId);
+      if (this.req.actorId === null) rows.null();
+      else rows.int4(this.req.actorId);
       this.measurementIds.push(ids[i]);
       this.characteristicIds.add(characteristicId);
       const limits = this.cat.strictestLimits.get(characteristicId);
       const beyond = limits !== undefined && ((limits.lsl !== null && v.value < limits.lsl) || (limits.usl !== null && v.value > limits.usl));
-      if (beyond || this.lots.get(v.lot)!.stored) {
-        const key = `${lotId}:${characteristicId}`;
+      if (beyond || lot.stored) {
+        const key = `${lot.id}:${characteristicId}`;
         if (!this.judgeKeys.has(key)) {
           this.judgeKeys.add(key);
-          this.toJudge.push({ lotId, characteristicId });
+          this.toJudge.push({ lotId: lot.id, characteristicId });
         }
       }
     }
-    await copyIn(this.client, 'COPY measurements (id, lot_id, characteristic_id, replicate, value, tested_at, operator, note, source, upload_id, entered_by) FROM STDIN', text);
+    await copyIn(this.client, 'COPY measurements (id, lot_id, characteristic_id, replicate, value, tested_at, operator, note, source, upload_id, entered_by) FROM STDIN (FORMAT binary)', rows.finish());
     this.rowsImported += batch.length;
   }
 }

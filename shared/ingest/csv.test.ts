@@ -39,6 +39,18 @@ describe('readCsv', () => {
     );
   });
 
+  it('splits files without quotes the way Papa Parse does, with LF or CRLF line ends', () => {
+    const plainCell = fc.string({ unit: fc.constantFrom('a', 'B', '7', ' ', '.', 'é', ';', '-'), maxLength: 6 }).filter((c) => c.trim() !== '');
+    fc.assert(
+      fc.property(fc.array(fc.array(plainCell, { minLength: 3, maxLength: 3 }), { minLength: 1, maxLength: 40 }), fc.constantFrom('\n', '\r\n'), fc.integer({ min: 8, max: 120 }), (table, newline, size) => {
+        const text = [['lot', 'value', 'note'], ...table].map((r) => r.join(',')).join(newline) + newline;
+        const rows = [...readCsv(text, { delimiter: ',' }, size).pieces].flatMap((p) => p.rows);
+        expect(rows).toEqual(Papa.parse<string[]>(text, { header: false, delimiter: ',', skipEmptyLines: 'greedy' }).data.slice(1));
+      }),
+      { numRuns: 200 },
+    );
+  });
+
   it('numbers rows as a spreadsheet does across pieces and names rows with too few or too many fields', () => {
     const lines = ['lot,value'];
     for (let i = 0; i < 50; i++) lines.push(i === 30 ? 'A30' : i === 41 ? 'A41,1,2' : `A${i},${i}`);

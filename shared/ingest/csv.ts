@@ -74,7 +74,26 @@ const PIECE_SIZE = 1 << 20;
 /** A row of nothing but blanks and delimiters, which a spreadsheet leaves at the end of an export. */
 const isBlankRow = (cells: string[]) => cells.every((c) => c.trim() === '');
 
+/**
+ * Rows of a piece without a single quote character: nothing can be quoted, so lines and fields split
+ * at their separators, as Papa Parse would split them, several times faster. Null when the piece has
+ * quotes or a carriage return that does not end a line.
+ */
+function splitUnquoted(piece: string, delimiter: string): string[][] | null {
+  if (piece.includes('"')) return null;
+  const rows: string[][] = [];
+  for (let line of piece.split('\n')) {
+    if (line.endsWith('\r')) line = line.slice(0, -1);
+    if (line === '') continue;
+    if (line.includes('\r')) return null;
+    rows.push(line.split(delimiter));
+  }
+  return rows;
+}
+
 function parsePiece(piece: string, delimiter: CsvDialect['delimiter']): { data: string[][]; bad: Map<number, string> } {
+  const plain = splitUnquoted(piece, delimiter);
+  if (plain) return { data: plain.filter((cells) => cells[0].trim() !== '' || !isBlankRow(cells)), bad: new Map() };
   const parsed = Papa.parse<string[]>(piece, { header: false, delimiter, skipEmptyLines: true, dynamicTyping: false });
   const errorsByRow = new Map<number, string>();
   for (const e of parsed.errors) if (e.code !== 'UndetectableDelimiter' && e.row !== undefined && !errorsByRow.has(e.row)) errorsByRow.set(e.row, e.message);

@@ -1,3 +1,4 @@
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import Papa from 'papaparse';
 import { detectDialect } from './dialect';
@@ -16,6 +17,26 @@ describe('parseNumber', () => {
   it('refuses what is not a number rather than guessing', () => {
     for (const text of ['', 'abc', '12,5', '=1+1', '1.2.3', 'NaN', 'Infinity', '12 mm']) expect(parseNumber(text, false)).toBeNull();
     expect(parseNumber('12.5.1', true)).toBeNull();
+  });
+});
+
+describe('parsePlantDateTime against ECMAScript Date.parse', () => {
+  // ECMA-262 §21.4.1.32 (Date Time String Format) is an independent reading of the same ISO 8601 shapes.
+  it('gives the instant Date.parse gives for dates with Z or an offset, with or without seconds', () => {
+    const two = (n: number) => String(n).padStart(2, '0');
+    fc.assert(
+      fc.property(
+        fc.record({ y: fc.integer({ min: 1900, max: 2999 }), mo: fc.integer({ min: 1, max: 12 }), d: fc.integer({ min: 1, max: 28 }), h: fc.integer({ min: 0, max: 23 }), mi: fc.integer({ min: 0, max: 59 }), s: fc.option(fc.integer({ min: 0, max: 59 })), zone: fc.constantFrom('Z', '+01:00', '-05:30', '+00:00', '+14:00') }),
+        ({ y, mo, d, h, mi, s, zone }) => {
+          const text = `${y}-${two(mo)}-${two(d)}T${two(h)}:${two(mi)}${s === null ? '' : `:${two(s)}`}${zone}`;
+          expect(parsePlantDateTime(text, 'Europe/London')).toBe(Date.parse(text));
+        },
+      ),
+      { numRuns: 500 },
+    );
+    expect(parsePlantDateTime('2026-11-30T06:15:00.750Z', 'UTC')).toBe(Date.parse('2026-11-30T06:15:00Z'));
+    expect(parsePlantDateTime('2026-02-30T06:15Z', 'UTC')).toBeNull();
+    expect(parsePlantDateTime('2026-11-30T06:15 +0100', 'UTC')).toBe(Date.parse('2026-11-30T05:15Z'));
   });
 });
 

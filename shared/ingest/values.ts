@@ -1,7 +1,12 @@
 // Reading cells the way lab exports write them: decimal commas, local date formats, stray spaces.
 
+const plainDecimalPoint = /^-?\d{1,15}(?:\.\d{1,15})?$/;
+const plainDecimalComma = /^-?\d{1,15}(?:,\d{1,15})?$/;
+
 /** A number from a cell: "12.5", "12,5", " 1 234,5 " (space as thousands separator). null when not a number. */
 export function parseNumber(cell: string, decimalComma: boolean): number | null {
+  // Most cells are plain decimals: no need to look for spaces, grouping or exponents.
+  if (decimalComma ? plainDecimalComma.test(cell) : plainDecimalPoint.test(cell)) return Number(decimalComma ? cell.replace(',', '.') : cell);
   let text = cell.trim().replace(/[\u00a0\u202f ]/g, '');
   if (text === '') return null;
   if (decimalComma) {
@@ -74,12 +79,67 @@ function validDate(y: number, mo: number, d: number, h: number, mi: number, s: n
   return y >= 1900 && y <= 2999 && mo >= 1 && mo <= 12 && d >= 1 && d <= daysInMonth(y, mo) && h < 24 && mi < 60 && s < 60;
 }
 
+/** The number written by text[at, at + count) in decimal digits, or -1. */
+function digitsAt(text: string, at: number, count: number): number {
+  let value = 0;
+  for (let i = at; i < at + count; i++) {
+    const d = text.charCodeAt(i) - 48;
+    if (d < 0 || d > 9) return -1;
+    value = value * 10 + d;
+  }
+  return value;
+}
+
+/**
+ * The common shapes of an ISO 8601 date-time read character by character, without a regular expression:
+ * "2026-11-30T06:15", optional ":SS" and fraction, optional "Z" or "±HH:MM". Undefined for any other
+ * shape, which the general reading below then takes.
+ */
+function isoDateTimeQuickly(text: string, timeZone: string): number | null | undefined {
+  const n = text.length;
+  if (n < 16 || text.charCodeAt(4) !== 45 || text.charCodeAt(7) !== 45 || text.charCodeAt(13) !== 58) return undefined;
+  const separator = text.charCodeAt(10);
+  if (separator !== 84 && separator !== 32) return undefined;
+  const y = digitsAt(text, 0, 4);
+  const mo = digitsAt(text, 5, 2);
+  const d = digitsAt(text, 8, 2);
+  const h = digitsAt(text, 11, 2);
+  const mi = digitsAt(text, 14, 2);
+  if (y < 0 || mo < 0 || d < 0 || h < 0 || mi < 0) return undefined;
+  let i = 16;
+  let s = 0;
+  if (i < n && text.charCodeAt(i) === 58) {
+    s = digitsAt(text, i + 1, 2);
+    if (s < 0) return undefined;
+    i += 3;
+    if (i < n && text.charCodeAt(i) === 46) {
+      const first = ++i;
+      while (i < n && text.charCodeAt(i) >= 48 && text.charCodeAt(i) <= 57) i++;
+      if (i === first) return undefined;
+    }
+  }
+  let offsetMinutes: number | null = null;
+  if (i === n - 1 && text.charCodeAt(i) === 90) offsetMinutes = 0;
+  else if (i < n) {
+    const sign = text.charCodeAt(i);
+    if ((sign !== 43 && sign !== 45) || !(n - i === 6 ? text.charCodeAt(i + 3) === 58 : n - i === 5)) return undefined;
+    const oh = digitsAt(text, i + 1, 2);
+    const om = digitsAt(text, n - 2, 2);
+    if (oh < 0 || om < 0) return undefined;
+    offsetMinutes = (sign === 45 ? -1 : 1) * (oh * 60 + om);
+  }
+  if (!validDate(y, mo, d, h, mi, s)) return null;
+  return offsetMinutes === null ? localToUtcMs(y, mo, d, h, mi, s, timeZone) : Date.UTC(y, mo - 1, d, h, mi, s) - offsetMinutes * 60_000;
+}
+
 /**
  * A date-time from ISO 8601 or "dd.mm.yyyy HH:MM". Without an offset it is read as plant time.
  * Returns epoch milliseconds, or null when the text is not such a date.
  */
 export function parsePlantDateTime(cell: string, timeZone: string): number | null {
   const text = cell.trim();
+  const quick = isoDateTimeQuickly(text, timeZone);
+  if (quick !== undefined) return quick;
   const iso = isoPattern.exec(text);
   const eu = iso ? null : europeanPattern.exec(text);
   const m = iso ?? eu;

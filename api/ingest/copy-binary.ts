@@ -1,0 +1,90 @@
+// Rows in PostgreSQL's binary COPY format (PostgreSQL manual, COPY, "Binary Format"): the server reads
+// numbers and times as they are instead of parsing their text, which roughly halves its work per row.
+
+const SIGNATURE = Buffer.from('PGCOPY\n\xff\r\n\0', 'latin1');
+/** 2000-01-01T00:00:00Z, the epoch of PostgreSQL's timestamps, in Unix milliseconds. */
+const POSTGRES_EPOCH_MS = 946_684_800_000;
+const TWO_TO_32 = 4_294_967_296;
+
+export class BinaryCopyWriter {
+  private buf: Buffer;
+  private at = 0;
+
+  constructor(expectedBytes = 1 << 16) {
+    this.buf = Buffer.allocUnsafe(Math.max(64, expectedBytes));
+    SIGNATURE.copy(this.buf, 0);
+    this.buf.writeInt32BE(0, 11); // flags: no OIDs
+    this.buf.writeInt32BE(0, 15); // no header extension
+    this.at = 19;
+  }
+
+  private room(bytes: number): void {
+    if (this.at + bytes <= this.buf.length) return;
+    const bigger = Buffer.allocUnsafe(Math.max(this.buf.length * 2, this.at + bytes));
+    this.buf.copy(bigger, 0, 0, this.at);
+    this.buf = bigger;
+  }
+
+  /** Starts a row of `fields` columns, in the order of the COPY column list. */
+  row(fields: number): this {
+    this.room(2);
+    this.buf.writeInt16BE(fields, this.at);
+    this.at += 2;
+    return this;
+  }
+
+  null(): this {
+    this.room(4);
+    this.buf.writeInt32BE(-1, this.at);
+    this.at += 4;
+    return this;
+  }
+
+  int4(value: number): this {
+    this.room(8);
+    this.buf.writeInt32BE(4, this.at);
+    this.buf.writeInt32BE(value, this.at + 4);
+    this.at += 8;
+    return this;
+  }
+
+  float8(value: number): this {
+    this.room(12);
+    this.buf.writeInt32BE(8, this.at);
+    this.buf.writeDoubleBE(value, this.at + 4);
+    this.at += 12;
+    return this;
+  }
+
+  /** A timestamptz from Unix milliseconds: microseconds since 2000-01-01 UTC as a signed 64-bit integer. */
+  timestamptz(ms: number | null): this {
+    if (ms === null) return this.null();
+    const micros = (ms - POSTGRES_EPOCH_MS) * 1000;
+    const high = Math.floor(micros / TWO_TO_32);
+    this.room(12);
+    this.buf.writeInt32BE(8, this.at);
+    this.buf.writeInt32BE(high, this.at + 4);
+    this.buf.writeUInt32BE(micros - high * TWO_TO_32, this.at + 8);
+    this.at += 12;
+    return this;
+  }
+
+  /** Text (or an enum label) as UTF-8. */
+  text(value: string | null): this {
+    if (value === null) return this.null();
+    const bytes = Buffer.byteLength(value);
+    this.room(4 + bytes);
+    this.buf.writeInt32BE(bytes, this.at);
+    this.buf.write(value, this.at + 4, 'utf8');
+    this.at += 4 + bytes;
+    return this;
+  }
+
+  /** The whole COPY stream: header, rows and the trailer. */
+  finish(): Buffer {
+    this.room(2);
+    this.buf.writeInt16BE(-1, this.at);
+    this.at += 2;
+    return this.buf.subarray(0, this.at);
+  }
+}
