@@ -108,7 +108,8 @@ async function importOn(client: pg.PoolClient, reader: pg.PoolClient, req: Impor
     const { valid, errors } = validateRows(req.rows, catalogue, { decimalComma: req.decimalComma ?? false });
     rowsTotal = req.rows.length;
     readErrors = errors;
-    await store.store(await store.prepare(valid, errors.length > 0));
+    for (const v of valid) store.take(v);
+    await store.store(await store.prepare(store.closeRound(), errors.length > 0));
   } else {
     const reading = readResults(decodeText(req.content ?? Buffer.alloc(0)), { dialect: req.dialect, mapping: req.mapping, catalogue, pieceSize: PIECE_CHARACTERS });
     readErrors = reading.errors;
@@ -117,13 +118,11 @@ async function importOn(client: pg.PoolClient, reader: pg.PoolClient, req: Impor
     let stored: Promise<void> = Promise.resolve();
     let ahead = 0;
     let databaseFailed = false;
-    let pending: ValidMeasurement[] = [];
     const submit = () => {
-      const batch = pending;
+      const round = store.closeRound();
       const failedSoFar = readErrors.length > 0;
-      pending = [];
       ahead++;
-      const prepared = looked.then(() => store.prepare(batch, failedSoFar));
+      const prepared = looked.then(() => store.prepare(round, failedSoFar));
       looked = prepared;
       stored = Promise.all([stored, prepared])
         .then(([, ready]) => store.store(ready))
@@ -134,14 +133,13 @@ async function importOn(client: pg.PoolClient, reader: pg.PoolClient, req: Impor
     };
     for (const piece of reading.batches) {
       if (databaseFailed) break;
-      for (const v of piece) pending.push(v);
-      if (pending.length >= ROWS_PER_STORE) submit();
+      for (const v of piece) if (store.take(v) === ROWS_PER_STORE) submit();
       // Small pieces keep each stretch of parsing short, so the database's answers are taken up at once
       // and the next COPY starts while parsing goes on; wait for the database when it falls behind.
       if (ahead > MAX_STORES_AHEAD) await stored;
       else await new Promise((resolve) => setImmediate(resolve));
     }
-    if (pending.length) submit();
+    if (store.roundLength > 0) submit();
     await stored;
     rowsTotal = reading.rowsTotal;
   }
@@ -188,22 +186,6 @@ async function insertUpload(client: pg.PoolClient, req: ImportRequest, sha256: s
   return res.rows[0].id;
 }
 
-interface PreparedRound {
-  batch: ValidMeasurement[];
-  /** Lots first named in this round and not stored before, with their new ids. */
-  addedLots: { id: number; v: ValidMeasurement }[];
-  /** Ids of the round's measurements, in batch order. */
-  ids: number[];
-}
-
-interface KnownLot {
-  id: number;
-  /** Stored before this import, so its stored measurements may clash with the file's. */
-  stored: boolean;
-  /** Recorded with another product, line or production time: the file's rows of it are refused. */
-  clash: boolean;
-}
-
 async function copyIn(client: pg.PoolClient, statement: string, data: Buffer): Promise<void> {
   const stream = client.query(copyFrom(statement));
   const done = once(stream, 'finish');
@@ -211,7 +193,46 @@ async function copyIn(client: pg.PoolClient, statement: string, data: Buffer): P
   await done;
 }
 
-/** Stores checked measurements piece by piece, after comparing each piece with what is stored. */
+/** A lot as this import knows it, from the first row that names it. */
+interface LotEntry {
+  number: string;
+  productId: number;
+  lineId: number;
+  producedAt: number;
+  shift: string | null;
+  /** File row that first named it, for messages. */
+  row: number;
+  /** Its id: stored, or given to it for this import; 0 until the round that names it is prepared. */
+  id: number;
+  /** Stored before this import, so its stored measurements may clash with the file's. */
+  stored: boolean;
+  /** Recorded with another product, line or production time: the file's rows of it are refused. */
+  clash: boolean;
+}
+
+/**
+ * Checked rows gathered for one round of lookups and COPY, column by column: a row costs about 50 bytes
+ * here instead of an object with its strings, and nothing of a row outlives the piece it was read in
+ * except these columns, so the garbage collector never has to move a round's rows to the old space.
+ */
+class Round {
+  length = 0;
+  readonly lot: LotEntry[] = [];
+  readonly characteristicId = new Int32Array(ROWS_PER_STORE);
+  readonly replicate = new Int32Array(ROWS_PER_STORE);
+  readonly row = new Int32Array(ROWS_PER_STORE);
+  readonly value = new Float64Array(ROWS_PER_STORE);
+  /** Unix milliseconds; NaN where the file gives no test time. */
+  readonly testedAt = new Float64Array(ROWS_PER_STORE);
+  readonly operator: (string | null)[] = [];
+  readonly note: (string | null)[] = [];
+  /** Lots first named in this round. */
+  readonly newLots: LotEntry[] = [];
+  /** Ids of the round's measurements once prepared, in row order. */
+  ids: number[] = [];
+}
+
+/** Stores checked measurements round by round, after comparing each round with what is stored. */
 class MeasurementStore {
   readonly errors: RowError[] = [];
   readonly measurementIds: number[] = [];
@@ -219,8 +240,12 @@ class MeasurementStore {
   readonly toJudge: Subgroup[] = [];
   rowsImported = 0;
   lotsTouched = 0;
-  private readonly lots = new Map<string, KnownLot>();
+  private readonly lots = new Map<string, LotEntry>();
   private readonly judgeKeys = new Set<string>();
+  /** Operator names and notes repeat down a file: one string each instead of one a row. */
+  private readonly texts = new Map<string, string>();
+  private readonly codes: Map<number, string>;
+  private round = new Round();
   private failed = false;
 
   constructor(
@@ -230,98 +255,152 @@ class MeasurementStore {
     private readonly cat: LoadedCatalogue,
     private readonly req: ImportRequest,
     private readonly uploadRow: Promise<number | null>,
-  ) {}
+  ) {
+    this.codes = new Map([...cat.characteristicIds].map(([code, id]) => [id, code]));
+  }
+
+  get roundLength(): number {
+    return this.round.length;
+  }
+
+  private shared(text: string | null): string | null {
+    if (text === null) return null;
+    const known = this.texts.get(text);
+    if (known !== undefined) return known;
+    if (this.texts.size < 10_000) this.texts.set(text, text);
+    return text;
+  }
+
+  /** Adds a checked row to the open round; returns the round's length. */
+  take(v: ValidMeasurement): number {
+    let lot = this.lots.get(v.lot);
+    if (!lot) {
+      lot = {
+        number: v.lot,
+        productId: this.cat.productIds.get(v.product)!,
+        lineId: this.cat.lineIds.get(v.line)!,
+        producedAt: v.producedAt,
+        shift: this.shared(v.shift),
+        row: v.row,
+        id: 0,
+        stored: false,
+        clash: false,
+      };
+      this.lots.set(v.lot, lot);
+      this.round.newLots.push(lot);
+    }
+    const r = this.round;
+    const i = r.length++;
+    r.lot.push(lot);
+    r.characteristicId[i] = this.cat.characteristicIds.get(v.characteristic)!;
+    r.replicate[i] = v.replicate;
+    r.row[i] = v.row;
+    r.value[i] = v.value;
+    r.testedAt[i] = v.testedAt ?? NaN;
+    r.operator.push(this.shared(v.operator));
+    r.note.push(this.shared(v.note));
+    return r.length;
+  }
+
+  /** The open round, to be prepared and stored; a new one opens. */
+  closeRound(): Round {
+    const closed = this.round;
+    this.round = new Round();
+    return closed;
+  }
 
   /**
-   * Compares a round of checked rows with the stored lots and measurements and gives ids to its new lots
-   * and measurements. Rounds are prepared in file order: a lot is looked up once, in its first round.
+   * Compares a round with the stored lots and measurements and gives ids to its new lots and
+   * measurements. Rounds are prepared in file order, so a lot is looked up once, in its first round.
    */
-  async prepare(batch: ValidMeasurement[], fileHasErrors: boolean): Promise<PreparedRound> {
+  async prepare(round: Round, fileHasErrors: boolean): Promise<Round> {
     if (fileHasErrors) this.failed = true;
-    const firstOfLot = new Map<string, ValidMeasurement>();
-    for (const v of batch) if (!this.lots.has(v.lot) && !firstOfLot.has(v.lot)) firstOfLot.set(v.lot, v);
-    const newLots = [...firstOfLot.values()];
-
     const res = await this.reader.query<{ stored: { id: number; n: string; p: number; l: number; t: number }[]; lot_ids: number[] | null; measurement_ids: number[] | null }>(
       `select coalesce((select json_agg(json_build_object('id', id, 'n', lot_number, 'p', product_id, 'l', line_id, 't', extract(epoch from produced_at) * 1000))
                         from lots where lot_number = any($1::text[])), '[]') as stored,
               (select array_agg(nextval('lots_id_seq')::int) from generate_series(1, $2::int)) as lot_ids,
               (select array_agg(nextval('measurements_id_seq')::int) from generate_series(1, $3::int)) as measurement_ids`,
-      [newLots.map((v) => v.lot), this.failed ? 0 : newLots.length, this.failed ? 0 : batch.length],
+      [round.newLots.map((l) => l.number), this.failed ? 0 : round.newLots.length, this.failed ? 0 : round.length],
     );
     const { stored, lot_ids: lotIds, measurement_ids: measurementIds } = res.rows[0];
     const storedByNumber = new Map(stored.map((s) => [s.n, s]));
-
     let nextLotId = 0;
-    const addedLots: { id: number; v: ValidMeasurement }[] = [];
-    for (const v of newLots) {
-      const s = storedByNumber.get(v.lot);
+    for (const lot of round.newLots) {
+      const s = storedByNumber.get(lot.number);
       if (!s) {
-        const id = lotIds?.[nextLotId++] ?? 0;
-        this.lots.set(v.lot, { id, stored: false, clash: false });
-        addedLots.push({ id, v });
+        lot.id = lotIds?.[nextLotId++] ?? 0;
         continue;
       }
-      let clash = true;
-      if (s.p !== this.cat.productIds.get(v.product) || s.l !== this.cat.lineIds.get(v.line)) {
-        this.errors.push({ row: v.row, column: 'lot', message: `Lot ${v.lot} is already recorded for another product or line` });
-      } else if (Math.abs(s.t - v.producedAt) >= 60_000) {
-        this.errors.push({ row: v.row, column: 'produced_at', message: `Lot ${v.lot} is already recorded as produced at ${new Date(s.t).toISOString()}` });
-      } else clash = false;
-      this.lots.set(v.lot, { id: s.id, stored: true, clash });
+      lot.id = s.id;
+      lot.stored = true;
+      lot.clash = true;
+      if (s.p !== lot.productId || s.l !== lot.lineId) {
+        this.errors.push({ row: lot.row, column: 'lot', message: `Lot ${lot.number} is already recorded for another product or line` });
+      } else if (Math.abs(s.t - lot.producedAt) >= 60_000) {
+        this.errors.push({ row: lot.row, column: 'produced_at', message: `Lot ${lot.number} is already recorded as produced at ${new Date(s.t).toISOString()}` });
+      } else lot.clash = false;
     }
-    this.lotsTouched += newLots.length;
+    this.lotsTouched += round.newLots.length;
 
-    // Readings this piece gives for lots stored before: does the database hold any of them already?
-    const onStored = batch.filter((v) => {
-      const lot = this.lots.get(v.lot)!;
-      return lot.stored && !lot.clash;
-    });
+    // Readings this round gives for lots stored before: does the database hold any of them already?
+    const onStored: number[] = [];
+    for (let i = 0; i < round.length; i++) if (round.lot[i].stored && !round.lot[i].clash) onStored.push(i);
     if (onStored.length) {
       const keys = await this.reader.query<{ i: number }>(
         `select u.i::int as i from unnest($1::int[], $2::int[], $3::int[]) with ordinality as u(lot_id, characteristic_id, replicate, i)
          where exists (select 1 from measurements m where m.characteristic_id = u.characteristic_id and m.lot_id = u.lot_id and m.replicate = u.replicate and m.voided_at is null)`,
-        [onStored.map((v) => this.lots.get(v.lot)!.id), onStored.map((v) => this.cat.characteristicIds.get(v.characteristic)!), onStored.map((v) => v.replicate)],
+        [onStored.map((i) => round.lot[i].id), onStored.map((i) => round.characteristicId[i]), onStored.map((i) => round.replicate[i])],
       );
       for (const { i } of keys.rows) {
-        const v = onStored[i - 1];
+        const at = onStored[i - 1];
+        const code = this.codes.get(round.characteristicId[at]);
         this.errors.push({
-          row: v.row,
+          row: round.row[at],
           column: 'replicate',
-          message: `Duplicate: ${v.characteristic} replicate ${v.replicate} of lot ${v.lot} is already stored; correct a stored value through an edit with a reason`,
+          message: `Duplicate: ${code} replicate ${round.replicate[at]} of lot ${round.lot[at].number} is already stored; correct a stored value through an edit with a reason`,
         });
       }
     }
-
     if (this.errors.length) this.failed = true;
-    return { batch, addedLots, ids: measurementIds ?? [] };
+    round.ids = measurementIds ?? [];
+    return round;
   }
 
   /** Stores a prepared round by COPY in the import's transaction, unless anything failed so far. */
-  async store({ batch, addedLots, ids }: PreparedRound): Promise<void> {
-    if (this.failed || batch.length === 0) return;
+  async store(round: Round): Promise<void> {
+    if (this.failed || round.length === 0) return;
     const uploadId = await this.uploadRow;
-    if (addedLots.length) {
-      const lotRows = new BinaryCopyWriter(addedLots.length * 80);
-      for (const { id, v } of addedLots) {
-        lotRows.row(6).int4(id).text(v.lot).int4(this.cat.productIds.get(v.product)!).int4(this.cat.lineIds.get(v.line)!).timestamptz(v.producedAt).text(v.shift);
-      }
+    const added = round.newLots.filter((l) => !l.stored);
+    if (added.length) {
+      const lotRows = new BinaryCopyWriter(added.length * 80);
+      for (const l of added) lotRows.row(6).int4(l.id).text(l.number).int4(l.productId).int4(l.lineId).timestamptz(l.producedAt).text(l.shift);
       await copyIn(this.client, 'COPY lots (id, lot_number, product_id, line_id, produced_at, shift) FROM STDIN (FORMAT binary)', lotRows.finish());
     }
-    const rows = new BinaryCopyWriter(batch.length * 110);
-    for (let i = 0; i < batch.length; i++) {
-      const v = batch[i];
-      const lot = this.lots.get(v.lot)!;
-      const characteristicId = this.cat.characteristicIds.get(v.characteristic)!;
-      rows.row(11).int4(ids[i]).int4(lot.id).int4(characteristicId).int4(v.replicate).float8(v.value).timestamptz(v.testedAt).text(v.operator).text(v.note).text(this.req.source);
+    const rows = new BinaryCopyWriter(round.length * 110);
+    for (let i = 0; i < round.length; i++) {
+      const lot = round.lot[i];
+      const characteristicId = round.characteristicId[i];
+      const value = round.value[i];
+      const testedAt = round.testedAt[i];
+      rows
+        .row(11)
+        .int4(round.ids[i])
+        .int4(lot.id)
+        .int4(characteristicId)
+        .int4(round.replicate[i])
+        .float8(value)
+        .timestamptz(Number.isNaN(testedAt) ? null : testedAt)
+        .text(round.operator[i])
+        .text(round.note[i])
+        .text(this.req.source);
       if (uploadId === null) rows.null();
       else rows.int4(uploadId);
       if (this.req.actorId === null) rows.null();
       else rows.int4(this.req.actorId);
-      this.measurementIds.push(ids[i]);
+      this.measurementIds.push(round.ids[i]);
       this.characteristicIds.add(characteristicId);
       const limits = this.cat.strictestLimits.get(characteristicId);
-      const beyond = limits !== undefined && ((limits.lsl !== null && v.value < limits.lsl) || (limits.usl !== null && v.value > limits.usl));
+      const beyond = limits !== undefined && ((limits.lsl !== null && value < limits.lsl) || (limits.usl !== null && value > limits.usl));
       if (beyond || lot.stored) {
         const key = `${lot.id}:${characteristicId}`;
         if (!this.judgeKeys.has(key)) {
@@ -331,6 +410,6 @@ class MeasurementStore {
       }
     }
     await copyIn(this.client, 'COPY measurements (id, lot_id, characteristic_id, replicate, value, tested_at, operator, note, source, upload_id, entered_by) FROM STDIN (FORMAT binary)', rows.finish());
-    this.rowsImported += batch.length;
+    this.rowsImported += round.length;
   }
 }
