@@ -14,13 +14,6 @@ export function decodeText(bytes: Uint8Array): string {
   }
 }
 
-/** Number of double quotes in text[from, to). */
-function quotesBetween(text: string, from: number, to: number): number {
-  let n = 0;
-  for (let i = text.indexOf('"', from); i !== -1 && i < to; i = text.indexOf('"', i + 1)) n++;
-  return n;
-}
-
 /**
  * Cuts a CSV text into pieces of about `size` characters, each ending at a line break outside quotes, so
  * that every piece parses on its own into whole rows. Quotes in CSV come in pairs ("" escapes one), so a
@@ -28,23 +21,30 @@ function quotesBetween(text: string, from: number, to: number): number {
  */
 export function* csvPieces(text: string, size: number): Generator<string> {
   let start = 0;
-  let scanned = 0;
   let insideQuotes = false;
+  // The next quote not yet counted: a file without quotes is searched for one once, not once a piece.
+  let nextQuote = text.indexOf('"');
+  const quotesBefore = (end: number) => {
+    let n = 0;
+    while (nextQuote !== -1 && nextQuote < end) {
+      n++;
+      nextQuote = text.indexOf('"', nextQuote + 1);
+    }
+    return n;
+  };
   while (start < text.length) {
     let cut = text.length;
     let from = Math.min(text.length, start + size);
     while (from < text.length) {
       const lineEnd = text.indexOf('\n', from);
       if (lineEnd === -1) break;
-      if (quotesBetween(text, scanned, lineEnd) % 2 === 1) insideQuotes = !insideQuotes;
-      scanned = lineEnd;
+      if (quotesBefore(lineEnd) % 2 === 1) insideQuotes = !insideQuotes;
       if (!insideQuotes) {
         cut = lineEnd + 1;
         break;
       }
       from = lineEnd + 1;
     }
-    if (cut === text.length) scanned = text.length;
     yield text.slice(start, cut);
     start = cut;
   }
