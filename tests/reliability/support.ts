@@ -110,9 +110,16 @@ export async function expectWholeResults(db: Database, characteristicIds: number
     const snap = snaps.rows[0];
     if (snap.point_count !== chart.points.length || JSON.stringify(snap.lot_ids) !== JSON.stringify(chart.points.map((p) => p.lotId))) problems.push(`characteristic ${id}: snapshot points differ`);
     if (JSON.stringify(snap.violations) !== JSON.stringify(chart.violations)) problems.push(`characteristic ${id}: snapshot violations differ`);
-    // One alarm per point beyond a limit, per episode of a pattern rule, and per lot out of specification.
-    const fired = new Set(chart.violations.map((v) => `${v.rule}|${v.chart}|${v.index}`));
-    const episodes = chart.violations.filter((v) => v.rule === 'we1' || !fired.has(`${v.rule}|${v.chart}|${v.index - 1}`)).length;
+    // One alarm per point beyond a limit, per lot out of specification, and per episode of a pattern
+    // rule: a violation whose pattern reaches back to the previous one of its rule goes on that episode.
+    const previousAt = new Map<string, number>();
+    let episodes = 0;
+    for (const v of chart.violations) {
+      const key = `${v.rule}|${v.chart}`;
+      const previous = previousAt.get(key);
+      previousAt.set(key, v.index);
+      if (v.rule === 'we1' || previous === undefined || v.points[0] > previous) episodes++;
+    }
     const findings = episodes + chart.points.filter((p) => p.outOfSpec).length;
     const open = await db.execute<{ n: number }>(sql`select count(*)::int as n from alarms where characteristic_id = ${id} and status = 'open'`);
     if (open.rows[0].n !== findings) problems.push(`characteristic ${id}: ${open.rows[0].n} open alarms for ${findings} findings`);
