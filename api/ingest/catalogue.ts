@@ -36,6 +36,7 @@ export async function loadCatalogue(db: Pick<Database, 'select'>): Promise<Loade
     .innerJoin(products, eq(products.id, characteristics.productId))
     .innerJoin(testMethods, eq(testMethods.id, characteristics.testMethodId))
     .where(eq(characteristics.active, true));
+  const deactivated = await db.select({ code: characteristics.code }).from(characteristics).where(eq(characteristics.active, false));
   const limits = await db
     .select({ id: specLimits.characteristicId, lsl: max(specLimits.lsl), usl: min(specLimits.usl) })
     .from(specLimits)
@@ -45,6 +46,7 @@ export async function loadCatalogue(db: Pick<Database, 'select'>): Promise<Loade
     lineCodes: new Set(lineRows.map((l) => l.code)),
     productCodes: new Set(productRows.map((p) => p.code)),
     characteristics: new Map(chRows.map((c) => [c.code, c])),
+    deactivatedCharacteristics: new Set(deactivated.map((c) => c.code)),
     lineIds: new Map(lineRows.map((l) => [l.code, l.id])),
     productIds: new Map(productRows.map((p) => [p.code, p.id])),
     characteristicIds: new Map(chRows.map((c) => [c.code, c.id])),

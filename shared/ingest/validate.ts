@@ -1,5 +1,5 @@
 import type { CanonicalColumn, CanonicalRow } from './mapping';
-import { parseNumber, parsePlantDateTime } from './values';
+import { looksLikeDate, parseNumber, parsePlantDateTime } from './values';
 
 /** What validation needs to know of the plant's configuration. */
 export interface IngestCatalogue {
@@ -10,6 +10,8 @@ export interface IngestCatalogue {
     string,
     { productCode: string; name: string; unit: string; subgroupSize: number; physicalMin: number; physicalMax: number; physicalMaxExclusive: boolean }
   >;
+  /** Codes of characteristics an administrator deactivated: named as such rather than as unknown. */
+  deactivatedCharacteristics?: ReadonlySet<string>;
 }
 
 /** One measurement ready to store. */
@@ -48,6 +50,23 @@ function fail(out: RowError[], r: CanonicalRow, c: CanonicalColumn, message: str
 }
 
 const cellText = (r: CanonicalRow, c: CanonicalColumn) => (r.cells[c] ?? '').trim();
+
+/** The codes a cell may hold, for a message: all of them when few, else the first few. */
+function knownCodes(codes: Iterable<string>): string {
+  const sorted = [...codes].sort();
+  return sorted.length <= 12 ? sorted.join(', ') : `${sorted.slice(0, 12).join(', ')}, …`;
+}
+
+function unknownCharacteristic(cat: IngestCatalogue, code: string, product: string): string {
+  if (cat.deactivatedCharacteristics?.has(code)) return `Characteristic ${code} is deactivated and takes no more results; an administrator can reactivate it`;
+  const ofProduct = [...cat.characteristics].filter(([, c]) => c.productCode === product).map(([k]) => k);
+  return ofProduct.length ? `Unknown characteristic code "${code}" (${product} has: ${knownCodes(ofProduct)})` : `Unknown characteristic code "${code}"`;
+}
+
+function notADate(text: string, column: 'produced_at' | 'tested_at'): string {
+  if (looksLikeDate(text)) return `"${text}" is not a day and time of the calendar: check the day, month and hour`;
+  return column === 'produced_at' ? `"${text}" is not a date: use ISO 8601 (2026-11-30T06:15) or dd.mm.yyyy HH:MM` : `"${text}" is not a date: use ISO 8601 or dd.mm.yyyy HH:MM`;
+}
 const freeTextColumns = ['shift', 'operator', 'note'] as const;
 
 /**
@@ -91,21 +110,21 @@ export class RowValidator {
 
     const product = cellText(r, 'product');
     if (!product) fail(rowErrors, r, 'product', 'Product code is missing');
-    else if (!cat.productCodes.has(product)) fail(rowErrors, r, 'product', `Unknown product code "${product}"`);
+    else if (!cat.productCodes.has(product)) fail(rowErrors, r, 'product', `Unknown product code "${product}" (products: ${knownCodes(cat.productCodes)})`);
 
     const line = cellText(r, 'line');
     if (!line) fail(rowErrors, r, 'line', 'Production line is missing');
-    else if (!cat.lineCodes.has(line)) fail(rowErrors, r, 'line', `Unknown production line "${line}"`);
+    else if (!cat.lineCodes.has(line)) fail(rowErrors, r, 'line', `Unknown production line "${line}" (lines: ${knownCodes(cat.lineCodes)})`);
 
     const producedText = cellText(r, 'produced_at');
     const producedAt = producedText ? this.date(producedText) : null;
     if (!producedText) fail(rowErrors, r, 'produced_at', 'Production date is missing');
-    else if (producedAt === null) fail(rowErrors, r, 'produced_at', `"${producedText}" is not a date: use ISO 8601 (2026-11-30T06:15) or dd.mm.yyyy HH:MM`);
+    else if (producedAt === null) fail(rowErrors, r, 'produced_at', notADate(producedText, 'produced_at'));
 
     const code = cellText(r, 'characteristic');
     const ch = code ? cat.characteristics.get(code) : undefined;
     if (!code) fail(rowErrors, r, 'characteristic', 'Characteristic code is missing');
-    else if (!ch) fail(rowErrors, r, 'characteristic', `Unknown characteristic code "${code}"`);
+    else if (!ch) fail(rowErrors, r, 'characteristic', unknownCharacteristic(cat, code, product));
     else if (product && cat.productCodes.has(product) && ch.productCode !== product) {
       fail(rowErrors, r, 'characteristic', `Characteristic ${code} belongs to product ${ch.productCode}, not ${product}`);
     }
@@ -138,7 +157,7 @@ export class RowValidator {
 
     const testedText = cellText(r, 'tested_at');
     const testedAt = testedText ? this.date(testedText) : null;
-    if (testedText && testedAt === null) fail(rowErrors, r, 'tested_at', `"${testedText}" is not a date: use ISO 8601 or dd.mm.yyyy HH:MM`);
+    if (testedText && testedAt === null) fail(rowErrors, r, 'tested_at', notADate(testedText, 'tested_at'));
     else if (testedAt !== null && producedAt !== null && testedAt < producedAt - 60_000) fail(rowErrors, r, 'tested_at', 'Test time is before the lot was produced');
 
     for (const c of freeTextColumns) if (cellText(r, c).length > MAX_TEXT) fail(rowErrors, r, c, `Keep ${c} under ${MAX_TEXT} characters`);

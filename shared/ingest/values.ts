@@ -160,5 +160,11 @@ export function parsePlantDateTime(cell: string, timeZone: string): number | nul
   return localToUtcMs(y, mo, d, h, mi, s, timeZone);
 }
 
+/** Whether a cell that is not a date is written like one (a day or time that does not exist, such as 31.02.) */
+export function looksLikeDate(cell: string): boolean {
+  const text = cell.trim();
+  return isoPattern.test(text) || europeanPattern.test(text);
+}
+
 /** Cells that a spreadsheet would run as a formula. They are stored as text and never evaluated. */
 export const looksLikeFormula = (cell: string) => /^[=+@\-\t\r]/.test(cell.trim()) && !/^[+-]?\d/.test(cell.trim());

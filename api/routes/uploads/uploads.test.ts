@@ -147,13 +147,16 @@ describe('POST /api/v1/uploads', () => {
       `${lot}-i,HVL25,L1,2026-11-05T06:00:00Z,HVL25-FLOW,146,,1,,,`,
       `${lot}-i,HVL25,L1,2026-11-05T06:00:00Z,HVL25-FLOW,147,,1,,,`,
       `${lot}-j,HVL25,L1,2026-11-05T06:00:00Z,HVL25-FLOW,146,,1,2026-11-04T06:00:00Z,,`,
+      `${lot}-k,HVL25,L9,2026-11-05T06:00:00Z,HVL25-FLOW,146,,1,,,`,
     ].join('\n');
     const res = await upload('technician', csv);
     expect(res.status).toBe(422);
     const byRow = Object.fromEntries(res.body.errors.map((e: { row: number; column: string; message: string }) => [e.row, `${e.column}: ${e.message}`]));
-    expect(byRow[2]).toMatch(/^product: Unknown product code "NOPE"/);
-    expect(byRow[3]).toMatch(/^characteristic: Unknown characteristic code "HVL25-XYZ"/);
-    expect(byRow[4]).toMatch(/^produced_at: "31.02.2026 06:00" is not a date/);
+    // The messages name what the cell may hold, so the technician can correct it without asking.
+    expect(byRow[2]).toMatch(/^product: Unknown product code "NOPE" \(products: .*\bHVL25\b.*\)$/);
+    expect(byRow[3]).toMatch(/^characteristic: Unknown characteristic code "HVL25-XYZ" \(HVL25 has: .*\bHVL25-FLOW\b.*\)$/);
+    // 31 February: written as a date, but no such day.
+    expect(byRow[4]).toBe('produced_at: "31.02.2026 06:00" is not a day and time of the calendar: check the day, month and hour');
     expect(byRow[5]).toMatch(/^value: -3 MPa is not a possible/);
     expect(byRow[6]).toMatch(/^value: 104 % is not a possible/);
     expect(byRow[7]).toMatch(/^value: "=1\+1" is not a number/);
@@ -161,6 +164,7 @@ describe('POST /api/v1/uploads', () => {
     expect(byRow[9]).toMatch(/^characteristic: Characteristic HVFX-SLIP belongs to product HVFX/);
     expect(byRow[11]).toMatch(/^replicate: Duplicate: row 10 already gives/);
     expect(byRow[12]).toMatch(/^tested_at: Test time is before the lot was produced/);
+    expect(byRow[13]).toMatch(/^line: Unknown production line "L9" \(lines: .*\bL1\b.*\)$/);
     const report = await request(api.app).get(`/api/v1/uploads/${res.body.id}/errors.csv`).set(await as('technician'));
     expect(report.text).not.toMatch(/(^|,)=1\+1/m);
   });

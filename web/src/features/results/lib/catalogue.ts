@@ -17,5 +17,6 @@ export function ingestCatalogue({ timeZone, products, lines, characteristics, te
         return [[c.code, entry] as const];
       }),
     ),
+    deactivatedCharacteristics: new Set(characteristics.filter((c) => !c.active).map((c) => c.code)),
   };
 }
