@@ -1,10 +1,11 @@
 // The one path by which results enter the database: CSV uploads, manual entry and the demo seed.
 // All or nothing: a file with one bad row stores no measurement, only the rejected upload as evidence.
 //
-// A file is read piece by piece (shared/ingest/read.ts). While the next piece is parsed and checked,
-// the one before it goes to PostgreSQL by COPY in the same transaction, so parsing and storing overlap
-// and the server never holds the whole file as objects. The first bad row stops the storing; the rest
-// of the file is still checked so the 422 names every row to correct, and the transaction rolls back.
+// A file is read piece by piece (shared/ingest/read.ts) and its checked rows gathered into rounds.
+// While parsing goes on, one round is compared with what is stored over a second connection and the one
+// before it goes to PostgreSQL by COPY in the transaction, so the server never holds the whole file as
+// objects. The first bad row stops the storing; the rest of the file is still checked so the 422 names
+// every row to correct, and the transaction rolls back.
 import { createHash } from 'node:crypto';
 import { once } from 'node:events';
 import { drizzle } from 'drizzle-orm/node-postgres';
@@ -131,16 +132,21 @@ async function importOn(client: pg.PoolClient, reader: pg.PoolClient, req: Impor
       looked.catch(() => (databaseFailed = true));
       stored.catch(() => (databaseFailed = true));
     };
-    for (const piece of reading.batches) {
-      if (databaseFailed) break;
-      for (const v of piece) if (store.take(v) === ROWS_PER_STORE) submit();
-      // Small pieces keep each stretch of parsing short, so the database's answers are taken up at once
-      // and the next COPY starts while parsing goes on; wait for the database when it falls behind.
-      if (ahead > MAX_STORES_AHEAD) await stored;
-      else await new Promise((resolve) => setImmediate(resolve));
+    try {
+      for (const piece of reading.batches) {
+        if (databaseFailed) break;
+        for (const v of piece) if (store.take(v) === ROWS_PER_STORE) submit();
+        // Small pieces keep each stretch of parsing short, so the database's answers are taken up at once
+        // and the next COPY starts while parsing goes on; wait for the database when it falls behind.
+        if (ahead > MAX_STORES_AHEAD) await stored;
+        else await new Promise((resolve) => setImmediate(resolve));
+      }
+      if (store.roundLength > 0) submit();
+      await stored;
+    } finally {
+      // No lookup may still be running on the reading connection when it goes back to the pool.
+      await looked.catch(() => undefined);
     }
-    if (store.roundLength > 0) submit();
-    await stored;
     rowsTotal = reading.rowsTotal;
   }
 
