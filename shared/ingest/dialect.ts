@@ -27,7 +27,8 @@ function countsPerLine(lines: string[], delimiter: string): number[] {
  * decimal mark: with ";" or tab, a comma between digits is a decimal comma.
  */
 export function detectDialect(text: string): CsvDialect {
-  const lines = text.replace(/^\uFEFF/, '').split(/\r\n|\n|\r/).filter((l) => l.trim() !== '').slice(0, 50);
+  // The first 50 lines decide; 64 kB holds them in any lab export, so a large file is not split whole.
+  const lines = text.slice(0, 65_536).replace(/^\uFEFF/, '').split(/\r\n|\n|\r/).filter((l) => l.trim() !== '').slice(0, 50);
   let best: Delimiter = ',';
   let bestScore = -1;
   for (const d of candidates) {

@@ -83,17 +83,21 @@ export class RowValidator {
    * 100,000-row file to one map of lots instead of another of every reading.
    */
   private readonly lots = new Map<string, { first: { product: string; line: string; producedAt: number; row: number } | null; readings: (string | number)[] }>();
-  /** The last date cell read and its instant: a lot's rows repeat the same times. */
-  private lastDate: { text: string; ms: number | null } = { text: '', ms: null };
+  /** The last production and test time read and their instants: a lot's rows repeat the same times. */
+  private readonly lastDate = { produced_at: { text: '', ms: null as number | null }, tested_at: { text: '', ms: null as number | null } };
 
   constructor(
     private readonly cat: IngestCatalogue,
     private readonly opts: { decimalComma: boolean },
   ) {}
 
-  private date(text: string): number | null {
-    if (text !== this.lastDate.text) this.lastDate = { text, ms: parsePlantDateTime(text, this.cat.timeZone) };
-    return this.lastDate.ms;
+  private date(column: 'produced_at' | 'tested_at', text: string): number | null {
+    const last = this.lastDate[column];
+    if (text !== last.text) {
+      last.text = text;
+      last.ms = parsePlantDateTime(text, this.cat.timeZone);
+    }
+    return last.ms;
   }
 
   /** The row as a measurement to store, or null when it has errors (added to `errors`). */
@@ -117,7 +121,7 @@ export class RowValidator {
     else if (!cat.lineCodes.has(line)) fail(rowErrors, r, 'line', `Unknown production line "${line}" (lines: ${knownCodes(cat.lineCodes)})`);
 
     const producedText = cellText(r, 'produced_at');
-    const producedAt = producedText ? this.date(producedText) : null;
+    const producedAt = producedText ? this.date('produced_at', producedText) : null;
     if (!producedText) fail(rowErrors, r, 'produced_at', 'Production date is missing');
     else if (producedAt === null) fail(rowErrors, r, 'produced_at', notADate(producedText, 'produced_at'));
 
@@ -156,7 +160,7 @@ export class RowValidator {
     }
 
     const testedText = cellText(r, 'tested_at');
-    const testedAt = testedText ? this.date(testedText) : null;
+    const testedAt = testedText ? this.date('tested_at', testedText) : null;
     if (testedText && testedAt === null) fail(rowErrors, r, 'tested_at', notADate(testedText, 'tested_at'));
     else if (testedAt !== null && producedAt !== null && testedAt < producedAt - 60_000) fail(rowErrors, r, 'tested_at', 'Test time is before the lot was produced');
 
