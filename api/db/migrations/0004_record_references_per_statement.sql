@@ -48,12 +48,12 @@ BEGIN
     IF r.upload_id IS NOT NULL AND NOT EXISTS (SELECT 1 FROM uploads p WHERE p.id = r.upload_id) THEN PERFORM record_reference_missing('upload', r.upload_id); END IF;
     IF r.entered_by IS NOT NULL AND NOT EXISTS (SELECT 1 FROM users p WHERE p.id = r.entered_by) THEN PERFORM record_reference_missing('user', r.entered_by); END IF;
   END LOOP;
-  -- Lots are many. A file of new lots names a run of consecutive ids: when the table holds as many ids
-  -- in that range as the run is long, every one is there, and one range count on the primary key
-  -- replaces a lookup per lot. Otherwise each distinct lot is looked up.
-  SELECT min(lot_id), max(lot_id), count(DISTINCT lot_id) INTO lowest, highest, named FROM new_rows;
+  -- Lots are many. A file of new lots names ids from a narrow range: when the table holds every id of
+  -- that range, every lot named is there, and one range count on the primary key replaces a lookup per
+  -- lot. Otherwise each distinct lot is looked up.
+  SELECT min(lot_id), max(lot_id), count(*) INTO lowest, highest, named FROM new_rows;
   IF named = 0 THEN RETURN NULL; END IF;
-  IF highest - lowest + 1 = named AND (SELECT count(*) FROM lots p WHERE p.id BETWEEN lowest AND highest) = named THEN RETURN NULL; END IF;
+  IF highest - lowest < 2 * named AND (SELECT count(*) FROM lots p WHERE p.id BETWEEN lowest AND highest) = highest - lowest + 1 THEN RETURN NULL; END IF;
   SELECT n.lot_id INTO missing FROM (SELECT DISTINCT lot_id FROM new_rows) n WHERE NOT EXISTS (SELECT 1 FROM lots p WHERE p.id = n.lot_id) LIMIT 1;
   IF FOUND THEN PERFORM record_reference_missing('lot', missing); END IF;
   RETURN NULL;
