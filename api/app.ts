@@ -91,7 +91,10 @@ export function createApp({ db, config, serveWeb = true, ingestHooks = noIngestH
   if (fakeSmtp) app.use('/api/v1/dev', devRouter(fakeSmtp));
   app.use('/api/v1/characteristics', specificationsRouter(db));
   app.use('/api/v1/process-events', processEventsRouter(db));
-  app.use('/api/v1', catalogueRouter(db));
+  const chartSettingsChanged = async (characteristicId: number, userId: number) => {
+    await requestIncrementalRun({ db, queue, publicUrl }, [characteristicId], 'settings', userId);
+  };
+  app.use('/api/v1', catalogueRouter(db, chartSettingsChanged));
   app.use('/api', notFoundApi);
 
   if (serveWeb && existsSync(webDist)) {

@@ -60,6 +60,8 @@ export const productionLines = pgTable(
     plantId: integer('plant_id').notNull().references(() => plants.id),
     code: text('code').notNull(),
     name: text('name').notNull(),
+    /** false: the line takes no new results; its lots and their records stay. */
+    active: boolean('active').notNull().default(true),
   },
   (t) => [uniqueIndex('production_lines_plant_code_key').on(t.plantId, t.code)],
 );

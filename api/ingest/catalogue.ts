@@ -18,7 +18,7 @@ export interface LoadedCatalogue extends IngestCatalogue {
 /** The plant's configuration as validation needs it: codes, subgroup sizes, physical ranges. */
 export async function loadCatalogue(db: Pick<Database, 'select'>): Promise<LoadedCatalogue> {
   const [plant] = await db.select({ timeZone: plants.timeZone }).from(plants).orderBy(plants.id).limit(1);
-  const lineRows = await db.select({ id: productionLines.id, code: productionLines.code }).from(productionLines);
+  const lineRows = await db.select({ id: productionLines.id, code: productionLines.code }).from(productionLines).where(eq(productionLines.active, true));
   const productRows = await db.select({ id: products.id, code: products.code }).from(products).where(eq(products.active, true));
   const chRows = await db
     .select({

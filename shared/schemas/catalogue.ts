@@ -87,7 +87,14 @@ export const createLineSchema = z
 export type CreateLineInput = z.input<typeof createLineSchema>;
 
 /** PATCH /api/v1/lines/:id — the code only while no lot was made on the line. */
-export const updateLineSchema = changesOf(createLineSchema.shape, 'code or name');
+export const updateLineSchema = changesOf(
+  {
+    ...createLineSchema.shape,
+    /** false deactivates: uploads and manual entry refuse new results on it; its lots stay. */
+    active,
+  },
+  'code, name or active',
+);
 export type UpdateLineInput = z.input<typeof updateLineSchema>;
 
 /**

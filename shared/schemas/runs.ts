@@ -1,7 +1,7 @@
 // The SPC run as the API answers it and the runs page reads it. Kept free of zod.
 
-/** Why a run was started. */
-export type RunTrigger = 'schedule' | 'manual' | 'upload' | 'void' | 'correction' | 'limits' | 'first';
+/** Why a run was started; 'settings': a characteristic's chart type, subgroup size or run-rule set changed. */
+export type RunTrigger = 'schedule' | 'manual' | 'upload' | 'void' | 'correction' | 'limits' | 'settings' | 'first';
 export type RunStatus = 'queued' | 'running' | 'succeeded' | 'failed';
 
 /** GET /api/v1/spc-runs and /api/v1/spc-runs/:id */

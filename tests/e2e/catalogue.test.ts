@@ -62,8 +62,17 @@ describe('products, lines and characteristics', () => {
     await lineForm.getByLabel('Name').fill('Line 3 · renders');
     await lineForm.getByRole('button', { name: 'Add line' }).click();
     await page.getByText(`Line ${lineCode} added.`).waitFor();
-    expect(await page.getByRole('row', { name: new RegExp(lineCode) }).locator('td').allTextContents()).toEqual([lineCode, 'Line 3 · renders', '–', 'Edit']);
+    const lineRow = page.getByRole('row', { name: new RegExp(lineCode) });
+    expect(await lineRow.locator('td').allTextContents()).toEqual([lineCode, 'Line 3 · renders', '–', 'Active', 'EditDeactivate']);
     await screenshot(page, 'catalogue-lines');
+    // Deactivating asks first, as for products; reactivating brings the line back for the product below.
+    await lineRow.getByRole('button', { name: `Deactivate ${lineCode}` }).click();
+    await page.getByRole('dialog', { name: `Deactivate ${lineCode}?` }).getByRole('button', { name: 'Deactivate' }).click();
+    await page.getByText(`${lineCode} is deactivated: uploads and manual entry refuse results on it.`).waitFor();
+    expect(await lineRow.locator('td').nth(3).textContent()).toBe('Deactivated');
+    await lineRow.getByRole('button', { name: `Reactivate ${lineCode}` }).click();
+    await page.getByRole('dialog', { name: `Reactivate ${lineCode}?` }).getByRole('button', { name: 'Reactivate' }).click();
+    await page.getByText(`${lineCode} is active again.`).waitFor();
 
     // A product on it. EN 13813 has no compressive class C27 (from memory of its Table 2), so the form refuses it before sending.
     await tabs(page).getByRole('link', { name: 'Products' }).click();

@@ -80,6 +80,7 @@ export async function listLines(db: Reader, id?: number) {
       id: productionLines.id,
       code: productionLines.code,
       name: productionLines.name,
+      active: productionLines.active,
       /** Lots were made on it: its code is fixed. */
       hasLots: sql<boolean>`exists (select 1 from lots l where l.line_id = production_lines.id)`,
     })

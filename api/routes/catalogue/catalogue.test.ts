@@ -3,7 +3,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { and, eq } from 'drizzle-orm';
 import { createTestApi } from '../../../tests/support/api';
 import { removeCatalogueRecords, testCodePrefix } from '../../../tests/support/catalogue';
-import { auditEvents, specLimits } from '../../db/schema';
+import { auditEvents, specLimits, spcRunItems, spcRuns } from '../../db/schema';
 import type { Role } from '../../../shared/schemas/users';
 
 const api = createTestApi();
@@ -82,8 +82,8 @@ describe('the lists other screens read', () => {
     const h = await as('technician');
     const lines = (await request(api.app).get('/api/v1/lines').set(h)).body.items;
     expect(lines.filter((l: { code: string }) => l.code === 'L1' || l.code === 'L2')).toEqual([
-      { id: expect.any(Number), code: 'L1', name: 'Line 1 · levelling compounds', hasLots: true },
-      { id: expect.any(Number), code: 'L2', name: 'Line 2 · adhesives and repair mortars', hasLots: true },
+      { id: expect.any(Number), code: 'L1', name: 'Line 1 · levelling compounds', active: true, hasLots: true },
+      { id: expect.any(Number), code: 'L2', name: 'Line 2 · adhesives and repair mortars', active: true, hasLots: true },
     ]);
     const product = (await request(api.app).get('/api/v1/products').set(h)).body.items.find((p: { code: string }) => p.code === 'HVL25');
     expect(product).toEqual({ id: expect.any(Number), code: 'HVL25', name: 'HV Level 25', family: 'levelling', declaredClass: 'CT-C25-F6', active: true, lineCode: 'L1', lineName: 'Line 1 · levelling compounds', hasLots: true });
@@ -100,7 +100,7 @@ describe('production lines', () => {
     const code = newCode('l').toLowerCase();
     const created = await request(api.app).post('/api/v1/lines').set(await admin()).send({ code, name: '  Line 3 · renders ' });
     expect(created.status).toBe(201);
-    expect(created.body).toEqual({ id: expect.any(Number), code: code.toUpperCase(), name: 'Line 3 · renders', hasLots: false });
+    expect(created.body).toEqual({ id: expect.any(Number), code: code.toUpperCase(), name: 'Line 3 · renders', active: true, hasLots: false });
     const id = created.body.id;
 
     const renamed = await request(api.app).patch(`/api/v1/lines/${id}`).set(await admin()).send({ name: 'Line 3 · renders and plasters' });
@@ -141,6 +141,35 @@ describe('production lines', () => {
     expect(removed.status).toBe(405);
     expect(removed.headers.allow).toBe('PATCH');
     expect(removed.body.error).toMatch(/never deleted/);
+  });
+
+  it('are deactivated and reactivated: a deactivated line takes no new results', async () => {
+    const h = await admin();
+    const line = await newLine();
+    const product = await newProduct(line.code);
+    const created = await newCharacteristic(rc28(product.code, { subgroupSize: 2 }));
+    expect(created.status).toBe(201);
+    const csv = (lot: string) =>
+      `lot,product,line,produced_at,characteristic,value,replicate\n${lot},${product.code},${line.code},2021-04-01T07:00,${product.code}-RC28,30.5,1\n${lot},${product.code},${line.code},2021-04-01T07:00,${product.code}-RC28,31.2,2\n`;
+    const upload = (lot: string) => request(api.app).post('/api/v1/uploads').set(h).attach('file', Buffer.from(csv(lot)), `${lot}.csv`);
+
+    const off = await request(api.app).patch(`/api/v1/lines/${line.id}`).set(h).send({ active: false });
+    expect(off.status).toBe(200);
+    expect(off.body.active).toBe(false);
+    expect((await request(api.app).get('/api/v1/lines').set(h)).body.items.find((l: { id: number }) => l.id === line.id).active).toBe(false);
+    const refused = await upload(`${product.code}-1`);
+    expect(refused.status).toBe(422);
+    expect(refused.body.errors[0]).toMatchObject({ column: 'line' });
+    expect(refused.body.errors[0].message).toMatch(new RegExp(`^Unknown production line "${line.code}"`));
+
+    const on = await request(api.app).patch(`/api/v1/lines/${line.id}`).set(h).send({ active: true });
+    expect(on.body.active).toBe(true);
+    expect((await upload(`${product.code}-1`)).status).toBe(201);
+
+    const trail = await auditOf('production line', line.id);
+    expect(trail.map((e) => e.action)).toEqual(['create', 'deactivate', 'reactivate']);
+    expect(trail[1].before).toMatchObject({ active: true });
+    expect(trail[1].after).toMatchObject({ active: false });
   });
 });
 
@@ -253,6 +282,32 @@ describe('characteristics', () => {
     expect(noAge.body.details).toEqual([{ path: 'ageDays', message: 'Compressive strength (prism halves, 40 × 40 mm platens) is tested on hardened specimens: give their age in days, e.g. 28' }]);
     const flowWithAge = await newCharacteristic(rc28(product.code, { code: `${product.code}-FLOW`, testMethodCode: 'FLOW', ageDays: 7, subgroupSize: 2 }));
     expect(flowWithAge.body.details).toEqual([{ path: 'ageDays', message: 'Flow diameter (ring spread on glass) is a fresh-mortar test: leave the age empty' }]);
+  });
+
+  it('start an incremental run when the chart type, subgroup size or run-rule set changes, and not for a new name', async () => {
+    const product = await newProduct();
+    const h = await admin();
+    const created = await newCharacteristic(rc28(product.code, { subgroupSize: 3, chartType: 'xbar-r', ruleSet: 'we' }));
+    const id = created.body.id;
+    const runsOf = () =>
+      api.db
+        .select({ trigger: spcRuns.trigger, kind: spcRuns.kind })
+        .from(spcRuns)
+        .innerJoin(spcRunItems, eq(spcRunItems.runId, spcRuns.id))
+        .where(eq(spcRunItems.characteristicId, id))
+        .orderBy(spcRuns.id);
+    expect(await runsOf()).toEqual([]);
+
+    await request(api.app).patch(`/api/v1/characteristics/${id}`).set(h).send({ name: 'HV Render Light · compressive strength at 28 days' }).expect(200);
+    expect(await runsOf()).toEqual([]);
+
+    await request(api.app).patch(`/api/v1/characteristics/${id}`).set(h).send({ chartType: 'xbar-s', ruleSet: 'extended' }).expect(200);
+    expect(await runsOf()).toEqual([{ trigger: 'settings', kind: 'incremental' }]);
+    await request(api.app).patch(`/api/v1/characteristics/${id}`).set(h).send({ subgroupSize: 4 }).expect(200);
+    expect(await runsOf()).toEqual([
+      { trigger: 'settings', kind: 'incremental' },
+      { trigger: 'settings', kind: 'incremental' },
+    ]);
   });
 
   it('keep code, product, method and age once results are recorded, and are deactivated rather than deleted', async () => {

@@ -80,10 +80,15 @@ const neverDeleted =
 
 /**
  * What the plant is configured with: every signed-in role reads it, the administrator sets it up.
- * Lines, products and characteristics are never deleted; products and characteristics are
- * deactivated, and codes that records were made under stay as they are.
+ * Lines, products and characteristics are never deleted but deactivated, and codes that records were made under stay as they are.
  */
-export function catalogueRouter(db: Database): Router {
+/** Called after a characteristic's chart type, subgroup size or run-rule set changed; its chart and alarms follow in an incremental run. */
+export type ChartSettingsChanged = (characteristicId: number, userId: number) => Promise<void>;
+
+/** The settings the SPC run computes a chart from. */
+const chartSettings = new Set(['chartType', 'subgroupSize', 'ruleSet']);
+
+export function catalogueRouter(db: Database, chartSettingsChanged: ChartSettingsChanged): Router {
   const router = Router();
   const admin = requireRole('admin');
 
@@ -126,7 +131,11 @@ export function catalogueRouter(db: Database): Router {
     const input = parseBody(updateLineSchema, req.body);
     await claimingCode(`Line code ${input.code} is already in use`, () =>
       db.transaction(async (tx) => {
-        const [before] = await tx.select({ code: productionLines.code, name: productionLines.name }).from(productionLines).where(eq(productionLines.id, id)).for('update');
+        const [before] = await tx
+          .select({ code: productionLines.code, name: productionLines.name, active: productionLines.active })
+          .from(productionLines)
+          .where(eq(productionLines.id, id))
+          .for('update');
         if (!before) throw notFound('Production line');
         const changes: Partial<typeof productionLines.$inferInsert> = {};
         if (input.code !== undefined && input.code !== before.code) {
@@ -136,16 +145,17 @@ export function catalogueRouter(db: Database): Router {
           changes.code = input.code;
         }
         if (input.name !== undefined && input.name !== before.name) changes.name = input.name;
+        if (input.active !== undefined && input.active !== before.active) changes.active = input.active;
         if (Object.keys(changes).length === 0) return;
         await tx.update(productionLines).set(changes).where(eq(productionLines.id, id));
-        await recordAudit(tx, { actorId: req.user!.id, action: 'update', entity: 'production line', entityId: id, before, after: { ...before, ...changes } });
+        await recordAudit(tx, { actorId: req.user!.id, action: auditAction(changes, changes.active), entity: 'production line', entityId: id, before, after: { ...before, ...changes } });
       }),
     );
     const [line] = await listLines(db, id);
     res.json(line);
   });
 
-  router.delete('/lines/:id', requireSession, admin, neverDeleted('Production lines', 'Rename the line instead, or move its products to another line.'));
+  router.delete('/lines/:id', requireSession, admin, neverDeleted('Production lines', 'Deactivate the line instead: uploads then refuse new results on it.'));
 
   router.post('/products', requireSession, admin, async (req, res) => {
     const input = parseBody(createProductSchema, req.body);
@@ -259,7 +269,7 @@ export function catalogueRouter(db: Database): Router {
   router.patch('/characteristics/:id', requireSession, admin, async (req, res) => {
     const { id } = parseBody(catalogueIdParamsSchema, req.params);
     const input = parseBody(updateCharacteristicSchema, req.body);
-    await claimingCode(`Characteristic code ${input.code} is already in use`, () =>
+    const settingsChanged = await claimingCode(`Characteristic code ${input.code} is already in use`, () =>
       db.transaction(async (tx) => {
         const [row] = await tx.select().from(characteristics).where(eq(characteristics.id, id)).for('update');
         if (!row) throw notFound('Characteristic');
@@ -278,7 +288,7 @@ export function catalogueRouter(db: Database): Router {
           active: row.active,
         };
         const changed = (Object.keys(input) as (keyof typeof input)[]).filter((key) => input[key] !== undefined && input[key] !== before[key]);
-        if (changed.length === 0) return;
+        if (changed.length === 0) return false;
         const after = { ...before, ...Object.fromEntries(changed.map((key) => [key, input[key]])) } as typeof before;
 
         const issues = characteristicIssues(after);
@@ -315,8 +325,11 @@ export function catalogueRouter(db: Database): Router {
         if (changes.code !== undefined) await refuseTakenCode(tx, 'Characteristic', changes.code);
         await tx.update(characteristics).set(changes).where(eq(characteristics.id, id));
         await recordAudit(tx, { actorId: req.user!.id, action: auditAction(changes, changes.active), entity: 'characteristic', entityId: id, before, after });
+        return changed.some((key) => chartSettings.has(key));
       }),
     );
+    // Started after the commit, so the run reads the new settings.
+    if (settingsChanged) await chartSettingsChanged(id, req.user!.id);
     const [characteristic] = await listCharacteristics(db, id);
     res.json(characteristic);
   });

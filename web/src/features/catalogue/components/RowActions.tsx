@@ -6,7 +6,7 @@ import { Badge } from '../../../components/ui/Badge';
 import { Button } from '../../../components/ui/Button';
 import { Dialog } from '../../../components/ui/Dialog';
 
-/** The Status column of products and characteristics. */
+/** The Status column of lines, products and characteristics. */
 export function statusColumn<T extends { active: boolean }>(column: ColumnHelper<T>) {
   return column.accessor((row) => (row.active ? 'Active' : 'Deactivated'), {
     id: 'status',
@@ -15,7 +15,7 @@ export function statusColumn<T extends { active: boolean }>(column: ColumnHelper
   });
 }
 
-/** The Actions column: edit, and deactivate or reactivate, of products and characteristics. */
+/** The Actions column: edit, and deactivate or reactivate, of lines, products and characteristics. */
 export function actionsColumn<T extends { id: number; code: string; active: boolean }>(
   column: ColumnHelper<T>,
   {

@@ -1,8 +1,9 @@
 import { useMemo, useState } from 'react';
 import { createColumnHelper, getCoreRowModel, useReactTable } from '@tanstack/react-table';
 import type { Notice } from '../../users/components/UserActions';
-import { useCatalogueLines, useCatalogueProducts, type CatalogueLine } from '../api/catalogue';
+import { useCatalogueLines, useCatalogueProducts, useUpdateLine, type CatalogueLine } from '../api/catalogue';
 import { LineForm } from '../components/LineForm';
+import { actionsColumn, statusColumn, type Consequences } from '../components/RowActions';
 import { EditorCard } from '../components/EditorCard';
 import { PageHeader } from '../../../components/ui/PageHeader';
 import { DataTable } from '../../../components/ui/Table';
@@ -14,12 +15,24 @@ import { EmptyState } from '../../../components/ui/EmptyState';
 
 const column = createColumnHelper<CatalogueLine & { products: string[] }>();
 
+const consequences: Consequences = {
+  deactivate: (
+    <p>
+      Uploads and manual entry refuse new lots and results on it, and manual entry no longer offers it. Its lots, results and charts stay, and it can be
+      reactivated at any time.
+    </p>
+  ),
+  reactivate: <p>Uploads and manual entry accept results on it again.</p>,
+  deactivated: (code: string) => `${code} is deactivated: uploads and manual entry refuse results on it.`,
+};
+
 /** /admin/catalogue/lines: the production lines lots are made on. */
 export default function LinesPage() {
   const lines = useCatalogueLines();
   const products = useCatalogueProducts();
   const [editing, setEditing] = useState<'new' | CatalogueLine | null>(null);
   const [notice, setNotice] = useState<Notice | null>(null);
+  const { mutateAsync: update } = useUpdateLine();
 
   const rows = useMemo(
     () => (lines.data ?? []).map((line) => ({ ...line, products: (products.data ?? []).filter((p) => p.lineCode === line.code).map((p) => p.code) })),
@@ -34,25 +47,18 @@ export default function LinesPage() {
         header: 'Products made on it',
         cell: (info) => <span className="font-mono text-sm">{info.getValue() || '–'}</span>,
       }),
-      column.display({
-        id: 'actions',
-        header: 'Actions',
-        cell: (info) => (
-          <Button
-            variant="secondary"
-            size="sm"
-            aria-label={`Edit line ${info.row.original.code}`}
-            onClick={() => {
-              setNotice(null);
-              setEditing(info.row.original);
-            }}
-          >
-            Edit
-          </Button>
-        ),
+      statusColumn(column),
+      actionsColumn(column, {
+        onEdit: (line) => {
+          setNotice(null);
+          setEditing(line);
+        },
+        onNotice: setNotice,
+        consequences,
+        setActive: (id, active) => update({ id, changes: { active } }),
       }),
     ],
-    [],
+    [update],
   );
   const table = useReactTable({ data: rows, columns, getCoreRowModel: getCoreRowModel() });
 
@@ -60,7 +66,7 @@ export default function LinesPage() {
   const header = (
     <PageHeader
       title="Production lines"
-      description="The lines lots are made on. A line is never deleted; once lots were made on it its code stays, and its name may change."
+      description="The lines lots are made on. A line is never deleted but deactivated; once lots were made on it its code stays, and its name may change."
       actions={
         <Button onClick={() => setEditing('new')} disabled={editing === 'new'}>
           Add a line

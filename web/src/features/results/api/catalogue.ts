@@ -19,6 +19,8 @@ export interface ProductionLine {
   id: number;
   code: string;
   name: string;
+  /** false: deactivated, takes no new results. */
+  active: boolean;
 }
 
 /** The specification revision in force now. */

@@ -2,12 +2,12 @@ import type { IngestCatalogue } from '../../../../../shared/ingest';
 import type { TestMethodEntry } from '../../test-methods/api/test-methods';
 import type { EntryCatalogue } from '../api/catalogue';
 
-/** The catalogue as the shared row validation needs it, built like the server builds it: active products and characteristics only. */
+/** The catalogue as the shared row validation needs it, built like the server builds it: active lines, products and characteristics only. */
 export function ingestCatalogue({ timeZone, products, lines, characteristics, testMethods }: EntryCatalogue): IngestCatalogue {
   const ranges = new Map<string, TestMethodEntry['physicalRange']>(testMethods.map((m) => [m.code, m.physicalRange]));
   return {
     timeZone,
-    lineCodes: new Set(lines.map((l) => l.code)),
+    lineCodes: new Set(lines.filter((l) => l.active).map((l) => l.code)),
     productCodes: new Set(products.filter((p) => p.active).map((p) => p.code)),
     characteristics: new Map(
       characteristics.flatMap((c) => {

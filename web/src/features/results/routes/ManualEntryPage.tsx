@@ -67,6 +67,7 @@ function ManualEntryForm({ catalogue }: { catalogue: EntryCatalogue }) {
   const producedAtMs = producedAt ? parsePlantDateTime(producedAt, catalogue.timeZone) : null;
 
   const products = catalogue.products.filter((p) => p.active);
+  const activeLines = catalogue.lines.filter((l) => l.active);
   const ofProduct = useMemo(() => catalogue.characteristics.filter((c) => c.active && c.productCode === productCode), [catalogue, productCode]);
   const added = new Set(results.fields.map((f) => f.characteristic));
   const addable = ofProduct.filter((c) => !added.has(c.code));
@@ -76,7 +77,7 @@ function ManualEntryForm({ catalogue }: { catalogue: EntryCatalogue }) {
 
   const chooseProduct = (code: string) => {
     const product = products.find((p) => p.code === code);
-    if (product?.lineCode) setValue('line', product.lineCode);
+    if (product?.lineCode && activeLines.some((l) => l.code === product.lineCode)) setValue('line', product.lineCode);
     // Characteristics belong to one product; those of the previous one no longer apply.
     results.replace([]);
     setAdding('');
@@ -168,7 +169,7 @@ function ManualEntryForm({ catalogue }: { catalogue: EntryCatalogue }) {
             {(ids) => (
               <Select {...ids} {...register('line')}>
                 <option value="">Choose a line…</option>
-                {catalogue.lines.map((l) => (
+                {activeLines.map((l) => (
                   <option key={l.code} value={l.code}>
                     {l.code} · {l.name}
                   </option>

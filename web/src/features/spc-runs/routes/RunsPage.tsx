@@ -27,6 +27,7 @@ const triggerWords: Record<RunSummary['trigger'], string> = {
   void: 'After a voided upload',
   correction: 'After a corrected result',
   limits: 'After a point was excluded or limits frozen',
+  settings: 'After a chart type, subgroup size or rule set changed',
   first: 'First run over the stored history',
 };
 

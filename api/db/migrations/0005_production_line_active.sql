@@ -1,0 +1,1 @@
+ALTER TABLE "production_lines" ADD COLUMN "active" boolean DEFAULT true NOT NULL;
