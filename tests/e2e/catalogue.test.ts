@@ -70,6 +70,14 @@ describe('products, lines and characteristics', () => {
     await page.getByRole('dialog', { name: `Deactivate ${lineCode}?` }).getByRole('button', { name: 'Deactivate' }).click();
     await page.getByText(`${lineCode} is deactivated: uploads and manual entry refuse results on it.`).waitFor();
     expect(await lineRow.locator('td').nth(3).textContent()).toBe('Deactivated');
+    // A deactivated line is not offered for a new product.
+    await tabs(page).getByRole('link', { name: 'Products' }).click();
+    await page.getByRole('button', { name: 'Add a product' }).click();
+    const offered = await page.getByRole('form', { name: 'Add a product' }).getByLabel('Production line').locator('option').allTextContents();
+    expect(offered.some((o) => o.startsWith('L1'))).toBe(true);
+    expect(offered.some((o) => o.startsWith(lineCode))).toBe(false);
+    await tabs(page).getByRole('link', { name: 'Production lines' }).click();
+    await pageHeading(page, 'Production lines').waitFor();
     await lineRow.getByRole('button', { name: `Reactivate ${lineCode}` }).click();
     await page.getByRole('dialog', { name: `Reactivate ${lineCode}?` }).getByRole('button', { name: 'Reactivate' }).click();
     await page.getByText(`${lineCode} is active again.`).waitFor();

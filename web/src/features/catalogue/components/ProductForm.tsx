@@ -40,7 +40,7 @@ export function ProductForm({
       name: product?.name ?? '',
       family: product?.family ?? '',
       declaredClass: product?.declaredClass ?? '',
-      lineCode: product?.lineCode ?? lines[0]?.code ?? '',
+      lineCode: product?.lineCode ?? lines.find((line) => line.active)?.code ?? '',
     },
   });
 
@@ -85,11 +85,14 @@ export function ProductForm({
         <Field label="Production line" error={errors.lineCode?.message}>
           {(control) => (
             <Select {...control} {...register('lineCode')}>
-              {lines.map((line) => (
-                <option key={line.id} value={line.code}>
-                  {line.code} · {line.name}
-                </option>
-              ))}
+              {/* A deactivated line takes no new product; a product already on one keeps showing it. */}
+              {lines
+                .filter((line) => line.active || line.code === product?.lineCode)
+                .map((line) => (
+                  <option key={line.id} value={line.code}>
+                    {line.code} · {line.name}
+                  </option>
+                ))}
             </Select>
           )}
         </Field>

@@ -70,11 +70,13 @@ export function ProcessEventForm({ lines, products, onRecorded }: { lines: Produ
               })}
             >
               <option value="">Whole plant or the lab</option>
-              {lines.map((line) => (
-                <option key={line.code} value={line.code}>
-                  {line.code} · {line.name}
-                </option>
-              ))}
+              {lines
+                .filter((line) => line.active)
+                .map((line) => (
+                  <option key={line.code} value={line.code}>
+                    {line.code} · {line.name}
+                  </option>
+                ))}
             </Select>
           )}
         </Field>
