@@ -105,12 +105,6 @@ export function rowMapper(headers: readonly string[], mapping: ColumnMapping): (
   };
 }
 
-/** Turns parsed records (header → cell) into canonical long rows through a mapping. */
-export function applyMapping(headers: readonly string[], records: Record<string, string>[], mapping: ColumnMapping, firstRow = 2): CanonicalRow[] {
-  const map = rowMapper(headers, mapping);
-  return records.flatMap((rec, i) => map(headers.map((h) => rec[h]), firstRow + i));
-}
-
 /** Columns a file lacks for a mapping: named in the 422 before any row is read. */
 export function missingColumns(headers: string[], mapping: ColumnMapping): string[] {
   const have = new Set(headers);

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { applyMapping, missingColumns } from '../../../../../shared/ingest';
+import { missingColumns, rowMapper } from '../../../../../shared/ingest';
 import { hasCanonicalHeaders, mappingFromDraft, suggestDraft } from './mapping';
 
 const codes = ['HVL25-FLOW', 'HVL25-AIR', 'HVL25-RC28'];
@@ -24,7 +24,7 @@ describe('column mapping of the upload page', () => {
     // "HVL25-RC28" ends in digits that belong to the code, not a replicate.
     expect(draft.characteristicColumns).toEqual({ 'HVL25-FLOW 1': 'HVL25-FLOW', hvl25_flow_2: 'HVL25-FLOW', 'HVL25-RC28': 'HVL25-RC28' });
     const { mapping } = mappingFromDraft(draft);
-    const rows = applyMapping(headers, [{ lot: 'A1', product: 'HVL25', line: 'L1', produced_at: '2026-11-30T06:00', 'HVL25-FLOW 1': '145', hvl25_flow_2: '147', 'HVL25-RC28': '', Remark: 'x' }], mapping!);
+    const rows = rowMapper(headers, mapping!)(['A1', 'HVL25', 'L1', '2026-11-30T06:00', '145', '147', '', 'x'], 2);
     expect(rows.map((r) => [r.cells.characteristic, r.cells.replicate, r.cells.value])).toEqual([
       ['HVL25-FLOW', '1', '145'],
       ['HVL25-FLOW', '2', '147'],
