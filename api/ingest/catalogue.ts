@@ -20,7 +20,7 @@ export async function loadCatalogue(db: Pick<Database, 'select'>): Promise<Loade
   const [plant] = await db.select({ timeZone: plants.timeZone }).from(plants).orderBy(plants.id).limit(1);
   const lineRows = await db.select({ id: productionLines.id, code: productionLines.code }).from(productionLines).where(eq(productionLines.active, true));
   const productRows = await db.select({ id: products.id, code: products.code }).from(products).where(eq(products.active, true));
-  const chRows = await db
+  const allCharacteristics = await db
     .select({
       id: characteristics.id,
       code: characteristics.code,
@@ -31,12 +31,13 @@ export async function loadCatalogue(db: Pick<Database, 'select'>): Promise<Loade
       physicalMin: testMethods.physicalMin,
       physicalMax: testMethods.physicalMax,
       physicalMaxExclusive: testMethods.physicalMaxExclusive,
+      active: characteristics.active,
     })
     .from(characteristics)
     .innerJoin(products, eq(products.id, characteristics.productId))
-    .innerJoin(testMethods, eq(testMethods.id, characteristics.testMethodId))
-    .where(eq(characteristics.active, true));
-  const deactivated = await db.select({ code: characteristics.code }).from(characteristics).where(eq(characteristics.active, false));
+    .innerJoin(testMethods, eq(testMethods.id, characteristics.testMethodId));
+  // Deactivated ones are read too, so that a row naming one is told so rather than "unknown".
+  const chRows = allCharacteristics.filter((c) => c.active);
   const limits = await db
     .select({ id: specLimits.characteristicId, lsl: max(specLimits.lsl), usl: min(specLimits.usl) })
     .from(specLimits)
@@ -46,7 +47,7 @@ export async function loadCatalogue(db: Pick<Database, 'select'>): Promise<Loade
     lineCodes: new Set(lineRows.map((l) => l.code)),
     productCodes: new Set(productRows.map((p) => p.code)),
     characteristics: new Map(chRows.map((c) => [c.code, c])),
-    deactivatedCharacteristics: new Set(deactivated.map((c) => c.code)),
+    deactivatedCharacteristics: new Set(allCharacteristics.filter((c) => !c.active).map((c) => c.code)),
     lineIds: new Map(lineRows.map((l) => [l.code, l.id])),
     productIds: new Map(productRows.map((p) => [p.code, p.id])),
     characteristicIds: new Map(chRows.map((c) => [c.code, c.id])),
