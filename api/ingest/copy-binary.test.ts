@@ -21,6 +21,11 @@ describe('BinaryCopyWriter', () => {
       [2_147_483_647, 1e300, Date.parse('1900-03-01T12:34:56.789Z'), 'Prüfkörper · 40 × 40 × 160 mm'],
       [146, 0.1 + 0.2, Date.parse('2999-12-31T23:59:59.999Z'), null],
       [null, null, null, 'after nulls'],
+      // Short text is copied character by character while ASCII; one that is not falls back to UTF-8.
+      [1, 2, Date.parse('2026-11-30T06:15:00Z'), 'AT'],
+      [2, 3, Date.parse('2026-11-30T06:15:00Z'), 'Lab at 14 °C'],
+      [3, 4, Date.parse('2026-11-30T06:15:00Z'), 'é'],
+      [4, 5, Date.parse('2026-11-30T06:15:00Z'), 'exactly thirty-two characters!!!'],
     ];
     const w = new BinaryCopyWriter(16);
     for (const [i, f, t, s] of rows) {

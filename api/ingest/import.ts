@@ -2,9 +2,9 @@
 // All or nothing: a file with one bad row stores no measurement, only the rejected upload as evidence.
 //
 // A file is read piece by piece (shared/ingest/read.ts) and its checked rows gathered into rounds.
-// While parsing goes on, one round is compared with what is stored over a second connection and the one
-// before it goes to PostgreSQL by COPY in the transaction, so the server never holds the whole file as
-// objects. The first bad row stops the storing; the rest of the file is still checked so the 422 names
+// While parsing goes on, one round is compared with what is stored over a second connection and encoded
+// for COPY, and the one before it goes to PostgreSQL by COPY in the transaction, so the server never
+// holds the whole file as objects and the transaction's connection never waits for parsing. The first bad row stops the storing; the rest of the file is still checked so the 422 names
 // every row to correct, and the transaction rolls back.
 import { createHash } from 'node:crypto';
 import { once } from 'node:events';
@@ -43,6 +43,8 @@ const IMPORT_LOCK = 727_002;
 const PIECE_CHARACTERS = 128 * 1024;
 /** Checked rows gathered into one round of lookups and COPY statements. */
 const ROWS_PER_STORE = 10_000;
+/** The first round is short, so the first COPY starts early. */
+const FIRST_ROUND_ROWS = 2_000;
 /** Rounds handed to the database but not yet stored before parsing waits for it. */
 const MAX_STORES_AHEAD = 2;
 
@@ -117,17 +119,22 @@ async function importOn(client: pg.PoolClient, reader: pg.PoolClient, req: Impor
     // Two chains: lookups of round k + 1 on the reading connection overlap the COPY of round k.
     let looked: Promise<unknown> = Promise.resolve();
     let stored: Promise<void> = Promise.resolve();
+    /** Each submitted round's end of storing, oldest first, to wait on when parsing runs ahead. */
+    const storing: Promise<unknown>[] = [];
     let ahead = 0;
+    let submitted = 0;
     let databaseFailed = false;
     const submit = () => {
       const round = store.closeRound();
       const failedSoFar = readErrors.length > 0;
       ahead++;
+      submitted++;
       const prepared = looked.then(() => store.prepare(round, failedSoFar));
       looked = prepared;
       stored = Promise.all([stored, prepared])
         .then(([, ready]) => store.store(ready))
         .finally(() => ahead--);
+      storing.push(stored.catch(() => undefined));
       // Handled here so a failure between pieces is no unhandled rejection; awaited below all the same.
       looked.catch(() => (databaseFailed = true));
       stored.catch(() => (databaseFailed = true));
@@ -135,11 +142,13 @@ async function importOn(client: pg.PoolClient, reader: pg.PoolClient, req: Impor
     try {
       for (const piece of reading.batches) {
         if (databaseFailed) break;
-        for (const v of piece) if (store.take(v) === ROWS_PER_STORE) submit();
+        // A short first round gets the database working while the rest of the file is parsed.
+        for (const v of piece) if (store.take(v) >= (submitted === 0 ? FIRST_ROUND_ROWS : ROWS_PER_STORE)) submit();
         // Small pieces keep each stretch of parsing short, so the database's answers are taken up at once
-        // and the next COPY starts while parsing goes on; wait for the database when it falls behind.
-        if (ahead > MAX_STORES_AHEAD) await stored;
-        else await new Promise((resolve) => setImmediate(resolve));
+        // and the next COPY starts while parsing goes on. When the database falls behind, wait for its
+        // oldest round only, so it always has the next round ready.
+        if (ahead <= MAX_STORES_AHEAD) await new Promise((resolve) => setImmediate(resolve));
+        while (ahead > MAX_STORES_AHEAD) await storing.shift();
       }
       if (store.roundLength > 0) submit();
       await stored;
@@ -239,8 +248,13 @@ class Round {
   readonly note: (string | null)[] = [];
   /** Lots first named in this round. */
   readonly newLots: LotEntry[] = [];
-  /** Ids of the round's measurements once prepared, in row order. */
-  ids: number[] = [];
+}
+
+/** A round ready for COPY; no data once the import has failed. */
+interface EncodedRound {
+  rows: number;
+  lots: Buffer | null;
+  measurements: Buffer | null;
 }
 
 /** Stores checked measurements round by round, after comparing each round with what is stored. */
@@ -322,9 +336,10 @@ class MeasurementStore {
 
   /**
    * Compares a round with the stored lots and measurements and gives ids to its new lots and
-   * measurements. Rounds are prepared in file order, so a lot is looked up once, in its first round.
+   * measurements, then encodes it for COPY. Rounds are prepared in file order, so a lot is looked up
+   * once, in its first round.
    */
-  async prepare(round: Round, fileHasErrors: boolean): Promise<Round> {
+  async prepare(round: Round, fileHasErrors: boolean): Promise<EncodedRound> {
     if (fileHasErrors) this.failed = true;
     // New ids come as a first id and a count when the sequence handed out a run without gaps (the
     // usual case), as a list otherwise: 10,000 ids in a text array take longer to read than to make.
@@ -379,19 +394,21 @@ class MeasurementStore {
       }
     }
     if (this.errors.length) this.failed = true;
-    round.ids = measurementIds;
-    return round;
+    return this.failed ? { rows: 0, lots: null, measurements: null } : await this.encode(round, measurementIds);
   }
 
-  /** Stores a prepared round by COPY in the import's transaction, unless anything failed so far. */
-  async store(round: Round): Promise<void> {
-    if (this.failed || round.length === 0) return;
+  /**
+   * The round as COPY data, made while the database still stores the round before, so the
+   * transaction's connection never waits for Node to encode.
+   */
+  private async encode(round: Round, ids: number[]): Promise<EncodedRound> {
     const uploadId = await this.uploadRow;
     const added = round.newLots.filter((l) => !l.stored);
+    let lots: Buffer | null = null;
     if (added.length) {
       const lotRows = new BinaryCopyWriter(added.length * 80);
       for (const l of added) lotRows.row(6).int4(l.id).text(l.number).int4(l.productId).int4(l.lineId).timestamptz(l.producedAt).text(l.shift);
-      await copyIn(this.client, 'COPY lots (id, lot_number, product_id, line_id, produced_at, shift) FROM STDIN (FORMAT binary)', lotRows.finish());
+      lots = lotRows.finish();
     }
     const rows = new BinaryCopyWriter(round.length * 110);
     for (let i = 0; i < round.length; i++) {
@@ -401,7 +418,7 @@ class MeasurementStore {
       const testedAt = round.testedAt[i];
       rows
         .row(11)
-        .int4(round.ids[i])
+        .int4(ids[i])
         .int4(lot.id)
         .int4(characteristicId)
         .int4(round.replicate[i])
@@ -414,7 +431,7 @@ class MeasurementStore {
       else rows.int4(uploadId);
       if (this.req.actorId === null) rows.null();
       else rows.int4(this.req.actorId);
-      this.measurementIds.push(round.ids[i]);
+      this.measurementIds.push(ids[i]);
       this.characteristicIds.add(characteristicId);
       const limits = this.cat.strictestLimits.get(characteristicId);
       const beyond = limits !== undefined && ((limits.lsl !== null && value < limits.lsl) || (limits.usl !== null && value > limits.usl));
@@ -426,7 +443,14 @@ class MeasurementStore {
         }
       }
     }
-    await copyIn(this.client, 'COPY measurements (id, lot_id, characteristic_id, replicate, value, tested_at, operator, note, source, upload_id, entered_by) FROM STDIN (FORMAT binary)', rows.finish());
-    this.rowsImported += round.length;
+    return { rows: round.length, lots, measurements: rows.finish() };
+  }
+
+  /** Stores an encoded round by COPY in the import's transaction, unless anything failed so far. */
+  async store(round: EncodedRound): Promise<void> {
+    if (this.failed || round.measurements === null || round.rows === 0) return;
+    if (round.lots) await copyIn(this.client, 'COPY lots (id, lot_number, product_id, line_id, produced_at, shift) FROM STDIN (FORMAT binary)', round.lots);
+    await copyIn(this.client, 'COPY measurements (id, lot_id, characteristic_id, replicate, value, tested_at, operator, note, source, upload_id, entered_by) FROM STDIN (FORMAT binary)', round.measurements);
+    this.rowsImported += round.rows;
   }
 }
