@@ -29,8 +29,7 @@ import { lazyQueue, type SpcQueue } from './spc/queue';
 import { requestIncrementalRun } from './spc/hooks';
 import type { FakeSmtp } from './mail/fake-smtp';
 import { mailSettings } from './mail/settings';
-
-export const webDist = resolve(import.meta.dirname, '..', 'web', 'dist');
+import { webDist } from './paths';
 
 export interface AppDeps {
   db: Database;

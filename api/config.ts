@@ -2,9 +2,7 @@ import { randomBytes } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
 import { z } from 'zod';
-
-/** Where the project keeps its git-ignored runtime state (database cluster, demo secret). */
-export const dataRoot = resolve(import.meta.dirname, '..', '.data');
+import { dataRoot } from './paths';
 
 const envSchema = z.object({
   /** PostgreSQL connection string. */

@@ -11,8 +11,7 @@ import { createSpcIngestHooks } from '../api/spc/hooks';
 import { fixedQueue, startBoss, workerName, type SpcQueue } from '../api/spc/queue';
 import { startRun } from '../api/spc/runs';
 import { startScheduler, type Scheduler } from './scheduler';
-import { startSpcWorkers, type SpcWorkers } from './spc-worker';
-import { workerSettings } from './worker';
+import { startSpcWorkers, workerSettings, type SpcWorkers } from './spc-worker';
 
 export interface Background {
   queue: SpcQueue;

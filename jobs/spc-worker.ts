@@ -23,6 +23,19 @@ export interface SpcWorkers {
   stop(): Promise<void>;
 }
 
+/** The workers' settings from the environment (listed in jobs/worker.ts), read by the server and by npm run worker alike. */
+export function workerSettings(env: NodeJS.ProcessEnv = process.env) {
+  const concurrency = Number(env.SPC_WORKER_CONCURRENCY ?? 2);
+  const pollMs = Number(env.SPC_POLL_MS ?? 500);
+  const pauseMs = Number(env.SPC_TEST_PAUSE_MS ?? 0);
+  return {
+    concurrency: Number.isInteger(concurrency) && concurrency >= 0 ? concurrency : 2,
+    pollMs: Number.isFinite(pollMs) && pollMs >= 20 ? pollMs : 500,
+    pauseMs: Number.isFinite(pauseMs) && pauseMs > 0 ? pauseMs : undefined,
+    sweepMs: Number(env.SPC_SWEEP_MS ?? 10_000),
+  };
+}
+
 const sleep = (ms: number, signal: AbortSignal) =>
   new Promise<void>((resolve) => {
     const done = () => {

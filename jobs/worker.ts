@@ -17,19 +17,7 @@ import { logger } from '../api/logger';
 import { mailSettings } from '../api/mail/settings';
 import { createTransport, startMailSender, type MailSender } from '../api/mail/outbox';
 import { startBoss, workerName } from '../api/spc/queue';
-import { startSpcWorkers } from './spc-worker';
-
-export function workerSettings(env: NodeJS.ProcessEnv = process.env) {
-  const concurrency = Number(env.SPC_WORKER_CONCURRENCY ?? 2);
-  const pollMs = Number(env.SPC_POLL_MS ?? 500);
-  const pauseMs = Number(env.SPC_TEST_PAUSE_MS ?? 0);
-  return {
-    concurrency: Number.isInteger(concurrency) && concurrency >= 0 ? concurrency : 2,
-    pollMs: Number.isFinite(pollMs) && pollMs >= 20 ? pollMs : 500,
-    pauseMs: Number.isFinite(pauseMs) && pauseMs > 0 ? pauseMs : undefined,
-    sweepMs: Number(env.SPC_SWEEP_MS ?? 10_000),
-  };
-}
+import { startSpcWorkers, workerSettings } from './spc-worker';
 
 async function main() {
   const databaseUrl = process.env.DATABASE_URL;

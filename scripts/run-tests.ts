@@ -4,7 +4,8 @@ import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { existsSync, mkdirSync, readdirSync, readFileSync } from 'node:fs';
 import { createServer } from 'node:net';
 import { resolve } from 'node:path';
-import { dataRoot } from '../api/config';
+import { dataRoot } from '../api/paths';
+import { buildServer, serverCommand } from './lib/server-build';
 import { destroyCluster, ensureDatabase, initCluster, startCluster, type Cluster } from './lib/cluster';
 import { buildWebIfStale } from './lib/web-build';
 
@@ -96,7 +97,10 @@ async function main(): Promise<number> {
     PRISMLINE_SCHEDULER: '0',
   };
   mkdirSync(resolve(root, 'test-artifacts'), { recursive: true });
-  server = spawn(resolve(root, 'node_modules/.bin/tsx'), ['api/server.ts'], {
+  // The suite runs against the server as npm start runs it: the bundle, under plain Node.
+  await buildServer();
+  const { command, args } = serverCommand();
+  server = spawn(command, args, {
     cwd: root,
     env: { ...env, PORT: String(port) },
     stdio: ['ignore', 'inherit', 'inherit'],

@@ -1,10 +1,24 @@
 // npm start: PostgreSQL on loopback in .data/postgres, migrations, the demo plant, the web app and the API.
+// The API runs as its own Node process from a bundle (scripts/lib/server-build.ts); this process
+// keeps the database running while it does and stops both on Ctrl-C.
+import { spawn } from 'node:child_process';
 import { resolve } from 'node:path';
-import { dataRoot } from '../api/config';
+import { loadConfig } from '../api/config';
+import { dataRoot } from '../api/paths';
 import { ensureDatabase, initCluster, isInitialised, startCluster, stopCluster, type Cluster } from './lib/cluster';
+import { buildServer, serverCommand } from './lib/server-build';
 import { buildWebIfStale } from './lib/web-build';
 
 const cluster: Cluster = { root: resolve(dataRoot, 'postgres'), port: Number(process.env.PRISMLINE_PG_PORT ?? 54329) };
+
+async function waitForHealth(url: string, exited: () => boolean): Promise<boolean> {
+  // The first start seeds six months of the demo plant and runs its first SPC run: give it time.
+  for (let i = 0; i < 1200 && !exited(); i++) {
+    if (await fetch(`${url}/api/health`).then((r) => r.ok, () => false)) return true;
+    await new Promise((r) => setTimeout(r, 250));
+  }
+  return false;
+}
 
 async function main() {
   if (!isInitialised(cluster)) {
@@ -15,26 +29,44 @@ async function main() {
   console.log(`PostgreSQL is running on 127.0.0.1:${cluster.port}`);
   const databaseUrl = process.env.DATABASE_URL ?? (await ensureDatabase(cluster, 'prismline'));
   buildWebIfStale();
+  await buildServer();
 
   process.env.DATABASE_URL = databaseUrl;
   process.env.PRISMLINE_MODE ??= 'demo';
   // The demo plant's first SPC run starts at once, so the alarms are there before the first night.
   if (process.env.PRISMLINE_MODE === 'demo') process.env.PRISMLINE_INITIAL_RUN ??= '1';
-  const { startServer } = await import('../api/server');
-  const running = await startServer();
-  console.log(`\nPrismline: open ${running.url} (demo users are listed in README.md). Ctrl-C stops it.\n`);
+  const config = loadConfig();
+  const url = `http://${config.host}:${config.port}`;
 
+  const { command, args } = serverCommand();
+  const server = spawn(command, args, { env: process.env, stdio: ['ignore', 'inherit', 'inherit'] });
+  let exited = false;
   let stopping = false;
-  const stop = async () => {
+  server.on('exit', (code, signal) => {
+    exited = true;
+    if (stopping) return;
+    console.error(`\nThe Prismline server stopped (${signal ?? `exit code ${code}`}); stopping PostgreSQL.`);
+    stopCluster(cluster);
+    process.exit(code || 1);
+  });
+
+  const stop = () => {
     if (stopping) return;
     stopping = true;
     console.log('\nStopping Prismline and PostgreSQL…');
-    await running.close().catch(() => undefined);
-    stopCluster(cluster);
-    process.exit(0);
+    const done = () => {
+      stopCluster(cluster);
+      process.exit(0);
+    };
+    if (exited) return done();
+    server.once('exit', done);
+    server.kill('SIGTERM');
   };
-  process.on('SIGINT', () => void stop());
-  process.on('SIGTERM', () => void stop());
+  process.on('SIGINT', stop);
+  process.on('SIGTERM', stop);
+
+  if (await waitForHealth(url, () => exited)) console.log(`\nPrismline: open ${url} (demo users are listed in README.md). Ctrl-C stops it.\n`);
+  else if (!exited) console.error(`\nPrismline did not answer on ${url}/api/health; its messages are above.`);
 }
 
 main().catch((err) => {

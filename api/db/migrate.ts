@@ -1,9 +1,8 @@
-import { resolve } from 'node:path';
 import { drizzle } from 'drizzle-orm/node-postgres';
 import { migrate } from 'drizzle-orm/node-postgres/migrator';
 import type pg from 'pg';
+import { migrationsFolder } from '../paths';
 
-const migrationsFolder = resolve(import.meta.dirname, 'migrations');
 /** Arbitrary constant that names the migration lock among advisory locks. */
 const MIGRATION_LOCK = 727_001;
 

@@ -12,6 +12,7 @@ import { gzipSync } from 'node:zlib';
 import autocannon from 'autocannon';
 import { sql } from 'drizzle-orm';
 import { createDatabase, type Database } from '../../api/db/client';
+import { buildServer, serverCommand } from '../../scripts/lib/server-build';
 import { buildWebIfStale } from '../../scripts/lib/web-build';
 import { launchBrowser } from '../support/browser';
 
@@ -185,7 +186,9 @@ export async function run(): Promise<BenchRow[]> {
 
   const port = await freePort();
   const base = `http://127.0.0.1:${port}`;
-  const server = spawn(process.execPath, ['--import', 'tsx', 'api/server.ts'], {
+  await buildServer();
+  const { command, args } = serverCommand();
+  const server = spawn(command, args, {
     cwd: root,
     // No SPC workers or scheduler in the measured server: only the requests under test run there.
     env: { ...process.env, PORT: String(port), PRISMLINE_MODE: 'demo', LOG_LEVEL: 'warn', JWT_SECRET: 'bench-secret-bench-secret-bench-secret-42', SPC_WORKER_CONCURRENCY: '0', PRISMLINE_SCHEDULER: '0' },

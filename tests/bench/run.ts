@@ -4,7 +4,7 @@
 import { readdirSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
-import { dataRoot } from '../../api/config';
+import { dataRoot } from '../../api/paths';
 import { destroyCluster, ensureDatabase, initCluster, startCluster, type Cluster } from '../../scripts/lib/cluster';
 import { freePort } from '../../api/spc/testing/cluster';
 

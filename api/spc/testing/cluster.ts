@@ -3,7 +3,7 @@
 import { existsSync, mkdirSync, readdirSync } from 'node:fs';
 import { createServer } from 'node:net';
 import { resolve } from 'node:path';
-import { dataRoot } from '../../config';
+import { dataRoot } from '../../paths';
 import { destroyCluster, ensureDatabase, initCluster, startCluster, stopCluster, type Cluster } from '../../../scripts/lib/cluster';
 import { createDatabase, type Database } from '../../db/client';
 import { migrateDatabase } from '../../db/migrate';
