@@ -49,7 +49,7 @@ function fail(out: RowError[], r: CanonicalRow, c: CanonicalColumn, message: str
   out.push({ row: r.row, column: r.sourceColumn[c] ?? c, message });
 }
 
-const cellText = (r: CanonicalRow, c: CanonicalColumn) => (r.cells[c] ?? '').trim();
+const trimmed = (cell: string | undefined) => (cell === undefined ? '' : cell.trim());
 
 /** The codes a cell may hold, for a message: all of them when few, else the first few. */
 function knownCodes(codes: Iterable<string>): string {
@@ -67,7 +67,6 @@ function notADate(text: string, column: 'produced_at' | 'tested_at'): string {
   if (looksLikeDate(text)) return `"${text}" is not a day and time of the calendar: check the day, month and hour`;
   return column === 'produced_at' ? `"${text}" is not a date: use ISO 8601 (2026-11-30T06:15) or dd.mm.yyyy HH:MM` : `"${text}" is not a date: use ISO 8601 or dd.mm.yyyy HH:MM`;
 }
-const freeTextColumns = ['shift', 'operator', 'note'] as const;
 
 /**
  * Checks rows one at a time against the catalogue and against the rows of the same file seen before,
@@ -104,28 +103,30 @@ export class RowValidator {
   check(r: CanonicalRow): ValidMeasurement | null {
     const { cat, opts } = this;
     const rowErrors: RowError[] = [];
+    // Each cell read once, by name: a 100,000-row file reads 1.1 million of them.
+    const cells = r.cells;
 
-    const lot = cellText(r, 'lot');
+    const lot = trimmed(cells.lot);
     // A lot number seen before passed the pattern then: only lots that did are remembered.
     const entry = lot ? this.lots.get(lot) : undefined;
     const lotOk = lot !== '' && (entry !== undefined || lotPattern.test(lot));
     if (!lot) fail(rowErrors, r, 'lot', 'Lot number is missing');
     else if (!lotOk) fail(rowErrors, r, 'lot', `Lot number "${lot}" may hold only letters, digits and . _ / - (at most 64)`);
 
-    const product = cellText(r, 'product');
+    const product = trimmed(cells.product);
     if (!product) fail(rowErrors, r, 'product', 'Product code is missing');
     else if (!cat.productCodes.has(product)) fail(rowErrors, r, 'product', `Unknown product code "${product}" (products: ${knownCodes(cat.productCodes)})`);
 
-    const line = cellText(r, 'line');
+    const line = trimmed(cells.line);
     if (!line) fail(rowErrors, r, 'line', 'Production line is missing');
     else if (!cat.lineCodes.has(line)) fail(rowErrors, r, 'line', `Unknown production line "${line}" (lines: ${knownCodes(cat.lineCodes)})`);
 
-    const producedText = cellText(r, 'produced_at');
+    const producedText = trimmed(cells.produced_at);
     const producedAt = producedText ? this.date('produced_at', producedText) : null;
     if (!producedText) fail(rowErrors, r, 'produced_at', 'Production date is missing');
     else if (producedAt === null) fail(rowErrors, r, 'produced_at', notADate(producedText, 'produced_at'));
 
-    const code = cellText(r, 'characteristic');
+    const code = trimmed(cells.characteristic);
     const ch = code ? cat.characteristics.get(code) : undefined;
     if (!code) fail(rowErrors, r, 'characteristic', 'Characteristic code is missing');
     else if (!ch) fail(rowErrors, r, 'characteristic', unknownCharacteristic(cat, code, product));
@@ -133,7 +134,7 @@ export class RowValidator {
       fail(rowErrors, r, 'characteristic', `Characteristic ${code} belongs to product ${ch.productCode}, not ${product}`);
     }
 
-    const valueText = cellText(r, 'value');
+    const valueText = trimmed(cells.value);
     const value = valueText ? parseNumber(valueText, opts.decimalComma) : null;
     if (!valueText) fail(rowErrors, r, 'value', 'Value is missing');
     else if (value === null) fail(rowErrors, r, 'value', `"${valueText}" is not a number${opts.decimalComma ? '' : ' (this file uses "." as the decimal mark)'}`);
@@ -145,7 +146,7 @@ export class RowValidator {
     }
 
     let replicate: number | null = null;
-    const replicateText = cellText(r, 'replicate');
+    const replicateText = trimmed(cells.replicate);
     if (replicateText) {
       replicate = /^\d+$/.test(replicateText) ? Number(replicateText) : null;
       if (replicate === null || replicate < 1) fail(rowErrors, r, 'replicate', `Replicate "${replicateText}" must be a whole number from 1`);
@@ -159,12 +160,17 @@ export class RowValidator {
       fail(rowErrors, r, 'replicate', `${code} takes ${ch.subgroupSize} replicate${ch.subgroupSize === 1 ? '' : 's'} per lot; replicate ${replicate} is one too many`);
     }
 
-    const testedText = cellText(r, 'tested_at');
+    const testedText = trimmed(cells.tested_at);
     const testedAt = testedText ? this.date('tested_at', testedText) : null;
     if (testedText && testedAt === null) fail(rowErrors, r, 'tested_at', notADate(testedText, 'tested_at'));
     else if (testedAt !== null && producedAt !== null && testedAt < producedAt - 60_000) fail(rowErrors, r, 'tested_at', 'Test time is before the lot was produced');
 
-    for (const c of freeTextColumns) if (cellText(r, c).length > MAX_TEXT) fail(rowErrors, r, c, `Keep ${c} under ${MAX_TEXT} characters`);
+    const shift = trimmed(cells.shift);
+    const operator = trimmed(cells.operator);
+    const note = trimmed(cells.note);
+    if (shift.length > MAX_TEXT) fail(rowErrors, r, 'shift', `Keep shift under ${MAX_TEXT} characters`);
+    if (operator.length > MAX_TEXT) fail(rowErrors, r, 'operator', `Keep operator under ${MAX_TEXT} characters`);
+    if (note.length > MAX_TEXT) fail(rowErrors, r, 'note', `Keep note under ${MAX_TEXT} characters`);
 
     if (lotOk) {
       let known = entry;
@@ -189,7 +195,6 @@ export class RowValidator {
       this.errors.push(...rowErrors);
       return null;
     }
-    const shift = cellText(r, 'shift');
     return {
       row: r.row,
       lot,
@@ -201,8 +206,8 @@ export class RowValidator {
       replicate: replicate!,
       value: value!,
       testedAt,
-      operator: cellText(r, 'operator') || null,
-      note: cellText(r, 'note') || null,
+      operator: operator || null,
+      note: note || null,
     };
   }
 }
