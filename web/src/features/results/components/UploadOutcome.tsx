@@ -4,6 +4,7 @@ import type { UploadOutcome as Outcome } from '../api/import-outcome';
 import { RowErrorList } from './RowErrorList';
 import { DownloadLink } from './DownloadLink';
 import { Alert } from '../../../components/ui/Alert';
+import { formatCount } from '../../../lib/format';
 
 const link = 'font-medium underline underline-offset-2';
 
@@ -13,7 +14,7 @@ export function UploadOutcome({ outcome, fileName, lots }: { outcome: Outcome; f
     return (
       <Alert tone="success">
         <p className="font-semibold">
-          Imported: <span className="font-mono">{outcome.rowsImported}</span> result{outcome.rowsImported === 1 ? '' : 's'} from {fileName} as upload{' '}
+          Imported: <span className="font-mono">{formatCount(outcome.rowsImported)}</span> result{outcome.rowsImported === 1 ? '' : 's'} from {fileName} as upload{' '}
           <span className="font-mono">{outcome.id}</span>.
         </p>
         <p className="mt-1">
@@ -28,7 +29,7 @@ export function UploadOutcome({ outcome, fileName, lots }: { outcome: Outcome; f
                   </Link>
                 </span>
               ))}
-              {lots.length > 5 && ` and ${lots.length - 5} more`}.{' '}
+              {lots.length > 5 && ` and ${formatCount(lots.length - 5)} more`}.{' '}
             </>
           )}
           <Link to="/results/history" className={link}>

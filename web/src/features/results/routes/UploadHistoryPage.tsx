@@ -17,9 +17,7 @@ import { Select } from '../../../components/ui/Field';
 import { Loading } from '../../../components/ui/Spinner';
 import { ErrorState } from '../../../components/ui/ErrorState';
 import { EmptyState } from '../../../components/ui/EmptyState';
-
-/** Thousands grouped, so that a history file's 31,843 rows read at a glance. */
-const count = new Intl.NumberFormat('en-GB');
+import { formatCount } from '../../../lib/format';
 
 const column = createColumnHelper<Upload>();
 
@@ -81,9 +79,9 @@ export default function UploadHistoryPage() {
           );
         },
       }),
-      column.accessor('rowsTotal', { header: 'Rows', meta: { numeric: true }, cell: (info) => count.format(info.getValue()) }),
-      column.accessor('rowsImported', { header: 'Results stored', meta: { numeric: true }, cell: (info) => count.format(info.getValue()) }),
-      column.accessor('rowsRejected', { header: 'Rejected', meta: { numeric: true }, cell: (info) => count.format(info.getValue()) }),
+      column.accessor('rowsTotal', { header: 'Rows', meta: { numeric: true }, cell: (info) => formatCount(info.getValue()) }),
+      column.accessor('rowsImported', { header: 'Results stored', meta: { numeric: true }, cell: (info) => formatCount(info.getValue()) }),
+      column.accessor('rowsRejected', { header: 'Rejected', meta: { numeric: true }, cell: (info) => formatCount(info.getValue()) }),
       column.display({
         id: 'actions',
         header: 'Actions',

@@ -18,6 +18,7 @@ import { Alert } from '../../../components/ui/Alert';
 import { Button } from '../../../components/ui/Button';
 import { Loading } from '../../../components/ui/Spinner';
 import { ErrorState } from '../../../components/ui/ErrorState';
+import { formatCount } from '../../../lib/format';
 
 /** The server refuses larger files (api/routes/uploads: MAX_UPLOAD_BYTES); saying so before reading spares the wait. */
 const MAX_UPLOAD_BYTES = 20 * 1024 * 1024;
@@ -42,13 +43,13 @@ function initialMapping(headers: string[], saved: SavedMapping[], codes: string[
   return { draft: Object.keys(wide.characteristicColumns).length > 0 ? wide : suggestDraft('long', headers, codes) };
 }
 
-const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`;
+const plural = (n: number, word: string) => `${formatCount(n)} ${word}${n === 1 ? '' : 's'}`;
 
 /** The import button says what it will store. */
 function importLabel(blocked: boolean, wide: boolean, results: number, rows: number): string {
   if (blocked) return 'Correct the file first';
   if (wide) return `Import ${plural(results, 'result')} from ${plural(rows, 'row')}`;
-  return rows === 1 ? 'Import 1 row' : `Import all ${rows} rows`;
+  return rows === 1 ? 'Import 1 row' : `Import all ${formatCount(rows)} rows`;
 }
 
 const formatSize = (bytes: number) => (bytes < 1024 ? `${bytes} B` : bytes < 1024 * 1024 ? `${(bytes / 1024).toFixed(1)} kB` : `${(bytes / 1024 / 1024).toFixed(1)} MB`);
@@ -139,7 +140,7 @@ function UploadSteps({ catalogue }: { catalogue: EntryCatalogue }) {
           {source && (
             <p className="text-zinc-800">
               <span className="font-medium [overflow-wrap:anywhere]">{source.file.name}</span> ·{' '}
-              <span className="font-mono">{formatSize(source.file.size)}</span> · <span className="font-mono">{records}</span> data row{records === 1 ? '' : 's'}
+              <span className="font-mono">{formatSize(source.file.size)}</span> · <span className="font-mono">{formatCount(records)}</span> data row{records === 1 ? '' : 's'}
             </p>
           )}
           <FileDrop onFile={readFile} compact={!!source} disabled={upload.isPending} />
@@ -210,7 +211,7 @@ function UploadSteps({ catalogue }: { catalogue: EntryCatalogue }) {
                 <>
                   <Alert tone="error">
                     <p className="font-semibold">
-                      <span className="font-mono">{check.rowsWithErrors.size}</span> row{check.rowsWithErrors.size === 1 ? ' needs' : 's need'} correcting. Nothing can be
+                      <span className="font-mono">{formatCount(check.rowsWithErrors.size)}</span> row{check.rowsWithErrors.size === 1 ? ' needs' : 's need'} correcting. Nothing can be
                       imported until the file is corrected.
                     </p>
                     <p className="mt-1">Correct the rows in the file, save it and choose it again.</p>
