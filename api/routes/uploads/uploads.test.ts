@@ -1,3 +1,4 @@
+import { createHash } from 'node:crypto';
 import request from 'supertest';
 import { afterAll, describe, expect, it } from 'vitest';
 import { and, eq, isNull, sql } from 'drizzle-orm';
@@ -256,6 +257,41 @@ describe('POST /api/v1/uploads', () => {
       ['HVL25-FLOW', 2, 147],
       ['HVL25-AIR', 1, 3.1],
     ]);
+  });
+
+  it('keeps the original bytes of an imported and of a rejected file and gives them back unchanged', async () => {
+    // A Windows export: UTF-8 byte order mark, CRLF line ends, a degree sign; long enough (> 2 kB) that
+    // PostgreSQL packs it (LZ4 where the server has it, migration 0007).
+    const lot = newLot();
+    const rows = Array.from({ length: 40 }, (_, i) => `${lot}-${i},HVL25,L1,2026-11-05T06:30:00Z,HVL25-DENS,${1940 + i},early,1,,AT,Lab at 21 °C`);
+    const good = Buffer.concat([Buffer.from([0xef, 0xbb, 0xbf]), Buffer.from(`${header}\r\n${rows.join('\r\n')}\r\n`, 'utf8')]);
+    const bad = Buffer.from(`${header}\r\n${rows[0].replace('1940', 'heavy')}\r\n`, 'utf8');
+    const imported = await upload('technician', good, 'density-export.csv');
+    expect(imported.status).toBe(201);
+    const rejected = await upload('technician', bad, 'density-export-bad.csv');
+    expect(rejected.status).toBe(422);
+
+    for (const [id, bytes] of [
+      [imported.body.id, good],
+      [rejected.body.id, bad],
+    ] as const) {
+      const file = await request(api.app).get(`/api/v1/uploads/${id}/file`).set(await as('auditor')).buffer(true)
+        .parse((res, done) => {
+          const chunks: Buffer[] = [];
+          res.on('data', (c: Buffer) => chunks.push(c));
+          res.on('end', () => done(null, Buffer.concat(chunks)));
+        });
+      expect(file.status).toBe(200);
+      expect(Buffer.compare(file.body as Buffer, bytes)).toBe(0);
+      // The fingerprint that refuses a second import, against Node's own SHA-256 (OpenSSL).
+      const [row] = await api.db.select({ sha256: uploads.sha256 }).from(uploads).where(eq(uploads.id, id));
+      expect(row.sha256).toBe(createHash('sha256').update(bytes).digest('hex'));
+    }
+    const stored = await api.db.execute<{ how: string | null; lz4: boolean }>(sql`
+      select pg_column_compression(content) as how,
+             exists (select 1 from pg_settings where name = 'default_toast_compression' and 'lz4' = any(enumvals)) as lz4
+      from uploads where id = ${imported.body.id}`);
+    expect(stored.rows[0].how).toBe(stored.rows[0].lz4 ? 'lz4' : null);
   });
 
   it('answers 413 for a file over 20 MB and 403 for auditors', async () => {

@@ -31,17 +31,6 @@ export interface CatalogueCharacteristic extends Characteristic {
   hasResults: boolean;
 }
 
-/**
- * Keys under the shared catalogue key: a change here invalidates `catalogueKeys.all`, which refreshes
- * these lists and the ones the results, records and charts screens read from the same endpoints.
- */
-export const catalogueAdminKeys = {
-  all: [...catalogueKeys.all, 'admin'] as const,
-  lines: () => [...catalogueAdminKeys.all, 'lines'] as const,
-  products: () => [...catalogueAdminKeys.all, 'products'] as const,
-  characteristics: () => [...catalogueAdminKeys.all, 'characteristics'] as const,
-};
-
 const items = async <T>(path: string, signal?: AbortSignal) => (await http<{ items: T[] }>(path, { signal })).items;
 
 export const fetchLines = (signal?: AbortSignal) => items<CatalogueLine>('/api/v1/lines', signal);
@@ -56,10 +45,12 @@ export const createCharacteristic = (input: CreateCharacteristicInput) => http<C
 export const updateCharacteristic = (id: number, changes: UpdateCharacteristicInput) =>
   http<CatalogueCharacteristic>(`/api/v1/characteristics/${id}`, { method: 'PATCH', body: changes });
 
-export const catalogueLinesQueryOptions = () => queryOptions({ queryKey: catalogueAdminKeys.lines(), queryFn: ({ signal }) => fetchLines(signal) });
-export const catalogueProductsQueryOptions = () => queryOptions({ queryKey: catalogueAdminKeys.products(), queryFn: ({ signal }) => fetchProducts(signal) });
+// The same endpoints and keys as the results area's lists (every role gets the same fields), so one
+// request serves both screens; a change here invalidates `catalogueKeys.all`, refreshing every reader.
+export const catalogueLinesQueryOptions = () => queryOptions({ queryKey: catalogueKeys.lines(), queryFn: ({ signal }) => fetchLines(signal) });
+export const catalogueProductsQueryOptions = () => queryOptions({ queryKey: catalogueKeys.products(), queryFn: ({ signal }) => fetchProducts(signal) });
 export const catalogueCharacteristicsQueryOptions = () =>
-  queryOptions({ queryKey: catalogueAdminKeys.characteristics(), queryFn: ({ signal }) => fetchCharacteristics(signal) });
+  queryOptions({ queryKey: catalogueKeys.characteristics(), queryFn: ({ signal }) => fetchCharacteristics(signal) });
 
 export function useCatalogueLines() {
   return useQuery(catalogueLinesQueryOptions());
