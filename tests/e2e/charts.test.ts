@@ -107,6 +107,8 @@ describe('overview and control charts', () => {
   it('lets the quality manager exclude a point with a reason and freeze limits from a baseline', async ({ page }) => {
     await signIn(page, 'quality_manager', '/charts');
     await pageHeading(page, 'Control charts').waitFor();
+    // Lines by the names the overview uses, with their codes.
+    await page.getByRole('heading', { level: 2, name: 'Line 1 · levelling compounds L1' }).waitFor();
     await screenshot(page, 'charts-picker');
     await page.getByRole('link', { name: /^flow diameter X̄/ }).first().click();
     await pageHeading(page, 'HV Level 25 · flow diameter').waitFor();

@@ -1,6 +1,6 @@
 import { useState } from 'react';
 import { Link } from 'react-router';
-import { useCharacteristics, type Characteristic } from '../../results/api/catalogue';
+import { useCharacteristics, useLines, type Characteristic } from '../../results/api/catalogue';
 import { PageHeader } from '../../../components/ui/PageHeader';
 import { Input } from '../../../components/ui/Field';
 import { Loading } from '../../../components/ui/Spinner';
@@ -27,6 +27,8 @@ function groupByLineAndProduct(items: Listed[]) {
 /** Every characteristic with a control chart, by line and product, to pick one from. */
 export default function ChartsIndexPage() {
   const characteristics = useCharacteristics();
+  // Line names as the overview shows them ("Line 1 · levelling compounds"); the code alone until they load.
+  const lineNames = new Map((useLines().data ?? []).map((l) => [l.code, l.name]));
   const [filter, setFilter] = useState('');
 
   const header = (
@@ -64,7 +66,7 @@ export default function ChartsIndexPage() {
           {groups.map(([line, products]) => (
             <section key={line} aria-labelledby={`line-${line}`}>
               <h2 id={`line-${line}`} className="mb-2 text-lg font-semibold">
-                Line <span className="font-mono">{line}</span>
+                {lineNames.get(line) ?? 'Line'} <span className="font-mono text-base font-normal text-zinc-500">{line}</span>
               </h2>
               <div className="grid gap-4 lg:grid-cols-2">
                 {products.map(([product, items]) => (
