@@ -159,7 +159,7 @@ describe('products, lines and characteristics', () => {
     await page.getByText(`${characteristicCode} is deactivated: uploads refuse it and the SPC run leaves it out. Its results and charts stay.`).waitFor();
     expect(await row.getByRole('button', { name: `Reactivate ${characteristicCode}` }).isVisible()).toBe(true);
     expect((await listed(page, 'characteristics', characteristicCode))?.active).toBe(false);
-    const trail = await db.select().from(auditEvents).where(and(eq(auditEvents.entity, 'characteristic'), eq(auditEvents.entityId, String(stored!.id))));
+    const trail = await db.select().from(auditEvents).where(and(eq(auditEvents.entity, 'characteristic'), eq(auditEvents.entityId, String(stored!.id)))).orderBy(auditEvents.id);
     expect(trail.map((e) => e.action)).toEqual(['create', 'revise specification', 'deactivate']);
     await screenshot(page, 'catalogue-deactivated');
 

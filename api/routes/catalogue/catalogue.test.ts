@@ -20,7 +20,7 @@ let counter = 0;
 const newCode = (kind: string) => `${prefix}${kind}${++counter}`;
 
 async function auditOf(entity: string, id: number) {
-  return api.db.select().from(auditEvents).where(and(eq(auditEvents.entity, entity), eq(auditEvents.entityId, String(id))));
+  return api.db.select().from(auditEvents).where(and(eq(auditEvents.entity, entity), eq(auditEvents.entityId, String(id)))).orderBy(auditEvents.id);
 }
 
 async function newLine(): Promise<{ id: number; code: string }> {
