@@ -83,7 +83,10 @@ describe('one characteristic of a run', () => {
     const again = await run(t.characteristicId);
     expect(again.outcome).toMatchObject({ changed: false, raised: 0, resolved: 0 });
     expect(await alarmsOf(t.characteristicId)).toEqual(before);
-    expect(await outboxFor(before.map((a) => a.id))).toEqual(mails);
+    // The same messages, none added: the test server's mail sender may be delivering them meanwhile,
+    // so their delivery state (attempts, lock, sent time) is not compared.
+    const message = (m: (typeof mails)[number]) => ({ id: m.id, kind: m.kind, dedupeKey: m.dedupeKey, userId: m.userId, alarmIds: m.alarmIds, subject: m.subject });
+    expect((await outboxFor(before.map((a) => a.id))).map(message)).toEqual(mails.map(message));
     const [snapAfter] = await db.select().from(spcSnapshots).where(eq(spcSnapshots.characteristicId, t.characteristicId));
     expect(snapAfter).toEqual(snapBefore);
   });
