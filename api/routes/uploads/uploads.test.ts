@@ -108,6 +108,25 @@ describe('POST /api/v1/uploads', () => {
     expect(winter.body.producedAt).toBe('2026-01-15T08:00:00.000Z');
   });
 
+  it('keeps each value with its own characteristic and replicate when the rows of a lot interleave characteristics', async () => {
+    // The import writes a round's rows grouped by characteristic, not in file order.
+    const lot = newLot();
+    const at = '2026-11-07T06:30:00Z';
+    const rows = [
+      ['HVL25-FLOW', 146, 1],
+      ['HVL25-AIR', 3.1, 1],
+      ['HVL25-FLOW', 148, 2],
+      ['HVL25-DENS', 1952, 1],
+      ['HVL25-FLOW30', 139, 2],
+      ['HVL25-FLOW30', 138, 1],
+    ] as const;
+    const csv = `${header}\n${rows.map(([code, value, replicate]) => `${lot},HVL25,L1,${at},${code},${value},early,${replicate},,,`).join('\n')}\n`;
+    expect((await upload('technician', csv)).status).toBe(201);
+    const detail = await request(api.app).get(`/api/v1/lots/${lot}`).set(await as('auditor'));
+    const stored = detail.body.results.map((r: { characteristicCode: string; replicate: number; value: number }) => `${r.characteristicCode}#${r.replicate}=${r.value}`);
+    expect([...stored].sort()).toEqual(rows.map(([code, value, replicate]) => `${code}#${replicate}=${value}`).sort());
+  });
+
   it('reads the file with the delimiter and decimal mark chosen in the preview, over what it would detect', async () => {
     const lot = newLot();
     const csv = Buffer.from(`${header.replaceAll(',', ';')}\n${lot};HVL25;L1;2026-11-11T06:00:00Z;HVL25-AIR;3,2;;1;;;\n`);
