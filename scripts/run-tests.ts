@@ -5,7 +5,7 @@ import { existsSync, mkdirSync, readdirSync, readFileSync } from 'node:fs';
 import { createServer } from 'node:net';
 import { resolve } from 'node:path';
 import { dataRoot } from '../api/paths';
-import { buildServer, serverCommand } from './lib/server-build';
+import { buildServer, serverCommand, waitForServer } from './lib/server-build';
 import { destroyCluster, ensureDatabase, initCluster, startCluster, type Cluster } from './lib/cluster';
 import { buildWebIfStale } from './lib/web-build';
 
@@ -25,21 +25,6 @@ function freePort(): Promise<number> {
     });
     s.on('error', rej);
   });
-}
-
-async function waitForHealth(url: string, child: ChildProcess): Promise<void> {
-  const deadline = Date.now() + 120_000;
-  while (Date.now() < deadline) {
-    if (child.exitCode !== null) throw new Error(`The test server exited with code ${child.exitCode}`);
-    try {
-      const r = await fetch(`${url}/api/health`);
-      if (r.ok) return;
-    } catch {
-      // not listening yet
-    }
-    await new Promise((r) => setTimeout(r, 250));
-  }
-  throw new Error('The test server did not become healthy within 120 s');
 }
 
 let server: ChildProcess | undefined;
@@ -106,7 +91,7 @@ async function main(): Promise<number> {
     stdio: ['ignore', 'inherit', 'inherit'],
     detached: true,
   });
-  await waitForHealth(baseUrl, server);
+  await waitForServer(baseUrl, server);
 
   const vitest = spawnSync(
     'npx',

@@ -6,19 +6,10 @@ import { resolve } from 'node:path';
 import { loadConfig } from '../api/config';
 import { dataRoot } from '../api/paths';
 import { ensureDatabase, initCluster, isInitialised, startCluster, stopCluster, type Cluster } from './lib/cluster';
-import { buildServer, serverCommand } from './lib/server-build';
+import { buildServer, serverCommand, waitForServer } from './lib/server-build';
 import { buildWebIfStale } from './lib/web-build';
 
 const cluster: Cluster = { root: resolve(dataRoot, 'postgres'), port: Number(process.env.PRISMLINE_PG_PORT ?? 54329) };
-
-async function waitForHealth(url: string, exited: () => boolean): Promise<boolean> {
-  // The first start seeds six months of the demo plant and runs its first SPC run: give it time.
-  for (let i = 0; i < 1200 && !exited(); i++) {
-    if (await fetch(`${url}/api/health`).then((r) => r.ok, () => false)) return true;
-    await new Promise((r) => setTimeout(r, 250));
-  }
-  return false;
-}
 
 async function main() {
   if (!isInitialised(cluster)) {
@@ -65,8 +56,14 @@ async function main() {
   process.on('SIGINT', stop);
   process.on('SIGTERM', stop);
 
-  if (await waitForHealth(url, () => exited)) console.log(`\nPrismline: open ${url} (demo users are listed in README.md). Ctrl-C stops it.\n`);
-  else if (!exited) console.error(`\nPrismline did not answer on ${url}/api/health; its messages are above.`);
+  // The first start seeds six months of the demo plant and runs its first SPC run: give it time.
+  try {
+    await waitForServer(url, server, 300);
+    console.log(`\nPrismline: open ${url} (demo users are listed in README.md). Ctrl-C stops it.\n`);
+  } catch (err) {
+    // A server that stopped is reported by its exit handler.
+    if (!exited) console.error(`\n${(err as Error).message}; its messages are above.`);
+  }
 }
 
 main().catch((err) => {

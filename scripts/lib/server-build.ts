@@ -1,6 +1,7 @@
 // The API server as one JavaScript file: our TypeScript bundled by esbuild, packages left to
 // node_modules. Plain Node runs it, with no TypeScript loader in the server process (the loader's
 // own thread and compiler cost about 45 MB of memory and a slower start).
+import type { ChildProcess } from 'node:child_process';
 import { renameSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { build } from 'esbuild';
@@ -37,4 +38,15 @@ export async function buildServer(): Promise<string> {
 /** The command that runs the bundled server. */
 export function serverCommand(): { command: string; args: string[] } {
   return { command: process.execPath, args: [...serverNodeOptions, serverBundle] };
+}
+
+/** Waits until a started server answers /api/health; throws when it exits first or the time runs out. */
+export async function waitForServer(url: string, server: ChildProcess, seconds = 120): Promise<void> {
+  const deadline = Date.now() + seconds * 1000;
+  while (Date.now() < deadline) {
+    if (server.exitCode !== null || server.signalCode !== null) throw new Error(`The server at ${url} stopped (${server.signalCode ?? `exit code ${server.exitCode}`})`);
+    if (await fetch(`${url}/api/health`).then((r) => r.ok, () => false)) return;
+    await new Promise((r) => setTimeout(r, 250));
+  }
+  throw new Error(`The server at ${url} did not answer /api/health within ${seconds} s`);
 }

@@ -4,7 +4,7 @@
 // - a 10,000-point chart in Chromium: frame times while zooming, against the same chart of 500 points
 //   (the 60 Hz frame budget is given beside it: on a busy machine it says more about the machine);
 // - the app's initial JavaScript, gzipped, against its 350 kB budget.
-import { spawn, type ChildProcess } from 'node:child_process';
+import { spawn } from 'node:child_process';
 import { readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { createServer } from 'node:net';
 import { resolve } from 'node:path';
@@ -12,7 +12,7 @@ import { gzipSync } from 'node:zlib';
 import autocannon from 'autocannon';
 import { sql } from 'drizzle-orm';
 import { createDatabase, type Database } from '../../api/db/client';
-import { buildServer, serverCommand } from '../../scripts/lib/server-build';
+import { buildServer, serverCommand, waitForServer } from '../../scripts/lib/server-build';
 import { buildWebIfStale } from '../../scripts/lib/web-build';
 import { launchBrowser } from '../support/browser';
 
@@ -109,15 +109,6 @@ function load(url: string, headers: Record<string, string>): Promise<{ p95: numb
   });
 }
 
-async function waitHealthy(base: string, server: ChildProcess): Promise<void> {
-  for (let i = 0; i < 480; i++) {
-    if (server.exitCode !== null) throw new Error(`The bench server exited with code ${server.exitCode}`);
-    if (await fetch(`${base}/api/health`).then((r) => r.ok, () => false)) return;
-    await new Promise((r) => setTimeout(r, 250));
-  }
-  throw new Error('The bench server did not become healthy within 120 s');
-}
-
 /** The scripts the built index.html loads at once (entry and module preloads), gzipped. */
 function initialJsBytes(): { gzipped: number; files: string[] } {
   const html = readFileSync(resolve(dist, 'index.html'), 'utf8');
@@ -199,7 +190,7 @@ export async function run(): Promise<BenchRow[]> {
   const staticName = `bench-chart-${tag.toLowerCase()}.json`;
   const seeded: number[] = [];
   try {
-    await waitHealthy(base, server);
+    await waitForServer(base, server);
     const five = await seedCharacteristic(db, `${tag}A`, 5000);
     seeded.push(five);
     const ten = await seedCharacteristic(db, `${tag}B`, 10_000);

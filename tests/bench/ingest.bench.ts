@@ -9,7 +9,7 @@ import { createServer } from 'node:net';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import pg from 'pg';
-import { buildServer, serverCommand } from '../../scripts/lib/server-build';
+import { buildServer, serverCommand, waitForServer } from '../../scripts/lib/server-build';
 import { canonicalCsvHeader, generateDemoResults, toCanonicalCsv } from '../../api/db/seed/scenario';
 
 const root = resolve(import.meta.dirname, '..', '..');
@@ -71,10 +71,7 @@ export async function run() {
     const { command, args } = serverCommand();
     const child = spawn(command, args, { cwd: root, env: { ...env, PORT: String(port) }, stdio: ['ignore', 'inherit', 'inherit'] });
     const base = `http://127.0.0.1:${port}`;
-    for (let i = 0; i < 240; i++) {
-      if (await fetch(`${base}/api/health`).then((r) => r.ok, () => false)) break;
-      await new Promise((r) => setTimeout(r, 250));
-    }
+    await waitForServer(base, child);
     return { child, base };
   };
   // The first server seeds the demo plant and stops; the measured one starts on the seeded database, as a
