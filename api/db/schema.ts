@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm';
-import { boolean, check, customType, doublePrecision, index, integer, jsonb, pgEnum, pgTable, serial, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core';
+import { boolean, check, customType, doublePrecision, index, integer, jsonb, pgEnum, pgTable, primaryKey, serial, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core';
 import { roles } from '../../shared/schemas/users';
 
 export const roleEnum = pgEnum('role', roles);
@@ -158,14 +158,32 @@ export const uploads = pgTable(
     rowsRejected: integer('rows_rejected').notNull().default(0),
     /** Row-by-row validation errors of a rejected file. */
     errors: jsonb('errors'),
-    /** The file exactly as received, kept as evidence. */
-    content: bytea('content').notNull(),
+    /** Length of the file as received, in bytes; the file itself is in upload_file_parts. */
+    sizeBytes: integer('size_bytes').notNull(),
     voidedAt: timestamp('voided_at', { withTimezone: true }),
     voidedBy: integer('voided_by').references(() => users.id),
     voidReason: text('void_reason'),
   },
   // The same bytes may be imported once; a rejected file may come again after it was fixed elsewhere.
   (t) => [uniqueIndex('uploads_sha256_kept_key').on(t.sha256).where(sql`status <> 'rejected'`)],
+);
+
+/**
+ * The file of an upload exactly as received, kept as evidence, in parts of FILE_PART_BYTES in order.
+ * Parts go in by COPY a megabyte at a time: one 10 MB value as a query parameter cost PostgreSQL about
+ * five times as long (copies of the whole value at each step), holding back the upload's first rows.
+ */
+export const uploadFileParts = pgTable(
+  'upload_file_parts',
+  {
+    uploadId: integer('upload_id')
+      .notNull()
+      .references(() => uploads.id, { onDelete: 'cascade' }),
+    /** 0 for the first megabyte, then 1, 2, … */
+    part: integer('part').notNull(),
+    bytes: bytea('bytes').notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.uploadId, t.part] })],
 );
 
 export const measurements = pgTable(

@@ -43,4 +43,27 @@ describe('BinaryCopyWriter', () => {
     const back = await client.query<{ i: number | null; f: number | null; t: Date | null; s: string | null }>('select i, f, t, s from copied');
     expect(back.rows.map((r) => [r.i, r.f, r.t === null ? null : r.t.getTime(), r.s])).toEqual(rows);
   });
+
+  it('sends a large bytea beside the writer, part by part, and PostgreSQL keeps every byte (bytearead)', async () => {
+    await ready;
+    await client.query('create temp table parts (n int, part int, bytes bytea)');
+    // Every byte value, and a part boundary inside a multi-byte UTF-8 character.
+    const file = Buffer.concat([Buffer.from(Array.from({ length: 256 }, (_, i) => i)), Buffer.from('Prüfkörper · 40 × 40 × 160 mm\r\n'.repeat(40))]);
+    const partBytes = 301;
+    const w = new BinaryCopyWriter(16);
+    const stream = client.query(copyFrom('COPY parts FROM STDIN (FORMAT binary)'));
+    const done = once(stream, 'finish');
+    let parts = 0;
+    for (let at = 0; at < file.length; at += partBytes, parts++) {
+      const bytes = file.subarray(at, at + partBytes);
+      stream.write(w.row(3).int4(7).int4(parts).byteaLength(bytes.length).take());
+      stream.write(bytes);
+    }
+    stream.end(BinaryCopyWriter.trailer);
+    await done;
+    const back = await client.query<{ n: string; whole: Buffer }>(`select count(*) as n, string_agg(bytes, ''::bytea order by part) as whole from parts where n = 7`);
+    expect(Number(back.rows[0].n)).toBe(parts);
+    expect(parts).toBe(Math.ceil(file.length / partBytes));
+    expect(Buffer.compare(back.rows[0].whole, file)).toBe(0);
+  });
 });

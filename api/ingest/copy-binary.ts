@@ -102,6 +102,27 @@ export class BinaryCopyWriter {
     return this;
   }
 
+  /**
+   * The length word of a bytea field whose bytes the caller sends straight after this writer's output
+   * (see take()), so a large value goes to the server as it is instead of being copied in here.
+   */
+  byteaLength(bytes: number): this {
+    this.room(4);
+    this.view.setInt32(this.at, bytes);
+    this.at += 4;
+    return this;
+  }
+
+  /** What was written so far (the header first time), as a buffer of its own; the writer starts empty again. */
+  take(): Buffer {
+    const out = Buffer.from(this.buf.subarray(0, this.at));
+    this.at = 0;
+    return out;
+  }
+
+  /** The end of a COPY stream, to send after the last take(). */
+  static readonly trailer: Buffer = Buffer.from([0xff, 0xff]);
+
   /** The whole COPY stream: header, rows and the trailer. */
   finish(): Buffer {
     this.room(2);

@@ -48,6 +48,8 @@ const ROWS_PER_STORE = 10_000;
 const FIRST_ROUND_ROWS = 2_000;
 /** Rounds handed to the database but not yet stored before parsing waits for it. */
 const MAX_STORES_AHEAD = 2;
+/** Bytes of the kept file in one row of upload_file_parts; migration 0008 split the files kept before it alike. */
+export const FILE_PART_BYTES = 1 << 20;
 
 export interface ImportRequest {
   /** Original file name, or a label such as "manual entry". */
@@ -92,20 +94,23 @@ async function importOn(client: pg.PoolClient, reader: pg.PoolClient, req: Impor
   const tx = drizzle(client, { schema });
   await client.query('begin');
   await client.query('select pg_advisory_xact_lock($1)', [IMPORT_LOCK]);
+  // The upload's id is taken first, so rows can be encoded with it before its own row is stored.
+  let uploadId: number | null = null;
   if (sha256) {
     const earlier = await client.query<{ id: number; uploaded_at: Date }>(`select id, uploaded_at from uploads where sha256 = $1 and status <> 'rejected'`, [sha256]);
     if (earlier.rows[0]) {
       await client.query('rollback');
       return { kind: 'duplicate-file', uploadId: earlier.rows[0].id, uploadedAt: earlier.rows[0].uploaded_at };
     }
+    uploadId = (await client.query<{ id: number }>(`select nextval(pg_get_serial_sequence('uploads', 'id'))::int as id`)).rows[0].id;
   }
   const catalogue = await loadCatalogue(tx);
 
   // The file's bytes go in first, while the first piece is parsed; counts are set once all is stored.
-  const uploadRow = req.content ? insertUpload(client, req, sha256!, 'imported', 0, 0, null) : Promise.resolve(null);
-  uploadRow.catch(() => undefined);
+  const fileKept = uploadId !== null ? insertUpload(client, req, sha256!, uploadId, 'imported', 0, 0, null) : Promise.resolve();
+  fileKept.catch(() => undefined);
 
-  const store = new MeasurementStore(client, reader, catalogue, req, uploadRow);
+  const store = new MeasurementStore(client, reader, catalogue, req, uploadId);
   let rowsTotal: number;
   let readErrors: RowError[];
   if (req.rows) {
@@ -162,18 +167,18 @@ async function importOn(client: pg.PoolClient, reader: pg.PoolClient, req: Impor
 
   const errors = [...readErrors, ...store.errors].sort((a, b) => a.row - b.row);
   if (errors.length) {
-    await uploadRow.catch(() => undefined);
+    await fileKept.catch(() => undefined);
     await client.query('rollback');
-    let uploadId: number | null = null;
-    if (req.content) {
+    // The rejected file is kept under the id taken for it: the rollback did not give the id back.
+    if (uploadId !== null) {
       await client.query('begin');
-      uploadId = await insertUpload(client, req, sha256!, 'rejected', rowsTotal, 0, errors);
+      await insertUpload(client, req, sha256!, uploadId, 'rejected', rowsTotal, 0, errors);
       await client.query('commit');
     }
     return { kind: 'rejected', uploadId, rowsTotal, errors };
   }
 
-  const uploadId = await uploadRow;
+  await fileKept;
   if (uploadId !== null) await client.query('update uploads set rows_total = $2, rows_imported = $3 where id = $1', [uploadId, rowsTotal, store.rowsImported]);
   await recordAudit(tx, {
     actorId: req.actorId,
@@ -193,13 +198,30 @@ async function importOn(client: pg.PoolClient, reader: pg.PoolClient, req: Impor
   };
 }
 
-async function insertUpload(client: pg.PoolClient, req: ImportRequest, sha256: string, status: 'imported' | 'rejected', rowsTotal: number, rowsImported: number, errors: RowError[] | null): Promise<number> {
-  const res = await client.query<{ id: number }>(
-    `insert into uploads (file_name, sha256, uploaded_by, status, format, rows_total, rows_imported, rows_rejected, errors, content)
-     values ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10) returning id`,
-    [req.fileName, sha256, req.actorId, status, req.mapping?.format ?? 'long', rowsTotal, rowsImported, errors ? new Set(errors.map((e) => e.row)).size : 0, errors ? JSON.stringify(errors) : null, req.content!],
+/** Stores the upload's row and its file, both queued on the connection at once. */
+async function insertUpload(client: pg.PoolClient, req: ImportRequest, sha256: string, id: number, status: 'imported' | 'rejected', rowsTotal: number, rowsImported: number, errors: RowError[] | null): Promise<void> {
+  const content = req.content!;
+  const row = client.query(
+    `insert into uploads (id, file_name, sha256, uploaded_by, status, format, rows_total, rows_imported, rows_rejected, errors, size_bytes)
+     values ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11)`,
+    [id, req.fileName, sha256, req.actorId, status, req.mapping?.format ?? 'long', rowsTotal, rowsImported, errors ? new Set(errors.map((e) => e.row)).size : 0, errors ? JSON.stringify(errors) : null, content.length],
   );
-  return res.rows[0].id;
+  await Promise.all([row, keepFile(client, id, content)]);
+}
+
+/** The file in parts of FILE_PART_BYTES by binary COPY, each part sent as it is, never copied into one buffer. */
+async function keepFile(client: pg.PoolClient, uploadId: number, content: Buffer): Promise<void> {
+  if (content.length === 0) return;
+  const stream = client.query(copyFrom('COPY upload_file_parts (upload_id, part, bytes) FROM STDIN (FORMAT binary)'));
+  const done = once(stream, 'finish');
+  const w = new BinaryCopyWriter(64);
+  for (let part = 0, at = 0; at < content.length; part++, at += FILE_PART_BYTES) {
+    const bytes = content.subarray(at, at + FILE_PART_BYTES);
+    stream.write(w.row(3).int4(uploadId).int4(part).byteaLength(bytes.length).take());
+    stream.write(bytes);
+  }
+  stream.end(BinaryCopyWriter.trailer);
+  await done;
 }
 
 /** Ids handed out by a sequence in one statement: a gapless run, or the list itself. */
@@ -311,7 +333,7 @@ class MeasurementStore {
     private readonly reader: pg.PoolClient,
     private readonly cat: LoadedCatalogue,
     private readonly req: ImportRequest,
-    private readonly uploadRow: Promise<number | null>,
+    private readonly uploadId: number | null,
   ) {
     this.codes = new Map([...cat.characteristicIds].map(([code, id]) => [id, code]));
   }
@@ -426,15 +448,15 @@ class MeasurementStore {
       }
     }
     if (this.errors.length) this.failed = true;
-    return this.failed ? { rows: 0, lots: null, measurements: null } : await this.encode(round, measurementIds);
+    return this.failed ? { rows: 0, lots: null, measurements: null } : this.encode(round, measurementIds);
   }
 
   /**
    * The round as COPY data, made while the database still stores the round before, so the
    * transaction's connection never waits for Node to encode.
    */
-  private async encode(round: Round, ids: number[]): Promise<EncodedRound> {
-    const uploadId = await this.uploadRow;
+  private encode(round: Round, ids: number[]): EncodedRound {
+    const uploadId = this.uploadId;
     const added = round.newLots.filter((l) => !l.stored);
     let lots: Buffer | null = null;
     if (added.length) {

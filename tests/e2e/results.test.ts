@@ -251,7 +251,13 @@ describe('roles', () => {
     expect(await page.getByText('Choose a CSV file').count()).toBe(0);
     expect(await page.getByRole('button', { name: 'Void…' }).count()).toBe(0);
     // The demo history came in through the upload path like any file.
-    await page.getByRole('row', { name: /harrow-vale-history\.csv/ }).waitFor();
+    const historyRow = page.getByRole('row', { name: /harrow-vale-history\.csv/ });
+    await historyRow.waitFor();
+    // Its original file is offered with its size in decimal megabytes (IEC 80000-13), one decimal.
+    const listed = (await (await page.request.get(`${baseUrl()}/api/v1/uploads?limit=500`)).json()) as { items: { fileName: string; sizeBytes: number }[] };
+    const sizeBytes = listed.items.find((u) => u.fileName === 'harrow-vale-history.csv')!.sizeBytes;
+    expect(sizeBytes).toBeGreaterThan(1_000_000);
+    expect(await historyRow.getByRole('link', { name: /^Original file/ }).textContent()).toBe(`Original file (${Number((sizeBytes / 1e6).toFixed(1))} MB)`);
     await screenshot(page, 'results-history-auditor');
 
     await page.goto(`${baseUrl()}/results/upload`);

@@ -1,10 +1,12 @@
+import { createHash } from 'node:crypto';
 import { Router, type RequestHandler } from 'express';
 import multer from 'multer';
-import { and, desc, eq, sql } from 'drizzle-orm';
+import { and, asc, desc, eq, sql } from 'drizzle-orm';
 import { canonicalColumns, looksLikeFormula, type RowError } from '../../../shared/ingest';
 import type { Database } from '../../db/client';
-import { measurements, uploads, users } from '../../db/schema';
+import { measurements, uploadFileParts, uploads, users } from '../../db/schema';
 import { recordAudit } from '../../db/audit';
+import { logger } from '../../logger';
 import { badRequest, HttpError, notFound, parseBody } from '../../http/errors';
 import { requireRole, requireSession } from '../../auth/session';
 import { importResults, type ImportOutcome } from '../../ingest/import';
@@ -35,6 +37,7 @@ const uploadColumns = {
   id: uploads.id,
   fileName: uploads.fileName,
   sha256: uploads.sha256,
+  sizeBytes: uploads.sizeBytes,
   uploadedAt: uploads.uploadedAt,
   status: uploads.status,
   format: uploads.format,
@@ -113,9 +116,16 @@ export function uploadsRouter(db: Database, hooks: IngestHooks): Router {
 
   router.get('/:id/file', async (req, res) => {
     const { id } = parseBody(uploadIdParamsSchema, req.params);
-    const [row] = await db.select({ content: uploads.content, fileName: uploads.fileName }).from(uploads).where(eq(uploads.id, id));
+    const [row] = await db.select({ fileName: uploads.fileName, sha256: uploads.sha256, sizeBytes: uploads.sizeBytes }).from(uploads).where(eq(uploads.id, id));
     if (!row) throw notFound('Upload');
-    res.type('application/octet-stream').attachment(row.fileName).send(row.content);
+    const parts = await db.select({ bytes: uploadFileParts.bytes }).from(uploadFileParts).where(eq(uploadFileParts.uploadId, id)).orderBy(asc(uploadFileParts.part));
+    const file = Buffer.concat(parts.map((p) => p.bytes));
+    // Evidence is handed out only as it was received: the same length and the same fingerprint.
+    if (file.length !== row.sizeBytes || createHash('sha256').update(file).digest('hex') !== row.sha256) {
+      logger.error({ uploadId: id, storedBytes: file.length, recordedBytes: row.sizeBytes }, 'kept upload file does not match its fingerprint');
+      throw new HttpError(500, `The stored file of upload ${id} no longer matches the size and SHA-256 fingerprint recorded when it arrived; ask the administrator to restore it from a backup`);
+    }
+    res.type('application/octet-stream').attachment(row.fileName).send(file);
   });
 
   router.post('/:id/void', requireRole('quality_manager', 'admin'), async (req, res) => {

@@ -3,6 +3,7 @@ import request from 'supertest';
 import { afterAll, describe, expect, it } from 'vitest';
 import { and, eq, isNull, sql } from 'drizzle-orm';
 import { createTestApi } from '../../../tests/support/api';
+import { FILE_PART_BYTES } from '../../ingest/import';
 import { auditEvents, lots, measurements, uploads } from '../../db/schema';
 import type { Role } from '../../../shared/schemas/users';
 
@@ -279,10 +280,12 @@ describe('POST /api/v1/uploads', () => {
   });
 
   it('keeps the original bytes of an imported and of a rejected file and gives them back unchanged', async () => {
-    // A Windows export: UTF-8 byte order mark, CRLF line ends, a degree sign; long enough (> 2 kB) that
-    // PostgreSQL packs it (LZ4 where the server has it, migration 0007).
+    // A Windows export: UTF-8 byte order mark, CRLF line ends, a degree sign; over a megabyte, so it is kept
+    // in two parts of upload_file_parts (FILE_PART_BYTES), each packed by PostgreSQL (LZ4 where the server
+    // has it, migration 0008).
     const lot = newLot();
-    const rows = Array.from({ length: 40 }, (_, i) => `${lot}-${i},HVL25,L1,2026-11-05T06:30:00Z,HVL25-DENS,${1940 + i},early,1,,AT,Lab at 21 °C`);
+    const remark = 'Lab at 21 °C, mixer paddle checked, flow table wiped dry before each reading, tamping by hand as usual';
+    const rows = Array.from({ length: 9000 }, (_, i) => `${lot}-${i},HVL25,L1,2026-11-05T06:30:00Z,HVL25-DENS,${1940 + (i % 40)},early,1,,AT,"${remark}"`);
     const good = Buffer.concat([Buffer.from([0xef, 0xbb, 0xbf]), Buffer.from(`${header}\r\n${rows.join('\r\n')}\r\n`, 'utf8')]);
     const bad = Buffer.from(`${header}\r\n${rows[0].replace('1940', 'heavy')}\r\n`, 'utf8');
     const imported = await upload('technician', good, 'density-export.csv');
@@ -306,11 +309,28 @@ describe('POST /api/v1/uploads', () => {
       const [row] = await api.db.select({ sha256: uploads.sha256 }).from(uploads).where(eq(uploads.id, id));
       expect(row.sha256).toBe(createHash('sha256').update(bytes).digest('hex'));
     }
-    const stored = await api.db.execute<{ how: string | null; lz4: boolean }>(sql`
-      select pg_column_compression(content) as how,
+    expect(good.length).toBeGreaterThan(FILE_PART_BYTES);
+    const stored = await api.db.execute<{ part: number; size: number; how: string | null; lz4: boolean }>(sql`
+      select part, length(bytes) as size, pg_column_compression(bytes) as how,
              exists (select 1 from pg_settings where name = 'default_toast_compression' and 'lz4' = any(enumvals)) as lz4
-      from uploads where id = ${imported.body.id}`);
-    expect(stored.rows[0].how).toBe(stored.rows[0].lz4 ? 'lz4' : null);
+      from upload_file_parts where upload_id = ${imported.body.id} order by part`);
+    expect(stored.rows.map((r) => [r.part, r.size])).toEqual([
+      [0, FILE_PART_BYTES],
+      [1, good.length - FILE_PART_BYTES],
+    ]);
+    for (const r of stored.rows) expect(r.how).toBe(r.lz4 ? 'lz4' : null);
+    const listed = await request(api.app).get('/api/v1/uploads').set(await as('auditor'));
+    expect(listed.body.items.find((u: { id: number }) => u.id === imported.body.id).sizeBytes).toBe(good.length);
+  });
+
+  it('refuses to hand out a kept file whose bytes no longer match its fingerprint', async () => {
+    const csv = `${header}\n${newLot()},HVL25,L1,2026-11-05T06:30:00Z,HVL25-DENS,1950,early,1,,AT,\n`;
+    const imported = await upload('technician', csv, 'tampered.csv');
+    expect(imported.status).toBe(201);
+    await api.db.execute(sql`update upload_file_parts set bytes = overlay(bytes placing '\x39'::bytea from 60 for 1) where upload_id = ${imported.body.id}`);
+    const res = await request(api.app).get(`/api/v1/uploads/${imported.body.id}/file`).set(await as('auditor'));
+    expect(res.status).toBe(500);
+    expect(res.body.error).toMatch(/no longer matches .* SHA-256/);
   });
 
   it('answers 413 for a file over 20 MB and 403 for auditors', async () => {

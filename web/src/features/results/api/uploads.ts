@@ -10,6 +10,8 @@ export interface Upload {
   id: number;
   fileName: string;
   sha256: string;
+  /** Size of the file as received. */
+  sizeBytes: number;
   uploadedAt: string;
   status: UploadStatus;
   format: 'long' | 'wide';

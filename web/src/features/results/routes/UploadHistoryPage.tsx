@@ -17,7 +17,7 @@ import { Select } from '../../../components/ui/Field';
 import { Loading } from '../../../components/ui/Spinner';
 import { ErrorState } from '../../../components/ui/ErrorState';
 import { EmptyState } from '../../../components/ui/EmptyState';
-import { formatCount } from '../../../lib/format';
+import { formatBytes, formatCount } from '../../../lib/format';
 
 const column = createColumnHelper<Upload>();
 
@@ -89,7 +89,7 @@ export default function UploadHistoryPage() {
           const upload = info.row.original;
           return (
             <div className="flex flex-col items-start gap-1 text-sm whitespace-nowrap">
-              <DownloadLink href={uploadLinks.file(upload.id)}>Original file</DownloadLink>
+              <DownloadLink href={uploadLinks.file(upload.id)}>Original file ({formatBytes(upload.sizeBytes)})</DownloadLink>
               {upload.status === 'rejected' && <DownloadLink href={uploadLinks.errorReport(upload.id)}>Error report</DownloadLink>}
               {upload.status === 'imported' && canVoid && (
                 <Button variant="secondary" size="sm" onClick={() => setVoiding(upload)}>
