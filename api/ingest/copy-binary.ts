@@ -39,11 +39,16 @@ export class BinaryCopyWriter {
     return this;
   }
 
-  null(): this {
+  /** A field's length word; −1 marks a NULL (PostgreSQL manual, COPY, "Binary Format"). */
+  private lengthWord(bytes: number): this {
     this.room(4);
-    this.view.setInt32(this.at, -1);
+    this.view.setInt32(this.at, bytes);
     this.at += 4;
     return this;
+  }
+
+  null(): this {
+    return this.lengthWord(-1);
   }
 
   int4(value: number): this {
@@ -107,10 +112,7 @@ export class BinaryCopyWriter {
    * (see take()), so a large value goes to the server as it is instead of being copied in here.
    */
   byteaLength(bytes: number): this {
-    this.room(4);
-    this.view.setInt32(this.at, bytes);
-    this.at += 4;
-    return this;
+    return this.lengthWord(bytes);
   }
 
   /** What was written so far (the header first time), as a buffer of its own; the writer starts empty again. */
