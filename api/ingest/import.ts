@@ -66,9 +66,12 @@ export interface ImportRequest {
   decimalComma?: boolean;
 }
 
+/** A file's fingerprint as recorded on arrival: SHA-256 in hex. A second import of the same bytes is refused by it. */
+export const fileFingerprint = (bytes: Buffer): string => createHash('sha256').update(bytes).digest('hex');
+
 /** Validates everything, then stores every measurement in one transaction, or nothing. */
 export async function importResults(db: Database, req: ImportRequest): Promise<ImportOutcome> {
-  const sha256 = req.content ? createHash('sha256').update(req.content).digest('hex') : null;
+  const sha256 = req.content ? fileFingerprint(req.content) : null;
   const client = await db.$client.connect();
   // A file's lookups of stored lots go over a second connection while the first is busy with COPY;
   // taken before the import lock, so an import holding the lock never waits for a connection.

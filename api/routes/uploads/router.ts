@@ -1,4 +1,3 @@
-import { createHash } from 'node:crypto';
 import { Router, type RequestHandler } from 'express';
 import multer from 'multer';
 import { and, asc, desc, eq, sql } from 'drizzle-orm';
@@ -9,7 +8,7 @@ import { recordAudit } from '../../db/audit';
 import { logger } from '../../logger';
 import { badRequest, HttpError, notFound, parseBody } from '../../http/errors';
 import { requireRole, requireSession } from '../../auth/session';
-import { importResults, type ImportOutcome } from '../../ingest/import';
+import { fileFingerprint, importResults, type ImportOutcome } from '../../ingest/import';
 import type { IngestHooks } from '../../ingest/hooks';
 import { listUploadsQuerySchema, uploadFieldsSchema, uploadIdParamsSchema, voidUploadSchema } from './schema';
 
@@ -121,7 +120,7 @@ export function uploadsRouter(db: Database, hooks: IngestHooks): Router {
     const parts = await db.select({ bytes: uploadFileParts.bytes }).from(uploadFileParts).where(eq(uploadFileParts.uploadId, id)).orderBy(asc(uploadFileParts.part));
     const file = Buffer.concat(parts.map((p) => p.bytes));
     // Evidence is handed out only as it was received: the same length and the same fingerprint.
-    if (file.length !== row.sizeBytes || createHash('sha256').update(file).digest('hex') !== row.sha256) {
+    if (file.length !== row.sizeBytes || fileFingerprint(file) !== row.sha256) {
       logger.error({ uploadId: id, storedBytes: file.length, recordedBytes: row.sizeBytes }, 'kept upload file does not match its fingerprint');
       throw new HttpError(500, `The stored file of upload ${id} no longer matches the size and SHA-256 fingerprint recorded when it arrived; ask the administrator to restore it from a backup`);
     }
