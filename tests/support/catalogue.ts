@@ -9,8 +9,28 @@ export function testCodePrefix(letter: string): string {
   return `Z${letter}${Date.now().toString(36).toUpperCase()}`;
 }
 
+/**
+ * Whether a code (or a label that starts with one) belongs to the demo plant rather than to a catalogue
+ * test: test files run side by side, so a file that counts the plant's lines or products may see another
+ * file's records (codes from testCodePrefix, all starting with "Z") before that file removes them.
+ */
+export const isDemoCode = (code: string): boolean => !code.startsWith('Z');
+
 /** Deletes the lines, products and characteristics whose codes start with `prefix`, with what hangs on them. */
 export async function removeCatalogueRecords(db: Database, prefix: string): Promise<void> {
+  // An SPC job of another test may update the same run items meanwhile, locking them in another order:
+  // PostgreSQL then ends one side with a deadlock (SQLSTATE 40P01), and the removal is tried again.
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await removeOnce(db, prefix);
+    } catch (err) {
+      const { code, cause } = err as { code?: string; cause?: { code?: string } };
+      if ((code ?? cause?.code) !== '40P01' || attempt === 5) throw err;
+    }
+  }
+}
+
+async function removeOnce(db: Database, prefix: string): Promise<void> {
   const like = `${prefix.replace(/[%_\\]/g, '\\$&')}%`;
   await db.transaction(async (tx) => {
     await tx.execute(sql`create temporary table doomed_products on commit drop as select id from products where code like ${like}`);
