@@ -2,11 +2,10 @@
 // Ends with one line "N passed, N failed".
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { existsSync, mkdirSync, readdirSync, readFileSync } from 'node:fs';
-import { createServer } from 'node:net';
 import { resolve } from 'node:path';
 import { dataRoot } from '../api/paths';
 import { buildServer, serverCommand, waitForServer } from './lib/server-build';
-import { destroyCluster, ensureDatabase, initCluster, startCluster, type Cluster } from './lib/cluster';
+import { destroyCluster, ensureDatabase, freePort, initCluster, startCluster, type Cluster } from './lib/cluster';
 import { buildWebIfStale } from './lib/web-build';
 
 const root = resolve(import.meta.dirname, '..');
@@ -15,17 +14,6 @@ const testClusters = resolve(dataRoot, 'test-postgres');
 const cluster: Cluster = { root: resolve(testClusters, String(process.pid)), port: 0 };
 const resultsFile = resolve(cluster.root, 'test-results.json');
 const JWT_SECRET = 'test-secret-that-is-long-enough-for-hs256-signing';
-
-function freePort(): Promise<number> {
-  return new Promise((res, rej) => {
-    const s = createServer();
-    s.listen(0, '127.0.0.1', () => {
-      const port = (s.address() as { port: number }).port;
-      s.close(() => res(port));
-    });
-    s.on('error', rej);
-  });
-}
 
 let server: ChildProcess | undefined;
 function cleanUp() {

@@ -2,6 +2,7 @@
 // root, so as root every server command runs as the `postgres` OS user.
 import { execFileSync, spawnSync } from 'node:child_process';
 import { chownSync, existsSync, mkdirSync, readdirSync, rmSync } from 'node:fs';
+import { createServer } from 'node:net';
 import { join } from 'node:path';
 import pg from 'pg';
 
@@ -30,6 +31,18 @@ function run(name: string, args: string[], opts: { allowFail?: boolean } = {}): 
   const output = `${r.stdout ?? ''}${r.stderr ?? ''}`;
   if (r.status !== 0 && !opts.allowFail) throw new Error(`${name} ${args.join(' ')} failed:\n${output}`);
   return { ok: r.status === 0, output };
+}
+
+/** A TCP port free on loopback now, for a server about to start. */
+export function freePort(): Promise<number> {
+  return new Promise((res, rej) => {
+    const s = createServer();
+    s.listen(0, '127.0.0.1', () => {
+      const port = (s.address() as { port: number }).port;
+      s.close(() => res(port));
+    });
+    s.on('error', rej);
+  });
 }
 
 export function isInitialised(c: Cluster): boolean {

@@ -6,7 +6,7 @@
 // - the app's initial JavaScript, gzipped, against its 350 kB budget.
 import { spawn } from 'node:child_process';
 import { readFileSync, rmSync, writeFileSync } from 'node:fs';
-import { createServer } from 'node:net';
+import { freePort } from '../../scripts/lib/cluster';
 import { resolve } from 'node:path';
 import { gzipSync } from 'node:zlib';
 import autocannon from 'autocannon';
@@ -30,15 +30,6 @@ const SECONDS = 8;
 const ROUNDS = 3;
 const FRAME_MS = 1000 / 60;
 const INITIAL_JS_BUDGET = 350 * 1024;
-
-function freePort(): Promise<number> {
-  return new Promise((res) => {
-    const s = createServer().listen(0, '127.0.0.1', () => {
-      const port = (s.address() as { port: number }).port;
-      s.close(() => res(port));
-    });
-  });
-}
 
 const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
 function percentile(xs: number[], p: number): number {

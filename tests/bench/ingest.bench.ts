@@ -5,7 +5,7 @@
 import { spawn, spawnSync } from 'node:child_process';
 import { once } from 'node:events';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
-import { createServer } from 'node:net';
+import { freePort } from '../../scripts/lib/cluster';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import pg from 'pg';
@@ -15,15 +15,6 @@ import { canonicalCsvHeader, generateDemoResults, toCanonicalCsv } from '../../a
 const root = resolve(import.meta.dirname, '..', '..');
 const ROWS = 100_000;
 const ROUNDS = 5;
-
-function freePort(): Promise<number> {
-  return new Promise((res) => {
-    const s = createServer().listen(0, '127.0.0.1', () => {
-      const port = (s.address() as { port: number }).port;
-      s.close(() => res(port));
-    });
-  });
-}
 
 /**
  * A file shaped like the plant's own: the demo scenario's products, characteristics, replicates and

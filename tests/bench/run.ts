@@ -5,8 +5,7 @@ import { readdirSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { dataRoot } from '../../api/paths';
-import { destroyCluster, ensureDatabase, initCluster, startCluster, type Cluster } from '../../scripts/lib/cluster';
-import { freePort } from '../../api/spc/testing/cluster';
+import { destroyCluster, ensureDatabase, freePort, initCluster, startCluster, type Cluster } from '../../scripts/lib/cluster';
 
 interface BenchRow {
   name: string;

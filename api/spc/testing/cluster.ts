@@ -1,23 +1,11 @@
 // A private throw-away PostgreSQL cluster for tests that stop the database or start their own
 // workers (so that the test server's workers cannot take their jobs), and for the benchmark.
 import { existsSync, mkdirSync, readdirSync } from 'node:fs';
-import { createServer } from 'node:net';
 import { resolve } from 'node:path';
 import { dataRoot } from '../../paths';
-import { destroyCluster, ensureDatabase, initCluster, startCluster, stopCluster, type Cluster } from '../../../scripts/lib/cluster';
+import { destroyCluster, ensureDatabase, freePort, initCluster, startCluster, stopCluster, type Cluster } from '../../../scripts/lib/cluster';
 import { createDatabase, type Database } from '../../db/client';
 import { migrateDatabase } from '../../db/migrate';
-
-export function freePort(): Promise<number> {
-  return new Promise((res, rej) => {
-    const s = createServer();
-    s.listen(0, '127.0.0.1', () => {
-      const port = (s.address() as { port: number }).port;
-      s.close(() => res(port));
-    });
-    s.on('error', rej);
-  });
-}
 
 export interface PrivateCluster {
   cluster: Cluster;
