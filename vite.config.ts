@@ -7,6 +7,8 @@ import tailwindcss from '@tailwindcss/vite';
 export default defineConfig({
   root: 'web',
   plugins: [react(), tailwindcss()],
+  // The path aliases (@shared/…, @web/…) are declared once, in tsconfig.json.
+  resolve: { tsconfigPaths: true },
   build: {
     outDir: 'dist',
     emptyOutDir: true,

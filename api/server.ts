@@ -5,7 +5,7 @@ import { migrateDatabase } from './db/migrate';
 import { seedDemo } from './db/seed';
 import { createApp } from './app';
 import { logger } from './logger';
-import { startBackground } from '../jobs/background';
+import { startBackground } from '@jobs/background';
 
 export interface RunningServer {
   server: Server;

@@ -1,15 +1,15 @@
 // What the server process runs beside the HTTP API: the queue and its workers, the nightly
 // schedules, the outbox sender and — without SMTP_URL — the local fake SMTP server.
 import { sql } from 'drizzle-orm';
-import type { Database } from '../api/db/client';
-import type { IngestHooks } from '../api/ingest/hooks';
-import { logger } from '../api/logger';
-import { startFakeSmtp, type FakeSmtp } from '../api/mail/fake-smtp';
-import { createTransport, startMailSender, type MailSender } from '../api/mail/outbox';
-import { mailSettings } from '../api/mail/settings';
-import { createSpcIngestHooks } from '../api/spc/hooks';
-import { fixedQueue, startBoss, workerName, type SpcQueue } from '../api/spc/queue';
-import { startRun } from '../api/spc/runs';
+import type { Database } from '@api/db/client';
+import type { IngestHooks } from '@api/ingest/hooks';
+import { logger } from '@api/logger';
+import { startFakeSmtp, type FakeSmtp } from '@api/mail/fake-smtp';
+import { createTransport, startMailSender, type MailSender } from '@api/mail/outbox';
+import { mailSettings } from '@api/mail/settings';
+import { createSpcIngestHooks } from '@api/spc/hooks';
+import { fixedQueue, startBoss, workerName, type SpcQueue } from '@api/spc/queue';
+import { startRun } from '@api/spc/runs';
 import { startScheduler, type Scheduler } from './scheduler';
 import { startSpcWorkers, workerSettings, type SpcWorkers } from './spc-worker';
 

@@ -3,12 +3,12 @@
 // and the digest's dedupe keys make the second one a no-op.
 import cron, { type ScheduledTask } from 'node-cron';
 import { asc } from 'drizzle-orm';
-import type { Database } from '../api/db/client';
-import { plants } from '../api/db/schema';
-import { logger } from '../api/logger';
-import { localDate, queueDigests } from '../api/mail/notify';
-import type { SpcQueue } from '../api/spc/queue';
-import { startRun } from '../api/spc/runs';
+import type { Database } from '@api/db/client';
+import { plants } from '@api/db/schema';
+import { logger } from '@api/logger';
+import { localDate, queueDigests } from '@api/mail/notify';
+import type { SpcQueue } from '@api/spc/queue';
+import { startRun } from '@api/spc/runs';
 
 export interface PlantSchedule {
   id: number;

@@ -2,12 +2,12 @@
 // failing characteristic never holds others back, and asks for the next one at once when it is
 // done (pg-boss's own work() pauses a polling interval after every batch).
 import type PgBoss from 'pg-boss';
-import type { Database } from '../api/db/client';
-import { logger } from '../api/logger';
-import { CHARACTERISTIC_QUEUE } from '../api/spc/queue';
-import { recordFailedAttempt, runCharacteristic } from '../api/spc/run';
-import type { CharacteristicJob } from '../api/spc/runs';
-import { sweepRuns } from '../api/spc/runs';
+import type { Database } from '@api/db/client';
+import { logger } from '@api/logger';
+import { CHARACTERISTIC_QUEUE } from '@api/spc/queue';
+import { recordFailedAttempt, runCharacteristic } from '@api/spc/run';
+import type { CharacteristicJob } from '@api/spc/runs';
+import { sweepRuns } from '@api/spc/runs';
 
 export interface SpcWorkerOptions {
   concurrency: number;

@@ -11,12 +11,12 @@
 //   PGBOSS_MAINTENANCE_SECONDS    how often expired jobs are looked for (30)
 //   SMTP_URL, MAIL_FROM, MAIL_POLL_MS, PUBLIC_URL      e-mail (api/mail/settings.ts)
 //   SPC_TEST_PAUSE_MS             reliability tests only: a pause inside each job's transaction
-import { createDatabase } from '../api/db/client';
-import { migrateDatabase } from '../api/db/migrate';
-import { logger } from '../api/logger';
-import { mailSettings } from '../api/mail/settings';
-import { createTransport, startMailSender, type MailSender } from '../api/mail/outbox';
-import { startBoss, workerName } from '../api/spc/queue';
+import { createDatabase } from '@api/db/client';
+import { migrateDatabase } from '@api/db/migrate';
+import { logger } from '@api/logger';
+import { mailSettings } from '@api/mail/settings';
+import { createTransport, startMailSender, type MailSender } from '@api/mail/outbox';
+import { startBoss, workerName } from '@api/spc/queue';
 import { startSpcWorkers, workerSettings } from './spc-worker';
 
 async function main() {

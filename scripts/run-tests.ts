@@ -3,7 +3,7 @@
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { existsSync, mkdirSync, readdirSync, readFileSync } from 'node:fs';
 import { resolve } from 'node:path';
-import { dataRoot } from '../api/paths';
+import { dataRoot } from '@api/paths';
 import { buildServer, serverCommand, waitForServer } from './lib/server-build';
 import { destroyCluster, ensureDatabase, freePort, initCluster, startCluster, type Cluster } from './lib/cluster';
 import { buildWebIfStale } from './lib/web-build';

@@ -5,7 +5,7 @@
 // limit) capability. Limits use the whole file as the baseline. Bad input: a message on stderr, exit 2.
 import { readFileSync } from 'node:fs';
 import Papa from 'papaparse';
-import { computeCapability, computeChart, pointAt, SpcInputError, type CapabilityResult, type ChartResult, type ChartType } from '../shared/spc';
+import { computeCapability, computeChart, pointAt, SpcInputError, type CapabilityResult, type ChartResult, type ChartType } from '@shared/spc';
 
 class UsageError extends Error {}
 

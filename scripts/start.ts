@@ -3,8 +3,8 @@
 // keeps the database running while it does and stops both on Ctrl-C.
 import { spawn } from 'node:child_process';
 import { resolve } from 'node:path';
-import { loadConfig } from '../api/config';
-import { dataRoot } from '../api/paths';
+import { loadConfig } from '@api/config';
+import { dataRoot } from '@api/paths';
 import { ensureDatabase, initCluster, isInitialised, startCluster, stopCluster, type Cluster } from './lib/cluster';
 import { buildServer, serverCommand, waitForServer } from './lib/server-build';
 import { buildWebIfStale } from './lib/web-build';

@@ -3,7 +3,7 @@ import jwt from 'jsonwebtoken';
 import passport from 'passport';
 import { ExtractJwt, Strategy as JwtStrategy } from 'passport-jwt';
 import { eq } from 'drizzle-orm';
-import type { Role } from '../../shared/schemas/users';
+import type { Role } from '@shared/schemas/users';
 import type { Database } from '../db/client';
 import { users } from '../db/schema';
 import { HttpError } from '../http/errors';

@@ -6,7 +6,7 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import pg from 'pg';
 import { afterAll, describe, expect, it } from 'vitest';
-import { databaseUrl } from '../../tests/support/api';
+import { databaseUrl } from '@tests/support/api';
 import { migrationsFolder } from '../paths';
 import { FILE_PART_BYTES } from '../ingest/import';
 

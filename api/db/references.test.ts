@@ -4,7 +4,7 @@
 // and the same SQLSTATE 23503 (foreign_key_violation, PostgreSQL Appendix A) is raised.
 import pg from 'pg';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { databaseUrl } from '../../tests/support/api';
+import { databaseUrl } from '@tests/support/api';
 
 const pool = new pg.Pool({ connectionString: databaseUrl(), max: 3 });
 afterAll(() => pool.end());

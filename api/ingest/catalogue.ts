@@ -1,5 +1,5 @@
 import { eq, max, min } from 'drizzle-orm';
-import type { IngestCatalogue } from '../../shared/ingest';
+import type { IngestCatalogue } from '@shared/ingest';
 import type { Database } from '../db/client';
 import { characteristics, plants, productionLines, products, specLimits, testMethods } from '../db/schema';
 

@@ -4,7 +4,7 @@ import { once } from 'node:events';
 import pg from 'pg';
 import { from as copyFrom } from 'pg-copy-streams';
 import { afterAll, describe, expect, it } from 'vitest';
-import { databaseUrl } from '../../tests/support/api';
+import { databaseUrl } from '@tests/support/api';
 import { BinaryCopyWriter } from './copy-binary';
 
 const client = new pg.Client({ connectionString: databaseUrl() });

@@ -12,7 +12,7 @@ import { once } from 'node:events';
 import { drizzle } from 'drizzle-orm/node-postgres';
 import type pg from 'pg';
 import { from as copyFrom } from 'pg-copy-streams';
-import { decodeText, readResults, validateRows, type CanonicalRow, type ColumnMapping, type CsvDialect, type RowError, type ValidMeasurement } from '../../shared/ingest';
+import { decodeText, readResults, validateRows, type CanonicalRow, type ColumnMapping, type CsvDialect, type RowError, type ValidMeasurement } from '@shared/ingest';
 import type { Database } from '../db/client';
 import * as schema from '../db/schema';
 import { recordAudit } from '../db/audit';

@@ -3,7 +3,7 @@ import { and, eq, sql } from 'drizzle-orm';
 import { mean, sampleStandardDeviation } from 'simple-statistics';
 import { createDatabase } from '../db/client';
 import { auditEvents, lots, measurements, plants, processEvents, productionLines } from '../db/schema';
-import { databaseUrl } from '../../tests/support/api';
+import { databaseUrl } from '@tests/support/api';
 import { computeCharacteristicChart, excludePoint, freezeLimits, includePoint, limitRevisions } from './characteristic-chart';
 import { createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from './testing/plant';
 

@@ -17,13 +17,13 @@
 //   window's own sigma within (even in phase II, so that it describes the period, not the baseline).
 import { createHash } from 'node:crypto';
 import { and, desc, eq, isNull, sql } from 'drizzle-orm';
-import { computeCapability, computeChart, pointAt, ruleDescriptions, type CapabilityResult, type ChartResult, type ChartType, type RuleId } from '../../shared/spc';
+import { computeCapability, computeChart, pointAt, ruleDescriptions, type CapabilityResult, type ChartResult, type ChartType, type RuleId } from '@shared/spc';
 import { recordAudit } from '../db/audit';
 import type { Database } from '../db/client';
 import { controlLimitRevisions, lots, measurements, pointExclusions, users } from '../db/schema';
 import { HttpError, notFound } from '../http/errors';
 import type { Executor } from './db';
-import type { CharacteristicChart, ChartPointRecord } from '../../shared/schemas/charts';
+import type { CharacteristicChart, ChartPointRecord } from '@shared/schemas/charts';
 
 /** Fewer subgroups than this give preliminary trial limits (common practice: 20 to 25 subgroups). */
 export const PHASE_ONE_MIN_POINTS = 20;

@@ -5,7 +5,7 @@ import { createApp } from '../app';
 import { createDatabase } from '../db/client';
 import { alarms, spcRuns } from '../db/schema';
 import { DEMO_PASSWORD } from '../db/seed';
-import { databaseUrl, demoEmail, TEST_JWT_SECRET } from '../../tests/support/api';
+import { databaseUrl, demoEmail, TEST_JWT_SECRET } from '@tests/support/api';
 import { createSpcIngestHooks } from './hooks';
 import { createTestCharacteristic, removeTestCharacteristics } from './testing/plant';
 

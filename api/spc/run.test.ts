@@ -2,7 +2,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { and, eq, sql } from 'drizzle-orm';
 import { createDatabase } from '../db/client';
 import { alarmSubscriptions, alarms, lots, mailOutbox, measurements, spcRunItems, spcRuns, spcSnapshots } from '../db/schema';
-import { databaseUrl } from '../../tests/support/api';
+import { databaseUrl } from '@tests/support/api';
 import { computeCharacteristicChart } from './characteristic-chart';
 import { runCharacteristic } from './run';
 import { createRunRow, createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from './testing/plant';

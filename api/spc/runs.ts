@@ -6,9 +6,9 @@ import type pg from 'pg';
 import type { Database } from '../db/client';
 import { CHARACTERISTIC_QUEUE, jobSettings, type JobSettings, type SpcQueue } from './queue';
 import type { Executor } from './db';
-import type { RunStatus, RunSummary, RunTrigger } from '../../shared/schemas/runs';
+import type { RunStatus, RunSummary, RunTrigger } from '@shared/schemas/runs';
 
-export type { RunStatus, RunSummary, RunTrigger } from '../../shared/schemas/runs';
+export type { RunStatus, RunSummary, RunTrigger } from '@shared/schemas/runs';
 
 export interface StartRunRequest {
   trigger: RunTrigger;

@@ -5,7 +5,7 @@ import type { ChildProcess } from 'node:child_process';
 import { renameSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { build } from 'esbuild';
-import { dataRoot } from '../../api/paths';
+import { dataRoot } from '@api/paths';
 
 const root = resolve(import.meta.dirname, '..', '..');
 export const serverBundle = join(dataRoot, 'build', 'server.mjs');

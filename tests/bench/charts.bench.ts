@@ -6,14 +6,14 @@
 // - the app's initial JavaScript, gzipped, against its 350 kB budget.
 import { spawn } from 'node:child_process';
 import { readFileSync, rmSync, writeFileSync } from 'node:fs';
-import { freePort } from '../../scripts/lib/cluster';
+import { freePort } from '@scripts/lib/cluster';
 import { resolve } from 'node:path';
 import { gzipSync } from 'node:zlib';
 import autocannon from 'autocannon';
 import { sql } from 'drizzle-orm';
-import { createDatabase, type Database } from '../../api/db/client';
-import { buildServer, serverCommand, waitForServer } from '../../scripts/lib/server-build';
-import { buildWebIfStale } from '../../scripts/lib/web-build';
+import { createDatabase, type Database } from '@api/db/client';
+import { buildServer, serverCommand, waitForServer } from '@scripts/lib/server-build';
+import { buildWebIfStale } from '@scripts/lib/web-build';
 import { launchBrowser } from '../support/browser';
 
 interface BenchRow {

@@ -5,12 +5,12 @@
 import { spawn, spawnSync } from 'node:child_process';
 import { once } from 'node:events';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
-import { freePort } from '../../scripts/lib/cluster';
+import { freePort } from '@scripts/lib/cluster';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import pg from 'pg';
-import { buildServer, serverCommand, waitForServer } from '../../scripts/lib/server-build';
-import { canonicalCsvHeader, generateDemoResults, toCanonicalCsv } from '../../api/db/seed/scenario';
+import { buildServer, serverCommand, waitForServer } from '@scripts/lib/server-build';
+import { canonicalCsvHeader, generateDemoResults, toCanonicalCsv } from '@api/db/seed/scenario';
 
 const root = resolve(import.meta.dirname, '..', '..');
 const ROWS = 100_000;

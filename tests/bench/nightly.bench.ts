@@ -6,12 +6,12 @@
 // - incremental run after one new lot (its 10 characteristics): upload through the ingest path,
 //   out-of-spec check and run, until the run has finished; target under 2 s.
 import { sql } from 'drizzle-orm';
-import { importResults } from '../../api/ingest/import';
-import { createSpcIngestHooks } from '../../api/spc/hooks';
-import { startPrivateCluster } from '../../api/spc/testing/cluster';
-import { seedScaledPlant } from '../../api/spc/testing/scaled-plant';
-import { fixedQueue, startBoss } from '../../api/spc/queue';
-import { getRun, startRun } from '../../api/spc/runs';
+import { importResults } from '@api/ingest/import';
+import { createSpcIngestHooks } from '@api/spc/hooks';
+import { startPrivateCluster } from '@api/spc/testing/cluster';
+import { seedScaledPlant } from '@api/spc/testing/scaled-plant';
+import { fixedQueue, startBoss } from '@api/spc/queue';
+import { getRun, startRun } from '@api/spc/runs';
 import { spawnWorker, stopWorkers, type WorkerProcess } from '../reliability/support';
 
 interface BenchRow {

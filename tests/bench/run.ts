@@ -4,8 +4,8 @@
 import { readdirSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
-import { dataRoot } from '../../api/paths';
-import { destroyCluster, ensureDatabase, freePort, initCluster, startCluster, type Cluster } from '../../scripts/lib/cluster';
+import { dataRoot } from '@api/paths';
+import { destroyCluster, ensureDatabase, freePort, initCluster, startCluster, type Cluster } from '@scripts/lib/cluster';
 
 interface BenchRow {
   name: string;

@@ -1,6 +1,6 @@
 // Speed of the SPC engine, each figure a ratio to a baseline measured in the same process on the same
 // data, so that the machine's own speed cancels out. Not a test: `npm run bench` prints the table.
-import { andersonDarling, computeCapability, computeChart, type ChartResult } from '../../shared/spc';
+import { andersonDarling, computeCapability, computeChart, type ChartResult } from '@shared/spc';
 
 interface BenchRow {
   name: string;

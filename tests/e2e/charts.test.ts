@@ -5,9 +5,9 @@ import { resolve } from 'node:path';
 import { describe, expect } from 'vitest';
 import type { APIRequestContext, Locator, Page } from 'playwright-core';
 import { baseUrl, browserTest, pageHeading, plantInput, screenshot, signIn } from '../support/browser';
-import { ruleDescriptions } from '../../shared/spc';
-import type { CharacteristicChart } from '../../shared/schemas/charts';
-import type { Overview } from '../../shared/schemas/overview';
+import { ruleDescriptions } from '@shared/spc';
+import type { CharacteristicChart } from '@shared/schemas/charts';
+import type { Overview } from '@shared/schemas/overview';
 
 const it = browserTest({ viewport: { width: 1600, height: 1000 }, timeout: 15_000 });
 

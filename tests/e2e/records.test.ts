@@ -7,8 +7,8 @@ import type { Page } from 'playwright-core';
 import { baseUrl, browserTest, pageHeading, screenshot, signIn } from '../support/browser';
 import { databaseUrl } from '../support/api';
 import { isDemoCode } from '../support/catalogue';
-import { createDatabase, type Database } from '../../api/db/client';
-import { auditEvents } from '../../api/db/schema';
+import { createDatabase, type Database } from '@api/db/client';
+import { auditEvents } from '@api/db/schema';
 
 const it = browserTest();
 let db: Database;

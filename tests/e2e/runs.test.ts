@@ -5,10 +5,10 @@ import type { Page } from 'playwright-core';
 import { sql } from 'drizzle-orm';
 import { baseUrl, browserTest, pageHeading, screenshot, signIn } from '../support/browser';
 import { databaseUrl, demoEmail } from '../support/api';
-import { DEMO_PASSWORD } from '../../api/db/seed';
-import { createDatabase } from '../../api/db/client';
-import { createTestCharacteristic, removeTestCharacteristics, userIdByEmail, type TestCharacteristic } from '../../api/spc/testing/plant';
-import type { Role } from '../../shared/schemas/users';
+import { DEMO_PASSWORD } from '@api/db/seed';
+import { createDatabase } from '@api/db/client';
+import { createTestCharacteristic, removeTestCharacteristics, userIdByEmail, type TestCharacteristic } from '@api/spc/testing/plant';
+import type { Role } from '@shared/schemas/users';
 
 const db = createDatabase(databaseUrl(), 2);
 const it = browserTest({ timeout: 15_000 });

@@ -5,10 +5,10 @@ import { spawn, type ChildProcess } from 'node:child_process';
 import { resolve } from 'node:path';
 import { sql } from 'drizzle-orm';
 import type PgBoss from 'pg-boss';
-import type { Database } from '../../api/db/client';
-import { computeCharacteristicChart } from '../../api/spc/characteristic-chart';
-import { fixedQueue, startBoss, type SpcQueue } from '../../api/spc/queue';
-import { getRun, startRun, type RunDetail } from '../../api/spc/runs';
+import type { Database } from '@api/db/client';
+import { computeCharacteristicChart } from '@api/spc/characteristic-chart';
+import { fixedQueue, startBoss, type SpcQueue } from '@api/spc/queue';
+import { getRun, startRun, type RunDetail } from '@api/spc/runs';
 
 const root = resolve(import.meta.dirname, '..', '..');
 

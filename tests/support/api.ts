@@ -1,10 +1,10 @@
 // In-process API for integration tests, against the real test database started by scripts/run-tests.ts.
 import type { Express } from 'express';
 import request from 'supertest';
-import { createApp } from '../../api/app';
-import { createDatabase, type Database } from '../../api/db/client';
-import { DEMO_PASSWORD } from '../../api/db/seed';
-import type { Role } from '../../shared/schemas/users';
+import { createApp } from '@api/app';
+import { createDatabase, type Database } from '@api/db/client';
+import { DEMO_PASSWORD } from '@api/db/seed';
+import type { Role } from '@shared/schemas/users';
 
 export const demoEmail: Record<Role, string> = {
   admin: 'admin@harrowvale.example',

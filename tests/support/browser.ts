@@ -5,8 +5,8 @@ import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
 import { test } from 'vitest';
-import { DEMO_PASSWORD, demoUsers } from '../../api/db/seed';
-import type { Role } from '../../shared/schemas/users';
+import { DEMO_PASSWORD, demoUsers } from '@api/db/seed';
+import type { Role } from '@shared/schemas/users';
 
 const CHROMIUM = '/usr/bin/chromium';
 const artifacts = resolve(import.meta.dirname, '..', '..', 'test-artifacts');

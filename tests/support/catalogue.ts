@@ -2,7 +2,7 @@
 // would. The product never deletes them; the tests do, so that the files after them see the demo
 // plant alone (their catalogue and overview checks count it). Audit rows and uploads stay.
 import { sql } from 'drizzle-orm';
-import type { Database } from '../../api/db/client';
+import type { Database } from '@api/db/client';
 
 /** A code prefix unique to one test run, e.g. "ZK3F9Q": upper case, as codes are stored. */
 export function testCodePrefix(letter: string): string {

@@ -3,11 +3,11 @@
 // demo database cannot move the counts.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
-import { ensureDatabase, type Cluster } from '../../../scripts/lib/cluster';
+import { ensureDatabase, type Cluster } from '@scripts/lib/cluster';
 import { createDatabase, type Database } from '../client';
 import { migrateDatabase } from '../migrate';
-import { computeCharacteristicChart, limitRevisions } from '../../spc/characteristic-chart';
-import { DATA_CHANGED_NOTE } from '../../spc/alarms';
+import { computeCharacteristicChart, limitRevisions } from '@api/spc/characteristic-chart';
+import { DATA_CHANGED_NOTE } from '@api/spc/alarms';
 import { causeOf, causeNotes, HELD_LOT_DAYS, OPEN_DAYS } from './decisions';
 import { demoEndDate, seedDemo } from './index';
 import { plantedCausesFor, type PlantedCause } from './scenario';

@@ -7,10 +7,10 @@
 // out of specification that still waits for its disposition.
 import { sql } from 'drizzle-orm';
 import type { Database } from '../client';
-import { OUT_OF_SPEC, triageAlarm } from '../../spc/alarms';
-import { excludePoint, freezeLimits } from '../../spc/characteristic-chart';
-import { runCharacteristic } from '../../spc/run';
-import { createRunRecord } from '../../spc/runs';
+import { OUT_OF_SPEC, triageAlarm } from '@api/spc/alarms';
+import { excludePoint, freezeLimits } from '@api/spc/characteristic-chart';
+import { runCharacteristic } from '@api/spc/run';
+import { createRunRecord } from '@api/spc/runs';
 import { plantedCausesFor, type PlantedCause, type ScenarioWindow } from './scenario';
 
 const DAY = 86_400_000;

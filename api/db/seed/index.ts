@@ -1,10 +1,10 @@
 import bcrypt from 'bcryptjs';
 import { eq, sql } from 'drizzle-orm';
-import { testMethods as methodCatalogue } from '../../../shared/lab';
-import type { Role } from '../../../shared/schemas/users';
+import { testMethods as methodCatalogue } from '@shared/lab';
+import type { Role } from '@shared/schemas/users';
 import type { Database } from '../client';
 import { characteristics, plants, processEvents, productionLines, products, specLimits, testMethods, users } from '../schema';
-import { importResults } from '../../ingest/import';
+import { importResults } from '@api/ingest/import';
 import { recordManagerDecisions } from './decisions';
 import * as scenario from './scenario';
 

@@ -1,7 +1,7 @@
 import Papa from 'papaparse';
 import { linearRegression, mean } from 'simple-statistics';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { classValue, isPhysicallyPossible, parseScreedDesignation, testMethod } from '../../../shared/lab';
+import { classValue, isPhysicallyPossible, parseScreedDesignation, testMethod } from '@shared/lab';
 import {
   type DemoResultRow,
   type PlantedCause,

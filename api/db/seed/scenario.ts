@@ -4,8 +4,8 @@
  * Pure data and functions: no database, no files, no clock. Every number here is invented for
  * the demo; spec limits follow the declared classes and common practice, not any real product.
  */
-import { type TestMethodCode, testMethod } from '../../../shared/lab';
-import { suggestedChartType } from '../../../shared/schemas/catalogue';
+import { type TestMethodCode, testMethod } from '@shared/lab';
+import { suggestedChartType } from '@shared/schemas/catalogue';
 
 // ---------------------------------------------------------------------------------------------
 // Plant, lines, shifts, products

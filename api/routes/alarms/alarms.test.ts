@@ -1,9 +1,9 @@
 import request from 'supertest';
 import { afterAll, describe, expect, it } from 'vitest';
 import { and, eq, sql } from 'drizzle-orm';
-import { alarms, alarmSubscriptions, auditEvents, mailOutbox, spcRuns } from '../../db/schema';
-import { createSpcTestApi, eventually, TEST_PUBLIC_URL } from '../../spc/testing/api';
-import { createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from '../../spc/testing/plant';
+import { alarms, alarmSubscriptions, auditEvents, mailOutbox, spcRuns } from '@api/db/schema';
+import { createSpcTestApi, eventually, TEST_PUBLIC_URL } from '@api/spc/testing/api';
+import { createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from '@api/spc/testing/plant';
 
 const api = createSpcTestApi();
 afterAll(async () => {

@@ -1,11 +1,11 @@
 import { Router } from 'express';
 import { sql } from 'drizzle-orm';
-import { ruleDescriptions, type RuleId } from '../../../shared/spc';
-import type { Database } from '../../db/client';
-import { notFound, parseBody } from '../../http/errors';
-import { requireRole, requireSession } from '../../auth/session';
-import { signalNames, chartLink } from '../../mail/compose';
-import { OUT_OF_SPEC, triageAlarm } from '../../spc/alarms';
+import { ruleDescriptions, type RuleId } from '@shared/spc';
+import type { Database } from '@api/db/client';
+import { notFound, parseBody } from '@api/http/errors';
+import { requireRole, requireSession } from '@api/auth/session';
+import { signalNames, chartLink } from '@api/mail/compose';
+import { OUT_OF_SPEC, triageAlarm } from '@api/spc/alarms';
 import { alarmIdParamsSchema, alarmNoteSchema, listAlarmsQuerySchema } from './schema';
 
 type AlarmRow = {

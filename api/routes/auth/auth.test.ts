@@ -1,8 +1,8 @@
 import jwt from 'jsonwebtoken';
 import request from 'supertest';
 import { afterAll, describe, expect, it } from 'vitest';
-import { createTestApi, demoEmail, TEST_JWT_SECRET } from '../../../tests/support/api';
-import { DEMO_PASSWORD } from '../../db/seed';
+import { createTestApi, demoEmail, TEST_JWT_SECRET } from '@tests/support/api';
+import { DEMO_PASSWORD } from '@api/db/seed';
 
 const api = createTestApi();
 afterAll(() => api.close());

@@ -2,11 +2,11 @@ import bcrypt from 'bcryptjs';
 import { Router } from 'express';
 import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
 import { sql } from 'drizzle-orm';
-import type { Database } from '../../db/client';
-import { users } from '../../db/schema';
-import { recordAudit } from '../../db/audit';
-import { HttpError, parseBody } from '../../http/errors';
-import { issueToken, requireSession, SESSION_COOKIE, sessionCookieOptions } from '../../auth/session';
+import type { Database } from '@api/db/client';
+import { users } from '@api/db/schema';
+import { recordAudit } from '@api/db/audit';
+import { HttpError, parseBody } from '@api/http/errors';
+import { issueToken, requireSession, SESSION_COOKIE, sessionCookieOptions } from '@api/auth/session';
 import { loginSchema } from './schema';
 
 /** Compared against when the e-mail is unknown, so both failures take the same time. */

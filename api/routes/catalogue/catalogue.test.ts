@@ -1,10 +1,10 @@
 import request from 'supertest';
 import { afterAll, describe, expect, it } from 'vitest';
 import { and, eq } from 'drizzle-orm';
-import { createTestApi } from '../../../tests/support/api';
-import { removeCatalogueRecords, testCodePrefix } from '../../../tests/support/catalogue';
-import { auditEvents, specLimits, spcRunItems, spcRuns } from '../../db/schema';
-import type { Role } from '../../../shared/schemas/users';
+import { createTestApi } from '@tests/support/api';
+import { removeCatalogueRecords, testCodePrefix } from '@tests/support/catalogue';
+import { auditEvents, specLimits, spcRunItems, spcRuns } from '@api/db/schema';
+import type { Role } from '@shared/schemas/users';
 
 const api = createTestApi();
 const prefix = testCodePrefix('C');

@@ -1,13 +1,13 @@
 import { Router, type RequestHandler } from 'express';
 import { and, asc, desc, eq, ilike, isNull, max, sql } from 'drizzle-orm';
-import { methodCautions, testMethods as methodCatalogue } from '../../../shared/lab';
-import { characteristicIssues } from '../../../shared/schemas/catalogue';
-import type { Database } from '../../db/client';
-import { characteristics, lots, measurements, plants, productionLines, products, specLimits, testMethods, uploads } from '../../db/schema';
-import { hasRecordedResults, listCharacteristics, listLines, listProducts } from '../../db/queries/catalogue';
-import { recordAudit } from '../../db/audit';
-import { badRequest, conflict, HttpError, isUniqueViolation, notFound, parseBody } from '../../http/errors';
-import { requireRole, requireSession } from '../../auth/session';
+import { methodCautions, testMethods as methodCatalogue } from '@shared/lab';
+import { characteristicIssues } from '@shared/schemas/catalogue';
+import type { Database } from '@api/db/client';
+import { characteristics, lots, measurements, plants, productionLines, products, specLimits, testMethods, uploads } from '@api/db/schema';
+import { hasRecordedResults, listCharacteristics, listLines, listProducts } from '@api/db/queries/catalogue';
+import { recordAudit } from '@api/db/audit';
+import { badRequest, conflict, HttpError, isUniqueViolation, notFound, parseBody } from '@api/http/errors';
+import { requireRole, requireSession } from '@api/auth/session';
 import {
   catalogueIdParamsSchema,
   createCharacteristicSchema,

@@ -24,7 +24,7 @@ export {
   updateCharacteristicSchema,
   updateLineSchema,
   updateProductSchema,
-} from '../../../shared/schemas/catalogue';
+} from '@shared/schemas/catalogue';
 
 /** :id of /api/v1/lines/:id, /api/v1/products/:id and /api/v1/characteristics/:id. */
 export const catalogueIdParamsSchema = z.object({

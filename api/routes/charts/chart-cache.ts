@@ -12,9 +12,9 @@
 import { createHash } from 'node:crypto';
 import { gzipSync } from 'node:zlib';
 import { sql } from 'drizzle-orm';
-import type { Database } from '../../db/client';
-import { computeCharacteristicChart, type ChartWindow } from '../../spc/characteristic-chart';
-import type { CharacteristicChart } from '../../../shared/schemas/charts';
+import type { Database } from '@api/db/client';
+import { computeCharacteristicChart, type ChartWindow } from '@api/spc/characteristic-chart';
+import type { CharacteristicChart } from '@shared/schemas/charts';
 
 const MAX_ENTRIES = 96;
 /** Points held over all entries: a 10,000-point chart weighs some 15 MB as object and JSON together. */

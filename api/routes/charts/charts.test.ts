@@ -5,11 +5,11 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { desc, eq } from 'drizzle-orm';
 import { mean as ssMean, sampleStandardDeviation } from 'simple-statistics';
-import { createTestApi } from '../../../tests/support/api';
-import { isDemoCode } from '../../../tests/support/catalogue';
-import { characteristics, spcRunItems, spcRuns } from '../../db/schema';
-import type { CharacteristicChart, ChartPointRecord, LimitRevisionRecord } from '../../../shared/schemas/charts';
-import type { Role } from '../../../shared/schemas/users';
+import { createTestApi } from '@tests/support/api';
+import { isDemoCode } from '@tests/support/catalogue';
+import { characteristics, spcRunItems, spcRuns } from '@api/db/schema';
+import type { CharacteristicChart, ChartPointRecord, LimitRevisionRecord } from '@shared/schemas/charts';
+import type { Role } from '@shared/schemas/users';
 
 const api = createTestApi();
 afterAll(() => api.close());

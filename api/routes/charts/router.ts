@@ -1,11 +1,11 @@
 import { Router } from 'express';
 import { eq } from 'drizzle-orm';
-import type { Database } from '../../db/client';
-import { characteristics } from '../../db/schema';
-import { excludePoint, freezeLimits, includePoint, limitRevisions, type LimitRevision } from '../../spc/characteristic-chart';
-import { notFound, parseBody } from '../../http/errors';
-import { requireRole, requireSession } from '../../auth/session';
-import type { LimitRevisionRecord } from '../../../shared/schemas/charts';
+import type { Database } from '@api/db/client';
+import { characteristics } from '@api/db/schema';
+import { excludePoint, freezeLimits, includePoint, limitRevisions, type LimitRevision } from '@api/spc/characteristic-chart';
+import { notFound, parseBody } from '@api/http/errors';
+import { requireRole, requireSession } from '@api/auth/session';
+import type { LimitRevisionRecord } from '@shared/schemas/charts';
 import { chartCacheFor } from './chart-cache';
 import { characteristicParamsSchema, chartQuerySchema, excludePointSchema, exclusionParamsSchema, freezeLimitsSchema, includePointSchema } from './schema';
 

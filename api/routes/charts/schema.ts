@@ -1,7 +1,7 @@
 import { z } from 'zod';
-import { instant } from '../../../shared/schemas/charts';
+import { instant } from '@shared/schemas/charts';
 
-export { excludePointSchema, freezeLimitsSchema, includePointSchema } from '../../../shared/schemas/charts';
+export { excludePointSchema, freezeLimitsSchema, includePointSchema } from '@shared/schemas/charts';
 
 /** :id of /api/v1/characteristics/:id/… */
 export const characteristicParamsSchema = z.object({

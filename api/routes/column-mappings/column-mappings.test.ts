@@ -1,9 +1,9 @@
 import request from 'supertest';
 import { afterAll, describe, expect, it } from 'vitest';
 import { and, eq } from 'drizzle-orm';
-import { createTestApi } from '../../../tests/support/api';
-import { auditEvents } from '../../db/schema';
-import type { Role } from '../../../shared/schemas/users';
+import { createTestApi } from '@tests/support/api';
+import { auditEvents } from '@api/db/schema';
+import type { Role } from '@shared/schemas/users';
 
 const api = createTestApi();
 afterAll(() => api.close());

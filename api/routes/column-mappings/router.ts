@@ -1,10 +1,10 @@
 import { Router } from 'express';
 import { asc, eq } from 'drizzle-orm';
-import type { Database } from '../../db/client';
-import { columnMappings, users } from '../../db/schema';
-import { recordAudit } from '../../db/audit';
-import { conflict, parseBody } from '../../http/errors';
-import { requireRole, requireSession } from '../../auth/session';
+import type { Database } from '@api/db/client';
+import { columnMappings, users } from '@api/db/schema';
+import { recordAudit } from '@api/db/audit';
+import { conflict, parseBody } from '@api/http/errors';
+import { requireRole, requireSession } from '@api/auth/session';
 import { saveMappingSchema } from './schema';
 
 const mappingColumns = {

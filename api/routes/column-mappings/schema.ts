@@ -1,2 +1,2 @@
 /** POST /api/v1/column-mappings body: shared with the upload page that saves it. */
-export { saveMappingSchema, type SaveMappingInput } from '../../../shared/ingest';
+export { saveMappingSchema, type SaveMappingInput } from '@shared/ingest';

@@ -1,6 +1,6 @@
 import { Router } from 'express';
-import { requireRole, requireSession } from '../../auth/session';
-import type { FakeSmtp } from '../../mail/fake-smtp';
+import { requireRole, requireSession } from '@api/auth/session';
+import type { FakeSmtp } from '@api/mail/fake-smtp';
 
 /** Mounted only while the local fake SMTP server is in use: what it has received, newest first. */
 export function devRouter(fake: FakeSmtp): Router {

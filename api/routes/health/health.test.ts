@@ -1,5 +1,5 @@
 import { afterAll, describe, expect, it } from 'vitest';
-import { startCluster, stopCluster, type Cluster } from '../../../scripts/lib/cluster';
+import { startCluster, stopCluster, type Cluster } from '@scripts/lib/cluster';
 
 // Runs against the separate server process the harness started, so the real pool recovers by itself.
 const baseUrl = process.env.PRISMLINE_BASE_URL;

@@ -1,6 +1,6 @@
 import { Router } from 'express';
 import { sql } from 'drizzle-orm';
-import type { Database } from '../../db/client';
+import type { Database } from '@api/db/client';
 
 /** GET /api/health: 200 while the database answers, 503 with the reason when it does not. */
 export function healthRouter(db: Database): Router {

@@ -1,14 +1,14 @@
 import { Router } from 'express';
 import { and, eq, isNull } from 'drizzle-orm';
-import { isTestMethodCode, resultFromEntry, roundHead50, squareHead50 } from '../../../shared/lab';
-import type { CanonicalRow } from '../../../shared/ingest';
-import type { Database } from '../../db/client';
-import { characteristics, measurements, testMethods } from '../../db/schema';
-import { recordAudit } from '../../db/audit';
-import { badRequest, notFound, parseBody } from '../../http/errors';
-import { requireRole, requireSession } from '../../auth/session';
-import { importResults } from '../../ingest/import';
-import type { IngestHooks } from '../../ingest/hooks';
+import { isTestMethodCode, resultFromEntry, roundHead50, squareHead50 } from '@shared/lab';
+import type { CanonicalRow } from '@shared/ingest';
+import type { Database } from '@api/db/client';
+import { characteristics, measurements, testMethods } from '@api/db/schema';
+import { recordAudit } from '@api/db/audit';
+import { badRequest, notFound, parseBody } from '@api/http/errors';
+import { requireRole, requireSession } from '@api/auth/session';
+import { importResults } from '@api/ingest/import';
+import type { IngestHooks } from '@api/ingest/hooks';
 import { respondToImport } from '../uploads/router';
 import { correctMeasurementSchema, manualEntrySchema, measurementIdParamsSchema, type ManualEntry } from './schema';
 

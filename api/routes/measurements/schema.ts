@@ -1,7 +1,7 @@
 import { z } from 'zod';
 
 /** POST /api/v1/measurements (manual entry) and PATCH /api/v1/measurements/:id (correction): shared with the entry form. */
-export { manualEntrySchema, correctMeasurementSchema, type ManualEntry } from '../../../shared/ingest';
+export { manualEntrySchema, correctMeasurementSchema, type ManualEntry } from '@shared/ingest';
 
 /** :id of /api/v1/measurements/:id. */
 export const measurementIdParamsSchema = z.object({

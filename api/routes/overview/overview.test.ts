@@ -2,14 +2,14 @@
 import request from 'supertest';
 import { afterAll, describe, expect, it } from 'vitest';
 import { and, eq, sql } from 'drizzle-orm';
-import { createTestApi } from '../../../tests/support/api';
-import { isDemoCode } from '../../../tests/support/catalogue';
-import { alarms, characteristics, lots, products, uploads } from '../../db/schema';
-import { plantedCausesFor } from '../../db/seed/scenario';
-import { demoEndDate } from '../../db/seed';
-import type { CharacteristicChart } from '../../../shared/schemas/charts';
-import type { Overview } from '../../../shared/schemas/overview';
-import type { Role } from '../../../shared/schemas/users';
+import { createTestApi } from '@tests/support/api';
+import { isDemoCode } from '@tests/support/catalogue';
+import { alarms, characteristics, lots, products, uploads } from '@api/db/schema';
+import { plantedCausesFor } from '@api/db/seed/scenario';
+import { demoEndDate } from '@api/db/seed';
+import type { CharacteristicChart } from '@shared/schemas/charts';
+import type { Overview } from '@shared/schemas/overview';
+import type { Role } from '@shared/schemas/users';
 
 const api = createTestApi();
 afterAll(() => api.close());

@@ -1,10 +1,10 @@
 import { Router } from 'express';
 import { and, asc, eq, sql } from 'drizzle-orm';
-import type { Database } from '../../db/client';
-import { alarms, characteristics, productionLines, products, testMethods } from '../../db/schema';
-import { parseBody } from '../../http/errors';
-import { requireSession } from '../../auth/session';
-import type { Overview, OverviewItem } from '../../../shared/schemas/overview';
+import type { Database } from '@api/db/client';
+import { alarms, characteristics, productionLines, products, testMethods } from '@api/db/schema';
+import { parseBody } from '@api/http/errors';
+import { requireSession } from '@api/auth/session';
+import type { Overview, OverviewItem } from '@shared/schemas/overview';
 import { chartCacheFor } from '../charts/chart-cache';
 import { summarise, type OverviewBase } from './summary';
 import { overviewQuerySchema } from './schema';

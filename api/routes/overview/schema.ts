@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { overviewPeriods } from '../../../shared/schemas/overview';
+import { overviewPeriods } from '@shared/schemas/overview';
 
 /** GET /api/v1/overview?line=&family=&days= */
 export const overviewQuerySchema = z.object({

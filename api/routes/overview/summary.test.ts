@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import type { CharacteristicChart, ChartPointRecord } from '../../../shared/schemas/charts';
+import type { CharacteristicChart, ChartPointRecord } from '@shared/schemas/charts';
 import { summarise, TREND_POINTS, type OverviewBase } from './summary';
 
 const base: OverviewBase = { id: 1, code: 'T-FLOW', name: 'Test · flow', unit: 'mm', decimals: 0, chartType: 'xbar-r', productCode: 'T', productName: 'Test', productFamily: 'levelling', lineCode: 'L1', lineName: 'Line 1' };

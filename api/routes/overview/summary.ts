@@ -1,8 +1,8 @@
 // What the overview says about one characteristic, from its chart over the whole history (control
 // state against the limits the nightly run uses) and over the period (capability of recent production).
-import type { CharacteristicChart } from '../../../shared/schemas/charts';
-import type { ControlState, OverviewItem } from '../../../shared/schemas/overview';
-import { PHASE_ONE_MIN_POINTS } from '../../spc/characteristic-chart';
+import type { CharacteristicChart } from '@shared/schemas/charts';
+import type { ControlState, OverviewItem } from '@shared/schemas/overview';
+import { PHASE_ONE_MIN_POINTS } from '@api/spc/characteristic-chart';
 
 /** Points of the period drawn in the overview's trend line. */
 export const TREND_POINTS = 40;

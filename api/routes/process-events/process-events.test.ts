@@ -1,7 +1,7 @@
 import request from 'supertest';
 import { afterAll, describe, expect, it } from 'vitest';
-import { createTestApi } from '../../../tests/support/api';
-import type { Role } from '../../../shared/schemas/users';
+import { createTestApi } from '@tests/support/api';
+import type { Role } from '@shared/schemas/users';
 
 const api = createTestApi();
 afterAll(() => api.close());

@@ -1,10 +1,10 @@
 import { Router } from 'express';
 import { and, asc, desc, eq, gte, lt } from 'drizzle-orm';
-import type { Database } from '../../db/client';
-import { plants, processEvents, productionLines, products, users } from '../../db/schema';
-import { recordAudit } from '../../db/audit';
-import { badRequest, parseBody } from '../../http/errors';
-import { requireRole, requireSession } from '../../auth/session';
+import type { Database } from '@api/db/client';
+import { plants, processEvents, productionLines, products, users } from '@api/db/schema';
+import { recordAudit } from '@api/db/audit';
+import { badRequest, parseBody } from '@api/http/errors';
+import { requireRole, requireSession } from '@api/auth/session';
 import { listProcessEventsQuerySchema, processEventSchema } from './schema';
 
 /** Plant events that explain charts: "New sand source", "Press recalibrated". */

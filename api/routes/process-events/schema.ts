@@ -1,7 +1,7 @@
 import { z } from 'zod';
 
 /** POST /api/v1/process-events body: shared with the web form. */
-export { processEventSchema, type ProcessEventInput } from '../../../shared/schemas/plant-records';
+export { processEventSchema, type ProcessEventInput } from '@shared/schemas/plant-records';
 
 /** GET /api/v1/process-events query. */
 export const listProcessEventsQuerySchema = z.object({

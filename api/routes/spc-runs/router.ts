@@ -1,11 +1,11 @@
 import { Router } from 'express';
-import type { Database } from '../../db/client';
-import { HttpError, notFound, parseBody } from '../../http/errors';
-import { logger } from '../../logger';
-import { requireRole, requireSession } from '../../auth/session';
-import { recordAudit } from '../../db/audit';
-import type { SpcQueue } from '../../spc/queue';
-import { getRun, listRuns, startRun } from '../../spc/runs';
+import type { Database } from '@api/db/client';
+import { HttpError, notFound, parseBody } from '@api/http/errors';
+import { logger } from '@api/logger';
+import { requireRole, requireSession } from '@api/auth/session';
+import { recordAudit } from '@api/db/audit';
+import type { SpcQueue } from '@api/spc/queue';
+import { getRun, listRuns, startRun } from '@api/spc/runs';
 import { listRunsQuerySchema, runIdParamsSchema, startRunSchema } from './schema';
 
 /** SPC runs: every role may watch them; quality managers and admins start them. */

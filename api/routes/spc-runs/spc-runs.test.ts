@@ -1,9 +1,9 @@
 import request from 'supertest';
 import { afterAll, describe, expect, it } from 'vitest';
 import { and, eq, sql } from 'drizzle-orm';
-import { auditEvents, lots, spcRunItems, spcSnapshots } from '../../db/schema';
-import { createSpcTestApi } from '../../spc/testing/api';
-import { createTestCharacteristic, removeTestCharacteristics } from '../../spc/testing/plant';
+import { auditEvents, lots, spcRunItems, spcSnapshots } from '@api/db/schema';
+import { createSpcTestApi } from '@api/spc/testing/api';
+import { createTestCharacteristic, removeTestCharacteristics } from '@api/spc/testing/plant';
 
 const api = createSpcTestApi();
 afterAll(async () => {

@@ -1,10 +1,10 @@
 import { Router } from 'express';
 import { desc, eq } from 'drizzle-orm';
-import type { Database } from '../../db/client';
-import { characteristics, specLimits, users } from '../../db/schema';
-import { recordAudit } from '../../db/audit';
-import { badRequest, notFound, parseBody } from '../../http/errors';
-import { requireRole, requireSession } from '../../auth/session';
+import type { Database } from '@api/db/client';
+import { characteristics, specLimits, users } from '@api/db/schema';
+import { recordAudit } from '@api/db/audit';
+import { badRequest, notFound, parseBody } from '@api/http/errors';
+import { requireRole, requireSession } from '@api/auth/session';
 import { characteristicIdParamsSchema, specRevisionSchema } from './schema';
 
 /** Specification revisions per characteristic: the revision in force at a lot's production time judges it. */

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 
 /** POST /api/v1/characteristics/:id/spec-revisions body: shared with the web form. */
-export { specRevisionSchema, type SpecRevisionInput } from '../../../shared/schemas/plant-records';
+export { specRevisionSchema, type SpecRevisionInput } from '@shared/schemas/plant-records';
 
 /** :id of /api/v1/characteristics/:id/spec-revisions. */
 export const characteristicIdParamsSchema = z.object({

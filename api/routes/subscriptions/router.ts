@@ -1,10 +1,10 @@
 import { Router } from 'express';
 import { and, eq, sql } from 'drizzle-orm';
-import type { Database } from '../../db/client';
-import { alarmSubscriptions, productionLines, products } from '../../db/schema';
-import { recordAudit } from '../../db/audit';
-import { badRequest, conflict, HttpError, isUniqueViolation, notFound, parseBody } from '../../http/errors';
-import { requireSession } from '../../auth/session';
+import type { Database } from '@api/db/client';
+import { alarmSubscriptions, productionLines, products } from '@api/db/schema';
+import { recordAudit } from '@api/db/audit';
+import { badRequest, conflict, HttpError, isUniqueViolation, notFound, parseBody } from '@api/http/errors';
+import { requireSession } from '@api/auth/session';
 import { createSubscriptionSchema, subscriptionIdParamsSchema, updateSubscriptionSchema } from './schema';
 
 /** Each signed-in user manages their own e-mail alerts. */

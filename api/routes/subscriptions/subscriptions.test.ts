@@ -1,9 +1,9 @@
 import request from 'supertest';
 import { afterAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
-import { productionLines } from '../../db/schema';
-import { createSpcTestApi } from '../../spc/testing/api';
-import { createTestCharacteristic, removeTestCharacteristics } from '../../spc/testing/plant';
+import { productionLines } from '@api/db/schema';
+import { createSpcTestApi } from '@api/spc/testing/api';
+import { createTestCharacteristic, removeTestCharacteristics } from '@api/spc/testing/plant';
 
 const api = createSpcTestApi();
 afterAll(async () => {

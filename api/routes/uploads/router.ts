@@ -1,15 +1,15 @@
 import { Router, type RequestHandler } from 'express';
 import multer from 'multer';
 import { and, asc, desc, eq, sql } from 'drizzle-orm';
-import { canonicalColumns, looksLikeFormula, type RowError } from '../../../shared/ingest';
-import type { Database } from '../../db/client';
-import { measurements, uploadFileParts, uploads, users } from '../../db/schema';
-import { recordAudit } from '../../db/audit';
-import { logger } from '../../logger';
-import { badRequest, HttpError, notFound, parseBody } from '../../http/errors';
-import { requireRole, requireSession } from '../../auth/session';
-import { fileFingerprint, importResults, type ImportOutcome } from '../../ingest/import';
-import type { IngestHooks } from '../../ingest/hooks';
+import { canonicalColumns, looksLikeFormula, type RowError } from '@shared/ingest';
+import type { Database } from '@api/db/client';
+import { measurements, uploadFileParts, uploads, users } from '@api/db/schema';
+import { recordAudit } from '@api/db/audit';
+import { logger } from '@api/logger';
+import { badRequest, HttpError, notFound, parseBody } from '@api/http/errors';
+import { requireRole, requireSession } from '@api/auth/session';
+import { fileFingerprint, importResults, type ImportOutcome } from '@api/ingest/import';
+import type { IngestHooks } from '@api/ingest/hooks';
 import { listUploadsQuerySchema, uploadFieldsSchema, uploadIdParamsSchema, voidUploadSchema } from './schema';
 
 export const MAX_UPLOAD_BYTES = 20 * 1024 * 1024;

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { columnMappingSchema } from '../../../shared/ingest';
+import { columnMappingSchema } from '@shared/ingest';
 
 /** POST /api/v1/uploads and /api/v1/uploads/check: multipart fields besides `file`. */
 export const uploadFieldsSchema = z.object({
@@ -28,7 +28,7 @@ export const uploadFieldsSchema = z.object({
 export type UploadFields = z.infer<typeof uploadFieldsSchema>;
 
 /** POST /api/v1/uploads/:id/void body. */
-export { voidUploadSchema } from '../../../shared/ingest';
+export { voidUploadSchema } from '@shared/ingest';
 
 /** :id of /api/v1/uploads/:id. */
 export const uploadIdParamsSchema = z.object({

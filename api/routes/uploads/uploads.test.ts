@@ -2,11 +2,11 @@ import { createHash } from 'node:crypto';
 import request from 'supertest';
 import { afterAll, describe, expect, it } from 'vitest';
 import { and, eq, isNull, sql } from 'drizzle-orm';
-import { createTestApi } from '../../../tests/support/api';
-import { FILE_PART_BYTES } from '../../ingest/import';
-import { isDemoCode } from '../../../tests/support/catalogue';
-import { auditEvents, lots, measurements, uploads } from '../../db/schema';
-import type { Role } from '../../../shared/schemas/users';
+import { createTestApi } from '@tests/support/api';
+import { FILE_PART_BYTES } from '@api/ingest/import';
+import { isDemoCode } from '@tests/support/catalogue';
+import { auditEvents, lots, measurements, uploads } from '@api/db/schema';
+import type { Role } from '@shared/schemas/users';
 
 const api = createTestApi();
 afterAll(() => api.close());

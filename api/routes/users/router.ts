@@ -1,12 +1,12 @@
 import bcrypt from 'bcryptjs';
 import { Router } from 'express';
 import { asc, eq, sql } from 'drizzle-orm';
-import type { PublicUser } from '../../../shared/schemas/users';
-import type { Database } from '../../db/client';
-import { users } from '../../db/schema';
-import { recordAudit } from '../../db/audit';
-import { conflict, HttpError, isUniqueViolation, notFound, parseBody } from '../../http/errors';
-import { requireRole, requireSession } from '../../auth/session';
+import type { PublicUser } from '@shared/schemas/users';
+import type { Database } from '@api/db/client';
+import { users } from '@api/db/schema';
+import { recordAudit } from '@api/db/audit';
+import { conflict, HttpError, isUniqueViolation, notFound, parseBody } from '@api/http/errors';
+import { requireRole, requireSession } from '@api/auth/session';
 import { createUserSchema, updateUserSchema, userIdParamsSchema } from './schema';
 
 const publicColumns = {

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 
 /** POST /api/v1/users and PATCH /api/v1/users/:id bodies: shared with the admin forms. */
-export { createUserSchema, updateUserSchema, type CreateUserInput, type UpdateUserInput } from '../../../shared/schemas/users';
+export { createUserSchema, updateUserSchema, type CreateUserInput, type UpdateUserInput } from '@shared/schemas/users';
 
 /** :id path parameter of /api/v1/users/:id. */
 export const userIdParamsSchema = z.object({

@@ -1,11 +1,11 @@
 // An in-process API with the SPC hooks and queue, as the server wires them. Jobs it enqueues are
 // worked by the test server's workers (scripts/run-tests.ts), which share the database.
 import request from 'supertest';
-import { createApp } from '../../app';
-import { createDatabase } from '../../db/client';
-import { DEMO_PASSWORD } from '../../db/seed';
-import { demoEmail, databaseUrl, TEST_JWT_SECRET } from '../../../tests/support/api';
-import type { Role } from '../../../shared/schemas/users';
+import { createApp } from '@api/app';
+import { createDatabase } from '@api/db/client';
+import { DEMO_PASSWORD } from '@api/db/seed';
+import { demoEmail, databaseUrl, TEST_JWT_SECRET } from '@tests/support/api';
+import type { Role } from '@shared/schemas/users';
 import { createSpcIngestHooks } from '../hooks';
 import { lazyQueue } from '../queue';
 

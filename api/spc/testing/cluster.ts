@@ -2,10 +2,10 @@
 // workers (so that the test server's workers cannot take their jobs), and for the benchmark.
 import { existsSync, mkdirSync, readdirSync } from 'node:fs';
 import { resolve } from 'node:path';
-import { dataRoot } from '../../paths';
-import { destroyCluster, ensureDatabase, freePort, initCluster, startCluster, stopCluster, type Cluster } from '../../../scripts/lib/cluster';
-import { createDatabase, type Database } from '../../db/client';
-import { migrateDatabase } from '../../db/migrate';
+import { dataRoot } from '@api/paths';
+import { destroyCluster, ensureDatabase, freePort, initCluster, startCluster, stopCluster, type Cluster } from '@scripts/lib/cluster';
+import { createDatabase, type Database } from '@api/db/client';
+import { migrateDatabase } from '@api/db/migrate';
 
 export interface PrivateCluster {
   cluster: Cluster;

@@ -1,9 +1,9 @@
 // Invented test products and characteristics beside the demo plant, so that a test controls every
 // value of its chart. Used by the SPC, alarm and reliability tests only.
 import { eq, sql } from 'drizzle-orm';
-import type { Database } from '../../db/client';
-import { characteristics, plants, productionLines, products, specLimits, testMethods } from '../../db/schema';
-import { importResults, type Subgroup } from '../../ingest/import';
+import type { Database } from '@api/db/client';
+import { characteristics, plants, productionLines, products, specLimits, testMethods } from '@api/db/schema';
+import { importResults, type Subgroup } from '@api/ingest/import';
 import { createRunRecord } from '../runs';
 
 export interface TestCharacteristic {

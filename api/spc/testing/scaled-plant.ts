@@ -3,8 +3,8 @@
 // Values are normal-looking (sum of uniforms) around 145 mm, with a planted step of 50 lots (a sand
 // source that was soon changed back) at nine tenths of the history.
 import { sql } from 'drizzle-orm';
-import type { Database } from '../../db/client';
-import { ensureReferenceData } from '../../db/seed';
+import type { Database } from '@api/db/client';
+import { ensureReferenceData } from '@api/db/seed';
 
 export interface ScaledPlant {
   plantId: number;

@@ -4,7 +4,7 @@ import { useSession, useSignedInUser } from '../features/auth/api/session';
 import { Loading } from '../components/ui/Spinner';
 import { ErrorState } from '../components/ui/ErrorState';
 import { NotAllowedPage } from './routes/NotAllowedPage';
-import type { Role } from '../../../shared/schemas/roles';
+import type { Role } from '@shared/schemas/roles';
 
 /** Where the sign-in page sends the user afterwards: the page they asked for. */
 export interface SignInState {

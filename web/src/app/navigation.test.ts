@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { areas, areasFor } from './navigation';
-import { roles } from '../../../shared/schemas/users';
+import { roles } from '@shared/schemas/users';
 
 // The role rules of the foundation issue, with results entry's: auditors read the upload history
 // and the test methods, and everyone reads specifications and process events; everyone follows the

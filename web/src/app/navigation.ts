@@ -1,4 +1,4 @@
-import type { Role } from '../../../shared/schemas/roles';
+import type { Role } from '@shared/schemas/roles';
 
 /** Every area of the app. The router builds its routes from this list and the menu shows it by role. */
 export type AreaId = 'overview' | 'charts' | 'results' | 'methods' | 'records' | 'alarms' | 'runs' | 'ncrs' | 'reports' | 'subscriptions' | 'users' | 'catalogue' | 'outbox';

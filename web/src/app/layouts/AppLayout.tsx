@@ -1,12 +1,12 @@
 import { Suspense, useState } from 'react';
 import { NavLink, Outlet, useNavigate } from 'react-router';
-import { useSignOut, useSignedInUser } from '../../features/auth/api/session';
+import { useSignOut, useSignedInUser } from '@web/features/auth/api/session';
 import { areasFor, type Area } from '../navigation';
-import { roleLabels } from '../../../../shared/schemas/roles';
-import { Button } from '../../components/ui/Button';
-import { Loading } from '../../components/ui/Spinner';
-import { cx } from '../../components/ui/cx';
-import { SafetyNote } from '../../components/SafetyNote';
+import { roleLabels } from '@shared/schemas/roles';
+import { Button } from '@web/components/ui/Button';
+import { Loading } from '@web/components/ui/Spinner';
+import { cx } from '@web/components/ui/cx';
+import { SafetyNote } from '@web/components/SafetyNote';
 
 export function AppLayout() {
   const user = useSignedInUser();

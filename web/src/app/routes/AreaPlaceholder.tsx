@@ -1,6 +1,6 @@
 import type { Area } from '../navigation';
-import { PageHeader } from '../../components/ui/PageHeader';
-import { Badge } from '../../components/ui/Badge';
+import { PageHeader } from '@web/components/ui/PageHeader';
+import { Badge } from '@web/components/ui/Badge';
 
 /** Stands in for an area that is planned but not built, so the menu never leads to a blank page. */
 export function AreaPlaceholder({ area }: { area: Area }) {

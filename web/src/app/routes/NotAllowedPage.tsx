@@ -1,6 +1,6 @@
 import { Link } from 'react-router';
-import { useSignedInUser } from '../../features/auth/api/session';
-import { roleLabels } from '../../../../shared/schemas/roles';
+import { useSignedInUser } from '@web/features/auth/api/session';
+import { roleLabels } from '@shared/schemas/roles';
 
 export function NotAllowedPage() {
   const user = useSignedInUser();

@@ -1,5 +1,5 @@
 import { useRouteError } from 'react-router';
-import { ErrorState } from '../../components/ui/ErrorState';
+import { ErrorState } from '@web/components/ui/ErrorState';
 
 /** Catches a page that failed to render or to load its code (for example after a new release). */
 export function RouteErrorPage() {

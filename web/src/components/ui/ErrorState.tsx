@@ -1,5 +1,5 @@
 import { Button } from './Button';
-import { errorMessage } from '../../lib/http';
+import { errorMessage } from '@web/lib/http';
 
 /** A failed load: what went wrong in the server's words, and a way to try again. */
 export function ErrorState({ title = 'Could not load this page', error, onRetry }: { title?: string; error: unknown; onRetry?: () => void }) {

@@ -1,9 +1,9 @@
 import { useState } from 'react';
 import { useChangeAlarm, type Alarm } from '../api/alarms';
-import { errorMessage } from '../../../lib/http';
-import { Dialog } from '../../../components/ui/Dialog';
-import { Button } from '../../../components/ui/Button';
-import { Alert } from '../../../components/ui/Alert';
+import { errorMessage } from '@web/lib/http';
+import { Dialog } from '@web/components/ui/Dialog';
+import { Button } from '@web/components/ui/Button';
+import { Alert } from '@web/components/ui/Alert';
 
 const words = {
   acknowledge: { title: 'Acknowledge the alarm', hint: 'What was checked, and what happens next (retest, lot on hold, cause being looked for).', button: 'Acknowledge' },

@@ -1,20 +1,20 @@
 import { useState } from 'react';
 import { Link } from 'react-router';
 import { useAlarms, type Alarm, type AlarmStatus } from '../api/alarms';
-import { usePlantTimeZone } from '../../results/api/catalogue';
-import { formatPlantDateTime } from '../../results/lib/plant-time';
-import { ruleLabels } from '../../charts/lib/format';
-import type { RuleId } from '../../../../../shared/spc';
+import { usePlantTimeZone } from '@web/features/results/api/catalogue';
+import { formatPlantDateTime } from '@web/features/results/lib/plant-time';
+import { ruleLabels } from '@web/features/charts/lib/format';
+import type { RuleId } from '@shared/spc';
 import { AlarmNoteDialog } from '../components/AlarmNoteDialog';
-import { useSignedInUser } from '../../auth/api/session';
-import { PageHeader } from '../../../components/ui/PageHeader';
-import { Button } from '../../../components/ui/Button';
-import { Badge } from '../../../components/ui/Badge';
-import { Input } from '../../../components/ui/Field';
-import { Loading } from '../../../components/ui/Spinner';
-import { ErrorState } from '../../../components/ui/ErrorState';
-import { EmptyState } from '../../../components/ui/EmptyState';
-import { cx } from '../../../components/ui/cx';
+import { useSignedInUser } from '@web/features/auth/api/session';
+import { PageHeader } from '@web/components/ui/PageHeader';
+import { Button } from '@web/components/ui/Button';
+import { Badge } from '@web/components/ui/Badge';
+import { Input } from '@web/components/ui/Field';
+import { Loading } from '@web/components/ui/Spinner';
+import { ErrorState } from '@web/components/ui/ErrorState';
+import { EmptyState } from '@web/components/ui/EmptyState';
+import { cx } from '@web/components/ui/cx';
 
 const tabs: { status: AlarmStatus; label: string; empty: string }[] = [
   { status: 'open', label: 'Open', empty: 'No open alarm: nothing waits for a decision.' },

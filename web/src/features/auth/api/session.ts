@@ -1,6 +1,6 @@
 import { queryOptions, useMutation, useQuery, useQueryClient, type QueryClient } from '@tanstack/react-query';
-import { ApiError, http } from '../../../lib/http';
-import type { LoginInput, PublicUser } from '../../../../../shared/schemas/users';
+import { ApiError, http } from '@web/lib/http';
+import type { LoginInput, PublicUser } from '@shared/schemas/users';
 
 /** The signed-in user as /auth/me and /auth/login return it. */
 export type SessionUser = Pick<PublicUser, 'id' | 'email' | 'name' | 'role'>;

@@ -1,12 +1,12 @@
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { loginSchema, type LoginInput } from '../../../../../shared/schemas/users';
-import { ApiError } from '../../../lib/http';
-import { showServerFieldErrors } from '../../../lib/forms';
+import { loginSchema, type LoginInput } from '@shared/schemas/users';
+import { ApiError } from '@web/lib/http';
+import { showServerFieldErrors } from '@web/lib/forms';
 import { useSignIn } from '../api/session';
-import { Field, Input } from '../../../components/ui/Field';
-import { Alert } from '../../../components/ui/Alert';
-import { Button } from '../../../components/ui/Button';
+import { Field, Input } from '@web/components/ui/Field';
+import { Alert } from '@web/components/ui/Alert';
+import { Button } from '@web/components/ui/Button';
 
 /** Says why sign-in failed in words a technician at the end of a shift can act on. */
 function signInFailure(error: unknown): string {

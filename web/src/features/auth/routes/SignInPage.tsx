@@ -1,9 +1,9 @@
 import { Navigate, useLocation } from 'react-router';
 import { useSession } from '../api/session';
 import { SignInForm } from '../components/SignInForm';
-import { SafetyNote } from '../../../components/SafetyNote';
-import { Loading } from '../../../components/ui/Spinner';
-import type { SignInState } from '../../../app/guards';
+import { SafetyNote } from '@web/components/SafetyNote';
+import { Loading } from '@web/components/ui/Spinner';
+import type { SignInState } from '@web/app/guards';
 
 /** Only paths inside the app count, so a crafted link cannot send a fresh session elsewhere. */
 function returnPath(state: unknown): string {

@@ -1,6 +1,6 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { http } from '../../../lib/http';
-import type { ChartType } from '../../../../../shared/spc';
+import { http } from '@web/lib/http';
+import type { ChartType } from '@shared/spc';
 import type {
   CreateCharacteristicInput,
   CreateLineInput,
@@ -9,10 +9,10 @@ import type {
   UpdateCharacteristicInput,
   UpdateLineInput,
   UpdateProductInput,
-} from '../../../../../shared/schemas/catalogue';
-import { catalogueKeys, type Characteristic, type Product, type ProductionLine } from '../../results/api/catalogue';
-import { chartKeys } from '../../charts/api/chart';
-import { overviewKeys } from '../../overview/api/overview';
+} from '@shared/schemas/catalogue';
+import { catalogueKeys, type Characteristic, type Product, type ProductionLine } from '@web/features/results/api/catalogue';
+import { chartKeys } from '@web/features/charts/api/chart';
+import { overviewKeys } from '@web/features/overview/api/overview';
 
 /** A line as the administrator sees it: whether lots were made on it decides if its code may change. */
 export interface CatalogueLine extends ProductionLine {

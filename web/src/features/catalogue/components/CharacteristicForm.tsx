@@ -2,17 +2,17 @@ import { useEffect } from 'react';
 import { Link } from 'react-router';
 import { useForm, type FieldPath } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { chartTypes, chartTypeSizes, ruleSets, SUBGROUP_SIZE_MAX, suggestedChartType, type CreateCharacteristicInput } from '../../../../../shared/schemas/catalogue';
-import type { TestMethodEntry } from '../../test-methods/api/test-methods';
-import { chartTypeLabels, ruleSetLabels } from '../../charts/lib/format';
-import { TextArea } from '../../charts/components/TextArea';
-import { showServerErrors } from '../../records/lib/server-errors';
-import { browserTimeZone } from '../../records/lib/date-time';
+import { chartTypes, chartTypeSizes, ruleSets, SUBGROUP_SIZE_MAX, suggestedChartType, type CreateCharacteristicInput } from '@shared/schemas/catalogue';
+import type { TestMethodEntry } from '@web/features/test-methods/api/test-methods';
+import { chartTypeLabels, ruleSetLabels } from '@web/features/charts/lib/format';
+import { TextArea } from '@web/features/charts/components/TextArea';
+import { showServerErrors } from '@web/features/records/lib/server-errors';
+import { browserTimeZone } from '@web/features/records/lib/date-time';
 import { useCreateCharacteristic, useUpdateCharacteristic, type CatalogueCharacteristic, type CatalogueProduct } from '../api/catalogue';
 import { characteristicFormSchema, emptySpec, newCharacteristicFormSchema, type CharacteristicFormValues } from '../lib/form-schemas';
 import { shortMethodName, suggestedCode, suggestedName } from '../lib/suggest';
-import { Field, Input, Select } from '../../../components/ui/Field';
-import { Alert } from '../../../components/ui/Alert';
+import { Field, Input, Select } from '@web/components/ui/Field';
+import { Alert } from '@web/components/ui/Alert';
 import { FormButtons } from './FormButtons';
 
 const fields: FieldPath<CharacteristicFormValues>[] = [

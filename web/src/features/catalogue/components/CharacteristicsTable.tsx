@@ -1,17 +1,17 @@
 import { useMemo, useState } from 'react';
 import { Link } from 'react-router';
 import { createColumnHelper } from '@tanstack/react-table';
-import { characteristicLabel } from '../../results/lib/names';
-import { specLimitsText } from '../../results/lib/spec';
-import { statisticNames } from '../../charts/lib/format';
-import type { Notice } from '../../users/components/UserActions';
+import { characteristicLabel } from '@web/features/results/lib/names';
+import { specLimitsText } from '@web/features/results/lib/spec';
+import { statisticNames } from '@web/features/charts/lib/format';
+import type { Notice } from '@web/features/users/components/UserActions';
 import { useUpdateCharacteristic, type CatalogueCharacteristic } from '../api/catalogue';
 import { shortMethodName } from '../lib/suggest';
 import { actionsColumn, statusColumn, type Consequences } from './RowActions';
-import { DataTable } from '../../../components/ui/Table';
-import { Select } from '../../../components/ui/Field';
-import { TableFilter, useFilteredTable } from '../../../components/ui/FilteredTable';
-import { EmptyState } from '../../../components/ui/EmptyState';
+import { DataTable } from '@web/components/ui/Table';
+import { Select } from '@web/components/ui/Field';
+import { TableFilter, useFilteredTable } from '@web/components/ui/FilteredTable';
+import { EmptyState } from '@web/components/ui/EmptyState';
 
 const column = createColumnHelper<CatalogueCharacteristic>();
 

@@ -1,5 +1,5 @@
 import { useEffect, useRef, type ReactNode } from 'react';
-import { Card } from '../../../components/ui/Card';
+import { Card } from '@web/components/ui/Card';
 
 /** The add or change form above a list: brought into view when it opens, since "Edit" may sit far down the list. */
 export function EditorCard({ title, children }: { title: string; children: ReactNode }) {

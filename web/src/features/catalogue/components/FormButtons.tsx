@@ -1,4 +1,4 @@
-import { Button } from '../../../components/ui/Button';
+import { Button } from '@web/components/ui/Button';
 
 export function FormButtons({ saveLabel, busy, onCancel }: { saveLabel: string; busy: boolean; onCancel: () => void }) {
   return (

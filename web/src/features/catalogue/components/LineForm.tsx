@@ -1,10 +1,10 @@
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { createLineSchema } from '../../../../../shared/schemas/catalogue';
-import { showServerErrors } from '../../records/lib/server-errors';
+import { createLineSchema } from '@shared/schemas/catalogue';
+import { showServerErrors } from '@web/features/records/lib/server-errors';
 import { useCreateLine, useUpdateLine, type CatalogueLine } from '../api/catalogue';
-import { Field, Input } from '../../../components/ui/Field';
-import { Alert } from '../../../components/ui/Alert';
+import { Field, Input } from '@web/components/ui/Field';
+import { Alert } from '@web/components/ui/Alert';
 import { FormButtons } from './FormButtons';
 
 const fields = ['code', 'name'] as const;

@@ -1,11 +1,11 @@
 import { useId } from 'react';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { createProductSchema } from '../../../../../shared/schemas/catalogue';
-import { showServerErrors } from '../../records/lib/server-errors';
+import { createProductSchema } from '@shared/schemas/catalogue';
+import { showServerErrors } from '@web/features/records/lib/server-errors';
 import { useCreateProduct, useUpdateProduct, type CatalogueLine, type CatalogueProduct } from '../api/catalogue';
-import { Field, Input, Select } from '../../../components/ui/Field';
-import { Alert } from '../../../components/ui/Alert';
+import { Field, Input, Select } from '@web/components/ui/Field';
+import { Alert } from '@web/components/ui/Alert';
 import { FormButtons } from './FormButtons';
 
 const fields = ['code', 'name', 'family', 'declaredClass', 'lineCode'] as const;

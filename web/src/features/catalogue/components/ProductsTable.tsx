@@ -1,9 +1,9 @@
 import { useMemo, useState } from 'react';
 import { createColumnHelper, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from '@tanstack/react-table';
-import type { Notice } from '../../users/components/UserActions';
+import type { Notice } from '@web/features/users/components/UserActions';
 import { useUpdateProduct, type CatalogueProduct } from '../api/catalogue';
 import { actionsColumn, statusColumn, type Consequences } from './RowActions';
-import { DataTable } from '../../../components/ui/Table';
+import { DataTable } from '@web/components/ui/Table';
 
 const column = createColumnHelper<CatalogueProduct>();
 

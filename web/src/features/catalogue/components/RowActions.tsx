@@ -1,10 +1,10 @@
 import { useState, type ReactNode } from 'react';
 import type { ColumnHelper } from '@tanstack/react-table';
-import { errorMessage } from '../../../lib/http';
-import type { Notice } from '../../users/components/UserActions';
-import { Badge } from '../../../components/ui/Badge';
-import { Button } from '../../../components/ui/Button';
-import { Dialog } from '../../../components/ui/Dialog';
+import { errorMessage } from '@web/lib/http';
+import type { Notice } from '@web/features/users/components/UserActions';
+import { Badge } from '@web/components/ui/Badge';
+import { Button } from '@web/components/ui/Button';
+import { Dialog } from '@web/components/ui/Dialog';
 
 /** The Status column of lines, products and characteristics. */
 export function statusColumn<T extends { active: boolean }>(column: ColumnHelper<T>) {

@@ -1,16 +1,16 @@
 import { useCallback, useState } from 'react';
-import { useTestMethods } from '../../test-methods/api/test-methods';
-import type { Notice } from '../../users/components/UserActions';
+import { useTestMethods } from '@web/features/test-methods/api/test-methods';
+import type { Notice } from '@web/features/users/components/UserActions';
 import { useCatalogueCharacteristics, useCatalogueProducts, type CatalogueCharacteristic } from '../api/catalogue';
 import { CharacteristicForm } from '../components/CharacteristicForm';
 import { CharacteristicsTable } from '../components/CharacteristicsTable';
 import { EditorCard } from '../components/EditorCard';
-import { PageHeader } from '../../../components/ui/PageHeader';
-import { Button } from '../../../components/ui/Button';
-import { Alert } from '../../../components/ui/Alert';
-import { Loading } from '../../../components/ui/Spinner';
-import { ErrorState } from '../../../components/ui/ErrorState';
-import { EmptyState } from '../../../components/ui/EmptyState';
+import { PageHeader } from '@web/components/ui/PageHeader';
+import { Button } from '@web/components/ui/Button';
+import { Alert } from '@web/components/ui/Alert';
+import { Loading } from '@web/components/ui/Spinner';
+import { ErrorState } from '@web/components/ui/ErrorState';
+import { EmptyState } from '@web/components/ui/EmptyState';
 
 /** /admin/catalogue/characteristics: what the lab tests on each product, and how it is charted. */
 export default function CharacteristicsPage() {

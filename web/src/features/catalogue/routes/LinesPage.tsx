@@ -1,17 +1,17 @@
 import { useMemo, useState } from 'react';
 import { createColumnHelper, getCoreRowModel, useReactTable } from '@tanstack/react-table';
-import type { Notice } from '../../users/components/UserActions';
+import type { Notice } from '@web/features/users/components/UserActions';
 import { useCatalogueLines, useCatalogueProducts, useUpdateLine, type CatalogueLine } from '../api/catalogue';
 import { LineForm } from '../components/LineForm';
 import { actionsColumn, statusColumn, type Consequences } from '../components/RowActions';
 import { EditorCard } from '../components/EditorCard';
-import { PageHeader } from '../../../components/ui/PageHeader';
-import { DataTable } from '../../../components/ui/Table';
-import { Button } from '../../../components/ui/Button';
-import { Alert } from '../../../components/ui/Alert';
-import { Loading } from '../../../components/ui/Spinner';
-import { ErrorState } from '../../../components/ui/ErrorState';
-import { EmptyState } from '../../../components/ui/EmptyState';
+import { PageHeader } from '@web/components/ui/PageHeader';
+import { DataTable } from '@web/components/ui/Table';
+import { Button } from '@web/components/ui/Button';
+import { Alert } from '@web/components/ui/Alert';
+import { Loading } from '@web/components/ui/Spinner';
+import { ErrorState } from '@web/components/ui/ErrorState';
+import { EmptyState } from '@web/components/ui/EmptyState';
 
 const column = createColumnHelper<CatalogueLine & { products: string[] }>();
 

@@ -1,15 +1,15 @@
 import { useCallback, useState } from 'react';
-import type { Notice } from '../../users/components/UserActions';
+import type { Notice } from '@web/features/users/components/UserActions';
 import { useCatalogueLines, useCatalogueProducts, type CatalogueProduct } from '../api/catalogue';
 import { ProductForm } from '../components/ProductForm';
 import { ProductsTable } from '../components/ProductsTable';
 import { EditorCard } from '../components/EditorCard';
-import { PageHeader } from '../../../components/ui/PageHeader';
-import { Button } from '../../../components/ui/Button';
-import { Alert } from '../../../components/ui/Alert';
-import { Loading } from '../../../components/ui/Spinner';
-import { ErrorState } from '../../../components/ui/ErrorState';
-import { EmptyState } from '../../../components/ui/EmptyState';
+import { PageHeader } from '@web/components/ui/PageHeader';
+import { Button } from '@web/components/ui/Button';
+import { Alert } from '@web/components/ui/Alert';
+import { Loading } from '@web/components/ui/Spinner';
+import { ErrorState } from '@web/components/ui/ErrorState';
+import { EmptyState } from '@web/components/ui/EmptyState';
 
 /** /admin/catalogue/products: the products the plant makes, each on one line. */
 export default function ProductsPage() {

@@ -1,7 +1,7 @@
 import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { http } from '../../../lib/http';
-import { overviewKeys } from '../../overview/api/overview';
-import type { CharacteristicChart, ExcludePointInput, IncludePointInput, LimitRevisionRecord } from '../../../../../shared/schemas/charts';
+import { http } from '@web/lib/http';
+import { overviewKeys } from '@web/features/overview/api/overview';
+import type { CharacteristicChart, ExcludePointInput, IncludePointInput, LimitRevisionRecord } from '@shared/schemas/charts';
 
 export interface ChartRange {
   from?: string;

@@ -4,10 +4,10 @@ import ReactEChartsCore from 'echarts-for-react/esm/core';
 import { echarts } from '../lib/echarts';
 import { buildCapabilityOption } from '../lib/capability-option';
 import { figure, indexFigure } from '../lib/format';
-import type { CharacteristicChart } from '../../../../../shared/schemas/charts';
-import type { Interval } from '../../../../../shared/spc';
-import { Badge } from '../../../components/ui/Badge';
-import { EmptyState } from '../../../components/ui/EmptyState';
+import type { CharacteristicChart } from '@shared/schemas/charts';
+import type { Interval } from '@shared/spc';
+import { Badge } from '@web/components/ui/Badge';
+import { EmptyState } from '@web/components/ui/EmptyState';
 
 /** The values capability is computed from: every replicate of the kept points, or each lot's result on an I–MR chart. */
 export function capabilityValues(chart: CharacteristicChart): number[] {

@@ -4,7 +4,7 @@ import ReactEChartsCore from 'echarts-for-react/esm/core';
 import type { EChartsType } from 'echarts/core';
 import { echarts } from '../lib/echarts';
 import { buildControlChartOption, indexChart, markerSets, nearestPoint, SELECTED_SERIES_ID, thinMarkers, type ChartIndex, type MarkerSets } from '../lib/control-chart-option';
-import type { CharacteristicChart, ChartPointRecord } from '../../../../../shared/schemas/charts';
+import type { CharacteristicChart, ChartPointRecord } from '@shared/schemas/charts';
 
 export interface ZoomWindow {
   /** First and last point index in view. */

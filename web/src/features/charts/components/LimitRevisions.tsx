@@ -1,8 +1,8 @@
 import { useLimitRevisions } from '../api/chart';
-import { Badge } from '../../../components/ui/Badge';
-import { Loading } from '../../../components/ui/Spinner';
-import { ErrorState } from '../../../components/ui/ErrorState';
-import { EmptyState } from '../../../components/ui/EmptyState';
+import { Badge } from '@web/components/ui/Badge';
+import { Loading } from '@web/components/ui/Spinner';
+import { ErrorState } from '@web/components/ui/ErrorState';
+import { EmptyState } from '@web/components/ui/EmptyState';
 import { figure, formatDateTime } from '../lib/format';
 
 /** Every freeze of this chart's limits: who, when, why and from which baseline. Newest first. */

@@ -1,5 +1,5 @@
-import type { CharacteristicChart } from '../../../../../shared/schemas/charts';
-import { Badge } from '../../../components/ui/Badge';
+import type { CharacteristicChart } from '@shared/schemas/charts';
+import { Badge } from '@web/components/ui/Badge';
 import { figure, formatDateTime, statisticNames } from '../lib/format';
 
 function Figure({ label, value, testId }: { label: string; value: string; testId?: string }) {

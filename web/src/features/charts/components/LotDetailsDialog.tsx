@@ -1,10 +1,10 @@
 import { Link } from 'react-router';
-import { useLot, type LotResult } from '../../results/api/lots';
-import { useCharacteristics } from '../../results/api/catalogue';
-import { Dialog } from '../../../components/ui/Dialog';
-import { Loading } from '../../../components/ui/Spinner';
-import { ErrorState } from '../../../components/ui/ErrorState';
-import { Button } from '../../../components/ui/Button';
+import { useLot, type LotResult } from '@web/features/results/api/lots';
+import { useCharacteristics } from '@web/features/results/api/catalogue';
+import { Dialog } from '@web/components/ui/Dialog';
+import { Loading } from '@web/components/ui/Spinner';
+import { ErrorState } from '@web/components/ui/ErrorState';
+import { Button } from '@web/components/ui/Button';
 import { formatDateTime, shiftName } from '../lib/format';
 
 interface Group {

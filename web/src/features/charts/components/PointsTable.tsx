@@ -8,11 +8,11 @@ import {
   useReactTable,
   type SortingState,
 } from '@tanstack/react-table';
-import type { CharacteristicChart, ChartPointRecord } from '../../../../../shared/schemas/charts';
-import { DataTable } from '../../../components/ui/Table';
-import { Badge } from '../../../components/ui/Badge';
-import { Button } from '../../../components/ui/Button';
-import { EmptyState } from '../../../components/ui/EmptyState';
+import type { CharacteristicChart, ChartPointRecord } from '@shared/schemas/charts';
+import { DataTable } from '@web/components/ui/Table';
+import { Badge } from '@web/components/ui/Badge';
+import { Button } from '@web/components/ui/Button';
+import { EmptyState } from '@web/components/ui/EmptyState';
 import { figure, formatDateTime, ruleLabels, shiftName, statisticNames } from '../lib/format';
 import { downloadText, pointsCsv } from '../lib/points-csv';
 

@@ -1,5 +1,5 @@
-import type { CharacteristicChart } from '../../../../../shared/schemas/charts';
-import { Button } from '../../../components/ui/Button';
+import type { CharacteristicChart } from '@shared/schemas/charts';
+import { Button } from '@web/components/ui/Button';
 import { figure, formatDateTime, ruleLabels, shiftName, statisticNames } from '../lib/format';
 
 interface SelectedPointProps {

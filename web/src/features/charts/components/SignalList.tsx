@@ -1,6 +1,6 @@
 import { useState } from 'react';
-import type { CharacteristicChart, ChartViolation } from '../../../../../shared/schemas/charts';
-import { Button } from '../../../components/ui/Button';
+import type { CharacteristicChart, ChartViolation } from '@shared/schemas/charts';
+import { Button } from '@web/components/ui/Button';
 import { formatDateTime, ruleLabels, statisticNames } from '../lib/format';
 
 const FIRST = 12;

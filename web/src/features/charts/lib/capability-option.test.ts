@@ -1,6 +1,6 @@
 import { createRequire } from 'node:module';
 import { describe, expect, it } from 'vitest';
-import type { CapabilityResult } from '../../../../../shared/spc';
+import type { CapabilityResult } from '@shared/spc';
 import { buildCapabilityOption, histogram } from './capability-option';
 
 const jStat = createRequire(import.meta.url)('jstat') as { normal: { pdf(x: number, mean: number, sd: number): number } };

@@ -3,7 +3,7 @@
 import type { ComposeOption } from 'echarts/core';
 import type { BarSeriesOption, LineSeriesOption } from 'echarts/charts';
 import type { GridComponentOption, MarkLineComponentOption, TooltipComponentOption } from 'echarts/components';
-import type { CapabilityResult } from '../../../../../shared/spc';
+import type { CapabilityResult } from '@shared/spc';
 import { lineStyles, type LineKind } from './line-styles';
 
 export type CapabilityOption = ComposeOption<BarSeriesOption | LineSeriesOption | GridComponentOption | MarkLineComponentOption | TooltipComponentOption>;

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import type { CharacteristicChart, ChartPointRecord, ChartViolation } from '../../../../../shared/schemas/charts';
-import { ruleDescriptions } from '../../../../../shared/spc';
+import type { CharacteristicChart, ChartPointRecord, ChartViolation } from '@shared/schemas/charts';
+import { ruleDescriptions } from '@shared/spc';
 import {
   buildControlChartOption,
   DENSE_POINTS,

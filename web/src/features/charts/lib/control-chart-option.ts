@@ -11,7 +11,7 @@ import type {
   TooltipComponentOption,
   AxisPointerComponentOption,
 } from 'echarts/components';
-import type { CharacteristicChart, ChartPointRecord, ChartViolation } from '../../../../../shared/schemas/charts';
+import type { CharacteristicChart, ChartPointRecord, ChartViolation } from '@shared/schemas/charts';
 import { lineStyles, markers, zoneFill, type LineKind, type MarkerKind } from './line-styles';
 import { escapeHtml, figure, formatDateTime, formatShortDate, ruleLabels, shiftName, statisticNames } from './format';
 

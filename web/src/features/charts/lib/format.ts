@@ -1,4 +1,4 @@
-import type { RuleId } from '../../../../../shared/spc';
+import type { RuleId } from '@shared/spc';
 
 /** Short names of the run rules for tables and markers; the engine's descriptions explain them in full. */
 export const ruleLabels: Record<RuleId, string> = {

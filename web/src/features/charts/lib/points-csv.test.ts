@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import Papa from 'papaparse';
-import type { CharacteristicChart } from '../../../../../shared/schemas/charts';
+import type { CharacteristicChart } from '@shared/schemas/charts';
 import { pointsCsv } from './points-csv';
 
 const chart = {

@@ -1,6 +1,6 @@
 // The chart's points as CSV (RFC 4180: comma, dot decimals, CRLF, quotes where needed), one row per
 // point with one column per replicate, for a spreadsheet or an audit file.
-import type { CharacteristicChart } from '../../../../../shared/schemas/charts';
+import type { CharacteristicChart } from '@shared/schemas/charts';
 
 function field(value: string | number | boolean | null): string {
   if (value === null) return '';

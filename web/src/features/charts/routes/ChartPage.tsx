@@ -1,8 +1,8 @@
 import { useCallback, useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
 import { Link, useParams, useSearchParams } from 'react-router';
-import { ApiError } from '../../../lib/http';
-import { useSignedInUser } from '../../auth/api/session';
-import { usePlantTimeZone } from '../../results/api/catalogue';
+import { ApiError } from '@web/lib/http';
+import { useSignedInUser } from '@web/features/auth/api/session';
+import { usePlantTimeZone } from '@web/features/results/api/catalogue';
 import { useChart, type ChartRange } from '../api/chart';
 import { ControlChart, type ZoomWindow } from '../components/ControlChart';
 import { ChartLegend } from '../components/ChartLegend';
@@ -16,14 +16,14 @@ import { LotDetailsDialog } from '../components/LotDetailsDialog';
 import { SelectedPoint } from '../components/SelectedPoint';
 import { SignalList } from '../components/SignalList';
 import { chartTypeLabels, formatDateTime, ruleSetLabels } from '../lib/format';
-import type { CharacteristicChart } from '../../../../../shared/schemas/charts';
-import { PageHeader } from '../../../components/ui/PageHeader';
-import { Button } from '../../../components/ui/Button';
-import { Alert } from '../../../components/ui/Alert';
-import { Select } from '../../../components/ui/Field';
-import { Loading } from '../../../components/ui/Spinner';
-import { ErrorState } from '../../../components/ui/ErrorState';
-import { EmptyState } from '../../../components/ui/EmptyState';
+import type { CharacteristicChart } from '@shared/schemas/charts';
+import { PageHeader } from '@web/components/ui/PageHeader';
+import { Button } from '@web/components/ui/Button';
+import { Alert } from '@web/components/ui/Alert';
+import { Select } from '@web/components/ui/Field';
+import { Loading } from '@web/components/ui/Spinner';
+import { ErrorState } from '@web/components/ui/ErrorState';
+import { EmptyState } from '@web/components/ui/EmptyState';
 
 const periods = [
   { value: 'all', label: 'All history', days: null },

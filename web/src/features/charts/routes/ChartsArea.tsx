@@ -1,7 +1,7 @@
 import { lazy, Suspense } from 'react';
 import { Route, Routes } from 'react-router';
-import { NotFoundPage } from '../../../app/routes/NotFoundPage';
-import { Loading } from '../../../components/ui/Spinner';
+import { NotFoundPage } from '@web/app/routes/NotFoundPage';
+import { Loading } from '@web/components/ui/Spinner';
 import ChartsIndexPage from './ChartsIndexPage';
 
 // echarts comes with the page of one chart, not with the list of charts.

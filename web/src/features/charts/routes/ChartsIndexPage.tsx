@@ -1,13 +1,13 @@
 import { useState } from 'react';
 import { Link } from 'react-router';
-import { useCharacteristics, useLines, type Characteristic } from '../../results/api/catalogue';
-import { PageHeader } from '../../../components/ui/PageHeader';
-import { Input } from '../../../components/ui/Field';
-import { Loading } from '../../../components/ui/Spinner';
-import { ErrorState } from '../../../components/ui/ErrorState';
-import { EmptyState } from '../../../components/ui/EmptyState';
+import { useCharacteristics, useLines, type Characteristic } from '@web/features/results/api/catalogue';
+import { PageHeader } from '@web/components/ui/PageHeader';
+import { Input } from '@web/components/ui/Field';
+import { Loading } from '@web/components/ui/Spinner';
+import { ErrorState } from '@web/components/ui/ErrorState';
+import { EmptyState } from '@web/components/ui/EmptyState';
 import { chartTypeLabels } from '../lib/format';
-import type { ChartType } from '../../../../../shared/spc';
+import type { ChartType } from '@shared/spc';
 
 type Listed = Characteristic & { chartType?: ChartType };
 

@@ -1,5 +1,5 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
-import { http } from '../../../lib/http';
+import { http } from '@web/lib/http';
 
 export interface CapturedMessage {
   id: number;

@@ -1,11 +1,11 @@
 import { useState } from 'react';
 import { useOutbox } from '../api/outbox';
-import { ApiError } from '../../../lib/http';
-import { PageHeader } from '../../../components/ui/PageHeader';
-import { Button } from '../../../components/ui/Button';
-import { Loading } from '../../../components/ui/Spinner';
-import { ErrorState } from '../../../components/ui/ErrorState';
-import { EmptyState } from '../../../components/ui/EmptyState';
+import { ApiError } from '@web/lib/http';
+import { PageHeader } from '@web/components/ui/PageHeader';
+import { Button } from '@web/components/ui/Button';
+import { Loading } from '@web/components/ui/Spinner';
+import { ErrorState } from '@web/components/ui/ErrorState';
+import { EmptyState } from '@web/components/ui/EmptyState';
 
 const time = new Intl.DateTimeFormat('en-GB', { day: '2-digit', month: 'short', hour: '2-digit', minute: '2-digit', second: '2-digit' });
 

@@ -1,6 +1,6 @@
 import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
-import { http } from '../../../lib/http';
-import type { Overview } from '../../../../../shared/schemas/overview';
+import { http } from '@web/lib/http';
+import type { Overview } from '@shared/schemas/overview';
 
 export interface OverviewFilters {
   line?: string;

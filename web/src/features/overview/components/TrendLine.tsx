@@ -1,4 +1,4 @@
-import type { OverviewItem } from '../../../../../shared/schemas/overview';
+import type { OverviewItem } from '@shared/schemas/overview';
 
 const W = 240;
 const H = 44;

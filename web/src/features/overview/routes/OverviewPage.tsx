@@ -1,15 +1,15 @@
 import { useMemo } from 'react';
 import { useSearchParams } from 'react-router';
 import { useOverview } from '../api/overview';
-import { usePlantTimeZone } from '../../results/api/catalogue';
+import { usePlantTimeZone } from '@web/features/results/api/catalogue';
 import { CharacteristicTile } from '../components/CharacteristicTile';
-import { formatPlantDateTime } from '../../results/lib/plant-time';
-import { overviewPeriods, type OverviewItem } from '../../../../../shared/schemas/overview';
-import { PageHeader } from '../../../components/ui/PageHeader';
-import { Select } from '../../../components/ui/Field';
-import { ErrorState } from '../../../components/ui/ErrorState';
-import { EmptyState } from '../../../components/ui/EmptyState';
-import { Button } from '../../../components/ui/Button';
+import { formatPlantDateTime } from '@web/features/results/lib/plant-time';
+import { overviewPeriods, type OverviewItem } from '@shared/schemas/overview';
+import { PageHeader } from '@web/components/ui/PageHeader';
+import { Select } from '@web/components/ui/Field';
+import { ErrorState } from '@web/components/ui/ErrorState';
+import { EmptyState } from '@web/components/ui/EmptyState';
+import { Button } from '@web/components/ui/Button';
 
 const familyLabels: Record<string, string> = { levelling: 'Levelling compounds', 'tile-adhesive': 'Tile adhesives', repair: 'Repair mortars' };
 const periodLabel = (days: number) => (days === 182 ? 'Last 6 months' : `Last ${days} days`);

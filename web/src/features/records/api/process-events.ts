@@ -1,7 +1,7 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { http } from '../../../lib/http';
-import type { ProcessEventInput } from '../../../../../shared/schemas/plant-records';
-import { chartKeys } from '../../charts/api/chart';
+import { http } from '@web/lib/http';
+import type { ProcessEventInput } from '@shared/schemas/plant-records';
+import { chartKeys } from '@web/features/charts/api/chart';
 
 export interface ProcessEvent {
   id: number;

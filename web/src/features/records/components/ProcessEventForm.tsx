@@ -1,14 +1,14 @@
 import { useForm, useWatch } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import type { Product, ProductionLine } from '../../results/api/catalogue';
-import { TextArea } from '../../charts/components/TextArea';
+import type { Product, ProductionLine } from '@web/features/results/api/catalogue';
+import { TextArea } from '@web/features/charts/components/TextArea';
 import { useCreateProcessEvent } from '../api/process-events';
 import { processEventFormSchema } from '../lib/form-schemas';
 import { browserTimeZone, nowAsLocalInput } from '../lib/date-time';
 import { showServerErrors } from '../lib/server-errors';
-import { Alert } from '../../../components/ui/Alert';
-import { Button } from '../../../components/ui/Button';
-import { Field, Input, Select } from '../../../components/ui/Field';
+import { Alert } from '@web/components/ui/Alert';
+import { Button } from '@web/components/ui/Button';
+import { Field, Input, Select } from '@web/components/ui/Field';
 
 const fields = ['occurredAt', 'title', 'description', 'lineCode', 'productCode'] as const;
 

@@ -1,8 +1,8 @@
-import { figure } from '../../charts/lib/format';
+import { figure } from '@web/features/charts/lib/format';
 import type { SpecRevision } from '../api/specifications';
 import { revisionState, type RevisionState } from '../lib/in-force';
 import { formatWithZone } from '../lib/date-time';
-import { Badge } from '../../../components/ui/Badge';
+import { Badge } from '@web/components/ui/Badge';
 
 const stateTone: Record<RevisionState, 'positive' | 'accent' | 'neutral'> = { 'in force': 'positive', scheduled: 'accent', superseded: 'neutral' };
 const stateLabel: Record<RevisionState, string> = { 'in force': 'In force', scheduled: 'Not yet in force', superseded: 'Superseded' };

@@ -1,14 +1,14 @@
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import type { Characteristic } from '../../results/api/catalogue';
-import { TextArea } from '../../charts/components/TextArea';
+import type { Characteristic } from '@web/features/results/api/catalogue';
+import { TextArea } from '@web/features/charts/components/TextArea';
 import { useCreateSpecRevision, type SpecRevision } from '../api/specifications';
 import { specRevisionFormSchema } from '../lib/form-schemas';
 import { browserTimeZone, formatWithZone } from '../lib/date-time';
 import { showServerErrors } from '../lib/server-errors';
-import { Alert } from '../../../components/ui/Alert';
-import { Button } from '../../../components/ui/Button';
-import { Field, Input } from '../../../components/ui/Field';
+import { Alert } from '@web/components/ui/Alert';
+import { Button } from '@web/components/ui/Button';
+import { Field, Input } from '@web/components/ui/Field';
 
 const fields = ['lsl', 'usl', 'target', 'effectiveFrom', 'reason'] as const;
 

@@ -1,6 +1,6 @@
 import { z } from 'zod';
-import { processEventSchema, specRevisionSchema } from '../../../../../shared/schemas/plant-records';
-import { typedNumber } from '../../results/lib/form-values';
+import { processEventSchema, specRevisionSchema } from '@shared/schemas/plant-records';
+import { typedNumber } from '@web/features/results/lib/form-values';
 import { localInputToIso } from './date-time';
 
 // The forms keep what was typed (numbers with a decimal comma or point, local date-times) and turn it

@@ -1,4 +1,4 @@
-import type { Role } from '../../../../../shared/schemas/roles';
+import type { Role } from '@shared/schemas/roles';
 
 /** Who may add a specification revision; the API checks the same roles on every request. */
 export const specificationRoles: readonly Role[] = ['quality_manager', 'admin'];

@@ -1,6 +1,6 @@
 import type { FieldValues, Path, UseFormSetError } from 'react-hook-form';
-import { ApiError, errorMessage } from '../../../lib/http';
-import { showServerFieldErrors } from '../../../lib/forms';
+import { ApiError, errorMessage } from '@web/lib/http';
+import { showServerFieldErrors } from '@web/lib/forms';
 
 /**
  * Puts the server's refusal under the field it concerns. Besides `details`, some rules are checked

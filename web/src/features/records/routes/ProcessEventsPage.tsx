@@ -1,18 +1,18 @@
 import { useState } from 'react';
-import { useLines, useProducts } from '../../results/api/catalogue';
-import { useSignedInUser } from '../../auth/api/session';
+import { useLines, useProducts } from '@web/features/results/api/catalogue';
+import { useSignedInUser } from '@web/features/auth/api/session';
 import { useProcessEvents, type EventPeriod } from '../api/process-events';
 import { processEventRoles } from '../lib/roles';
 import { browserTimeZone, formatWithZone, localDateToIso } from '../lib/date-time';
 import { ProcessEventForm, type RecordedEvent } from '../components/ProcessEventForm';
 import { ProcessEventList } from '../components/ProcessEventList';
-import { PageHeader } from '../../../components/ui/PageHeader';
-import { Card } from '../../../components/ui/Card';
-import { Alert } from '../../../components/ui/Alert';
-import { Field, Input } from '../../../components/ui/Field';
-import { Loading } from '../../../components/ui/Spinner';
-import { ErrorState } from '../../../components/ui/ErrorState';
-import { EmptyState } from '../../../components/ui/EmptyState';
+import { PageHeader } from '@web/components/ui/PageHeader';
+import { Card } from '@web/components/ui/Card';
+import { Alert } from '@web/components/ui/Alert';
+import { Field, Input } from '@web/components/ui/Field';
+import { Loading } from '@web/components/ui/Spinner';
+import { ErrorState } from '@web/components/ui/ErrorState';
+import { EmptyState } from '@web/components/ui/EmptyState';
 
 /** Where the marker of an event shows, as the chart endpoint selects events: product, else line, else everywhere. */
 function markerScope(event: RecordedEvent): string {

@@ -1,8 +1,8 @@
 import { lazy, Suspense } from 'react';
 import { Navigate, Route, Routes } from 'react-router';
-import { NotFoundPage } from '../../../app/routes/NotFoundPage';
-import { Loading } from '../../../components/ui/Spinner';
-import { AreaTabs } from '../../../components/ui/AreaTabs';
+import { NotFoundPage } from '@web/app/routes/NotFoundPage';
+import { Loading } from '@web/components/ui/Spinner';
+import { AreaTabs } from '@web/components/ui/AreaTabs';
 
 const SpecificationsPage = lazy(() => import('./SpecificationsPage'));
 const SpecificationPage = lazy(() => import('./SpecificationPage'));

@@ -1,21 +1,21 @@
 import { useState } from 'react';
 import { Link, useParams } from 'react-router';
-import { useCharacteristics } from '../../results/api/catalogue';
-import { characteristicLabel } from '../../results/lib/names';
-import { specLimitsText } from '../../results/lib/spec';
-import { useSignedInUser } from '../../auth/api/session';
+import { useCharacteristics } from '@web/features/results/api/catalogue';
+import { characteristicLabel } from '@web/features/results/lib/names';
+import { specLimitsText } from '@web/features/results/lib/spec';
+import { useSignedInUser } from '@web/features/auth/api/session';
 import { useSpecRevisions, type SpecRevision } from '../api/specifications';
 import { specificationRoles } from '../lib/roles';
 import { formatWithZone } from '../lib/date-time';
 import { RevisionNote } from '../components/RevisionNote';
 import { RevisionHistory } from '../components/RevisionHistory';
 import { SpecRevisionForm } from '../components/SpecRevisionForm';
-import { PageHeader } from '../../../components/ui/PageHeader';
-import { Card } from '../../../components/ui/Card';
-import { Alert } from '../../../components/ui/Alert';
-import { Loading } from '../../../components/ui/Spinner';
-import { ErrorState } from '../../../components/ui/ErrorState';
-import { EmptyState } from '../../../components/ui/EmptyState';
+import { PageHeader } from '@web/components/ui/PageHeader';
+import { Card } from '@web/components/ui/Card';
+import { Alert } from '@web/components/ui/Alert';
+import { Loading } from '@web/components/ui/Spinner';
+import { ErrorState } from '@web/components/ui/ErrorState';
+import { EmptyState } from '@web/components/ui/EmptyState';
 
 /** /records/specifications/:characteristicId: the revision in force, the history, and a new revision. */
 export default function SpecificationPage() {

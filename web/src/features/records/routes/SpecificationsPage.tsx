@@ -1,15 +1,15 @@
 import { Link } from 'react-router';
-import { useCharacteristics, type Characteristic } from '../../results/api/catalogue';
-import { characteristicLabel } from '../../results/lib/names';
-import { figure } from '../../charts/lib/format';
-import { useSignedInUser } from '../../auth/api/session';
+import { useCharacteristics, type Characteristic } from '@web/features/results/api/catalogue';
+import { characteristicLabel } from '@web/features/results/lib/names';
+import { figure } from '@web/features/charts/lib/format';
+import { useSignedInUser } from '@web/features/auth/api/session';
 import { specificationRoles } from '../lib/roles';
 import { formatWithZone } from '../lib/date-time';
 import { RevisionNote } from '../components/RevisionNote';
-import { PageHeader } from '../../../components/ui/PageHeader';
-import { Loading } from '../../../components/ui/Spinner';
-import { ErrorState } from '../../../components/ui/ErrorState';
-import { EmptyState } from '../../../components/ui/EmptyState';
+import { PageHeader } from '@web/components/ui/PageHeader';
+import { Loading } from '@web/components/ui/Spinner';
+import { ErrorState } from '@web/components/ui/ErrorState';
+import { EmptyState } from '@web/components/ui/EmptyState';
 
 interface ProductGroup {
   code: string;

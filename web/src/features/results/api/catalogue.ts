@@ -1,8 +1,8 @@
 import { useMemo } from 'react';
 import { queryOptions, useQuery } from '@tanstack/react-query';
-import { http } from '../../../lib/http';
-import type { RawLoadFormula, TestMethodCode } from '../../../../../shared/lab';
-import { useTestMethods, type TestMethodEntry } from '../../test-methods/api/test-methods';
+import { http } from '@web/lib/http';
+import type { RawLoadFormula, TestMethodCode } from '@shared/lab';
+import { useTestMethods, type TestMethodEntry } from '@web/features/test-methods/api/test-methods';
 
 export interface Product {
   id: number;

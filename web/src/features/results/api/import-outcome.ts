@@ -1,5 +1,5 @@
-import { ApiError } from '../../../lib/http';
-import type { RowError } from '../../../../../shared/ingest';
+import { ApiError } from '@web/lib/http';
+import type { RowError } from '@shared/ingest';
 
 /** What the server made of a file: every row stored, none stored, or the same bytes seen before. */
 export type UploadOutcome =

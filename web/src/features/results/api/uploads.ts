@@ -1,6 +1,6 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { http } from '../../../lib/http';
-import type { ColumnMapping, CsvDialect, SaveMappingInput } from '../../../../../shared/ingest';
+import { http } from '@web/lib/http';
+import type { ColumnMapping, CsvDialect, SaveMappingInput } from '@shared/ingest';
 import { fileOutcome, type UploadOutcome } from './import-outcome';
 import { lotKeys } from './lots';
 

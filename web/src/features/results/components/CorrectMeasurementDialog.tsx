@@ -1,15 +1,15 @@
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { correctMeasurementSchema } from '../../../../../shared/ingest';
-import { ApiError } from '../../../lib/http';
+import { correctMeasurementSchema } from '@shared/ingest';
+import { ApiError } from '@web/lib/http';
 import { useCorrectMeasurement, type LotResult } from '../api/lots';
 import { typedNumber } from '../lib/form-values';
-import { showServerErrors } from '../../records/lib/server-errors';
-import { TextArea } from '../../charts/components/TextArea';
-import { Alert } from '../../../components/ui/Alert';
-import { Button } from '../../../components/ui/Button';
-import { Dialog } from '../../../components/ui/Dialog';
-import { Field, Input } from '../../../components/ui/Field';
+import { showServerErrors } from '@web/features/records/lib/server-errors';
+import { TextArea } from '@web/features/charts/components/TextArea';
+import { Alert } from '@web/components/ui/Alert';
+import { Button } from '@web/components/ui/Button';
+import { Dialog } from '@web/components/ui/Dialog';
+import { Field, Input } from '@web/components/ui/Field';
 
 export interface CorrectedReading {
   reading: LotResult;

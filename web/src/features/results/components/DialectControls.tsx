@@ -1,5 +1,5 @@
-import type { CsvDialect } from '../../../../../shared/ingest';
-import { Field, Select } from '../../../components/ui/Field';
+import type { CsvDialect } from '@shared/ingest';
+import { Field, Select } from '@web/components/ui/Field';
 
 const delimiterNames: Record<CsvDialect['delimiter'], string> = { ';': 'semicolon', ',': 'comma', '\t': 'tab' };
 

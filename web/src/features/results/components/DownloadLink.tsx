@@ -1,5 +1,5 @@
 import type { ReactNode } from 'react';
-import { cx } from '../../../components/ui/cx';
+import { cx } from '@web/components/ui/cx';
 
 /** A file the API serves for download (template, error report, original upload). */
 export function DownloadLink({ href, children, className }: { href: string; children: ReactNode; className?: string }) {

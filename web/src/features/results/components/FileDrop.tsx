@@ -1,5 +1,5 @@
 import { useId, useState, type DragEvent } from 'react';
-import { cx } from '../../../components/ui/cx';
+import { cx } from '@web/components/ui/cx';
 
 /** Takes one file by drag and drop or by the file picker; the picker is a real input, so it works from the keyboard. */
 export function FileDrop({ onFile, disabled = false, compact = false }: { onFile: (file: File) => void; disabled?: boolean; compact?: boolean }) {

@@ -1,18 +1,18 @@
 import { useId } from 'react';
 import { useWatch, type Control, type FieldErrors, type UseFormRegister } from 'react-hook-form';
-import type { ManualEntry, ManualEntryInput } from '../../../../../shared/ingest';
+import type { ManualEntry, ManualEntryInput } from '@shared/ingest';
 import type { Characteristic } from '../api/catalogue';
-import type { TestMethodEntry } from '../../test-methods/api/test-methods';
-import { MethodCautions } from '../../test-methods/components/MethodCautions';
+import type { TestMethodEntry } from '@web/features/test-methods/api/test-methods';
+import { MethodCautions } from '@web/features/test-methods/components/MethodCautions';
 import { pullHeads, readingResult, readingWord } from '../lib/readings';
 import { blankAsUndefined, typedNumber } from '../lib/form-values';
 import { setResult, setStatusText } from '../lib/sets';
 import { specInForceAt, specLimitsText, specVerdict } from '../lib/spec';
-import { useSpecRevisions } from '../../records/api/specifications';
-import { Badge } from '../../../components/ui/Badge';
-import { Button } from '../../../components/ui/Button';
-import { Field, Input, Select } from '../../../components/ui/Field';
-import { cx } from '../../../components/ui/cx';
+import { useSpecRevisions } from '@web/features/records/api/specifications';
+import { Badge } from '@web/components/ui/Badge';
+import { Button } from '@web/components/ui/Button';
+import { Field, Input, Select } from '@web/components/ui/Field';
+import { cx } from '@web/components/ui/cx';
 
 interface ManualResultCardProps {
   index: number;

@@ -1,13 +1,13 @@
 import { useState } from 'react';
-import { missingColumns, saveMappingSchema, type ColumnMapping } from '../../../../../shared/ingest';
-import { errorMessage } from '../../../lib/http';
+import { missingColumns, saveMappingSchema, type ColumnMapping } from '@shared/ingest';
+import { errorMessage } from '@web/lib/http';
 import type { Characteristic } from '../api/catalogue';
 import { useSaveColumnMapping, type SavedMapping } from '../api/uploads';
 import { characteristicLabel } from '../lib/names';
 import { columnLabels, draftColumns, draftFromMapping, isRequired, suggestDraft, type MappingDraft } from '../lib/mapping';
-import { Alert } from '../../../components/ui/Alert';
-import { Button } from '../../../components/ui/Button';
-import { Field, Input, Select } from '../../../components/ui/Field';
+import { Alert } from '@web/components/ui/Alert';
+import { Button } from '@web/components/ui/Button';
+import { Field, Input, Select } from '@web/components/ui/Field';
 
 interface MappingEditorProps {
   headers: string[];

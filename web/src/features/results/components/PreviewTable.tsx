@@ -1,5 +1,5 @@
-import type { ParsedFile } from '../../../../../shared/ingest';
-import { cx } from '../../../components/ui/cx';
+import type { ParsedFile } from '@shared/ingest';
+import { cx } from '@web/components/ui/cx';
 
 export const PREVIEW_ROWS = 20;
 

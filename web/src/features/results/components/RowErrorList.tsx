@@ -1,4 +1,4 @@
-import type { RowError } from '../../../../../shared/ingest';
+import type { RowError } from '@shared/ingest';
 
 const SHOWN = 200;
 

@@ -3,8 +3,8 @@ import { uploadLinks } from '../api/uploads';
 import type { UploadOutcome as Outcome } from '../api/import-outcome';
 import { RowErrorList } from './RowErrorList';
 import { DownloadLink } from './DownloadLink';
-import { Alert } from '../../../components/ui/Alert';
-import { formatCount } from '../../../lib/format';
+import { Alert } from '@web/components/ui/Alert';
+import { formatCount } from '@web/lib/format';
 
 const link = 'font-medium underline underline-offset-2';
 

@@ -1,13 +1,13 @@
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { voidUploadSchema } from '../../../../../shared/ingest';
-import { errorMessage } from '../../../lib/http';
-import { showServerFieldErrors } from '../../../lib/forms';
+import { voidUploadSchema } from '@shared/ingest';
+import { errorMessage } from '@web/lib/http';
+import { showServerFieldErrors } from '@web/lib/forms';
 import { useVoidUpload, type Upload } from '../api/uploads';
-import { Alert } from '../../../components/ui/Alert';
-import { Button } from '../../../components/ui/Button';
-import { Dialog } from '../../../components/ui/Dialog';
-import { Field, Input } from '../../../components/ui/Field';
+import { Alert } from '@web/components/ui/Alert';
+import { Button } from '@web/components/ui/Button';
+import { Dialog } from '@web/components/ui/Dialog';
+import { Field, Input } from '@web/components/ui/Field';
 
 /** Asks for the reason before an imported upload's results leave every calculation. */
 export function VoidUploadDialog({ upload, onClose, onVoided }: { upload: Upload; onClose: () => void; onVoided: (measurementsVoided: number) => void }) {

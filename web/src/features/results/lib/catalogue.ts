@@ -1,5 +1,5 @@
-import type { IngestCatalogue } from '../../../../../shared/ingest';
-import type { TestMethodEntry } from '../../test-methods/api/test-methods';
+import type { IngestCatalogue } from '@shared/ingest';
+import type { TestMethodEntry } from '@web/features/test-methods/api/test-methods';
 import type { EntryCatalogue } from '../api/catalogue';
 
 /** The catalogue as the shared row validation needs it, built like the server builds it: active lines, products and characteristics only. */

@@ -1,4 +1,4 @@
-import { readResults, type ColumnMapping, type IngestCatalogue, type ParsedFile, type RowError, type ValidMeasurement } from '../../../../../shared/ingest';
+import { readResults, type ColumnMapping, type IngestCatalogue, type ParsedFile, type RowError, type ValidMeasurement } from '@shared/ingest';
 
 export interface FileCheck {
   valid: ValidMeasurement[];

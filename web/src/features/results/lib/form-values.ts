@@ -1,4 +1,4 @@
-import { parseNumber } from '../../../../../shared/ingest';
+import { parseNumber } from '@shared/ingest';
 
 /** A typed number, with a decimal comma or point; blank stays blank so the schema says "Enter a number". */
 export function typedNumber(text: unknown): number | undefined {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { missingColumns, rowMapper } from '../../../../../shared/ingest';
+import { missingColumns, rowMapper } from '@shared/ingest';
 import { hasCanonicalHeaders, mappingFromDraft, suggestDraft } from './mapping';
 
 const codes = ['HVL25-FLOW', 'HVL25-AIR', 'HVL25-RC28'];

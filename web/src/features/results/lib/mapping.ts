@@ -6,7 +6,7 @@ import {
   wideLotColumns,
   type CanonicalColumn,
   type ColumnMapping,
-} from '../../../../../shared/ingest';
+} from '@shared/ingest';
 
 /** The mapping as it is being edited: a blank choice is a column not picked yet. */
 export interface MappingDraft {

@@ -1,5 +1,5 @@
 // Production and test times are read and written in the plant's time zone, whatever the browser's.
-import { wallClock } from '../../../../../shared/ingest/values';
+import { wallClock } from '@shared/ingest/values';
 
 const dateTimeFormats = new Map<string, Intl.DateTimeFormat>();
 

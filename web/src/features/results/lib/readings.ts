@@ -1,5 +1,5 @@
-import { isPhysicallyPossible, resultFromEntry, roundHead50, squareHead50, type PullHead } from '../../../../../shared/lab';
-import type { ManualEntryInput } from '../../../../../shared/ingest';
+import { isPhysicallyPossible, resultFromEntry, roundHead50, squareHead50, type PullHead } from '@shared/lab';
+import type { ManualEntryInput } from '@shared/ingest';
 import type { Characteristic } from '../api/catalogue';
 
 type ManualResult = ManualEntryInput['results'][number];

@@ -1,4 +1,4 @@
-import type { Role } from '../../../../../shared/schemas/roles';
+import type { Role } from '@shared/schemas/roles';
 
 /** Who may upload files and enter results; the API checks the same roles on every request. */
 export const entryRoles: readonly Role[] = ['technician', 'quality_manager', 'admin'];

@@ -1,4 +1,4 @@
-import { evaluateCompressiveSet, evaluateFlexuralSet, type SetStatus } from '../../../../../shared/lab';
+import { evaluateCompressiveSet, evaluateFlexuralSet, type SetStatus } from '@shared/lab';
 import type { Characteristic } from '../api/catalogue';
 
 export interface SetResult {

@@ -1,21 +1,21 @@
 import { useState } from 'react';
 import { Link, useParams } from 'react-router';
-import { ApiError } from '../../../lib/http';
+import { ApiError } from '@web/lib/http';
 import { useLot, type Lot, type LotResult } from '../api/lots';
 import { useCharacteristics, usePlantTimeZone, type Characteristic } from '../api/catalogue';
 import { formatPlantDateTime } from '../lib/plant-time';
 import { specLimitsText, specVerdict } from '../lib/spec';
 import { setResult, setStatusText, type SetResult } from '../lib/sets';
 import { entryRoles } from '../lib/roles';
-import { useSignedInUser } from '../../auth/api/session';
+import { useSignedInUser } from '@web/features/auth/api/session';
 import { CorrectMeasurementDialog, type CorrectedReading } from '../components/CorrectMeasurementDialog';
-import { Alert } from '../../../components/ui/Alert';
-import { Button } from '../../../components/ui/Button';
-import { PageHeader } from '../../../components/ui/PageHeader';
-import { Badge } from '../../../components/ui/Badge';
-import { Loading } from '../../../components/ui/Spinner';
-import { ErrorState } from '../../../components/ui/ErrorState';
-import { EmptyState } from '../../../components/ui/EmptyState';
+import { Alert } from '@web/components/ui/Alert';
+import { Button } from '@web/components/ui/Button';
+import { PageHeader } from '@web/components/ui/PageHeader';
+import { Badge } from '@web/components/ui/Badge';
+import { Loading } from '@web/components/ui/Spinner';
+import { ErrorState } from '@web/components/ui/ErrorState';
+import { EmptyState } from '@web/components/ui/EmptyState';
 
 interface CharacteristicResults {
   code: string;

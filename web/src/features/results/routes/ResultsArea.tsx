@@ -1,10 +1,10 @@
 import { lazy, Suspense } from 'react';
 import { Navigate, Route, Routes } from 'react-router';
-import { useSignedInUser } from '../../auth/api/session';
-import { RequireRole } from '../../../app/guards';
-import { NotFoundPage } from '../../../app/routes/NotFoundPage';
-import { Loading } from '../../../components/ui/Spinner';
-import { AreaTabs } from '../../../components/ui/AreaTabs';
+import { useSignedInUser } from '@web/features/auth/api/session';
+import { RequireRole } from '@web/app/guards';
+import { NotFoundPage } from '@web/app/routes/NotFoundPage';
+import { Loading } from '@web/components/ui/Spinner';
+import { AreaTabs } from '@web/components/ui/AreaTabs';
 import { entryRoles } from '../lib/roles';
 
 const UploadPage = lazy(() => import('./UploadPage'));

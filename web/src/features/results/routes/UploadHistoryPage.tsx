@@ -1,23 +1,23 @@
 import { useMemo, useState } from 'react';
 import { Link, useSearchParams } from 'react-router';
 import { createColumnHelper, getCoreRowModel, useReactTable } from '@tanstack/react-table';
-import { useSignedInUser } from '../../auth/api/session';
+import { useSignedInUser } from '@web/features/auth/api/session';
 import { uploadLinks, useUploads, type Upload, type UploadStatus } from '../api/uploads';
 import { usePlantTimeZone } from '../api/catalogue';
 import { formatPlantDateTime } from '../lib/plant-time';
 import { entryRoles, voidRoles } from '../lib/roles';
 import { VoidUploadDialog } from '../components/VoidUploadDialog';
 import { DownloadLink } from '../components/DownloadLink';
-import { PageHeader } from '../../../components/ui/PageHeader';
-import { DataTable } from '../../../components/ui/Table';
-import { Badge } from '../../../components/ui/Badge';
-import { Button } from '../../../components/ui/Button';
-import { Alert } from '../../../components/ui/Alert';
-import { Select } from '../../../components/ui/Field';
-import { Loading } from '../../../components/ui/Spinner';
-import { ErrorState } from '../../../components/ui/ErrorState';
-import { EmptyState } from '../../../components/ui/EmptyState';
-import { formatBytes, formatCount } from '../../../lib/format';
+import { PageHeader } from '@web/components/ui/PageHeader';
+import { DataTable } from '@web/components/ui/Table';
+import { Badge } from '@web/components/ui/Badge';
+import { Button } from '@web/components/ui/Button';
+import { Alert } from '@web/components/ui/Alert';
+import { Select } from '@web/components/ui/Field';
+import { Loading } from '@web/components/ui/Spinner';
+import { ErrorState } from '@web/components/ui/ErrorState';
+import { EmptyState } from '@web/components/ui/EmptyState';
+import { formatBytes, formatCount } from '@web/lib/format';
 
 const column = createColumnHelper<Upload>();
 

@@ -1,5 +1,5 @@
 import { useMemo, useState } from 'react';
-import { decodeText, detectDialect, missingColumns, parseCsv, type CsvDialect } from '../../../../../shared/ingest';
+import { decodeText, detectDialect, missingColumns, parseCsv, type CsvDialect } from '@shared/ingest';
 import { useEntryCatalogue, type EntryCatalogue } from '../api/catalogue';
 import { uploadLinks, useColumnMappings, useUploadResults, type SavedMapping } from '../api/uploads';
 import { ingestCatalogue } from '../lib/catalogue';
@@ -12,13 +12,13 @@ import { MappingEditor } from '../components/MappingEditor';
 import { RowErrorList } from '../components/RowErrorList';
 import { UploadOutcome } from '../components/UploadOutcome';
 import { DownloadLink } from '../components/DownloadLink';
-import { PageHeader } from '../../../components/ui/PageHeader';
-import { Card } from '../../../components/ui/Card';
-import { Alert } from '../../../components/ui/Alert';
-import { Button } from '../../../components/ui/Button';
-import { Loading } from '../../../components/ui/Spinner';
-import { ErrorState } from '../../../components/ui/ErrorState';
-import { formatCount } from '../../../lib/format';
+import { PageHeader } from '@web/components/ui/PageHeader';
+import { Card } from '@web/components/ui/Card';
+import { Alert } from '@web/components/ui/Alert';
+import { Button } from '@web/components/ui/Button';
+import { Loading } from '@web/components/ui/Spinner';
+import { ErrorState } from '@web/components/ui/ErrorState';
+import { formatCount } from '@web/lib/format';
 
 /** The server refuses larger files (api/routes/uploads: MAX_UPLOAD_BYTES); saying so before reading spares the wait. */
 const MAX_UPLOAD_BYTES = 20 * 1024 * 1024;

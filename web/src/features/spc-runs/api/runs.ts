@@ -1,8 +1,8 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { http } from '../../../lib/http';
-import type { RunSummary } from '../../../../../shared/schemas/runs';
+import { http } from '@web/lib/http';
+import type { RunSummary } from '@shared/schemas/runs';
 
-export type { RunStatus, RunSummary } from '../../../../../shared/schemas/runs';
+export type { RunStatus, RunSummary } from '@shared/schemas/runs';
 
 export interface RunProblem {
   characteristicId: number;

@@ -1,6 +1,6 @@
 import { useRun } from '../api/runs';
-import { Loading } from '../../../components/ui/Spinner';
-import { ErrorState } from '../../../components/ui/ErrorState';
+import { Loading } from '@web/components/ui/Spinner';
+import { ErrorState } from '@web/components/ui/ErrorState';
 
 /** Which characteristics failed and why, and which wait for another attempt. */
 export function RunDetails({ id }: { id: number }) {

@@ -2,15 +2,15 @@ import { Fragment, useState } from 'react';
 import { isActive, useRuns, useStartRun, type RunSummary } from '../api/runs';
 import { RunProgress } from '../components/RunProgress';
 import { RunDetails } from '../components/RunDetails';
-import { useSignedInUser } from '../../auth/api/session';
-import { errorMessage } from '../../../lib/http';
-import { PageHeader } from '../../../components/ui/PageHeader';
-import { Button } from '../../../components/ui/Button';
-import { Badge } from '../../../components/ui/Badge';
-import { Alert } from '../../../components/ui/Alert';
-import { Loading } from '../../../components/ui/Spinner';
-import { ErrorState } from '../../../components/ui/ErrorState';
-import { EmptyState } from '../../../components/ui/EmptyState';
+import { useSignedInUser } from '@web/features/auth/api/session';
+import { errorMessage } from '@web/lib/http';
+import { PageHeader } from '@web/components/ui/PageHeader';
+import { Button } from '@web/components/ui/Button';
+import { Badge } from '@web/components/ui/Badge';
+import { Alert } from '@web/components/ui/Alert';
+import { Loading } from '@web/components/ui/Spinner';
+import { ErrorState } from '@web/components/ui/ErrorState';
+import { EmptyState } from '@web/components/ui/EmptyState';
 
 const statusWords: Record<RunSummary['status'], { label: string; tone: 'neutral' | 'accent' | 'positive' | 'negative' }> = {
   queued: { label: 'Waiting', tone: 'neutral' },

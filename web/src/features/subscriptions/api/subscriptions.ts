@@ -1,5 +1,5 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { http } from '../../../lib/http';
+import { http } from '@web/lib/http';
 
 export interface Subscription {
   id: number;

@@ -1,9 +1,9 @@
 import { useState } from 'react';
 import { useCreateSubscription, type Scope } from '../api/subscriptions';
-import { errorMessage } from '../../../lib/http';
-import { Field, Select } from '../../../components/ui/Field';
-import { Button } from '../../../components/ui/Button';
-import { Alert } from '../../../components/ui/Alert';
+import { errorMessage } from '@web/lib/http';
+import { Field, Select } from '@web/components/ui/Field';
+import { Button } from '@web/components/ui/Button';
+import { Alert } from '@web/components/ui/Alert';
 
 /** Scope values are "line:<id>" or "product:<id>" so that one select offers both. */
 export function AddSubscriptionForm({ scope }: { scope: Scope }) {

@@ -1,14 +1,14 @@
 import { useDeleteSubscription, useScope, useSubscriptions, useUpdateSubscription, type Subscription } from '../api/subscriptions';
 import { AddSubscriptionForm } from '../components/AddSubscriptionForm';
-import { useSignedInUser } from '../../auth/api/session';
-import { errorMessage } from '../../../lib/http';
-import { PageHeader } from '../../../components/ui/PageHeader';
-import { Card } from '../../../components/ui/Card';
-import { Button } from '../../../components/ui/Button';
-import { Alert } from '../../../components/ui/Alert';
-import { Loading } from '../../../components/ui/Spinner';
-import { ErrorState } from '../../../components/ui/ErrorState';
-import { EmptyState } from '../../../components/ui/EmptyState';
+import { useSignedInUser } from '@web/features/auth/api/session';
+import { errorMessage } from '@web/lib/http';
+import { PageHeader } from '@web/components/ui/PageHeader';
+import { Card } from '@web/components/ui/Card';
+import { Button } from '@web/components/ui/Button';
+import { Alert } from '@web/components/ui/Alert';
+import { Loading } from '@web/components/ui/Spinner';
+import { ErrorState } from '@web/components/ui/ErrorState';
+import { EmptyState } from '@web/components/ui/EmptyState';
 
 function Row({ s }: { s: Subscription }) {
   const update = useUpdateSubscription();

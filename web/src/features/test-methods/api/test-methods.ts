@@ -1,6 +1,6 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
-import { http } from '../../../lib/http';
-import type { TestMethod } from '../../../../../shared/lab';
+import { http } from '@web/lib/http';
+import type { TestMethod } from '@shared/lab';
 
 /** A test method as GET /api/v1/test-methods gives it: the cautions already written out, ending with the deferral line. */
 export type TestMethodEntry = Omit<TestMethod, 'cautions'> & { cautions: string[] };

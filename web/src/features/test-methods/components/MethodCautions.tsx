@@ -1,6 +1,6 @@
 import { useId } from 'react';
-import { cautionDeferral } from '../../../../../shared/lab';
-import { cx } from '../../../components/ui/cx';
+import { cautionDeferral } from '@shared/lab';
+import { cx } from '@web/components/ui/cx';
 
 /**
  * The handling cautions of a test method as the API gives them ("Title: text", the deferral to the

@@ -1,4 +1,4 @@
-import { compressiveStrength, flexuralStrength, pullHeadAreaMm2, pullOffStrength, roundHead50, squareHead50, standardPrism } from '../../../../../shared/lab';
+import { compressiveStrength, flexuralStrength, pullHeadAreaMm2, pullOffStrength, roundHead50, squareHead50, standardPrism } from '@shared/lab';
 import type { TestMethodEntry } from '../api/test-methods';
 
 export interface RawLoadExplanation {

@@ -3,11 +3,11 @@ import { Link } from 'react-router';
 import { createColumnHelper, getCoreRowModel, useReactTable } from '@tanstack/react-table';
 import { useTestMethods, type TestMethodEntry } from '../api/test-methods';
 import { stateLabels } from '../lib/formulas';
-import { PageHeader } from '../../../components/ui/PageHeader';
-import { DataTable } from '../../../components/ui/Table';
-import { Loading } from '../../../components/ui/Spinner';
-import { ErrorState } from '../../../components/ui/ErrorState';
-import { EmptyState } from '../../../components/ui/EmptyState';
+import { PageHeader } from '@web/components/ui/PageHeader';
+import { DataTable } from '@web/components/ui/Table';
+import { Loading } from '@web/components/ui/Spinner';
+import { ErrorState } from '@web/components/ui/ErrorState';
+import { EmptyState } from '@web/components/ui/EmptyState';
 
 const column = createColumnHelper<TestMethodEntry>();
 

@@ -1,14 +1,14 @@
 import { Link, useParams } from 'react-router';
 import { useTestMethods } from '../api/test-methods';
-import { useCharacteristics } from '../../results/api/catalogue';
-import { specLimitsText } from '../../results/lib/spec';
+import { useCharacteristics } from '@web/features/results/api/catalogue';
+import { specLimitsText } from '@web/features/results/lib/spec';
 import { physicalRangeText, rawLoadExplanation, stateLabels } from '../lib/formulas';
 import { MethodCautions } from '../components/MethodCautions';
-import { PageHeader } from '../../../components/ui/PageHeader';
-import { Card } from '../../../components/ui/Card';
-import { Loading } from '../../../components/ui/Spinner';
-import { ErrorState } from '../../../components/ui/ErrorState';
-import { EmptyState } from '../../../components/ui/EmptyState';
+import { PageHeader } from '@web/components/ui/PageHeader';
+import { Card } from '@web/components/ui/Card';
+import { Loading } from '@web/components/ui/Spinner';
+import { ErrorState } from '@web/components/ui/ErrorState';
+import { EmptyState } from '@web/components/ui/EmptyState';
 
 export default function TestMethodPage() {
   const { code } = useParams();

@@ -1,7 +1,7 @@
 import { Route, Routes } from 'react-router';
 import TestMethodListPage from './TestMethodListPage';
 import TestMethodPage from './TestMethodPage';
-import { NotFoundPage } from '../../../app/routes/NotFoundPage';
+import { NotFoundPage } from '@web/app/routes/NotFoundPage';
 
 /** /test-methods and /test-methods/:code, readable by every role. */
 export default function TestMethodsArea() {

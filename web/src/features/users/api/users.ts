@@ -1,7 +1,7 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { http } from '../../../lib/http';
-import { sessionQueryKey, type SessionUser } from '../../auth/api/session';
-import type { CreateUserInput, PublicUser, UpdateUserInput } from '../../../../../shared/schemas/users';
+import { http } from '@web/lib/http';
+import { sessionQueryKey, type SessionUser } from '@web/features/auth/api/session';
+import type { CreateUserInput, PublicUser, UpdateUserInput } from '@shared/schemas/users';
 
 /** Query keys of this feature; mutations invalidate `userKeys.all` so every list refreshes. */
 export const userKeys = {

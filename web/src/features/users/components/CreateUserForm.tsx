@@ -1,12 +1,12 @@
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { createUserSchema, type PublicUser } from '../../../../../shared/schemas/users';
-import { ApiError, errorMessage } from '../../../lib/http';
-import { showServerFieldErrors } from '../../../lib/forms';
+import { createUserSchema, type PublicUser } from '@shared/schemas/users';
+import { ApiError, errorMessage } from '@web/lib/http';
+import { showServerFieldErrors } from '@web/lib/forms';
 import { useCreateUser } from '../api/users';
-import { Field, Input, Select } from '../../../components/ui/Field';
-import { Alert } from '../../../components/ui/Alert';
-import { Button } from '../../../components/ui/Button';
+import { Field, Input, Select } from '@web/components/ui/Field';
+import { Alert } from '@web/components/ui/Alert';
+import { Button } from '@web/components/ui/Button';
 import { RoleOptions } from './RoleOptions';
 
 const fields = ['name', 'email', 'role', 'password'] as const;

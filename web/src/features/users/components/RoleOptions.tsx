@@ -1,4 +1,4 @@
-import { roleLabels, roles } from '../../../../../shared/schemas/users';
+import { roleLabels, roles } from '@shared/schemas/users';
 
 /** The <option>s of a role select, in the order and words of the shared role list. */
 export function RoleOptions() {

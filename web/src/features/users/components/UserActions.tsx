@@ -1,15 +1,15 @@
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { createUserSchema, roleLabels, type PublicUser, type Role } from '../../../../../shared/schemas/users';
-import { errorMessage } from '../../../lib/http';
-import { showServerFieldErrors } from '../../../lib/forms';
+import { createUserSchema, roleLabels, type PublicUser, type Role } from '@shared/schemas/users';
+import { errorMessage } from '@web/lib/http';
+import { showServerFieldErrors } from '@web/lib/forms';
 import { useUpdateUser } from '../api/users';
-import { Alert } from '../../../components/ui/Alert';
-import { Button } from '../../../components/ui/Button';
+import { Alert } from '@web/components/ui/Alert';
+import { Button } from '@web/components/ui/Button';
 import { RoleOptions } from './RoleOptions';
-import { Dialog } from '../../../components/ui/Dialog';
-import { Field, Input, Select } from '../../../components/ui/Field';
+import { Dialog } from '@web/components/ui/Dialog';
+import { Field, Input, Select } from '@web/components/ui/Field';
 
 /** A one-line outcome of an action, shown above the table. */
 export interface Notice {

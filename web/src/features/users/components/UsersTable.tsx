@@ -1,11 +1,11 @@
 import { useMemo } from 'react';
 import { createColumnHelper } from '@tanstack/react-table';
-import { roleLabels, type PublicUser } from '../../../../../shared/schemas/users';
-import { formatDate } from '../../../lib/format';
-import { DataTable } from '../../../components/ui/Table';
-import { Badge } from '../../../components/ui/Badge';
-import { TableFilter, useFilteredTable } from '../../../components/ui/FilteredTable';
-import { EmptyState } from '../../../components/ui/EmptyState';
+import { roleLabels, type PublicUser } from '@shared/schemas/users';
+import { formatDate } from '@web/lib/format';
+import { DataTable } from '@web/components/ui/Table';
+import { Badge } from '@web/components/ui/Badge';
+import { TableFilter, useFilteredTable } from '@web/components/ui/FilteredTable';
+import { EmptyState } from '@web/components/ui/EmptyState';
 import { RoleSelect, UserActions, type Notice } from './UserActions';
 
 const column = createColumnHelper<PublicUser>();

@@ -1,16 +1,16 @@
 import { useState } from 'react';
 import { useUsers } from '../api/users';
-import { useSignedInUser } from '../../auth/api/session';
+import { useSignedInUser } from '@web/features/auth/api/session';
 import { UsersTable } from '../components/UsersTable';
 import { CreateUserForm } from '../components/CreateUserForm';
 import type { Notice } from '../components/UserActions';
-import { PageHeader } from '../../../components/ui/PageHeader';
-import { Card } from '../../../components/ui/Card';
-import { Button } from '../../../components/ui/Button';
-import { Alert } from '../../../components/ui/Alert';
-import { Loading } from '../../../components/ui/Spinner';
-import { ErrorState } from '../../../components/ui/ErrorState';
-import { EmptyState } from '../../../components/ui/EmptyState';
+import { PageHeader } from '@web/components/ui/PageHeader';
+import { Card } from '@web/components/ui/Card';
+import { Button } from '@web/components/ui/Button';
+import { Alert } from '@web/components/ui/Alert';
+import { Loading } from '@web/components/ui/Spinner';
+import { ErrorState } from '@web/components/ui/ErrorState';
+import { EmptyState } from '@web/components/ui/EmptyState';
 
 export default function UsersPage() {
   const me = useSignedInUser();
