@@ -2,7 +2,7 @@ import { defineConfig } from 'drizzle-kit';
 
 export default defineConfig({
   dialect: 'postgresql',
-  schema: './api/db/schema.ts',
+  schema: './api/db/schema/index.ts',
   out: './api/db/migrations',
   dbCredentials: { url: process.env.DATABASE_URL ?? 'postgres://postgres@127.0.0.1:54329/prismline' },
 });
