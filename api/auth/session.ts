@@ -4,6 +4,7 @@ import passport from 'passport';
 import { ExtractJwt, Strategy as JwtStrategy } from 'passport-jwt';
 import { eq } from 'drizzle-orm';
 import type { Role } from '@shared/schemas/users';
+import { may, type Permission } from '@shared/permissions';
 import type { Database } from '../db/client';
 import { users } from '../db/schema';
 import { HttpError } from '../http/errors';
@@ -69,11 +70,11 @@ export const requireSession: RequestHandler = (req, res, next) => {
   })(req, res, next);
 };
 
-/** Allows only the listed roles; a signed-in user with another role gets 403. */
-export function requireRole(...allowed: Role[]): RequestHandler {
+/** Allows the action to the roles the permissions map gives it; a signed-in user with another role gets 403. */
+export function requirePermission(action: Permission): RequestHandler {
   return (req, _res, next) => {
     if (!req.user) return next(new HttpError(401, 'Sign in to continue'));
-    if (!allowed.includes(req.user.role)) return next(new HttpError(403, 'Your role does not allow this action'));
+    if (!may(req.user.role, action)) return next(new HttpError(403, 'Your role does not allow this action'));
     next();
   };
 }

@@ -3,7 +3,7 @@ import { sql } from 'drizzle-orm';
 import { ruleDescriptions, type RuleId } from '@shared/spc';
 import type { Database } from '@api/db/client';
 import { notFound, parseBody } from '@api/http/errors';
-import { requireRole, requireSession } from '@api/auth/session';
+import { requirePermission, requireSession } from '@api/auth/session';
 import { signalNames, chartLink } from '@api/mail/compose';
 import { OUT_OF_SPEC, triageAlarm } from '@api/spc/alarms';
 import { alarmIdParamsSchema, alarmNoteSchema, listAlarmsQuerySchema } from './schema';
@@ -127,7 +127,7 @@ export function alarmsRouter(db: Database, publicUrl: string): Router {
       res.json(toJson(r.rows[0], publicUrl));
     };
 
-  router.post('/:id/acknowledge', requireRole('quality_manager', 'admin'), change('acknowledge'));
-  router.post('/:id/close', requireRole('quality_manager', 'admin'), change('close'));
+  router.post('/:id/acknowledge', requirePermission('alarm.acknowledge'), change('acknowledge'));
+  router.post('/:id/close', requirePermission('alarm.close'), change('close'));
   return router;
 }

@@ -7,7 +7,7 @@ import { characteristics, lots, measurements, plants, productionLines, products,
 import { hasRecordedResults, listCharacteristics, listLines, listProducts } from '@api/db/queries/catalogue';
 import { recordAudit } from '@api/db/audit';
 import { badRequest, conflict, HttpError, isUniqueViolation, notFound, parseBody } from '@api/http/errors';
-import { requireRole, requireSession } from '@api/auth/session';
+import { requirePermission, requireSession } from '@api/auth/session';
 import {
   catalogueIdParamsSchema,
   createCharacteristicSchema,
@@ -90,7 +90,7 @@ const chartSettings = new Set(['chartType', 'subgroupSize', 'ruleSet']);
 
 export function catalogueRouter(db: Database, chartSettingsChanged: ChartSettingsChanged): Router {
   const router = Router();
-  const admin = requireRole('admin');
+  const admin = requirePermission('catalogue.manage');
 
   router.get('/plants', requireSession, async (_req, res) => {
     res.json({ items: await db.select().from(plants).orderBy(asc(plants.id)) });

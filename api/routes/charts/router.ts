@@ -4,7 +4,7 @@ import type { Database } from '@api/db/client';
 import { characteristics } from '@api/db/schema';
 import { excludePoint, freezeLimits, includePoint, limitRevisions, type LimitRevision } from '@api/spc/characteristic-chart';
 import { notFound, parseBody } from '@api/http/errors';
-import { requireRole, requireSession } from '@api/auth/session';
+import { requirePermission, requireSession } from '@api/auth/session';
 import type { LimitRevisionRecord } from '@shared/schemas/charts';
 import { chartCacheFor } from './chart-cache';
 import { characteristicParamsSchema, chartQuerySchema, excludePointSchema, exclusionParamsSchema, freezeLimitsSchema, includePointSchema } from './schema';
@@ -42,7 +42,6 @@ export type LimitsChanged = (characteristicId: number, userId: number) => Promis
 export function chartsRouter(db: Database, limitsChanged: LimitsChanged): Router {
   const router = Router();
   const cache = chartCacheFor(db);
-  const managers = requireRole('quality_manager', 'admin');
   router.use(requireSession);
 
   router.get('/:id/chart', async (req, res) => {
@@ -64,7 +63,7 @@ export function chartsRouter(db: Database, limitsChanged: LimitsChanged): Router
     res.end(cached.body());
   });
 
-  router.post('/:id/exclusions', managers, async (req, res) => {
+  router.post('/:id/exclusions', requirePermission('point.exclude'), async (req, res) => {
     const { id } = parseBody(characteristicParamsSchema, req.params);
     const { lotId, reason } = parseBody(excludePointSchema, req.body);
     const row = await excludePoint(db, { characteristicId: id, lotId, reason, userId: req.user!.id });
@@ -72,7 +71,7 @@ export function chartsRouter(db: Database, limitsChanged: LimitsChanged): Router
     res.status(201).json({ id: row.id, characteristicId: id, lotId });
   });
 
-  router.delete('/:id/exclusions/:lotId', managers, async (req, res) => {
+  router.delete('/:id/exclusions/:lotId', requirePermission('point.exclude'), async (req, res) => {
     const { id, lotId } = parseBody(exclusionParamsSchema, req.params);
     const { reason } = parseBody(includePointSchema, req.body ?? {});
     const row = await includePoint(db, { characteristicId: id, lotId, reason, userId: req.user!.id });
@@ -88,7 +87,7 @@ export function chartsRouter(db: Database, limitsChanged: LimitsChanged): Router
     res.json({ items: (await limitRevisions(db, id)).map(revisionJson) });
   });
 
-  router.post('/:id/limit-revisions', managers, async (req, res) => {
+  router.post('/:id/limit-revisions', requirePermission('limits.freeze'), async (req, res) => {
     const { id } = parseBody(characteristicParamsSchema, req.params);
     const input = parseBody(freezeLimitsSchema, req.body);
     const revision = await freezeLimits(db, { characteristicId: id, ...input, userId: req.user!.id });

@@ -4,7 +4,7 @@ import type { Database } from '@api/db/client';
 import { columnMappings, users } from '@api/db/schema';
 import { recordAudit } from '@api/db/audit';
 import { conflict, parseBody } from '@api/http/errors';
-import { requireRole, requireSession } from '@api/auth/session';
+import { requirePermission, requireSession } from '@api/auth/session';
 import { saveMappingSchema } from './schema';
 
 const mappingColumns = {
@@ -25,7 +25,7 @@ export function columnMappingsRouter(db: Database): Router {
     res.json({ items: rows });
   });
 
-  router.post('/', requireRole('technician', 'quality_manager', 'admin'), async (req, res) => {
+  router.post('/', requirePermission('column-mapping.create'), async (req, res) => {
     const input = parseBody(saveMappingSchema, req.body);
     const saved = await db.transaction(async (tx) => {
       const [row] = await tx

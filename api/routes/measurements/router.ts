@@ -6,7 +6,7 @@ import type { Database } from '@api/db/client';
 import { characteristics, measurements, testMethods } from '@api/db/schema';
 import { recordAudit } from '@api/db/audit';
 import { badRequest, notFound, parseBody } from '@api/http/errors';
-import { requireRole, requireSession } from '@api/auth/session';
+import { requirePermission, requireSession } from '@api/auth/session';
 import { importResults } from '@api/ingest/import';
 import type { IngestHooks } from '@api/ingest/hooks';
 import { respondToImport } from '../uploads/router';
@@ -57,7 +57,7 @@ export function measurementsRouter(db: Database, hooks: IngestHooks): Router {
   const router = Router();
   router.use(requireSession);
 
-  router.post('/', requireRole('technician', 'quality_manager', 'admin'), async (req, res) => {
+  router.post('/', requirePermission('measurement.create'), async (req, res) => {
     const entry = parseBody(manualEntrySchema, req.body);
     const outcome = await importResults(db, { fileName: 'manual entry', actorId: req.user!.id, source: 'manual', rows: await manualRows(db, entry), decimalComma: false });
     if (outcome.kind === 'imported') {
@@ -68,7 +68,7 @@ export function measurementsRouter(db: Database, hooks: IngestHooks): Router {
     respondToImport(res, outcome);
   });
 
-  router.patch('/:id', requireRole('technician', 'quality_manager', 'admin'), async (req, res) => {
+  router.patch('/:id', requirePermission('measurement.correct'), async (req, res) => {
     const { id } = parseBody(measurementIdParamsSchema, req.params);
     const { value, reason } = parseBody(correctMeasurementSchema, req.body);
     const updated = await db.transaction(async (tx) => {

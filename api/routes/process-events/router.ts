@@ -4,7 +4,7 @@ import type { Database } from '@api/db/client';
 import { plants, processEvents, productionLines, products, users } from '@api/db/schema';
 import { recordAudit } from '@api/db/audit';
 import { badRequest, parseBody } from '@api/http/errors';
-import { requireRole, requireSession } from '@api/auth/session';
+import { requirePermission, requireSession } from '@api/auth/session';
 import { listProcessEventsQuerySchema, processEventSchema } from './schema';
 
 /** Plant events that explain charts: "New sand source", "Press recalibrated". */
@@ -33,7 +33,7 @@ export function processEventsRouter(db: Database): Router {
     res.json({ items: rows });
   });
 
-  router.post('/', requireRole('technician', 'quality_manager', 'admin'), async (req, res) => {
+  router.post('/', requirePermission('process-event.create'), async (req, res) => {
     const input = parseBody(processEventSchema, req.body);
     const created = await db.transaction(async (tx) => {
       const [plant] = await tx.select({ id: plants.id }).from(plants).orderBy(asc(plants.id)).limit(1);

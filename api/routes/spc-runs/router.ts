@@ -2,7 +2,7 @@ import { Router } from 'express';
 import type { Database } from '@api/db/client';
 import { HttpError, notFound, parseBody } from '@api/http/errors';
 import { logger } from '@api/logger';
-import { requireRole, requireSession } from '@api/auth/session';
+import { requirePermission, requireSession } from '@api/auth/session';
 import { recordAudit } from '@api/db/audit';
 import type { SpcQueue } from '@api/spc/queue';
 import { getRun, listRuns, startRun } from '@api/spc/runs';
@@ -13,7 +13,7 @@ export function spcRunsRouter(db: Database, queue: SpcQueue): Router {
   const router = Router();
   router.use(requireSession);
 
-  router.post('/', requireRole('quality_manager', 'admin'), async (req, res) => {
+  router.post('/', requirePermission('spc-run.start'), async (req, res) => {
     const body = parseBody(startRunSchema, req.body ?? {});
     let id: number | null;
     try {

@@ -4,7 +4,7 @@ import type { Database } from '@api/db/client';
 import { characteristics, specLimits, users } from '@api/db/schema';
 import { recordAudit } from '@api/db/audit';
 import { badRequest, notFound, parseBody } from '@api/http/errors';
-import { requireRole, requireSession } from '@api/auth/session';
+import { requirePermission, requireSession } from '@api/auth/session';
 import { characteristicIdParamsSchema, specRevisionSchema } from './schema';
 
 /** Specification revisions per characteristic: the revision in force at a lot's production time judges it. */
@@ -32,7 +32,7 @@ export function specificationsRouter(db: Database): Router {
     res.json({ items: rows });
   });
 
-  router.post('/:id/spec-revisions', requireSession, requireRole('quality_manager', 'admin'), async (req, res) => {
+  router.post('/:id/spec-revisions', requireSession, requirePermission('specification.revise'), async (req, res) => {
     const { id } = parseBody(characteristicIdParamsSchema, req.params);
     const input = parseBody(specRevisionSchema, req.body);
     const created = await db.transaction(async (tx) => {

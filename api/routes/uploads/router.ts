@@ -7,7 +7,7 @@ import { measurements, uploadFileParts, uploads, users } from '@api/db/schema';
 import { recordAudit } from '@api/db/audit';
 import { logger } from '@api/logger';
 import { badRequest, HttpError, notFound, parseBody } from '@api/http/errors';
-import { requireRole, requireSession } from '@api/auth/session';
+import { requirePermission, requireSession } from '@api/auth/session';
 import { fileFingerprint, importResults, type ImportOutcome } from '@api/ingest/import';
 import type { IngestHooks } from '@api/ingest/hooks';
 import { listUploadsQuerySchema, uploadFieldsSchema, uploadIdParamsSchema, voidUploadSchema } from './schema';
@@ -85,7 +85,7 @@ export function uploadsRouter(db: Database, hooks: IngestHooks): Router {
     res.json({ items: rows });
   });
 
-  router.post('/', requireRole('technician', 'quality_manager', 'admin'), receiveFile, async (req, res) => {
+  router.post('/', requirePermission('upload.create'), receiveFile, async (req, res) => {
     const fields = parseBody(uploadFieldsSchema, req.body);
     const outcome = await importResults(db, {
       fileName: req.file!.originalname.slice(0, 255),
@@ -127,7 +127,7 @@ export function uploadsRouter(db: Database, hooks: IngestHooks): Router {
     res.type('application/octet-stream').attachment(row.fileName).send(file);
   });
 
-  router.post('/:id/void', requireRole('quality_manager', 'admin'), async (req, res) => {
+  router.post('/:id/void', requirePermission('upload.void'), async (req, res) => {
     const { id } = parseBody(uploadIdParamsSchema, req.params);
     const { reason } = parseBody(voidUploadSchema, req.body);
     const result = await db.transaction(async (tx) => {

@@ -6,7 +6,7 @@ import type { Database } from '@api/db/client';
 import { users } from '@api/db/schema';
 import { recordAudit } from '@api/db/audit';
 import { conflict, HttpError, isUniqueViolation, notFound, parseBody } from '@api/http/errors';
-import { requireRole, requireSession } from '@api/auth/session';
+import { requirePermission, requireSession } from '@api/auth/session';
 import { createUserSchema, updateUserSchema, userIdParamsSchema } from './schema';
 
 const publicColumns = {
@@ -26,7 +26,7 @@ const toPublic = (u: { id: number; email: string; name: string; role: PublicUser
 /** Administration of sign-ins. Admin only; every change lands in the audit trail. */
 export function usersRouter(db: Database): Router {
   const router = Router();
-  router.use(requireSession, requireRole('admin'));
+  router.use(requireSession, requirePermission('user.manage'));
 
   router.get('/', async (_req, res) => {
     const rows = await db.select(publicColumns).from(users).orderBy(asc(users.name));
