@@ -1,13 +1,14 @@
 import { z } from 'zod';
 import { formatScreedDesignation, parseScreedDesignation, screedBinders } from '../lab/en13813';
 import { testMethod, testMethodCodes, type TestMethodCode } from '../lab/test-methods';
-import type { ChartType } from '../spc/charts';
+import { CHART_TYPES, type ChartType } from '../spc/charts';
+import { RULE_SETS } from '../spc/rules';
+export type { RuleSetId } from '../spc/rules';
 import { specRevisionSchema } from './plant-records';
 
-export const chartTypes = ['xbar-r', 'xbar-s', 'imr'] as const satisfies readonly ChartType[];
-/** 'we': the four Western Electric rules; 'extended': those and the trend, saw-tooth, hugging and mixture rules. */
-export const ruleSets = ['we', 'extended'] as const;
-export type RuleSetId = (typeof ruleSets)[number];
+/** The chart types and run-rule sets are the engine's (shared/spc). */
+export const chartTypes = CHART_TYPES;
+export const ruleSets = RULE_SETS;
 
 /**
  * Subgroup sizes each chart type takes. An individuals chart plots one reading per lot. The range

@@ -10,7 +10,26 @@ import { c4 as c4Of, d2 as d2Of, d3 as d3Of } from './constants';
 import { SpcInputError } from './errors';
 import { findViolations, resolveRules, type DispersionSeries, type RuleId, type RuleSelection, type Violation } from './rules';
 
-export type ChartType = 'xbar-r' | 'xbar-s' | 'imr';
+/** The chart types, in the order forms list them. */
+export const CHART_TYPES = ['xbar-r', 'xbar-s', 'imr'] as const;
+export type ChartType = (typeof CHART_TYPES)[number];
+
+/** The chart types in words. */
+export const chartTypeLabels: Record<ChartType, string> = {
+  'xbar-r': 'X̄ and R chart',
+  'xbar-s': 'X̄ and S chart',
+  imr: 'Individuals and moving range chart',
+};
+
+/** What the location and dispersion charts plot, by chart type: symbols, and the dispersion statistic's name. */
+export const statisticNames: Record<ChartType, { location: string; dispersion: string; dispersionName: string }> = {
+  'xbar-r': { location: 'X̄', dispersion: 'R', dispersionName: 'Range' },
+  'xbar-s': { location: 'X̄', dispersion: 'S', dispersionName: 'Standard deviation' },
+  imr: { location: 'I', dispersion: 'MR', dispersionName: 'Moving range' },
+};
+
+/** Fewer kept subgroups than this give preliminary trial limits (common practice: 20 to 25 subgroups). */
+export const PHASE_ONE_MIN_POINTS = 20;
 
 /** Everything needed to rebuild the limits of a chart for any subgroup size in phase II. */
 export interface FrozenLimits {

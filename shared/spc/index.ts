@@ -32,7 +32,15 @@
  *   andersonDarling(values) → NormalityResult { test, n, statistic, adjusted, p, reason }.
  *
  * Run rules
- *   ruleDescriptions: Record<RuleId, string>; WESTERN_ELECTRIC_RULES, EXTENDED_RULES; resolveRules.
+ *   ruleDescriptions (full sentences) and ruleLabels (short names): Record<RuleId, string>;
+ *   WESTERN_ELECTRIC_RULES, EXTENDED_RULES; RULE_SETS and ruleSetLabels; resolveRules.
+ *
+ * Chart types: CHART_TYPES, chartTypeLabels, statisticNames; PHASE_ONE_MIN_POINTS, the kept points
+ * below which trial limits are preliminary.
+ *
+ * Specification (specification.ts): specAt (the revision in force at a production time), lotResult
+ * (the mean of the live replicates), specVerdict ('in' | 'below-lsl' | 'above-usl' | 'no-spec', a
+ * result on a limit is in), isOutOfSpec, brokenLimit, beyondStrictestLimits (the import's prefilter).
  *
  * Constants (any subgroup size from 2): d2, d3, c4 from their definitions; A2, A3, B3, B4, D3, D4, E2.
  * Distributions: normalCdf, normalQuantile, chiSquareCdf, chiSquareQuantile, lnGamma.
@@ -40,14 +48,16 @@
  * Programming errors (non-finite values, impossible sizes, bad exclusion indices) throw SpcInputError;
  * properties of the data (too few points, no variation, missing specification) never throw.
  */
-export { computeChart, pointAt, pointList } from './charts';
+export { CHART_TYPES, chartTypeLabels, computeChart, PHASE_ONE_MIN_POINTS, pointAt, pointList, statisticNames } from './charts';
 export type { ChartInput, ChartPoint, ChartResult, ChartType, FrozenLimits, Limits, LocationLimits, PointColumns, Reason, ReasonCode } from './charts';
 export { computeCapability, CAPABILITY_MIN_SUBGROUPS, CAPABILITY_MIN_VALUES } from './capability';
 export type { CapabilityInput, CapabilityNote, CapabilityNoteCode, CapabilityResult, Interval } from './capability';
 export { andersonDarling, andersonDarlingPValue, NORMALITY_MIN_VALUES } from './normality';
 export type { NormalityResult } from './normality';
-export { EXTENDED_RULES, WESTERN_ELECTRIC_RULES, resolveRules, ruleDescriptions } from './rules';
-export type { ChartPart, RuleId, RuleSelection, Violation } from './rules';
+export { EXTENDED_RULES, RULE_SETS, WESTERN_ELECTRIC_RULES, resolveRules, ruleDescriptions, ruleLabels, ruleSetLabels } from './rules';
+export type { ChartPart, RuleId, RuleSelection, RuleSetId, Violation } from './rules';
+export { beyondStrictestLimits, brokenLimit, isOutOfSpec, lotResult, specAt, specVerdict } from './specification';
+export type { SpecificationLimits, SpecificationRevision, SpecVerdict } from './specification';
 export { A2, A3, B3, B4, c4, d2, d3, D3, D4, E2 } from './constants';
 export { chiSquareCdf, chiSquareQuantile, lnGamma, normalCdf, normalQuantile } from './distributions';
 export { SpcInputError } from './errors';

@@ -15,7 +15,10 @@
 
 export type RuleId = 'we1' | 'we2' | 'we3' | 'we4' | 'trend' | 'alternating' | 'hugging' | 'mixture';
 export type ChartPart = 'location' | 'dispersion';
-export type RuleSelection = 'we' | 'extended' | readonly RuleId[];
+/** 'we': the four Western Electric rules; 'extended': those and the trend, saw-tooth, hugging and mixture rules. */
+export const RULE_SETS = ['we', 'extended'] as const;
+export type RuleSetId = (typeof RULE_SETS)[number];
+export type RuleSelection = RuleSetId | readonly RuleId[];
 
 export interface Violation {
   rule: RuleId;
@@ -28,6 +31,21 @@ export interface Violation {
 
 export const WESTERN_ELECTRIC_RULES: readonly RuleId[] = ['we1', 'we2', 'we3', 'we4'];
 export const EXTENDED_RULES: readonly RuleId[] = ['we1', 'we2', 'we3', 'we4', 'trend', 'alternating', 'hugging', 'mixture'];
+
+/** Short names of the run rules for tables, markers and alarm lists; the descriptions below explain them in full. */
+export const ruleLabels: Record<RuleId, string> = {
+  we1: 'Rule 1 · beyond a control limit',
+  we2: 'Rule 2 · 2 of 3 beyond 2σ',
+  we3: 'Rule 3 · 4 of 5 beyond 1σ',
+  we4: 'Rule 4 · 8 on one side',
+  trend: 'Trend · 6 rising or falling',
+  alternating: 'Saw tooth · 14 alternating',
+  hugging: 'Hugging · 15 within 1σ',
+  mixture: 'Mixture · 8 avoiding the centre',
+};
+
+/** The rule sets in words. */
+export const ruleSetLabels: Record<RuleSetId, string> = { we: 'Western Electric rules 1–4', extended: 'Western Electric rules and the extended set' };
 
 /** Plain-words explanation of each rule, for tooltips and reports. */
 export const ruleDescriptions: Record<RuleId, string> = {

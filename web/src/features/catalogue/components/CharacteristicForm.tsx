@@ -4,7 +4,7 @@ import { useForm, type FieldPath } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { chartTypes, chartTypeSizes, ruleSets, SUBGROUP_SIZE_MAX, suggestedChartType, type CreateCharacteristicInput } from '@shared/schemas/catalogue';
 import type { TestMethodEntry } from '@web/features/test-methods/api/test-methods';
-import { chartTypeLabels, ruleSetLabels } from '@web/features/charts/lib/format';
+import { chartTypeLabels, ruleSetLabels } from '@shared/spc';
 import { TextArea } from '@web/features/charts/components/TextArea';
 import { showServerErrors } from '@web/features/records/lib/server-errors';
 import { browserTimeZone } from '@web/features/records/lib/date-time';

@@ -3,7 +3,7 @@ import { Link } from 'react-router';
 import { createColumnHelper } from '@tanstack/react-table';
 import { characteristicLabel } from '@web/features/results/lib/names';
 import { specLimitsText } from '@web/features/results/lib/spec';
-import { statisticNames } from '@web/features/charts/lib/format';
+import { statisticNames } from '@shared/spc';
 import type { Notice } from '@web/features/users/components/UserActions';
 import { useUpdateCharacteristic, type CatalogueCharacteristic } from '../api/catalogue';
 import { shortMethodName } from '../lib/suggest';

@@ -1,5 +1,6 @@
 import { useForm, type Resolver } from 'react-hook-form';
 import { freezeLimitsSchema, type CharacteristicChart } from '@shared/schemas/charts';
+import { PHASE_ONE_MIN_POINTS } from '@shared/spc';
 import { parsePlantDateTime } from '@shared/ingest/values';
 import { errorMessage } from '@web/lib/http';
 import { showServerFieldErrors } from '@web/lib/forms';
@@ -100,7 +101,7 @@ export function FreezeLimitsDialog({ chart, timeZone, view, onClose, onDone }: F
           </Field>
         </div>
         <p className="figures text-sm text-zinc-700" aria-live="polite" data-testid="baseline-count">
-          {inBaseline.length} points in the baseline, {kept} of them kept{kept > 0 && kept < 20 ? ' — fewer than 20 gives unsteady limits' : ''}.
+          {inBaseline.length} points in the baseline, {kept} of them kept{kept > 0 && kept < PHASE_ONE_MIN_POINTS ? ` — fewer than ${PHASE_ONE_MIN_POINTS} gives unsteady limits` : ''}.
         </p>
         <Field label="Reason" hint="Why these limits, from this period, e.g. “Stable since the new sand source”." error={errors.reason?.message}>
           {(control) => <TextArea {...control} {...form.register('reason')} />}

@@ -1,6 +1,7 @@
 import type { CharacteristicChart } from '@shared/schemas/charts';
 import { Badge } from '@web/components/ui/Badge';
-import { figure, formatDateTime, statisticNames } from '../lib/format';
+import { figure, formatDateTime } from '../lib/format';
+import { statisticNames } from '@shared/spc';
 
 function Figure({ label, value, testId }: { label: string; value: string; testId?: string }) {
   return (

@@ -8,7 +8,8 @@ import { Field } from '@web/components/ui/Field';
 import { Alert } from '@web/components/ui/Alert';
 import { Button } from '@web/components/ui/Button';
 import { useExcludePoint, useIncludePoint } from '../api/chart';
-import { figure, formatDateTime, statisticNames } from '../lib/format';
+import { figure, formatDateTime } from '../lib/format';
+import { statisticNames } from '@shared/spc';
 import { TextArea } from './TextArea';
 
 interface PointDialogProps {

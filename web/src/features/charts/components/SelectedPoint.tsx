@@ -1,6 +1,7 @@
 import type { CharacteristicChart } from '@shared/schemas/charts';
 import { Button } from '@web/components/ui/Button';
-import { figure, formatDateTime, ruleLabels, shiftName, statisticNames } from '../lib/format';
+import { figure, formatDateTime, shiftName } from '../lib/format';
+import { ruleLabels, statisticNames } from '@shared/spc';
 
 interface SelectedPointProps {
   chart: CharacteristicChart;

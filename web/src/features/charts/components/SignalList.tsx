@@ -1,7 +1,8 @@
 import { useState } from 'react';
 import type { CharacteristicChart, ChartViolation } from '@shared/schemas/charts';
 import { Button } from '@web/components/ui/Button';
-import { formatDateTime, ruleLabels, statisticNames } from '../lib/format';
+import { formatDateTime } from '../lib/format';
+import { ruleLabels, statisticNames } from '@shared/spc';
 
 const FIRST = 12;
 

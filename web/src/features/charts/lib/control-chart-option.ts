@@ -13,7 +13,8 @@ import type {
 } from 'echarts/components';
 import type { CharacteristicChart, ChartPointRecord, ChartViolation } from '@shared/schemas/charts';
 import { lineStyles, markers, zoneFill, type LineKind, type MarkerKind } from './line-styles';
-import { escapeHtml, figure, formatDateTime, formatShortDate, ruleLabels, shiftName, statisticNames } from './format';
+import { ruleLabels, statisticNames } from '@shared/spc';
+import { escapeHtml, figure, formatDateTime, formatShortDate, shiftName } from './format';
 
 export type ControlChartOption = ComposeOption<
   | LineSeriesOption

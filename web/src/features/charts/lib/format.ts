@@ -1,31 +1,5 @@
-import type { RuleId } from '@shared/spc';
-
-/** Short names of the run rules for tables and markers; the engine's descriptions explain them in full. */
-export const ruleLabels: Record<RuleId, string> = {
-  we1: 'Rule 1 · beyond a control limit',
-  we2: 'Rule 2 · 2 of 3 beyond 2σ',
-  we3: 'Rule 3 · 4 of 5 beyond 1σ',
-  we4: 'Rule 4 · 8 on one side',
-  trend: 'Trend · 6 rising or falling',
-  alternating: 'Saw tooth · 14 alternating',
-  hugging: 'Hugging · 15 within 1σ',
-  mixture: 'Mixture · 8 avoiding the centre',
-};
-
-export const chartTypeLabels = {
-  'xbar-r': 'X̄ and R chart',
-  'xbar-s': 'X̄ and S chart',
-  imr: 'Individuals and moving range chart',
-} as const;
-
-/** What the location and dispersion charts plot, by chart type. */
-export const statisticNames = {
-  'xbar-r': { location: 'X̄', dispersion: 'R', dispersionName: 'Range' },
-  'xbar-s': { location: 'X̄', dispersion: 'S', dispersionName: 'Standard deviation' },
-  imr: { location: 'I', dispersion: 'MR', dispersionName: 'Moving range' },
-} as const;
-
-export const ruleSetLabels = { we: 'Western Electric rules 1–4', extended: 'Western Electric rules and the extended set' } as const;
+// The alarms feature still reads the rule names here; they live in @shared/spc with the rules.
+export { ruleLabels } from '@shared/spc';
 
 const shiftNames: Record<string, string> = { early: 'Early shift', late: 'Late shift', night: 'Night shift' };
 export const shiftName = (shift: string | null): string => (shift ? (shiftNames[shift] ?? shift) : 'Shift not recorded');

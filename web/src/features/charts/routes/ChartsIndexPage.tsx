@@ -6,7 +6,7 @@ import { Input } from '@web/components/ui/Field';
 import { Loading } from '@web/components/ui/Spinner';
 import { ErrorState } from '@web/components/ui/ErrorState';
 import { EmptyState } from '@web/components/ui/EmptyState';
-import { chartTypeLabels } from '../lib/format';
+import { chartTypeLabels } from '@shared/spc';
 import type { ChartType } from '@shared/spc';
 
 type Listed = Characteristic & { chartType?: ChartType };

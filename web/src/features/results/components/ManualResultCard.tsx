@@ -7,7 +7,8 @@ import { MethodCautions } from '@web/features/test-methods/components/MethodCaut
 import { pullHeads, readingResult, readingWord } from '../lib/readings';
 import { blankAsUndefined, typedNumber } from '../lib/form-values';
 import { setResult, setStatusText } from '../lib/sets';
-import { specInForceAt, specLimitsText, specVerdict } from '../lib/spec';
+import { isOutOfSpec, specAt, specVerdict } from '@shared/spc';
+import { specLimitsText, specVerdictBadge } from '../lib/spec';
 import { useSpecRevisions } from '@web/features/records/api/specifications';
 import { Badge } from '@web/components/ui/Badge';
 import { Button } from '@web/components/ui/Button';
@@ -37,7 +38,7 @@ export function ManualResultCard({ index, characteristic, producedAtMs, method, 
   const headingId = useId();
   const revisions = useSpecRevisions(characteristic.id);
   // The lot page judges a lot by the revision in force when it was made; the form shows the same verdict.
-  const spec = producedAtMs === null || !revisions.data ? characteristic.spec : specInForceAt(revisions.data, producedAtMs);
+  const spec = producedAtMs === null || !revisions.data ? characteristic.spec : specAt(revisions.data, producedAtMs);
   const c: Characteristic = { ...characteristic, spec };
   const earlierRevision = (spec?.revision ?? null) !== (characteristic.spec?.revision ?? null);
   const entry = useWatch({ control, name: `results.${index}` });
@@ -154,7 +155,7 @@ export function ManualResultCard({ index, characteristic, producedAtMs, method, 
 
 /** What one reading gives in the characteristic's unit, and whether it is possible and within specification. */
 function ReadingOutcome({ characteristic: c, value, possible, converted }: { characteristic: Characteristic; value: number; possible: boolean; converted: boolean }) {
-  const outside = specVerdict(value, c.spec, c.unit, c.decimals).tone === 'negative';
+  const outside = isOutOfSpec(specVerdict(value, c.spec));
   const remark = !possible ? 'not possible' : outside ? 'out of spec' : null;
   if (!converted && !remark) return null;
   return (
@@ -166,7 +167,7 @@ function ReadingOutcome({ characteristic: c, value, possible, converted }: { cha
 
 function SetSummary({ characteristic: c, set }: { characteristic: Characteristic; set: ReturnType<typeof setResult> }) {
   const status = set.status && set.status !== 'accepted' ? setStatusText[set.status] : set.status === 'accepted' && c.testMethodCode === 'RC' ? setStatusText.accepted : null;
-  const verdict = set.value === null ? null : specVerdict(set.value, c.spec, c.unit, c.decimals);
+  const verdict = set.value === null ? null : specVerdictBadge(set.value, c.spec, c.unit, c.decimals);
   return (
     <div className="space-y-1.5">
       <p className="flex flex-wrap items-center gap-x-3 gap-y-1">

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import type { Characteristic } from '../api/catalogue';
 import { readingResult } from './readings';
 import { setResult } from './sets';
-import { specVerdict } from './spec';
+import { specVerdictBadge } from './spec';
 
 const characteristic = (testMethodCode: Characteristic['testMethodCode'], rawLoad: Characteristic['rawLoad']) => ({ testMethodCode, rawLoad }) as Characteristic;
 const rc = characteristic('RC', 'compressive');
@@ -45,10 +45,10 @@ describe('the result of a set and its verdict', () => {
 
   it('compares unrounded values with the limits in force', () => {
     const spec = { revision: 1, lsl: 25, usl: null, target: null, effectiveFrom: '2026-01-01' };
-    expect(specVerdict(25, spec, 'MPa', 1)).toEqual({ tone: 'positive', label: 'Within specification' });
+    expect(specVerdictBadge(25, spec, 'MPa', 1)).toEqual({ tone: 'positive', label: 'Within specification' });
     // 24.96 shows as 25.0 with one decimal but is below the LSL of 25.
-    expect(specVerdict(24.96, spec, 'MPa', 1)).toEqual({ tone: 'negative', label: 'Below LSL 25.0 MPa' });
-    expect(specVerdict(156, { ...spec, lsl: 135, usl: 155 }, 'mm', 0)).toEqual({ tone: 'negative', label: 'Above USL 155 mm' });
-    expect(specVerdict(1, null, 'mm', 0)).toEqual({ tone: 'neutral', label: 'No specification in force' });
+    expect(specVerdictBadge(24.96, spec, 'MPa', 1)).toEqual({ tone: 'negative', label: 'Below LSL 25.0 MPa' });
+    expect(specVerdictBadge(156, { ...spec, lsl: 135, usl: 155 }, 'mm', 0)).toEqual({ tone: 'negative', label: 'Above USL 155 mm' });
+    expect(specVerdictBadge(1, null, 'mm', 0)).toEqual({ tone: 'neutral', label: 'No specification in force' });
   });
 });

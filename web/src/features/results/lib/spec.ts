@@ -1,15 +1,17 @@
+import { specVerdict } from '@shared/spc';
 import type { SpecInForce } from '../api/catalogue';
 
-export interface SpecVerdict {
+export interface SpecVerdictBadge {
   tone: 'positive' | 'negative' | 'neutral';
   label: string;
 }
 
-/** Whether a result meets the specification in force; limits are compared unrounded. */
-export function specVerdict(value: number, spec: SpecInForce | null, unit: string, decimals: number): SpecVerdict {
-  if (!spec || (spec.lsl === null && spec.usl === null)) return { tone: 'neutral', label: 'No specification in force' };
-  if (spec.lsl !== null && value < spec.lsl) return { tone: 'negative', label: `Below LSL ${spec.lsl.toFixed(decimals)} ${unit}` };
-  if (spec.usl !== null && value > spec.usl) return { tone: 'negative', label: `Above USL ${spec.usl.toFixed(decimals)} ${unit}` };
+/** The verdict of shared/spc (a result on a limit is in) as a badge; limits are compared unrounded. */
+export function specVerdictBadge(value: number, spec: SpecInForce | null, unit: string, decimals: number): SpecVerdictBadge {
+  const verdict = specVerdict(value, spec);
+  if (verdict === 'no-spec') return { tone: 'neutral', label: 'No specification in force' };
+  if (verdict === 'below-lsl') return { tone: 'negative', label: `Below LSL ${spec!.lsl!.toFixed(decimals)} ${unit}` };
+  if (verdict === 'above-usl') return { tone: 'negative', label: `Above USL ${spec!.usl!.toFixed(decimals)} ${unit}` };
   return { tone: 'positive', label: 'Within specification' };
 }
 
@@ -21,22 +23,4 @@ export function specLimitsText(spec: SpecInForce | null, unit: string, decimals:
   if (spec.lsl !== null && spec.usl !== null) return `${f(spec.lsl)} – ${f(spec.usl)} ${unit}${target}`;
   if (spec.lsl !== null) return `LSL ${f(spec.lsl)} ${unit}${target}`;
   return `USL ${f(spec.usl!)} ${unit}${target}`;
-}
-
-/**
- * The revision in force at an instant, as the lot page's server answer picks it: the latest effective date
- * not after the instant, the higher revision on a tie; null when none had taken effect yet.
- */
-export function specInForceAt<T extends Pick<SpecInForce, 'revision' | 'effectiveFrom'>>(revisions: readonly T[], instantMs: number): T | null {
-  let found: T | null = null;
-  let foundMs = -Infinity;
-  for (const r of revisions) {
-    const from = Date.parse(r.effectiveFrom);
-    if (from > instantMs) continue;
-    if (from > foundMs || (from === foundMs && found !== null && r.revision > found.revision)) {
-      found = r;
-      foundMs = from;
-    }
-  }
-  return found;
 }

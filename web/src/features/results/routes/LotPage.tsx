@@ -4,7 +4,7 @@ import { ApiError } from '@web/lib/http';
 import { useLot, type Lot, type LotResult } from '../api/lots';
 import { useCharacteristics, usePlantTimeZone, type Characteristic } from '../api/catalogue';
 import { formatPlantDateTime } from '../lib/plant-time';
-import { specLimitsText, specVerdict } from '../lib/spec';
+import { specLimitsText, specVerdictBadge } from '../lib/spec';
 import { setResult, setStatusText, type SetResult } from '../lib/sets';
 import { entryRoles } from '../lib/roles';
 import { useSignedInUser } from '@web/features/auth/api/session';
@@ -205,6 +205,6 @@ function SetNote({ result }: { result: SetResult }) {
 }
 
 function Verdict({ value, characteristic }: { value: number; characteristic: Characteristic }) {
-  const verdict = specVerdict(value, characteristic.spec, characteristic.unit, characteristic.decimals);
+  const verdict = specVerdictBadge(value, characteristic.spec, characteristic.unit, characteristic.decimals);
   return <Badge tone={verdict.tone}>{verdict.label}</Badge>;
 }
