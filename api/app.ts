@@ -24,9 +24,8 @@ import { spcRunsRouter } from './routes/spc-runs/router';
 import { alarmsRouter } from './routes/alarms/router';
 import { subscriptionsRouter } from './routes/subscriptions/router';
 import { devRouter } from './routes/dev/router';
-import { noIngestHooks, type IngestHooks } from './ingest/hooks';
 import { lazyQueue, type SpcQueue } from './spc/queue';
-import { requestIncrementalRun } from './spc/hooks';
+import { resultsChanged as scheduleRun, type ResultsChanged } from './spc/results-changed';
 import type { FakeSmtp } from './mail/fake-smtp';
 import { mailSettings } from './mail/settings';
 import { webDist } from './paths';
@@ -36,8 +35,12 @@ export interface AppDeps {
   config: Pick<Config, 'jwtSecret' | 'loginAttemptsPer15Min'>;
   /** Serve the built web app (off in API-only tests). */
   serveWeb?: boolean;
-  /** Follow-up work after results are stored (alarms, SPC runs). */
-  ingestHooks?: IngestHooks;
+  /**
+   * What follows a change of results, limits or chart settings: out-of-spec alarms and the incremental
+   * SPC run. The server passes resultsChanged() on its queue; without it (API tests of other resources)
+   * new and withdrawn results start nothing and only chart decisions (limits, settings) start a run.
+   */
+  resultsChanged?: ResultsChanged;
   /** Queue that SPC runs are started on; by default one on the app's pool, started on first use. */
   spcQueue?: SpcQueue;
   /** The local fake SMTP server when it is in use: its messages are listed under /api/v1/dev/outbox. */
@@ -46,7 +49,7 @@ export interface AppDeps {
   publicUrl?: string;
 }
 
-export function createApp({ db, config, serveWeb = true, ingestHooks = noIngestHooks, spcQueue, fakeSmtp = null, publicUrl = mailSettings().publicUrl }: AppDeps): Express {
+export function createApp({ db, config, serveWeb = true, resultsChanged, spcQueue, fakeSmtp = null, publicUrl = mailSettings().publicUrl }: AppDeps): Express {
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
@@ -75,14 +78,13 @@ export function createApp({ db, config, serveWeb = true, ingestHooks = noIngestH
   app.use('/api/health', healthRouter(db));
   app.use('/api/v1/auth', authRouter(db, config));
   app.use('/api/v1/users', usersRouter(db));
-  app.use('/api/v1/uploads', uploadsRouter(db, ingestHooks));
-  app.use('/api/v1/measurements', measurementsRouter(db, ingestHooks));
-  app.use('/api/v1/column-mappings', columnMappingsRouter(db));
   const queue = spcQueue ?? lazyQueue(db.$client);
-  const limitsChanged = async (characteristicId: number, userId: number) => {
-    await requestIncrementalRun({ db, queue, publicUrl }, [characteristicId], 'limits', userId);
-  };
-  app.use('/api/v1/characteristics', chartsRouter(db, limitsChanged));
+  const changed: ResultsChanged =
+    resultsChanged ?? (async (change) => (change.because === 'limits' || change.because === 'settings' ? scheduleRun({ db, queue, publicUrl }, change) : undefined));
+  app.use('/api/v1/uploads', uploadsRouter(db, changed));
+  app.use('/api/v1/measurements', measurementsRouter(db, changed));
+  app.use('/api/v1/column-mappings', columnMappingsRouter(db));
+  app.use('/api/v1/characteristics', chartsRouter(db, changed));
   app.use('/api/v1/overview', overviewRouter(db));
   app.use('/api/v1/spc-runs', spcRunsRouter(db, queue));
   app.use('/api/v1/alarms', alarmsRouter(db, publicUrl));
@@ -90,9 +92,7 @@ export function createApp({ db, config, serveWeb = true, ingestHooks = noIngestH
   if (fakeSmtp) app.use('/api/v1/dev', devRouter(fakeSmtp));
   app.use('/api/v1/characteristics', specificationsRouter(db));
   app.use('/api/v1/process-events', processEventsRouter(db));
-  const chartSettingsChanged = async (characteristicId: number, userId: number) => {
-    await requestIncrementalRun({ db, queue, publicUrl }, [characteristicId], 'settings', userId);
-  };
+  const chartSettingsChanged = (characteristicId: number, userId: number) => changed({ characteristicIds: [characteristicId], because: 'settings', by: userId });
   app.use('/api/v1', catalogueRouter(db, chartSettingsChanged));
   app.use('/api', notFoundApi);
 

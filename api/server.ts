@@ -21,7 +21,7 @@ export async function startServer(config: Config = loadConfig()): Promise<Runnin
   await migrateDatabase(db.$client);
   if (config.mode === 'demo') await seedDemo(db, { publicUrl: config.publicUrl });
   const background = await startBackground(db, { databaseUrl: config.databaseUrl, publicUrl: config.publicUrl });
-  const app = createApp({ db, config, ingestHooks: background.ingestHooks, spcQueue: background.queue, fakeSmtp: background.fakeSmtp, publicUrl: config.publicUrl });
+  const app = createApp({ db, config, resultsChanged: background.resultsChanged, spcQueue: background.queue, fakeSmtp: background.fakeSmtp, publicUrl: config.publicUrl });
   const server = await new Promise<Server>((resolvePromise, reject) => {
     const s = app.listen(config.port, config.host, () => resolvePromise(s));
     s.on('error', reject);

@@ -2,20 +2,19 @@
 // schedules, the outbox sender and — without SMTP_URL — the local fake SMTP server.
 import { sql } from 'drizzle-orm';
 import type { Database } from '@api/db/client';
-import type { IngestHooks } from '@api/ingest/hooks';
 import { logger } from '@api/logger';
 import { startFakeSmtp, type FakeSmtp } from '@api/mail/fake-smtp';
 import { createTransport, startMailSender, type MailSender } from '@api/mail/outbox';
 import { mailSettings } from '@api/mail/settings';
-import { createSpcIngestHooks } from '@api/spc/hooks';
 import { fixedQueue, startBoss, workerName, type SpcQueue } from '@api/spc/queue';
+import { resultsChanged, type ResultsChanged } from '@api/spc/results-changed';
 import { startRun } from '@api/spc/runs';
 import { startScheduler, type Scheduler } from './scheduler';
 import { startSpcWorkers, workerSettings, type SpcWorkers } from './spc-worker';
 
 export interface Background {
   queue: SpcQueue;
-  ingestHooks: IngestHooks;
+  resultsChanged: ResultsChanged;
   fakeSmtp: FakeSmtp | null;
   mail: MailSender;
   stop(): Promise<void>;
@@ -47,7 +46,7 @@ export async function startBackground(db: Database, opts: { databaseUrl: string;
 
   return {
     queue,
-    ingestHooks: createSpcIngestHooks({ db, queue, publicUrl: opts.publicUrl }),
+    resultsChanged: (change) => resultsChanged({ db, queue, publicUrl: opts.publicUrl }, change),
     fakeSmtp,
     mail,
     async stop() {

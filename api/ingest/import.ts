@@ -13,6 +13,7 @@ import { drizzle } from 'drizzle-orm/node-postgres';
 import type pg from 'pg';
 import { from as copyFrom } from 'pg-copy-streams';
 import { decodeText, readResults, validateRows, type CanonicalRow, type ColumnMapping, type CsvDialect, type RowError, type ValidMeasurement } from '@shared/ingest';
+import { beyondStrictestLimits } from '@shared/spc';
 import type { Database } from '../db/client';
 import * as schema from '../db/schema';
 import { recordAudit } from '../db/audit';
@@ -492,9 +493,7 @@ class MeasurementStore {
       else rows.int4(this.req.actorId);
       this.measurementIds.push(ids[k]);
       this.characteristicIds.add(characteristicId);
-      const limits = this.cat.strictestLimits.get(characteristicId);
-      const beyond = limits !== undefined && ((limits.lsl !== null && value < limits.lsl) || (limits.usl !== null && value > limits.usl));
-      if (beyond || lot.stored) {
+      if (beyondStrictestLimits(value, this.cat.strictestLimits.get(characteristicId)) || lot.stored) {
         const key = `${lot.id}:${characteristicId}`;
         if (!this.judgeKeys.has(key)) {
           this.judgeKeys.add(key);

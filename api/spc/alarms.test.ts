@@ -1,6 +1,6 @@
 // Which chart signals become alarms: one alarm per pattern episode, however the pattern goes on.
 import { describe, expect, it } from 'vitest';
-import { buildChart, type ChartInputs, type LotSubgroup } from './characteristic-chart';
+import { buildChart, type ChartInputs, type LotSubgroup } from './chart-assembly';
 import { findingsOf } from './alarms';
 
 const HOUR = 3_600_000;

@@ -1,13 +1,12 @@
 // Alarms: what a chart shows that someone must look at. One row per characteristic, rule, chart and
 // lot (the dedupe key), so a re-run finds the row it raised before instead of raising it again.
 import { sql } from 'drizzle-orm';
-import { ruleDescriptions, type RuleId } from '@shared/spc';
+import { brokenLimit, isOutOfSpec, lotResult, ruleDescriptions, specAt, specVerdict, type RuleId } from '@shared/spc';
 import { recordAudit } from '../db/audit';
 import type { Database } from '../db/client';
 import { HttpError, notFound } from '../http/errors';
 import { queueAlarmMail } from '../mail/notify';
-import type { CharacteristicChart, ChartInputs } from './characteristic-chart';
-import { lotResult, specAt } from './characteristic-chart';
+import type { CharacteristicChart, ChartInputs } from './chart-assembly';
 import { arr, type Executor } from './db';
 
 export const OUT_OF_SPEC = 'out-of-spec';
@@ -110,7 +109,9 @@ export function findingsOf(chart: CharacteristicChart, inputs: ChartInputs, prev
     if (!p.outOfSpec) return;
     const spec = specAt(inputs.specs, new Date(p.producedAt))!;
     const result = lotResult(p.values);
-    const below = spec.lsl !== null && result < spec.lsl;
+    const verdict = specVerdict(result, spec);
+    if (!isOutOfSpec(verdict)) return;
+    const limit = brokenLimit(verdict, spec);
     out.push({
       lotId: p.lotId,
       rule: OUT_OF_SPEC,
@@ -118,9 +119,9 @@ export function findingsOf(chart: CharacteristicChart, inputs: ChartInputs, prev
       pointIndex: i,
       statistic: result,
       values: p.values,
-      limitName: below ? 'LSL' : 'USL',
-      limitValue: below ? spec.lsl : spec.usl,
-      description: outOfSpecText(p.lotNumber, p.producedAt, result, p.values, below, below ? spec.lsl! : spec.usl!, spec.revision, unit, c.decimals),
+      limitName: limit.name,
+      limitValue: limit.value,
+      description: outOfSpecText(p.lotNumber, p.producedAt, result, p.values, verdict === 'below-lsl', limit.value, spec.revision, unit, c.decimals),
       lateReason: lateReason(i),
     });
   });

@@ -3,10 +3,10 @@ import { and, eq, sql } from 'drizzle-orm';
 import { createDatabase } from '../db/client';
 import { alarmSubscriptions, alarms, lots, mailOutbox, measurements, spcRunItems, spcRuns, spcSnapshots } from '../db/schema';
 import { databaseUrl } from '@tests/support/api';
-import { computeCharacteristicChart } from './characteristic-chart';
+import { computeCharacteristicChart } from './chart-load';
 import { runCharacteristic } from './run';
 import { createRunRow, createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from './testing/plant';
-import { raiseOutOfSpecAlarms } from './hooks';
+import { raiseOutOfSpecAlarms } from './results-changed';
 import { queueDigests } from '../mail/notify';
 
 const db = createDatabase(databaseUrl(), 4);

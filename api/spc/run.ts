@@ -4,10 +4,12 @@
 // can be seen. When the inputs are the same as last time nothing is written but the item's status.
 import { sql } from 'drizzle-orm';
 import type { Database } from '../db/client';
-import { CHARACTERISTIC_LOCK, buildChart, chartFingerprint, loadChartInputs, specAt } from './characteristic-chart';
+import { specAt } from '@shared/spc';
+import { buildChart, chartFingerprint } from './chart-assembly';
+import { loadChartInputs } from './chart-load';
 import { findingsOf, reconcileAlarms, type PreviousSnapshot } from './alarms';
 import { settleRun } from './runs';
-import { arr } from './db';
+import { arr, CHARACTERISTIC_LOCK } from './db';
 
 export interface CharacteristicOutcome {
   skipped: boolean;

@@ -7,7 +7,7 @@
 //   out-of-spec check and run, until the run has finished; target under 2 s.
 import { sql } from 'drizzle-orm';
 import { importResults } from '@api/ingest/import';
-import { createSpcIngestHooks } from '@api/spc/hooks';
+import { resultsChanged } from '@api/spc/results-changed';
 import { startPrivateCluster } from '@api/spc/testing/cluster';
 import { seedScaledPlant } from '@api/spc/testing/scaled-plant';
 import { fixedQueue, startBoss } from '@api/spc/queue';
@@ -94,16 +94,15 @@ export async function run(): Promise<BenchRow[]> {
       },
     ];
 
-    // One new lot of one product: 10 characteristics, through the ingest path and its hooks (workers stay at 2).
+    // One new lot of one product: 10 characteristics, through the ingest path and resultsChanged (workers stay at 2).
     const [product] = (await db.execute<{ code: string; line: string }>(sql`
       select p.code, pl.code as line from products p join production_lines pl on pl.id = p.line_id where p.id = ${plant.productIds[0]}`)).rows;
     const chars = (await db.execute<{ code: string }>(sql`select code from characteristics where product_id = ${plant.productIds[0]} order by code`)).rows;
     const csv = ['lot,product,line,produced_at,characteristic,value,replicate', ...chars.map((c, i) => `${product.code}-NEW,${product.code},${product.line},2030-01-01T06:00:00Z,${c.code},${145 + i / 10},1`)].join('\n');
-    const hooks = createSpcIngestHooks({ db, queue, publicUrl: 'http://prismline.bench' });
     const t0 = performance.now();
     const outcome = await importResults(db, { fileName: 'new-lot.csv', content: Buffer.from(csv), actorId: null, source: 'upload' });
     if (outcome.kind !== 'imported') throw new Error(`the new lot did not import: ${outcome.kind}`);
-    await hooks.afterImport(outcome);
+    await resultsChanged({ db, queue, publicUrl: 'http://prismline.bench' }, { characteristicIds: outcome.characteristicIds, because: 'upload', by: null, judge: outcome.toJudge });
     const incId = (await db.execute<{ id: number }>(sql`select max(id)::int as id from spc_runs where trigger = 'upload'`)).rows[0].id;
     for (;;) {
       const r = await getRun(db, incId);

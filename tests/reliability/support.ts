@@ -6,7 +6,7 @@ import { resolve } from 'node:path';
 import { sql } from 'drizzle-orm';
 import type PgBoss from 'pg-boss';
 import type { Database } from '@api/db/client';
-import { computeCharacteristicChart } from '@api/spc/characteristic-chart';
+import { computeCharacteristicChart } from '@api/spc/chart-load';
 import { fixedQueue, startBoss, type SpcQueue } from '@api/spc/queue';
 import { getRun, startRun, type RunDetail } from '@api/spc/runs';
 

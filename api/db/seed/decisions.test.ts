@@ -6,7 +6,7 @@ import { sql } from 'drizzle-orm';
 import { ensureDatabase, type Cluster } from '@scripts/lib/cluster';
 import { createDatabase, type Database } from '../client';
 import { migrateDatabase } from '../migrate';
-import { computeCharacteristicChart, limitRevisions } from '@api/spc/characteristic-chart';
+import { computeCharacteristicChart, limitRevisions } from '@api/spc/chart-load';
 import { DATA_CHANGED_NOTE } from '@api/spc/alarms';
 import { causeOf, causeNotes, HELD_LOT_DAYS, OPEN_DAYS } from './decisions';
 import { demoEndDate, seedDemo } from './index';

@@ -8,7 +8,7 @@
 import { sql } from 'drizzle-orm';
 import type { Database } from '../client';
 import { OUT_OF_SPEC, triageAlarm } from '@api/spc/alarms';
-import { excludePoint, freezeLimits } from '@api/spc/characteristic-chart';
+import { excludePoint, freezeLimits } from '@api/spc/chart-commands';
 import { runCharacteristic } from '@api/spc/run';
 import { createRunRecord } from '@api/spc/runs';
 import { plantedCausesFor, type PlantedCause, type ScenarioWindow } from './scenario';

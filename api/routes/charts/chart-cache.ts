@@ -13,7 +13,8 @@ import { createHash } from 'node:crypto';
 import { gzipSync } from 'node:zlib';
 import { sql } from 'drizzle-orm';
 import type { Database } from '@api/db/client';
-import { computeCharacteristicChart, type ChartWindow } from '@api/spc/characteristic-chart';
+import type { ChartWindow } from '@api/spc/chart-assembly';
+import { computeCharacteristicChart } from '@api/spc/chart-load';
 import type { CharacteristicChart } from '@shared/schemas/charts';
 
 const MAX_ENTRIES = 96;

@@ -1,9 +1,12 @@
-import { Router } from 'express';
+import { Router, type ErrorRequestHandler } from 'express';
 import { eq } from 'drizzle-orm';
 import type { Database } from '@api/db/client';
 import { characteristics } from '@api/db/schema';
-import { excludePoint, freezeLimits, includePoint, limitRevisions, type LimitRevision } from '@api/spc/characteristic-chart';
-import { notFound, parseBody } from '@api/http/errors';
+import { excludePoint, freezeLimits, includePoint } from '@api/spc/chart-commands';
+import { limitRevisions, type LimitRevision } from '@api/spc/chart-load';
+import { DomainError } from '@api/spc/errors';
+import type { ResultsChanged } from '@api/spc/results-changed';
+import { HttpError, notFound, parseBody } from '@api/http/errors';
 import { requirePermission, requireSession } from '@api/auth/session';
 import type { LimitRevisionRecord } from '@shared/schemas/charts';
 import { chartCacheFor } from './chart-cache';
@@ -32,14 +35,20 @@ function revisionJson(r: LimitRevision): LimitRevisionRecord {
   };
 }
 
+/** The HTTP status of each kind of refusal of the SPC domain. */
+const domainStatus: Record<DomainError['kind'], number> = { 'not-found': 404, conflict: 409, invalid: 400, 'not-possible': 422 };
+
+/** Turns a refusal of the chart commands or the chart loader into an HTTP answer with its plain message. */
+const domainErrorsToHttp: ErrorRequestHandler = (err, _req, _res, next) => {
+  next(err instanceof DomainError ? new HttpError(domainStatus[err.kind], err.message) : err);
+};
+
 /**
  * One characteristic's control chart, its exclusions and its frozen-limit revisions. Every role
- * reads; quality managers and administrators change what the limits are computed from.
+ * reads; quality managers and administrators change what the limits are computed from, and the
+ * alarms follow in an incremental run (resultsChanged, because 'limits').
  */
-/** Called after exclusions or frozen limits change; the alarms follow in an incremental run. */
-export type LimitsChanged = (characteristicId: number, userId: number) => Promise<void>;
-
-export function chartsRouter(db: Database, limitsChanged: LimitsChanged): Router {
+export function chartsRouter(db: Database, resultsChanged: ResultsChanged): Router {
   const router = Router();
   const cache = chartCacheFor(db);
   router.use(requireSession);
@@ -67,7 +76,7 @@ export function chartsRouter(db: Database, limitsChanged: LimitsChanged): Router
     const { id } = parseBody(characteristicParamsSchema, req.params);
     const { lotId, reason } = parseBody(excludePointSchema, req.body);
     const row = await excludePoint(db, { characteristicId: id, lotId, reason, userId: req.user!.id });
-    await limitsChanged(id, req.user!.id);
+    await resultsChanged({ characteristicIds: [id], because: 'limits', by: req.user!.id });
     res.status(201).json({ id: row.id, characteristicId: id, lotId });
   });
 
@@ -75,7 +84,7 @@ export function chartsRouter(db: Database, limitsChanged: LimitsChanged): Router
     const { id, lotId } = parseBody(exclusionParamsSchema, req.params);
     const { reason } = parseBody(includePointSchema, req.body ?? {});
     const row = await includePoint(db, { characteristicId: id, lotId, reason, userId: req.user!.id });
-    await limitsChanged(id, req.user!.id);
+    await resultsChanged({ characteristicIds: [id], because: 'limits', by: req.user!.id });
     res.json({ id: row.id, characteristicId: id, lotId });
   });
 
@@ -91,9 +100,10 @@ export function chartsRouter(db: Database, limitsChanged: LimitsChanged): Router
     const { id } = parseBody(characteristicParamsSchema, req.params);
     const input = parseBody(freezeLimitsSchema, req.body);
     const revision = await freezeLimits(db, { characteristicId: id, ...input, userId: req.user!.id });
-    await limitsChanged(id, req.user!.id);
+    await resultsChanged({ characteristicIds: [id], because: 'limits', by: req.user!.id });
     res.status(201).json(revisionJson(revision));
   });
 
+  router.use(domainErrorsToHttp);
   return router;
 }

@@ -8,7 +8,7 @@ import { recordAudit } from '@api/db/audit';
 import { badRequest, notFound, parseBody } from '@api/http/errors';
 import { requirePermission, requireSession } from '@api/auth/session';
 import { importResults } from '@api/ingest/import';
-import type { IngestHooks } from '@api/ingest/hooks';
+import type { ResultsChanged } from '@api/spc/results-changed';
 import { respondToImport } from '../uploads/router';
 import { correctMeasurementSchema, manualEntrySchema, measurementIdParamsSchema, type ManualEntry } from './schema';
 
@@ -53,7 +53,7 @@ async function manualRows(db: Database, entry: ManualEntry): Promise<CanonicalRo
   return rows;
 }
 
-export function measurementsRouter(db: Database, hooks: IngestHooks): Router {
+export function measurementsRouter(db: Database, resultsChanged: ResultsChanged): Router {
   const router = Router();
   router.use(requireSession);
 
@@ -61,7 +61,8 @@ export function measurementsRouter(db: Database, hooks: IngestHooks): Router {
     const entry = parseBody(manualEntrySchema, req.body);
     const outcome = await importResults(db, { fileName: 'manual entry', actorId: req.user!.id, source: 'manual', rows: await manualRows(db, entry), decimalComma: false });
     if (outcome.kind === 'imported') {
-      await hooks.afterImport(outcome);
+      // Manual entry adds results as an upload does, and its run says 'upload' as it always has.
+      await resultsChanged({ characteristicIds: outcome.characteristicIds, because: 'upload', by: req.user!.id, judge: outcome.toJudge });
       res.status(201).json({ rowsImported: outcome.rowsImported, measurementIds: outcome.measurementIds });
       return;
     }
@@ -85,13 +86,11 @@ export function measurementsRouter(db: Database, hooks: IngestHooks): Router {
       await recordAudit(tx, { actorId: req.user!.id, action: 'correct', entity: 'measurement', entityId: id, before: { value: before.value }, after: { value }, reason });
       return after;
     });
-    await hooks.afterImport({
-      kind: 'imported',
-      uploadId: updated.uploadId,
-      rowsImported: 0,
+    await resultsChanged({
       characteristicIds: [updated.characteristicId],
-      measurementIds: [id],
-      toJudge: [{ lotId: updated.lotId, characteristicId: updated.characteristicId }],
+      because: 'correction',
+      by: req.user!.id,
+      judge: [{ lotId: updated.lotId, characteristicId: updated.characteristicId }],
     });
     res.json(updated);
   });

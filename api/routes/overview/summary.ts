@@ -2,7 +2,7 @@
 // state against the limits the nightly run uses) and over the period (capability of recent production).
 import type { CharacteristicChart } from '@shared/schemas/charts';
 import type { ControlState, OverviewItem } from '@shared/schemas/overview';
-import { PHASE_ONE_MIN_POINTS } from '@api/spc/characteristic-chart';
+import { PHASE_ONE_MIN_POINTS } from '@shared/spc';
 
 /** Points of the period drawn in the overview's trend line. */
 export const TREND_POINTS = 40;

@@ -9,7 +9,7 @@ import { logger } from '@api/logger';
 import { badRequest, HttpError, notFound, parseBody } from '@api/http/errors';
 import { requirePermission, requireSession } from '@api/auth/session';
 import { fileFingerprint, importResults, type ImportOutcome } from '@api/ingest/import';
-import type { IngestHooks } from '@api/ingest/hooks';
+import type { ResultsChanged } from '@api/spc/results-changed';
 import { listUploadsQuerySchema, uploadFieldsSchema, uploadIdParamsSchema, voidUploadSchema } from './schema';
 
 export const MAX_UPLOAD_BYTES = 20 * 1024 * 1024;
@@ -64,7 +64,7 @@ export function respondToImport(res: Parameters<RequestHandler>[1], outcome: Imp
   }
 }
 
-export function uploadsRouter(db: Database, hooks: IngestHooks): Router {
+export function uploadsRouter(db: Database, resultsChanged: ResultsChanged): Router {
   const router = Router();
   router.use(requireSession);
 
@@ -95,7 +95,7 @@ export function uploadsRouter(db: Database, hooks: IngestHooks): Router {
       mapping: fields.mapping,
       dialect: { delimiter: fields.delimiter, decimalComma: fields.decimalComma },
     });
-    if (outcome.kind === 'imported') await hooks.afterImport(outcome);
+    if (outcome.kind === 'imported') await resultsChanged({ characteristicIds: outcome.characteristicIds, because: 'upload', by: req.user!.id, judge: outcome.toJudge });
     respondToImport(res, outcome);
   });
 
@@ -143,7 +143,7 @@ export function uploadsRouter(db: Database, hooks: IngestHooks): Router {
       await recordAudit(tx, { actorId: req.user!.id, action: 'void', entity: 'upload', entityId: id, reason, after: { measurementsVoided: voided.length } });
       return { measurementsVoided: voided.length, characteristicIds: [...new Set(voided.map((v) => v.characteristicId))] };
     });
-    await hooks.afterVoid({ uploadId: id, characteristicIds: result.characteristicIds });
+    await resultsChanged({ characteristicIds: result.characteristicIds, because: 'void', by: req.user!.id });
     res.json({ id, status: 'voided', measurementsVoided: result.measurementsVoided });
   });
 

@@ -1,4 +1,4 @@
-// An in-process API with the SPC hooks and queue, as the server wires them. Jobs it enqueues are
+// An in-process API with the SPC follow-up (resultsChanged) and queue, as the server wires them. Jobs it enqueues are
 // worked by the test server's workers (scripts/run-tests.ts), which share the database.
 import request from 'supertest';
 import { createApp } from '@api/app';
@@ -6,7 +6,7 @@ import { createDatabase } from '@api/db/client';
 import { DEMO_PASSWORD } from '@api/db/seed';
 import { demoEmail, databaseUrl, TEST_JWT_SECRET } from '@tests/support/api';
 import type { Role } from '@shared/schemas/users';
-import { createSpcIngestHooks } from '../hooks';
+import { resultsChanged } from '../results-changed';
 import { lazyQueue } from '../queue';
 
 export const TEST_PUBLIC_URL = 'http://prismline.test';
@@ -18,7 +18,7 @@ export function createSpcTestApi() {
     db,
     config: { jwtSecret: TEST_JWT_SECRET, loginAttemptsPer15Min: 50 },
     serveWeb: false,
-    ingestHooks: createSpcIngestHooks({ db, queue, publicUrl: TEST_PUBLIC_URL }),
+    resultsChanged: (change) => resultsChanged({ db, queue, publicUrl: TEST_PUBLIC_URL }, change),
     spcQueue: queue,
     publicUrl: TEST_PUBLIC_URL,
   });

@@ -6,7 +6,7 @@ import { createDatabase } from '../db/client';
 import { alarms, spcRuns } from '../db/schema';
 import { DEMO_PASSWORD } from '../db/seed';
 import { databaseUrl, demoEmail, TEST_JWT_SECRET } from '@tests/support/api';
-import { createSpcIngestHooks } from './hooks';
+import { resultsChanged } from './results-changed';
 import { createTestCharacteristic, removeTestCharacteristics } from './testing/plant';
 
 const db = createDatabase(databaseUrl(), 2);
@@ -15,14 +15,14 @@ afterAll(async () => {
   await db.$client.end();
 });
 
-describe('ingest hooks', () => {
+describe('what follows a change of results', () => {
   it('never fail an upload: with the queue unreachable the upload is stored (201) and its out-of-spec alarm raised all the same', async () => {
     const brokenQueue = { boss: () => Promise.reject(new Error('queue unreachable')), stop: async () => undefined };
     const app = createApp({
       db,
       config: { jwtSecret: TEST_JWT_SECRET, loginAttemptsPer15Min: 50 },
       serveWeb: false,
-      ingestHooks: createSpcIngestHooks({ db, queue: brokenQueue, publicUrl: 'http://prismline.test' }),
+      resultsChanged: (change) => resultsChanged({ db, queue: brokenQueue, publicUrl: 'http://prismline.test' }, change),
       spcQueue: brokenQueue,
     });
     const login = await request(app).post('/api/v1/auth/login').send({ email: demoEmail.technician, password: DEMO_PASSWORD });

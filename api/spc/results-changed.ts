@@ -1,13 +1,20 @@
-// What happens after results are stored or withdrawn: out-of-specification alarms at once, then an
-// incremental run of the characteristics touched. Neither may fail the upload: errors are logged.
+// The one way a change of what a chart is computed from reaches the SPC run: uploads, manual entry,
+// corrections, voids, exclusions and inclusions, frozen limits and chart settings all call
+// resultsChanged(). Lots whose results changed are judged against the specification at once (an
+// out-of-spec alarm and its e-mails should not wait for the run), then an incremental run of the
+// characteristics is started. Both read the stored, committed facts, as the chart does.
+//
+// The run is requested after the change has committed, not in its transaction: the import runs on its
+// own connection and manual transaction, and a queue that cannot be reached must not refuse a change
+// of results. A request that fails is logged; the nightly run catches up. Neither step may fail the
+// request that changed the data.
 import { sql } from 'drizzle-orm';
+import { brokenLimit, isOutOfSpec, lotResult, specAt, specVerdict } from '@shared/spc';
 import type { Database } from '../db/client';
-import type { IngestHooks } from '../ingest/hooks';
 import type { Subgroup } from '../ingest/import';
 import { logger } from '../logger';
 import { queueAlarmMail } from '../mail/notify';
 import { OUT_OF_SPEC, lateResultText, outOfSpecText } from './alarms';
-import { isOutOfSpec, lotResult, specAt } from './characteristic-chart';
 import { arr, type Executor } from './db';
 import type { SpcQueue } from './queue';
 import { startRun, type RunTrigger } from './runs';
@@ -63,9 +70,10 @@ export async function raiseOutOfSpecAlarms(db: Database, subgroups: Subgroup[], 
       const producedAt = new Date(r.produced_at);
       const spec = specAt(specs.get(r.characteristic_id) ?? [], producedAt);
       const result = lotResult(values);
-      if (!spec || !isOutOfSpec(result, spec)) continue;
-      const below = spec.lsl !== null && result < spec.lsl;
-      const limit = below ? spec.lsl! : spec.usl!;
+      const verdict = specVerdict(result, spec);
+      if (!spec || !isOutOfSpec(verdict)) continue;
+      const below = verdict === 'below-lsl';
+      const limit = brokenLimit(verdict, spec).value;
       const description = outOfSpecText(r.lot_number, producedAt.toISOString(), result, values, below, limit, spec.revision, r.unit, r.decimals);
       const { pointIndex, laterLots } = await positionOf(tx, r.characteristic_id, r.lot_id);
       const lateReason = laterLots > 0 ? lateResultText(r.lot_number) : null;
@@ -86,36 +94,49 @@ export async function raiseOutOfSpecAlarms(db: Database, subgroups: Subgroup[], 
   });
 }
 
-export interface SpcHookDeps {
+export interface SpcDeps {
   db: Database;
   queue: SpcQueue;
+  /** Address of the web app in alarm e-mails. */
   publicUrl: string;
 }
 
-/** Requests an incremental run; logged, never thrown. */
-export async function requestIncrementalRun(deps: SpcHookDeps, characteristicIds: number[], trigger: RunTrigger, requestedBy: number | null = null): Promise<number | null> {
-  if (!characteristicIds.length) return null;
-  try {
-    return await startRun(deps.db, deps.queue, { trigger, characteristicIds, requestedBy });
-  } catch (err) {
-    logger.error({ err: (err as Error).message, characteristicIds, trigger }, 'incremental SPC run not started; the nightly run will catch up');
-    return null;
-  }
+/** Why the results of some characteristics, or what their charts are computed from, changed: the run's trigger. */
+export type ResultsChangedBecause = Extract<RunTrigger, 'upload' | 'correction' | 'void' | 'limits' | 'settings'>;
+
+export interface ResultsChange {
+  /** The characteristics whose charts must be computed again. */
+  characteristicIds: number[];
+  /** 'upload' for uploads and manual entry, 'limits' for exclusions, inclusions and frozen limits. */
+  because: ResultsChangedBecause;
+  /** The person who made the change. */
+  by: number | null;
+  /** Lots whose results were added or changed, judged against the specification at once. */
+  judge?: Subgroup[];
 }
 
-export function createSpcIngestHooks(deps: SpcHookDeps): IngestHooks {
-  return {
-    async afterImport(outcome) {
-      try {
-        await raiseOutOfSpecAlarms(deps.db, outcome.toJudge, deps.publicUrl);
-      } catch (err) {
-        logger.error({ err: (err as Error).message, uploadId: outcome.uploadId }, 'out-of-specification check after import failed; the next run will raise the alarms');
-      }
-      const trigger: RunTrigger = outcome.rowsImported === 0 ? 'correction' : 'upload';
-      await requestIncrementalRun(deps, outcome.characteristicIds, trigger);
-    },
-    async afterVoid(info) {
-      await requestIncrementalRun(deps, info.characteristicIds, 'void');
-    },
-  };
+/** What a router is given to report a change; api/app.ts wires it once. */
+export type ResultsChanged = (change: ResultsChange) => Promise<void>;
+
+/**
+ * A decision on the chart (limits, exclusions, chart settings) names who asked for the run; runs that
+ * follow new or withdrawn results are the system's, as the runs page has always shown them.
+ */
+const requesterOf = (change: ResultsChange): number | null => (change.because === 'limits' || change.because === 'settings' ? change.by : null);
+
+/** Judges the changed lots, then starts the incremental run; failures are logged, never thrown. */
+export async function resultsChanged(deps: SpcDeps, change: ResultsChange): Promise<void> {
+  if (change.judge?.length) {
+    try {
+      await raiseOutOfSpecAlarms(deps.db, change.judge, deps.publicUrl);
+    } catch (err) {
+      logger.error({ err: (err as Error).message, characteristicIds: change.characteristicIds }, 'out-of-specification check failed; the next run will raise the alarms');
+    }
+  }
+  if (!change.characteristicIds.length) return;
+  try {
+    await startRun(deps.db, deps.queue, { trigger: change.because, characteristicIds: change.characteristicIds, requestedBy: requesterOf(change) });
+  } catch (err) {
+    logger.error({ err: (err as Error).message, characteristicIds: change.characteristicIds, trigger: change.because }, 'incremental SPC run not started; the nightly run will catch up');
+  }
 }
