@@ -254,6 +254,10 @@ describe('limit revisions', () => {
     const backwards = await request(api.app).post(url).set(h).send({ baselineFrom: baselineTo, baselineTo: baselineFrom, reason: 'Stable period' });
     expect(backwards.status).toBe(400);
     expect(backwards.body.details).toContainEqual({ path: 'baselineTo', message: 'The baseline must end after it starts' });
+    // A baseline with no points is well formed but cannot give limits: 422 with the plain reason.
+    const empty = await request(api.app).post(url).set(h).send({ baselineFrom: '2099-01-01T00:00:00Z', baselineTo: '2099-02-01T00:00:00Z', reason: 'Stable period' });
+    expect(empty.status).toBe(422);
+    expect(empty.body).toEqual({ error: 'The baseline window holds no kept points' });
     const technician = await request(api.app).post(url).set(await as('technician')).send({ baselineFrom, baselineTo, reason: 'Stable period' });
     expect(technician.status).toBe(403);
 
