@@ -6,17 +6,13 @@ import { auditEvents, lots } from '../db/schema';
 import { databaseUrl } from '@tests/support/api';
 import { excludePoint, freezeLimits, includePoint } from './chart-commands';
 import { computeCharacteristicChart, limitRevisions } from './chart-load';
-import { createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from './testing/plant';
+import { createTestCharacteristic, removeTestCharacteristics, testDay as day, testPair as pair, userIdByEmail } from './testing/plant';
 
 const db = createDatabase(databaseUrl(), 4);
 afterAll(async () => {
   await removeTestCharacteristics(db);
   await db.$client.end();
 });
-
-const day = (d: number, hour = 6) => new Date(Date.UTC(2025, 0, 1 + d, hour)).toISOString();
-/** Deterministic pairs around 145 mm with ranges that vary from lot to lot. */
-const pair = (i: number): number[] => [145 + ((i * 7) % 5) - 2, 145 + ((i * 3) % 7) - 3];
 
 async function lotIdOf(lotNumber: string) {
   const [row] = await db.select({ id: lots.id }).from(lots).where(eq(lots.lotNumber, lotNumber));

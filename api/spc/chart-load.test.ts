@@ -5,17 +5,13 @@ import { createDatabase } from '../db/client';
 import { measurements, plants, processEvents, productionLines } from '../db/schema';
 import { databaseUrl } from '@tests/support/api';
 import { computeCharacteristicChart } from './chart-load';
-import { createTestCharacteristic, removeTestCharacteristics } from './testing/plant';
+import { createTestCharacteristic, removeTestCharacteristics, testDay as day, testPair as pair } from './testing/plant';
 
 const db = createDatabase(databaseUrl(), 4);
 afterAll(async () => {
   await removeTestCharacteristics(db);
   await db.$client.end();
 });
-
-const day = (d: number, hour = 6) => new Date(Date.UTC(2025, 0, 1 + d, hour)).toISOString();
-/** Deterministic pairs around 145 mm with ranges that vary from lot to lot. */
-const pair = (i: number): number[] => [145 + ((i * 7) % 5) - 2, 145 + ((i * 3) % 7) - 3];
 
 describe('computeCharacteristicChart', () => {
   it('plots each lot at its production position, however late its result arrives, then by lot number', async () => {

@@ -3,6 +3,7 @@
 // The chart itself is assembled without I/O in chart-assembly.ts.
 import { desc, eq, sql } from 'drizzle-orm';
 import type { ChartType } from '@shared/spc';
+import type { LimitRevisionRecord } from '@shared/schemas/charts';
 import { controlLimitRevisions, users } from '../db/schema';
 import { buildChart, type CharacteristicChart, type CharacteristicRow, type ChartInputs, type ChartWindow, type LotSubgroup } from './chart-assembly';
 import type { Executor } from './db';
@@ -94,27 +95,14 @@ export async function computeCharacteristicChart(db: Executor, characteristicId:
   return buildChart(inputs).chart;
 }
 
-export interface LimitRevision {
-  id: number;
-  revision: number;
-  chartType: ChartType;
-  subgroupSize: number;
-  center: number;
-  sigmaWithin: number;
-  locationUcl: number;
-  locationLcl: number;
-  dispersionCenter: number | null;
-  dispersionUcl: number | null;
-  dispersionLcl: number | null;
+/** A frozen-limit revision as stored: the answer's record (shared/schemas/charts.ts) with its instants as Dates, and who froze it. */
+export type LimitRevision = Omit<LimitRevisionRecord, 'baselineFrom' | 'baselineTo' | 'createdAt' | 'supersededAt'> & {
   baselineFrom: Date;
   baselineTo: Date;
-  baselinePoints: number;
-  reason: string;
-  createdBy: number | null;
-  createdByName: string | null;
   createdAt: Date;
   supersededAt: Date | null;
-}
+  createdBy: number | null;
+};
 
 /** Every frozen-limit revision of a characteristic, newest first. */
 export async function limitRevisions(db: Executor, characteristicId: number): Promise<LimitRevision[]> {

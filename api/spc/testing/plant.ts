@@ -69,6 +69,11 @@ export async function createTestCharacteristic(
   };
 }
 
+/** A production time `d` days after 1 January 2025, at `hour` UTC, in ISO 8601. */
+export const testDay = (d: number, hour = 6) => new Date(Date.UTC(2025, 0, 1 + d, hour)).toISOString();
+/** Deterministic pairs around 145 mm with ranges that vary from lot to lot. */
+export const testPair = (i: number): number[] => [145 + ((i * 7) % 5) - 2, 145 + ((i * 3) % 7) - 3];
+
 /** The demo quality manager's id, for audit rows. */
 export async function userIdByEmail(db: Database, email: string): Promise<number> {
   const res = await db.execute<{ id: number }>(sql`select id from users where lower(email) = lower(${email})`);

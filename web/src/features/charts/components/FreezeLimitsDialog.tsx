@@ -8,10 +8,9 @@ import { plantDateTimeInput } from '@web/features/results/lib/plant-time';
 import { Dialog } from '@web/components/ui/Dialog';
 import { Field, Input } from '@web/components/ui/Field';
 import { Alert } from '@web/components/ui/Alert';
-import { Button } from '@web/components/ui/Button';
 import { useFreezeLimits } from '../api/chart';
 import type { ZoomWindow } from './ControlChart';
-import { TextArea } from './TextArea';
+import { ReasonAndActions } from './ReasonAndActions';
 
 interface FreezeForm {
   baselineFrom: string;
@@ -103,17 +102,15 @@ export function FreezeLimitsDialog({ chart, timeZone, view, onClose, onDone }: F
         <p className="figures text-sm text-zinc-700" aria-live="polite" data-testid="baseline-count">
           {inBaseline.length} points in the baseline, {kept} of them kept{kept > 0 && kept < PHASE_ONE_MIN_POINTS ? ` — fewer than ${PHASE_ONE_MIN_POINTS} gives unsteady limits` : ''}.
         </p>
-        <Field label="Reason" hint="Why these limits, from this period, e.g. “Stable since the new sand source”." error={errors.reason?.message}>
-          {(control) => <TextArea {...control} {...form.register('reason')} />}
-        </Field>
-        <div className="flex gap-2">
-          <Button type="submit" busy={freeze.isPending}>
-            Freeze limits
-          </Button>
-          <Button variant="secondary" onClick={onClose}>
-            Cancel
-          </Button>
-        </div>
+        <ReasonAndActions
+          label="Reason"
+          hint="Why these limits, from this period, e.g. “Stable since the new sand source”."
+          error={errors.reason?.message}
+          reason={form.register('reason')}
+          submit="Freeze limits"
+          busy={freeze.isPending}
+          onCancel={onClose}
+        />
       </form>
     </Dialog>
   );

@@ -4,13 +4,11 @@ import { excludePointSchema, includePointSchema, type CharacteristicChart, type 
 import { errorMessage } from '@web/lib/http';
 import { showServerFieldErrors } from '@web/lib/forms';
 import { Dialog } from '@web/components/ui/Dialog';
-import { Field } from '@web/components/ui/Field';
 import { Alert } from '@web/components/ui/Alert';
-import { Button } from '@web/components/ui/Button';
 import { useExcludePoint, useIncludePoint } from '../api/chart';
 import { figure, formatDateTime } from '../lib/format';
 import { statisticNames } from '@shared/spc';
-import { TextArea } from './TextArea';
+import { ReasonAndActions } from './ReasonAndActions';
 
 interface PointDialogProps {
   chart: CharacteristicChart;
@@ -55,17 +53,15 @@ export function ExcludePointDialog({ chart, point, timeZone, onClose, onDone }: 
           centre line, the limits and the run rules.
         </p>
         {errors.root && <Alert tone="error">{errors.root.message}</Alert>}
-        <Field label="Assignable cause" hint="What went wrong with this lot or its test, in a few words." error={errors.reason?.message}>
-          {(control) => <TextArea {...control} {...form.register('reason')} />}
-        </Field>
-        <div className="flex gap-2">
-          <Button type="submit" busy={exclude.isPending}>
-            Exclude point
-          </Button>
-          <Button variant="secondary" onClick={onClose}>
-            Cancel
-          </Button>
-        </div>
+        <ReasonAndActions
+          label="Assignable cause"
+          hint="What went wrong with this lot or its test, in a few words."
+          error={errors.reason?.message}
+          reason={form.register('reason')}
+          submit="Exclude point"
+          busy={exclude.isPending}
+          onCancel={onClose}
+        />
       </form>
     </Dialog>
   );
@@ -97,17 +93,14 @@ export function IncludePointDialog({ chart, point, timeZone, onClose, onDone }: 
           Excluded because: <q>{point.exclusionReason}</q>
         </p>
         {errors.root && <Alert tone="error">{errors.root.message}</Alert>}
-        <Field label="Why the exclusion no longer holds" error={errors.reason?.message}>
-          {(control) => <TextArea {...control} {...form.register('reason')} />}
-        </Field>
-        <div className="flex gap-2">
-          <Button type="submit" busy={include.isPending}>
-            Take back in
-          </Button>
-          <Button variant="secondary" onClick={onClose}>
-            Cancel
-          </Button>
-        </div>
+        <ReasonAndActions
+          label="Why the exclusion no longer holds"
+          error={errors.reason?.message}
+          reason={form.register('reason')}
+          submit="Take back in"
+          busy={include.isPending}
+          onCancel={onClose}
+        />
       </form>
     </Dialog>
   );

@@ -437,6 +437,18 @@ export function buildControlChartOption(chart: CharacteristicChart, timeZone: st
     splitLine: { lineStyle: { color: '#f4f4f5' } },
   });
 
+  // The location and the dispersion series draw their points alike.
+  const pointSeries = {
+    showSymbol: !dense,
+    symbol: markers.point.symbol,
+    symbolSize: markers.point.size,
+    sampling: dense ? ('lttb' as const) : undefined,
+    lineStyle: { color: markers.point.color, width: 1.25 },
+    itemStyle: { color: markers.point.color },
+    emphasis: { disabled: true },
+    z: 3,
+  };
+
   return {
     animation: !dense,
     textStyle: { fontFamily: 'Inter, sans-serif' },
@@ -488,14 +500,7 @@ export function buildControlChartOption(chart: CharacteristicChart, timeZone: st
         xAxisIndex: 0,
         yAxisIndex: 0,
         data: location,
-        showSymbol: !dense,
-        symbol: markers.point.symbol,
-        symbolSize: markers.point.size,
-        sampling: dense ? 'lttb' : undefined,
-        lineStyle: { color: markers.point.color, width: 1.25 },
-        itemStyle: { color: markers.point.color },
-        emphasis: { disabled: true },
-        z: 3,
+        ...pointSeries,
         markLine: topMarks,
         markArea: zoneAreas,
       },
@@ -509,14 +514,7 @@ export function buildControlChartOption(chart: CharacteristicChart, timeZone: st
         yAxisIndex: 1,
         data: dispersion,
         connectNulls: false,
-        showSymbol: !dense,
-        symbol: markers.point.symbol,
-        symbolSize: markers.point.size,
-        sampling: dense ? 'lttb' : undefined,
-        lineStyle: { color: markers.point.color, width: 1.25 },
-        itemStyle: { color: markers.point.color },
-        emphasis: { disabled: true },
-        z: 3,
+        ...pointSeries,
         markLine: horizontalMarks(
           [
             { kind: 'centre', value: limits?.dispersion.center, label: `${names.dispersion}̄` },
