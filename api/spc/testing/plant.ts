@@ -1,6 +1,7 @@
 // Invented test products and characteristics beside the demo plant, so that a test controls every
 // value of its chart. Used by the SPC, alarm and reliability tests only.
 import { eq, sql } from 'drizzle-orm';
+import type { ChartType, RuleSetId } from '@shared/spc';
 import type { Database } from '@api/db/client';
 import { characteristics, plants, productionLines, products, specLimits, testMethods } from '@api/db/schema';
 import { importResults, type Subgroup } from '@api/ingest/import';
@@ -24,9 +25,9 @@ const created = { products: [] as number[], characteristics: [] as number[] };
 export async function createTestCharacteristic(
   db: Database,
   opts: {
-    chartType: 'xbar-r' | 'xbar-s' | 'imr';
+    chartType: ChartType;
     subgroupSize: number;
-    ruleSet?: 'we' | 'extended';
+    ruleSet?: RuleSetId;
     specs?: { lsl: number | null; usl: number | null; target?: number | null; effectiveFrom: string }[];
     lineCode?: string;
   },
