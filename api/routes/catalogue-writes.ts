@@ -10,16 +10,22 @@ import { badRequest, HttpError, isUniqueViolation } from '@api/http/errors';
 
 export type Tx = Parameters<Parameters<Database['transaction']>[0]>[0];
 
+/** The records that own a code, as a refusal names them. */
+type CodeOwner = 'Line' | 'Product' | 'Characteristic';
+
 /** A refusal that concerns one field of the request, so a form can show it under that field. */
 export const fieldError = (path: string, message: string) => badRequest(`${path}: ${message}`, [{ path, message }]);
 export const fieldConflict = (path: string, message: string) => new HttpError(409, message, [{ path, message }]);
 
-/** A second writer may take the code between our check and the insert: the unique index has the last word. */
-export async function claimingCode<T>(taken: string, write: () => Promise<T>): Promise<T> {
+/**
+ * Runs a write that may take a code in a transaction. A second writer may take the code between our
+ * check (refuseTakenCode) and the write: the unique index has the last word, refused like the check.
+ */
+export async function claimingCode<T>(db: Database, kind: CodeOwner, code: string | undefined, write: (tx: Tx) => Promise<T>): Promise<T> {
   try {
-    return await write();
+    return await db.transaction(write);
   } catch (err) {
-    if (isUniqueViolation(err)) throw fieldConflict('code', taken);
+    if (isUniqueViolation(err)) throw fieldConflict('code', `${kind} code ${code} is already in use`);
     throw err;
   }
 }
@@ -49,7 +55,7 @@ export async function methodFor(tx: Tx, code: string): Promise<{ id: number; uni
 }
 
 /** The owner of a code, named in the refusal: "Line code L1 is already used by Line 1 · levelling compounds". */
-export async function refuseTakenCode(tx: Tx, kind: 'Line' | 'Product' | 'Characteristic', code: string): Promise<void> {
+export async function refuseTakenCode(tx: Tx, kind: CodeOwner, code: string): Promise<void> {
   const table = { Line: productionLines, Product: products, Characteristic: characteristics }[kind];
   const [other] = await tx.select({ name: table.name }).from(table).where(eq(table.code, code));
   if (other) throw fieldConflict('code', `${kind} code ${code} is already used by ${other.name}`);
