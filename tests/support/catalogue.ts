@@ -1,6 +1,7 @@
-// The catalogue tests add lines, products and characteristics through the API as an administrator
-// would. The product never deletes them; the tests do, so that the files after them see the demo
-// plant alone (their catalogue and overview checks count it). Audit rows and uploads stay.
+// The catalogue tests (api/routes/{lines,products,characteristics}, tests/e2e/catalogue.test.ts) add
+// lines, products and characteristics through the API as an administrator would, with the kit below.
+// The product never deletes them; the tests do, so that the files after them see the demo plant alone
+// (their catalogue and overview checks count it). Audit rows and uploads stay.
 import request from 'supertest';
 import { expect } from 'vitest';
 import { and, eq, sql } from 'drizzle-orm';
