@@ -13,7 +13,12 @@ import { healthRouter } from './routes/health/router';
 import { authRouter } from './routes/auth/router';
 import { usersRouter } from './routes/users/router';
 import { uploadsRouter } from './routes/uploads/router';
-import { catalogueRouter } from './routes/catalogue/router';
+import { plantsRouter } from './routes/plants/router';
+import { linesRouter } from './routes/lines/router';
+import { productsRouter } from './routes/products/router';
+import { characteristicsRouter } from './routes/characteristics/router';
+import { lotsRouter } from './routes/lots/router';
+import { testMethodsRouter } from './routes/test-methods/router';
 import { specificationsRouter } from './routes/specifications/router';
 import { processEventsRouter } from './routes/process-events/router';
 import { measurementsRouter } from './routes/measurements/router';
@@ -93,7 +98,13 @@ export function createApp({ db, config, serveWeb = true, resultsChanged, spcQueu
   app.use('/api/v1/characteristics', specificationsRouter(db));
   app.use('/api/v1/process-events', processEventsRouter(db));
   const chartSettingsChanged = (characteristicId: number, userId: number) => changed({ characteristicIds: [characteristicId], because: 'settings', by: userId });
-  app.use('/api/v1', catalogueRouter(db, chartSettingsChanged));
+  app.use('/api/v1/plants', plantsRouter(db));
+  app.use('/api/v1/lines', linesRouter(db));
+  app.use('/api/v1/products', productsRouter(db));
+  // Beside the charts and specifications routers: each answers its own paths under /characteristics.
+  app.use('/api/v1/characteristics', characteristicsRouter(db, chartSettingsChanged));
+  app.use('/api/v1/lots', lotsRouter(db));
+  app.use('/api/v1/test-methods', testMethodsRouter());
   app.use('/api', notFoundApi);
 
   if (serveWeb && existsSync(webDist)) {

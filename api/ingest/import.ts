@@ -7,18 +7,17 @@
 // holds the whole file as objects and the transaction's connection never waits for parsing. The first
 // bad row stops the storing; the rest of the file is still checked so the 422 names every row to
 // correct, and the transaction rolls back.
-import { createHash } from 'node:crypto';
-import { once } from 'node:events';
 import { drizzle } from 'drizzle-orm/node-postgres';
 import type pg from 'pg';
-import { from as copyFrom } from 'pg-copy-streams';
 import { decodeText, readResults, validateRows, type CanonicalRow, type ColumnMapping, type CsvDialect, type RowError, type ValidMeasurement } from '@shared/ingest';
 import { beyondStrictestLimits } from '@shared/spc';
-import type { Database } from '../db/client';
-import * as schema from '../db/schema';
-import { recordAudit } from '../db/audit';
+import type { Database } from '@api/db/client';
+import * as schema from '@api/db/schema';
+import { recordAudit } from '@api/db/audit';
+import { fileFingerprint, putFile } from '@api/files/store';
 import { loadCatalogue, type LoadedCatalogue } from './catalogue';
 import { BinaryCopyWriter } from './copy-binary';
+import { type EncodedRound, type LotEntry, ROWS_PER_STORE, Round, byCharacteristic, copyRound, lookUpRound, storedReadings } from './rounds';
 
 /** One lot's results for one characteristic: a point of its chart. */
 export interface Subgroup {
@@ -43,14 +42,10 @@ export type ImportOutcome =
 const IMPORT_LOCK = 727_002;
 /** Characters parsed in one go before the event loop takes the database's answers. */
 const PIECE_CHARACTERS = 128 * 1024;
-/** Checked rows gathered into one round of lookups and COPY statements. */
-const ROWS_PER_STORE = 10_000;
 /** The first round is short, so the first COPY starts early. */
 const FIRST_ROUND_ROWS = 2_000;
 /** Rounds handed to the database but not yet stored before parsing waits for it. */
 const MAX_STORES_AHEAD = 2;
-/** Bytes of the kept file in one row of upload_file_parts; migration 0008 split the files kept before it alike. */
-export const FILE_PART_BYTES = 1 << 20;
 
 export interface ImportRequest {
   /** Original file name, or a label such as "manual entry". */
@@ -66,9 +61,6 @@ export interface ImportRequest {
   rows?: CanonicalRow[];
   decimalComma?: boolean;
 }
-
-/** A file's fingerprint as recorded on arrival: SHA-256 in hex. A second import of the same bytes is refused by it. */
-export const fileFingerprint = (bytes: Buffer): string => createHash('sha256').update(bytes).digest('hex');
 
 /** Validates everything, then stores every measurement in one transaction, or nothing. */
 export async function importResults(db: Database, req: ImportRequest): Promise<ImportOutcome> {
@@ -98,20 +90,25 @@ async function importOn(client: pg.PoolClient, reader: pg.PoolClient, req: Impor
   const tx = drizzle(client, { schema });
   await client.query('begin');
   await client.query('select pg_advisory_xact_lock($1)', [IMPORT_LOCK]);
-  // The upload's id is taken first, so rows can be encoded with it before its own row is stored.
+  // The upload's id and its file's are taken first, so rows can be encoded with them before their own rows are stored.
   let uploadId: number | null = null;
+  let fileId = 0;
   if (sha256) {
     const earlier = await client.query<{ id: number; uploaded_at: Date }>(`select id, uploaded_at from uploads where sha256 = $1 and status <> 'rejected'`, [sha256]);
     if (earlier.rows[0]) {
       await client.query('rollback');
       return { kind: 'duplicate-file', uploadId: earlier.rows[0].id, uploadedAt: earlier.rows[0].uploaded_at };
     }
-    uploadId = (await client.query<{ id: number }>(`select nextval(pg_get_serial_sequence('uploads', 'id'))::int as id`)).rows[0].id;
+    const ids = await client.query<{ id: number; file_id: number }>(
+      `select nextval(pg_get_serial_sequence('uploads', 'id'))::int as id, nextval(pg_get_serial_sequence('stored_files', 'id'))::int as file_id`,
+    );
+    uploadId = ids.rows[0].id;
+    fileId = ids.rows[0].file_id;
   }
   const catalogue = await loadCatalogue(tx);
 
   // The file's bytes go in first, while the first piece is parsed; counts are set once all is stored.
-  const fileKept = uploadId !== null ? insertUpload(client, req, sha256!, uploadId, 'imported', 0, 0, null) : Promise.resolve();
+  const fileKept = uploadId !== null ? insertUpload(client, req, sha256!, uploadId, fileId, 'imported', 0, 0, null) : Promise.resolve();
   fileKept.catch(() => undefined);
 
   const store = new MeasurementStore(client, reader, catalogue, req, uploadId);
@@ -176,7 +173,7 @@ async function importOn(client: pg.PoolClient, reader: pg.PoolClient, req: Impor
     // The rejected file is kept under the id taken for it: the rollback did not give the id back.
     if (uploadId !== null) {
       await client.query('begin');
-      await insertUpload(client, req, sha256!, uploadId, 'rejected', rowsTotal, 0, errors);
+      await insertUpload(client, req, sha256!, uploadId, fileId, 'rejected', rowsTotal, 0, errors);
       await client.query('commit');
     }
     return { kind: 'rejected', uploadId, rowsTotal, errors };
@@ -202,117 +199,16 @@ async function importOn(client: pg.PoolClient, reader: pg.PoolClient, req: Impor
   };
 }
 
-/** Stores the upload's row and its file, both queued on the connection at once. */
-async function insertUpload(client: pg.PoolClient, req: ImportRequest, sha256: string, id: number, status: 'imported' | 'rejected', rowsTotal: number, rowsImported: number, errors: RowError[] | null): Promise<void> {
+/** Stores the upload's file and its row, both queued on the connection at once. */
+async function insertUpload(client: pg.PoolClient, req: ImportRequest, sha256: string, id: number, fileId: number, status: 'imported' | 'rejected', rowsTotal: number, rowsImported: number, errors: RowError[] | null): Promise<void> {
   const content = req.content!;
+  const file = putFile(client, { id: fileId, fileName: req.fileName, bytes: content, createdBy: req.actorId, sha256 });
   const row = client.query(
-    `insert into uploads (id, file_name, sha256, uploaded_by, status, format, rows_total, rows_imported, rows_rejected, errors, size_bytes)
-     values ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11)`,
-    [id, req.fileName, sha256, req.actorId, status, req.mapping?.format ?? 'long', rowsTotal, rowsImported, errors ? new Set(errors.map((e) => e.row)).size : 0, errors ? JSON.stringify(errors) : null, content.length],
+    `insert into uploads (id, file_name, sha256, uploaded_by, status, format, rows_total, rows_imported, rows_rejected, errors, size_bytes, file_id)
+     values ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12)`,
+    [id, req.fileName, sha256, req.actorId, status, req.mapping?.format ?? 'long', rowsTotal, rowsImported, errors ? new Set(errors.map((e) => e.row)).size : 0, errors ? JSON.stringify(errors) : null, content.length, fileId],
   );
-  await Promise.all([row, keepFile(client, id, content)]);
-}
-
-/** The file in parts of FILE_PART_BYTES by binary COPY, each part sent as it is, never copied into one buffer. */
-async function keepFile(client: pg.PoolClient, uploadId: number, content: Buffer): Promise<void> {
-  if (content.length === 0) return;
-  const stream = client.query(copyFrom('COPY upload_file_parts (upload_id, part, bytes) FROM STDIN (FORMAT binary)'));
-  const done = once(stream, 'finish');
-  const w = new BinaryCopyWriter(64);
-  for (let part = 0, at = 0; at < content.length; part++, at += FILE_PART_BYTES) {
-    const bytes = content.subarray(at, at + FILE_PART_BYTES);
-    stream.write(w.row(3).int4(uploadId).int4(part).byteaLength(bytes.length).take());
-    stream.write(bytes);
-  }
-  stream.end(BinaryCopyWriter.trailer);
-  await done;
-}
-
-/** Ids handed out by a sequence in one statement: a gapless run, or the list itself. */
-type IdBlock = { first: number; count: number; list: number[] | null } | null;
-const idBlock = `json_build_object('first', min(id), 'count', count(*), 'list', case when max(id) - min(id) + 1 = count(*) then null else json_agg(id) end)`;
-function idsOf(block: IdBlock): number[] {
-  if (block === null || block.count === 0) return [];
-  if (block.list) return block.list;
-  const ids = new Array<number>(block.count);
-  for (let i = 0; i < block.count; i++) ids[i] = block.first + i;
-  return ids;
-}
-
-async function copyIn(client: pg.PoolClient, statement: string, data: Buffer): Promise<void> {
-  const stream = client.query(copyFrom(statement));
-  const done = once(stream, 'finish');
-  stream.end(data);
-  await done;
-}
-
-/** A lot as this import knows it, from the first row that names it. */
-interface LotEntry {
-  number: string;
-  productId: number;
-  lineId: number;
-  producedAt: number;
-  shift: string | null;
-  /** File row that first named it, for messages. */
-  row: number;
-  /** Its id: stored, or given to it for this import; 0 until the round that names it is prepared. */
-  id: number;
-  /** Stored before this import, so its stored measurements may clash with the file's. */
-  stored: boolean;
-  /** Recorded with another product, line or production time: the file's rows of it are refused. */
-  clash: boolean;
-}
-
-/**
- * Checked rows gathered for one round of lookups and COPY, column by column: a row costs about 50 bytes
- * here instead of an object with its strings, and nothing of a row outlives the piece it was read in
- * except these columns, so the garbage collector never has to move a round's rows to the old space.
- */
-class Round {
-  length = 0;
-  readonly lot: LotEntry[] = [];
-  readonly characteristicId = new Int32Array(ROWS_PER_STORE);
-  readonly replicate = new Int32Array(ROWS_PER_STORE);
-  readonly row = new Int32Array(ROWS_PER_STORE);
-  readonly value = new Float64Array(ROWS_PER_STORE);
-  /** Unix milliseconds; NaN where the file gives no test time. */
-  readonly testedAt = new Float64Array(ROWS_PER_STORE);
-  readonly operator: (string | null)[] = [];
-  readonly note: (string | null)[] = [];
-  /** Lots first named in this round. */
-  readonly newLots: LotEntry[] = [];
-}
-
-/**
- * The round's rows grouped by characteristic, in file order within each: the live key of measurements
- * leads with the characteristic, so consecutive rows go to the same index pages (trial COPYs of
- * 100,000 rows took 5–8 % less time than in file order) and a chart's readings lie together in the
- * table. Ids follow this order.
- */
-function byCharacteristic(round: Round): Int32Array {
-  // A counting sort: a round names a few dozen characteristics, so two passes beat a comparison sort.
-  const count = new Map<number, number>();
-  for (let i = 0; i < round.length; i++) count.set(round.characteristicId[i], (count.get(round.characteristicId[i]) ?? 0) + 1);
-  const next = new Map<number, number>();
-  let offset = 0;
-  for (const [id, n] of [...count].sort((a, b) => a[0] - b[0])) {
-    next.set(id, offset);
-    offset += n;
-  }
-  const order = new Int32Array(round.length);
-  for (let i = 0; i < round.length; i++) {
-    const at = next.get(round.characteristicId[i])!;
-    order[at] = i;
-    next.set(round.characteristicId[i], at + 1);
-  }
-  return order;
-}
-
-/** A round ready for COPY; no data once the import has failed. */
-interface EncodedRound {
-  rows: number;
-  lots: Buffer | null;
-  measurements: Buffer | null;
+  await Promise.all([file, row]);
 }
 
 /** Stores checked measurements round by round, after comparing each round with what is stored. */
@@ -399,20 +295,12 @@ class MeasurementStore {
    */
   async prepare(round: Round, fileHasErrors: boolean): Promise<EncodedRound> {
     if (fileHasErrors) this.failed = true;
-    // New ids come as a first id and a count when the sequence handed out a run without gaps (the
-    // usual case), as a list otherwise: 10,000 ids in a text array take longer to read than to make.
-    const res = await this.reader.query<{ stored: { id: number; n: string; p: number; l: number; t: number }[]; lot_ids: IdBlock; measurement_ids: IdBlock }>(
-      `with lot_ids as (select nextval('lots_id_seq')::int as id from generate_series(1, $2::int)),
-            measurement_ids as (select nextval('measurements_id_seq')::int as id from generate_series(1, $3::int))
-       select coalesce((select json_agg(json_build_object('id', id, 'n', lot_number, 'p', product_id, 'l', line_id, 't', extract(epoch from produced_at) * 1000))
-                        from lots where lot_number = any($1::text[])), '[]') as stored,
-              (select ${idBlock} from lot_ids) as lot_ids,
-              (select ${idBlock} from measurement_ids) as measurement_ids`,
-      [round.newLots.map((l) => l.number), this.failed ? 0 : round.newLots.length, this.failed ? 0 : round.length],
+    const { stored, lotIds, measurementIds } = await lookUpRound(
+      this.reader,
+      round.newLots.map((l) => l.number),
+      this.failed ? 0 : round.newLots.length,
+      this.failed ? 0 : round.length,
     );
-    const { stored } = res.rows[0];
-    const lotIds = idsOf(res.rows[0].lot_ids);
-    const measurementIds = idsOf(res.rows[0].measurement_ids);
     const storedByNumber = new Map(stored.map((s) => [s.n, s]));
     let nextLotId = 0;
     for (const lot of round.newLots) {
@@ -436,12 +324,13 @@ class MeasurementStore {
     const onStored: number[] = [];
     for (let i = 0; i < round.length; i++) if (round.lot[i].stored && !round.lot[i].clash) onStored.push(i);
     if (onStored.length) {
-      const keys = await this.reader.query<{ i: number }>(
-        `select u.i::int as i from unnest($1::int[], $2::int[], $3::int[]) with ordinality as u(lot_id, characteristic_id, replicate, i)
-         where exists (select 1 from measurements m where m.characteristic_id = u.characteristic_id and m.lot_id = u.lot_id and m.replicate = u.replicate and m.voided_at is null)`,
-        [onStored.map((i) => round.lot[i].id), onStored.map((i) => round.characteristicId[i]), onStored.map((i) => round.replicate[i])],
+      const already = await storedReadings(
+        this.reader,
+        onStored.map((i) => round.lot[i].id),
+        onStored.map((i) => round.characteristicId[i]),
+        onStored.map((i) => round.replicate[i]),
       );
-      for (const { i } of keys.rows) {
+      for (const i of already) {
         const at = onStored[i - 1];
         const code = this.codes.get(round.characteristicId[at]);
         this.errors.push({
@@ -507,8 +396,7 @@ class MeasurementStore {
   /** Stores an encoded round by COPY in the import's transaction, unless anything failed so far. */
   async store(round: EncodedRound): Promise<void> {
     if (this.failed || round.measurements === null || round.rows === 0) return;
-    if (round.lots) await copyIn(this.client, 'COPY lots (id, lot_number, product_id, line_id, produced_at, shift) FROM STDIN (FORMAT binary)', round.lots);
-    await copyIn(this.client, 'COPY measurements (id, lot_id, characteristic_id, replicate, value, tested_at, operator, note, source, upload_id, entered_by) FROM STDIN (FORMAT binary)', round.measurements);
+    await copyRound(this.client, round.lots, round.measurements);
     this.rowsImported += round.rows;
   }
 }

@@ -1,8 +1,14 @@
-// The catalogue tests add lines, products and characteristics through the API as an administrator
-// would. The product never deletes them; the tests do, so that the files after them see the demo
-// plant alone (their catalogue and overview checks count it). Audit rows and uploads stay.
-import { sql } from 'drizzle-orm';
+// The catalogue tests (api/routes/{lines,products,characteristics}, tests/e2e/catalogue.test.ts) add
+// lines, products and characteristics through the API as an administrator would, with the kit below.
+// The product never deletes them; the tests do, so that the files after them see the demo plant alone
+// (their catalogue and overview checks count it). Audit rows and uploads stay.
+import request from 'supertest';
+import { expect } from 'vitest';
+import { and, eq, sql } from 'drizzle-orm';
 import type { Database } from '@api/db/client';
+import { auditEvents } from '@api/db/schema';
+import type { Role } from '@shared/schemas/users';
+import type { TestApi } from './api';
 
 /** A code prefix unique to one test run, e.g. "ZK3F9Q": upper case, as codes are stored. */
 export function testCodePrefix(letter: string): string {
@@ -57,3 +63,53 @@ async function removeOnce(db: Database, prefix: string): Promise<void> {
     await tx.execute(sql`delete from production_lines where id in (select id from doomed_lines)`);
   });
 }
+
+/**
+ * What the lines, products and characteristics tests share: headers of a demo role, fresh codes of this
+ * run, the audit trail of a record, and an administrator's new line, product or characteristic.
+ */
+export function catalogueTestKit(api: TestApi, prefix: string) {
+  let counter = 0;
+  const as = async (role: Role) => ({ authorization: `Bearer ${await api.tokenFor(role)}` });
+  const admin = () => as('admin');
+  /** A fresh code of this run, in lower case to show that codes are stored in upper case. */
+  const newCode = (kind: string) => `${prefix}${kind}${++counter}`;
+
+  async function auditOf(entity: string, id: number) {
+    return api.db.select().from(auditEvents).where(and(eq(auditEvents.entity, entity), eq(auditEvents.entityId, String(id)))).orderBy(auditEvents.id);
+  }
+
+  async function newLine(): Promise<{ id: number; code: string }> {
+    const res = await request(api.app).post('/api/v1/lines').set(await admin()).send({ code: newCode('L'), name: 'Line 3 · renders' });
+    expect(res.status).toBe(201);
+    return res.body;
+  }
+
+  async function newProduct(lineCode = 'L1'): Promise<{ id: number; code: string }> {
+    const res = await request(api.app).post('/api/v1/products').set(await admin()).send({ code: newCode('P'), name: 'HV Render Light', family: 'render', declaredClass: 'GP CS II', lineCode });
+    expect(res.status).toBe(201);
+    return res.body;
+  }
+
+  /** A compressive strength at 28 days on `productCode`, as EN 196-1 tests it (six prism halves by default). */
+  const rc28 = (productCode: string, extra: Record<string, unknown> = {}) => ({
+    code: `${productCode}-RC28`,
+    name: 'HV Render Light · compressive strength · 28 d',
+    productCode,
+    testMethodCode: 'RC',
+    ageDays: 28,
+    subgroupSize: 6,
+    chartType: 'xbar-r',
+    ruleSet: 'we',
+    ...extra,
+  });
+
+  async function newCharacteristic(body: Record<string, unknown>) {
+    return request(api.app).post('/api/v1/characteristics').set(await admin()).send(body);
+  }
+
+  return { as, admin, newCode, auditOf, newLine, newProduct, rc28, newCharacteristic };
+}
+
+/** The roles that read the catalogue but may not change it ('catalogue.manage' is the administrator's). */
+export const catalogueReaders = ['technician', 'quality_manager', 'auditor'] as const;

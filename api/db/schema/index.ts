@@ -2,6 +2,7 @@
 export * from './users';
 export * from './audit';
 export * from './catalogue';
+export * from './files';
 export * from './results';
 export * from './spc';
 export * from './mail';

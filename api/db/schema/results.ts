@@ -1,9 +1,8 @@
 // Results as they arrived: lots, uploads with their files, measurements, saved column mappings.
 import { sql } from 'drizzle-orm';
-import { customType, doublePrecision, index, integer, jsonb, pgEnum, pgTable, primaryKey, serial, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core';
+import { doublePrecision, index, integer, jsonb, pgEnum, pgTable, serial, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core';
+import { storedFiles } from './files';
 import { users } from './users';
-
-const bytea = customType<{ data: Buffer }>({ dataType: () => 'bytea' });
 
 export const uploadStatusEnum = pgEnum('upload_status', ['imported', 'rejected', 'voided']);
 export const measurementSourceEnum = pgEnum('measurement_source', ['upload', 'manual']);
@@ -39,32 +38,18 @@ export const uploads = pgTable(
     rowsRejected: integer('rows_rejected').notNull().default(0),
     /** Row-by-row validation errors of a rejected file. */
     errors: jsonb('errors'),
-    /** Length of the file as received, in bytes; the file itself is in upload_file_parts. */
+    /** Length of the file as received, in bytes. */
     sizeBytes: integer('size_bytes').notNull(),
+    /** The file exactly as received, kept as evidence (stored_files; moved there from upload_file_parts by migration 0010). */
+    fileId: integer('file_id')
+      .notNull()
+      .references(() => storedFiles.id),
     voidedAt: timestamp('voided_at', { withTimezone: true }),
     voidedBy: integer('voided_by').references(() => users.id),
     voidReason: text('void_reason'),
   },
   // The same bytes may be imported once; a rejected file may come again after it was fixed elsewhere.
   (t) => [uniqueIndex('uploads_sha256_kept_key').on(t.sha256).where(sql`status <> 'rejected'`)],
-);
-
-/**
- * The file of an upload exactly as received, kept as evidence, in parts of FILE_PART_BYTES in order.
- * Parts go in by COPY a megabyte at a time: one 10 MB value as a query parameter cost PostgreSQL about
- * five times as long (copies of the whole value at each step), holding back the upload's first rows.
- */
-export const uploadFileParts = pgTable(
-  'upload_file_parts',
-  {
-    uploadId: integer('upload_id')
-      .notNull()
-      .references(() => uploads.id, { onDelete: 'cascade' }),
-    /** 0 for the first megabyte, then 1, 2, … */
-    part: integer('part').notNull(),
-    bytes: bytea('bytes').notNull(),
-  },
-  (t) => [primaryKey({ columns: [t.uploadId, t.part] })],
 );
 
 export const measurements = pgTable(

@@ -1,14 +1,15 @@
 import { Router, type RequestHandler } from 'express';
 import multer from 'multer';
-import { and, asc, desc, eq, sql } from 'drizzle-orm';
+import { and, desc, eq, sql } from 'drizzle-orm';
 import { canonicalColumns, looksLikeFormula, type RowError } from '@shared/ingest';
 import type { Database } from '@api/db/client';
-import { measurements, uploadFileParts, uploads, users } from '@api/db/schema';
+import { measurements, uploads, users } from '@api/db/schema';
 import { recordAudit } from '@api/db/audit';
 import { logger } from '@api/logger';
 import { badRequest, HttpError, notFound, parseBody } from '@api/http/errors';
 import { requirePermission, requireSession } from '@api/auth/session';
-import { fileFingerprint, importResults, type ImportOutcome } from '@api/ingest/import';
+import { importResults, type ImportOutcome } from '@api/ingest/import';
+import { getFile, StoredFileDamaged } from '@api/files/store';
 import type { ResultsChanged } from '@api/spc/results-changed';
 import { listUploadsQuerySchema, uploadFieldsSchema, uploadIdParamsSchema, voidUploadSchema } from './schema';
 
@@ -115,16 +116,16 @@ export function uploadsRouter(db: Database, resultsChanged: ResultsChanged): Rou
 
   router.get('/:id/file', async (req, res) => {
     const { id } = parseBody(uploadIdParamsSchema, req.params);
-    const [row] = await db.select({ fileName: uploads.fileName, sha256: uploads.sha256, sizeBytes: uploads.sizeBytes }).from(uploads).where(eq(uploads.id, id));
+    const [row] = await db.select({ fileId: uploads.fileId }).from(uploads).where(eq(uploads.id, id));
     if (!row) throw notFound('Upload');
-    const parts = await db.select({ bytes: uploadFileParts.bytes }).from(uploadFileParts).where(eq(uploadFileParts.uploadId, id)).orderBy(asc(uploadFileParts.part));
-    const file = Buffer.concat(parts.map((p) => p.bytes));
     // Evidence is handed out only as it was received: the same length and the same fingerprint.
-    if (file.length !== row.sizeBytes || fileFingerprint(file) !== row.sha256) {
-      logger.error({ uploadId: id, storedBytes: file.length, recordedBytes: row.sizeBytes }, 'kept upload file does not match its fingerprint');
+    const file = await getFile(db, row.fileId).catch((err: unknown) => {
+      if (!(err instanceof StoredFileDamaged)) throw err;
+      logger.error({ uploadId: id, fileId: err.fileId, storedBytes: err.storedBytes, recordedBytes: err.recordedBytes }, 'kept upload file does not match its fingerprint');
       throw new HttpError(500, `The stored file of upload ${id} no longer matches the size and SHA-256 fingerprint recorded when it arrived; ask the administrator to restore it from a backup`);
-    }
-    res.type('application/octet-stream').attachment(row.fileName).send(file);
+    });
+    if (!file) throw notFound('Upload file');
+    res.type('application/octet-stream').attachment(file.fileName).send(file.bytes);
   });
 
   router.post('/:id/void', requirePermission('upload.void'), async (req, res) => {

@@ -3,7 +3,7 @@ import request from 'supertest';
 import { afterAll, describe, expect, it } from 'vitest';
 import { and, eq, isNull, sql } from 'drizzle-orm';
 import { createTestApi } from '@tests/support/api';
-import { FILE_PART_BYTES } from '@api/ingest/import';
+import { FILE_PART_BYTES } from '@api/files/store';
 import { isDemoCode } from '@tests/support/catalogue';
 import { auditEvents, lots, measurements, uploads } from '@api/db/schema';
 import type { Role } from '@shared/schemas/users';
@@ -282,8 +282,8 @@ describe('POST /api/v1/uploads', () => {
 
   it('keeps the original bytes of an imported and of a rejected file and gives them back unchanged', async () => {
     // A Windows export: UTF-8 byte order mark, CRLF line ends, a degree sign; over a megabyte, so it is kept
-    // in two parts of upload_file_parts (FILE_PART_BYTES), each packed by PostgreSQL (LZ4 where the server
-    // has it, migration 0008).
+    // in two parts of stored_file_parts (FILE_PART_BYTES), each packed by PostgreSQL (LZ4 where the server
+    // has it, migration 0010).
     const lot = newLot();
     const remark = 'Lab at 21 °C, mixer paddle checked, flow table wiped dry before each reading, tamping by hand as usual';
     const rows = Array.from({ length: 9000 }, (_, i) => `${lot}-${i},HVL25,L1,2026-11-05T06:30:00Z,HVL25-DENS,${1940 + (i % 40)},early,1,,AT,"${remark}"`);
@@ -314,7 +314,7 @@ describe('POST /api/v1/uploads', () => {
     const stored = await api.db.execute<{ part: number; size: number; how: string | null; lz4: boolean }>(sql`
       select part, length(bytes) as size, pg_column_compression(bytes) as how,
              exists (select 1 from pg_settings where name = 'default_toast_compression' and 'lz4' = any(enumvals)) as lz4
-      from upload_file_parts where upload_id = ${imported.body.id} order by part`);
+      from stored_file_parts where file_id = (select file_id from uploads where id = ${imported.body.id}) order by part`);
     expect(stored.rows.map((r) => [r.part, r.size])).toEqual([
       [0, FILE_PART_BYTES],
       [1, good.length - FILE_PART_BYTES],
@@ -328,7 +328,7 @@ describe('POST /api/v1/uploads', () => {
     const csv = `${header}\n${newLot()},HVL25,L1,2026-11-05T06:30:00Z,HVL25-DENS,1950,early,1,,AT,\n`;
     const imported = await upload('technician', csv, 'tampered.csv');
     expect(imported.status).toBe(201);
-    await api.db.execute(sql`update upload_file_parts set bytes = overlay(bytes placing '\x39'::bytea from 60 for 1) where upload_id = ${imported.body.id}`);
+    await api.db.execute(sql`update stored_file_parts set bytes = overlay(bytes placing '\x39'::bytea from 60 for 1) where file_id = (select file_id from uploads where id = ${imported.body.id})`);
     const res = await request(api.app).get(`/api/v1/uploads/${imported.body.id}/file`).set(await as('auditor'));
     expect(res.status).toBe(500);
     expect(res.body.error).toMatch(/no longer matches .* SHA-256/);

@@ -1,10 +1,9 @@
 import request from 'supertest';
 import { afterAll, describe, expect, it } from 'vitest';
-import { and, eq } from 'drizzle-orm';
+import { eq } from 'drizzle-orm';
+import { specLimits, spcRunItems, spcRuns } from '@api/db/schema';
 import { createTestApi } from '@tests/support/api';
-import { removeCatalogueRecords, testCodePrefix } from '@tests/support/catalogue';
-import { auditEvents, specLimits, spcRunItems, spcRuns } from '@api/db/schema';
-import type { Role } from '@shared/schemas/users';
+import { catalogueReaders, catalogueTestKit, removeCatalogueRecords, testCodePrefix } from '@tests/support/catalogue';
 
 const api = createTestApi();
 const prefix = testCodePrefix('C');
@@ -12,210 +11,44 @@ afterAll(async () => {
   await removeCatalogueRecords(api.db, prefix);
   await api.close();
 });
+const { as, admin, newCode, auditOf, newProduct, rc28, newCharacteristic } = catalogueTestKit(api, prefix);
 
-const as = async (role: Role) => ({ authorization: `Bearer ${await api.tokenFor(role)}` });
-const admin = () => as('admin');
-let counter = 0;
-/** A fresh code of this run, in lower case to show that codes are stored in upper case. */
-const newCode = (kind: string) => `${prefix}${kind}${++counter}`;
-
-async function auditOf(entity: string, id: number) {
-  return api.db.select().from(auditEvents).where(and(eq(auditEvents.entity, entity), eq(auditEvents.entityId, String(id)))).orderBy(auditEvents.id);
-}
-
-async function newLine(): Promise<{ id: number; code: string }> {
-  const res = await request(api.app).post('/api/v1/lines').set(await admin()).send({ code: newCode('L'), name: 'Line 3 · renders' });
-  expect(res.status).toBe(201);
-  return res.body;
-}
-
-async function newProduct(lineCode = 'L1'): Promise<{ id: number; code: string }> {
-  const res = await request(api.app).post('/api/v1/products').set(await admin()).send({ code: newCode('P'), name: 'HV Render Light', family: 'render', declaredClass: 'GP CS II', lineCode });
-  expect(res.status).toBe(201);
-  return res.body;
-}
-
-const rc28 = (productCode: string, extra: Record<string, unknown> = {}) => ({
-  code: `${productCode}-RC28`,
-  name: 'HV Render Light · compressive strength · 28 d',
-  productCode,
-  testMethodCode: 'RC',
-  ageDays: 28,
-  subgroupSize: 6,
-  chartType: 'xbar-r',
-  ruleSet: 'we',
-  ...extra,
-});
-
-async function newCharacteristic(body: Record<string, unknown>) {
-  return request(api.app).post('/api/v1/characteristics').set(await admin()).send(body);
-}
-
-describe('who may change the catalogue', () => {
-  for (const role of ['technician', 'quality_manager', 'auditor'] as const) {
+describe('who may change them', () => {
+  for (const role of catalogueReaders) {
     it(`refuses every write to ${role} (403) and still lets them read`, async () => {
       const h = await as(role);
       const writes = {
-        'POST /lines': request(api.app).post('/api/v1/lines').set(h).send({ code: newCode('L'), name: 'Line 9' }),
-        'PATCH /lines/1': request(api.app).patch('/api/v1/lines/1').set(h).send({ name: 'Renamed' }),
-        'POST /products': request(api.app).post('/api/v1/products').set(h).send({ code: newCode('P'), name: 'Some mortar', family: 'repair', lineCode: 'L1' }),
-        'PATCH /products/1': request(api.app).patch('/api/v1/products/1').set(h).send({ active: false }),
         'POST /characteristics': request(api.app).post('/api/v1/characteristics').set(h).send(rc28('HVL25', { code: newCode('C') })),
         'PATCH /characteristics/1': request(api.app).patch('/api/v1/characteristics/1').set(h).send({ active: false }),
         'DELETE /characteristics/1': request(api.app).delete('/api/v1/characteristics/1').set(h),
       };
       for (const [label, write] of Object.entries(writes)) expect((await write).status, label).toBe(403);
-      for (const path of ['/api/v1/lines', '/api/v1/products', '/api/v1/characteristics']) {
-        expect((await request(api.app).get(path).set(h)).status).toBe(200);
-      }
+      expect((await request(api.app).get('/api/v1/characteristics').set(h)).status).toBe(200);
     });
   }
 
   it('answers 401 without a session', async () => {
-    expect((await request(api.app).post('/api/v1/lines').send({ code: newCode('L'), name: 'Line 9' })).status).toBe(401);
     expect((await request(api.app).patch('/api/v1/characteristics/1').send({ active: false })).status).toBe(401);
+    expect((await request(api.app).get('/api/v1/characteristics')).status).toBe(401);
   });
 });
 
-describe('the lists other screens read', () => {
-  it('keep their fields and add only what the administrator needs', async () => {
+describe('the list other screens read', () => {
+  it('keeps its fields and adds only what the administrator needs', async () => {
     const h = await as('technician');
-    const lines = (await request(api.app).get('/api/v1/lines').set(h)).body.items;
-    expect(lines.filter((l: { code: string }) => l.code === 'L1' || l.code === 'L2')).toEqual([
-      { id: expect.any(Number), code: 'L1', name: 'Line 1 · levelling compounds', active: true, hasLots: true },
-      { id: expect.any(Number), code: 'L2', name: 'Line 2 · adhesives and repair mortars', active: true, hasLots: true },
-    ]);
-    const product = (await request(api.app).get('/api/v1/products').set(h)).body.items.find((p: { code: string }) => p.code === 'HVL25');
-    expect(product).toEqual({ id: expect.any(Number), code: 'HVL25', name: 'HV Level 25', family: 'levelling', declaredClass: 'CT-C25-F6', active: true, lineCode: 'L1', lineName: 'Line 1 · levelling compounds', hasLots: true });
     const flow = (await request(api.app).get('/api/v1/characteristics').set(h)).body.items.find((c: { code: string }) => c.code === 'HVL25-FLOW');
     expect(Object.keys(flow).sort()).toEqual(
       ['active', 'ageDays', 'chartType', 'code', 'decimals', 'hasResults', 'id', 'lineCode', 'name', 'productCode', 'productFamily', 'productId', 'productName', 'rawLoad', 'ruleSet', 'samplingPlan', 'spec', 'standard', 'subgroupSize', 'testMethodCode', 'testMethodName', 'unit'].sort(),
     );
     expect(flow).toMatchObject({ subgroupSize: 2, chartType: 'xbar-r', ageDays: null, hasResults: true });
   });
-});
 
-describe('production lines', () => {
-  it('are added with an upper-case code, renamed and recoded while no lot was made on them, with an audit trail', async () => {
-    const code = newCode('l').toLowerCase();
-    const created = await request(api.app).post('/api/v1/lines').set(await admin()).send({ code, name: '  Line 3 · renders ' });
-    expect(created.status).toBe(201);
-    expect(created.body).toEqual({ id: expect.any(Number), code: code.toUpperCase(), name: 'Line 3 · renders', active: true, hasLots: false });
-    const id = created.body.id;
-
-    const renamed = await request(api.app).patch(`/api/v1/lines/${id}`).set(await admin()).send({ name: 'Line 3 · renders and plasters' });
-    expect(renamed.status).toBe(200);
-    expect(renamed.body.name).toBe('Line 3 · renders and plasters');
-    const recoded = newCode('L');
-    expect((await request(api.app).patch(`/api/v1/lines/${id}`).set(await admin()).send({ code: recoded })).body.code).toBe(recoded);
-
-    const trail = await auditOf('production line', id);
-    expect(trail.map((e) => e.action)).toEqual(['create', 'update', 'update']);
-    expect(trail[1].before).toMatchObject({ name: 'Line 3 · renders' });
-    expect(trail[1].after).toMatchObject({ name: 'Line 3 · renders and plasters' });
-  });
-
-  it('refuse a code in use (409), whatever its letter case, and a code change once lots were made (409)', async () => {
-    const taken = await request(api.app).post('/api/v1/lines').set(await admin()).send({ code: 'l1', name: 'Another line 1' });
-    expect(taken.status).toBe(409);
-    expect(taken.body.error).toBe('Line code L1 is already used by Line 1 · levelling compounds');
-    expect(taken.body.details).toEqual([{ path: 'code', message: taken.body.error }]);
-
-    const lines = (await request(api.app).get('/api/v1/lines').set(await admin())).body.items;
-    const l1 = lines.find((l: { code: string }) => l.code === 'L1');
-    const recode = await request(api.app).patch(`/api/v1/lines/${l1.id}`).set(await admin()).send({ code: newCode('L') });
-    expect(recode.status).toBe(409);
-    expect(recode.body.error).toMatch(/^Lots were made on line L1/);
-  });
-
-  it('explain invalid input field by field, and are never deleted (405)', async () => {
-    const bad = await request(api.app).post('/api/v1/lines').set(await admin()).send({ code: 'L 3', name: '' });
-    expect(bad.status).toBe(400);
-    expect(bad.body.details.map((d: { path: string }) => d.path).sort()).toEqual(['code', 'name']);
-    const empty = await request(api.app).patch('/api/v1/lines/1').set(await admin()).send({});
-    expect(empty.status).toBe(400);
-    expect(empty.body.error).toMatch(/^Nothing to change/);
-    expect((await request(api.app).patch('/api/v1/lines/999999').set(await admin()).send({ name: 'Ghost line' })).status).toBe(404);
-    const line = await newLine();
-    const removed = await request(api.app).delete(`/api/v1/lines/${line.id}`).set(await admin());
-    expect(removed.status).toBe(405);
-    expect(removed.headers.allow).toBe('PATCH');
-    expect(removed.body.error).toMatch(/never deleted/);
-  });
-
-  it('are deactivated and reactivated: a deactivated line takes no new results', async () => {
-    const h = await admin();
-    const line = await newLine();
-    const product = await newProduct(line.code);
-    const created = await newCharacteristic(rc28(product.code, { subgroupSize: 2 }));
-    expect(created.status).toBe(201);
-    const csv = (lot: string) =>
-      `lot,product,line,produced_at,characteristic,value,replicate\n${lot},${product.code},${line.code},2021-04-01T07:00,${product.code}-RC28,30.5,1\n${lot},${product.code},${line.code},2021-04-01T07:00,${product.code}-RC28,31.2,2\n`;
-    const upload = (lot: string) => request(api.app).post('/api/v1/uploads').set(h).attach('file', Buffer.from(csv(lot)), `${lot}.csv`);
-
-    const off = await request(api.app).patch(`/api/v1/lines/${line.id}`).set(h).send({ active: false });
-    expect(off.status).toBe(200);
-    expect(off.body.active).toBe(false);
-    expect((await request(api.app).get('/api/v1/lines').set(h)).body.items.find((l: { id: number }) => l.id === line.id).active).toBe(false);
-    const refused = await upload(`${product.code}-1`);
-    expect(refused.status).toBe(422);
-    expect(refused.body.errors[0]).toMatchObject({ column: 'line' });
-    expect(refused.body.errors[0].message).toMatch(new RegExp(`^Unknown production line "${line.code}"`));
-
-    const on = await request(api.app).patch(`/api/v1/lines/${line.id}`).set(h).send({ active: true });
-    expect(on.body.active).toBe(true);
-    expect((await upload(`${product.code}-1`)).status).toBe(201);
-
-    const trail = await auditOf('production line', line.id);
-    expect(trail.map((e) => e.action)).toEqual(['create', 'deactivate', 'reactivate']);
-    expect(trail[1].before).toMatchObject({ active: true });
-    expect(trail[1].after).toMatchObject({ active: false });
-  });
-});
-
-describe('products', () => {
-  it('write an EN 13813 designation in its usual form and refuse a class the standard does not have', async () => {
-    // Compressive classes of EN 13813 (from memory of its Table 2, as in shared/lab/en13813.test.ts):
-    // … C20, C25, C30 …, so C25 is a class and C27 is not.
-    const line = await newLine();
-    const ok = await request(api.app).post('/api/v1/products').set(await admin()).send({ code: newCode('p'), name: 'HV Level 25 Plus', family: 'Levelling', declaredClass: 'ct-c25-f6', lineCode: line.code });
-    expect(ok.status).toBe(201);
-    expect(ok.body).toMatchObject({ family: 'levelling', declaredClass: 'CT-C25-F6', lineCode: line.code, active: true, hasLots: false });
-
-    const wrong = await request(api.app).post('/api/v1/products').set(await admin()).send({ code: newCode('P'), name: 'HV Level 27', family: 'levelling', declaredClass: 'CT-C27-F6', lineCode: 'L1' });
-    expect(wrong.status).toBe(400);
-    expect(wrong.body.details).toEqual([{ path: 'declaredClass', message: 'C27 is not a compressive class of EN 13813; write it like CT-C25-F6' }]);
-
-    // EN 12004 tile adhesive classes are kept as typed: they are not EN 13813 designations.
-    const adhesive = await request(api.app).post('/api/v1/products').set(await admin()).send({ code: newCode('P'), name: 'HV Fix Rapid', family: 'tile-adhesive', declaredClass: 'C2F S1', lineCode: 'L2' });
-    expect(adhesive.body.declaredClass).toBe('C2F S1');
-  });
-
-  it('refuse an unknown line (400) and a code in use (409)', async () => {
-    const unknown = await request(api.app).post('/api/v1/products').set(await admin()).send({ code: newCode('P'), name: 'HV Patch R4', family: 'repair', lineCode: 'NOSUCHLINE' });
-    expect(unknown.status).toBe(400);
-    expect(unknown.body.details).toEqual([{ path: 'lineCode', message: 'There is no production line NOSUCHLINE' }]);
-    const taken = await request(api.app).post('/api/v1/products').set(await admin()).send({ code: 'hvl25', name: 'HV Level 25 again', family: 'levelling', lineCode: 'L1' });
-    expect(taken.status).toBe(409);
-    expect(taken.body.error).toBe('Product code HVL25 is already used by HV Level 25');
-  });
-
-  it('are moved to another line, deactivated and reactivated, never deleted, and keep a code lots were made under', async () => {
-    const line = await newLine();
-    const product = await newProduct();
-    const h = await admin();
-    const moved = await request(api.app).patch(`/api/v1/products/${product.id}`).set(h).send({ lineCode: line.code, declaredClass: '' });
-    expect(moved.body).toMatchObject({ lineCode: line.code, declaredClass: null });
-    const off = await request(api.app).patch(`/api/v1/products/${product.id}`).set(h).send({ active: false });
-    expect(off.body.active).toBe(false);
-    expect((await request(api.app).patch(`/api/v1/products/${product.id}`).set(h).send({ active: true })).body.active).toBe(true);
-    expect((await auditOf('product', product.id)).map((e) => e.action)).toEqual(['create', 'update', 'deactivate', 'reactivate']);
-    expect((await request(api.app).delete(`/api/v1/products/${product.id}`).set(h)).status).toBe(405);
-
-    const demo = (await request(api.app).get('/api/v1/products').set(h)).body.items.find((p: { code: string }) => p.code === 'HVLF');
-    const recode = await request(api.app).patch(`/api/v1/products/${demo.id}`).set(h).send({ code: newCode('P') });
-    expect(recode.status).toBe(409);
-    expect(recode.body.error).toMatch(/^Lots of HVLF are recorded under that code/);
+  it('shares its path with the chart and specification routes', async () => {
+    const h = await as('auditor');
+    const flow = (await request(api.app).get('/api/v1/characteristics').set(h)).body.items.find((c: { code: string }) => c.code === 'HVL25-FLOW');
+    expect((await request(api.app).get(`/api/v1/characteristics/${flow.id}/chart`).set(h)).status).toBe(200);
+    expect((await request(api.app).get(`/api/v1/characteristics/${flow.id}/spec-revisions`).set(h)).status).toBe(200);
+    expect((await request(api.app).get(`/api/v1/characteristics/${flow.id}/limit-revisions`).set(h)).status).toBe(200);
   });
 });
 
