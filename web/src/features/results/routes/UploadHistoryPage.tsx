@@ -1,11 +1,10 @@
 import { useMemo, useState } from 'react';
 import { Link, useSearchParams } from 'react-router';
 import { createColumnHelper, getCoreRowModel, useReactTable } from '@tanstack/react-table';
-import { useSignedInUser } from '@web/features/auth/api/session';
+import { useMay } from '@web/app/permissions';
 import { uploadLinks, useUploads, type Upload, type UploadStatus } from '../api/uploads';
 import { usePlantTimeZone } from '../api/catalogue';
 import { formatPlantDateTime } from '../lib/plant-time';
-import { entryRoles, voidRoles } from '../lib/roles';
 import { VoidUploadDialog } from '../components/VoidUploadDialog';
 import { DownloadLink } from '../components/DownloadLink';
 import { PageHeader } from '@web/components/ui/PageHeader';
@@ -35,15 +34,14 @@ const statusFilters: { value: UploadStatus | ''; label: string }[] = [
 ];
 
 export default function UploadHistoryPage() {
-  const user = useSignedInUser();
   const [params, setParams] = useSearchParams();
   const status = (statusFilters.find((f) => f.value === params.get('status'))?.value || undefined) as UploadStatus | undefined;
   const uploads = useUploads(status);
   const timeZone = usePlantTimeZone().data ?? 'UTC';
   const [voiding, setVoiding] = useState<Upload | null>(null);
   const [notice, setNotice] = useState<string | null>(null);
-  const canVoid = voidRoles.includes(user.role);
-  const canUpload = entryRoles.includes(user.role);
+  const canVoid = useMay('upload.void');
+  const canUpload = useMay('upload.create');
 
   const columns = useMemo(
     () => [
