@@ -1,7 +1,8 @@
 // Alarms: what a chart shows that someone must look at. One row per characteristic, rule, chart and
 // lot (the dedupe key), so a re-run finds the row it raised before instead of raising it again.
 import { sql } from 'drizzle-orm';
-import { ruleDescriptions, type RuleId } from '@shared/spc';
+import { ruleDescriptions } from '@shared/spc';
+import type { AlarmChart, AlarmResolution, AlarmRule, AlarmStatus } from '@shared/schemas/alarms';
 import { recordAudit } from '../db/audit';
 import type { Database } from '../db/client';
 import { HttpError, notFound } from '../http/errors';
@@ -18,8 +19,8 @@ export const DATA_CHANGED_NOTE = 'The data no longer show this signal: a result 
 
 export interface Finding {
   lotId: number;
-  rule: RuleId | typeof OUT_OF_SPEC;
-  chart: 'location' | 'dispersion';
+  rule: AlarmRule;
+  chart: AlarmChart;
   pointIndex: number;
   statistic: number;
   values: number[];
@@ -137,8 +138,8 @@ type ExistingAlarm = {
   rule: string;
   chart: string;
   lot_id: number;
-  status: 'open' | 'acknowledged' | 'closed';
-  resolution: string | null;
+  status: AlarmStatus;
+  resolution: AlarmResolution | null;
   point_index: number;
   statistic: number;
   description: string;

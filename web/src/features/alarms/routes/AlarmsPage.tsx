@@ -1,6 +1,7 @@
 import { useState } from 'react';
 import { Link } from 'react-router';
-import { useAlarms, type Alarm, type AlarmStatus } from '../api/alarms';
+import type { AlarmStatus, AlarmView } from '@shared/schemas/alarms';
+import { useAlarms } from '../api/alarms';
 import { usePlantTimeZone } from '@web/features/results/api/catalogue';
 import { formatPlantDateTime } from '@web/features/results/lib/plant-time';
 import { ruleLabels } from '@web/features/charts/lib/format';
@@ -38,7 +39,7 @@ function AlarmRow({
   mayClose,
   onAction,
 }: {
-  alarm: Alarm;
+  alarm: AlarmView;
   timeZone: string;
   mayAcknowledge: boolean;
   mayClose: boolean;
@@ -118,7 +119,7 @@ function AlarmRow({
 
 export default function AlarmsPage() {
   const [status, setStatus] = useState<AlarmStatus>('open');
-  const [acting, setActing] = useState<{ alarm: Alarm; action: 'acknowledge' | 'close' } | null>(null);
+  const [acting, setActing] = useState<{ alarm: AlarmView; action: 'acknowledge' | 'close' } | null>(null);
   const [typed, setTyped] = useState('');
   const [q, setQ] = useState('');
   const [limit, setLimit] = useState(PAGE);
