@@ -2,6 +2,8 @@
 import { sql } from 'drizzle-orm';
 import { customType, doublePrecision, index, integer, jsonb, pgEnum, pgTable, primaryKey, serial, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core';
 import { users } from './users';
+import type { RowError } from '../../../shared/ingest/validate';
+import type { UploadFormat } from '../../../shared/schemas/uploads';
 
 const bytea = customType<{ data: Buffer }>({ dataType: () => 'bytea' });
 
@@ -33,12 +35,12 @@ export const uploads = pgTable(
     uploadedBy: integer('uploaded_by').references(() => users.id),
     uploadedAt: timestamp('uploaded_at', { withTimezone: true }).notNull().defaultNow(),
     status: uploadStatusEnum('status').notNull(),
-    format: text('format').notNull().default('long'),
+    format: text('format').$type<UploadFormat>().notNull().default('long'),
     rowsTotal: integer('rows_total').notNull(),
     rowsImported: integer('rows_imported').notNull().default(0),
     rowsRejected: integer('rows_rejected').notNull().default(0),
     /** Row-by-row validation errors of a rejected file. */
-    errors: jsonb('errors'),
+    errors: jsonb('errors').$type<RowError[]>(),
     /** Length of the file as received, in bytes; the file itself is in upload_file_parts. */
     sizeBytes: integer('size_bytes').notNull(),
     voidedAt: timestamp('voided_at', { withTimezone: true }),
