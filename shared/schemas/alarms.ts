@@ -13,15 +13,9 @@ export type AlarmSource = 'run' | 'ingest';
 /** How a closed alarm was closed: by a person with a note, or because the data no longer show the signal. */
 export type AlarmResolution = 'by-user' | 'data-changed';
 
-/** GET /api/v1/alarms items, GET /api/v1/alarms/:id, and the answer of acknowledging or closing one. */
-export interface AlarmView {
-  id: number;
-  characteristic: { id: number; code: string; name: string; unit: string; decimals: number; productCode: string; lineCode: string | null };
-  lot: { id: number; lotNumber: string; producedAt: string };
+/** What a run rule or the specification found at one point of a chart: the facts an alarm is raised from. */
+export interface AlarmSignal {
   rule: AlarmRule;
-  /** Short name of the signal in the trade's words. */
-  signal: string;
-  ruleDescription: string | null;
   chart: AlarmChart;
   /** Position of the lot on the chart, from 0. */
   pointIndex: number;
@@ -31,9 +25,20 @@ export interface AlarmView {
   limitName: string | null;
   limitValue: number | null;
   description: string;
+  /** Set when the point lies before the newest point charted last time: a late result, or changed limits. */
+  lateReason: string | null;
+}
+
+/** GET /api/v1/alarms items, GET /api/v1/alarms/:id, and the answer of acknowledging or closing one. */
+export interface AlarmView extends AlarmSignal {
+  id: number;
+  characteristic: { id: number; code: string; name: string; unit: string; decimals: number; productCode: string; lineCode: string | null };
+  lot: { id: number; lotNumber: string; producedAt: string };
+  /** Short name of the signal in the trade's words. */
+  signal: string;
+  ruleDescription: string | null;
   /** The point lies before later points that were already charted. */
   late: boolean;
-  lateReason: string | null;
   source: AlarmSource;
   runId: number | null;
   status: AlarmStatus;
