@@ -2,6 +2,7 @@
 // lot (the dedupe key), so a re-run finds the row it raised before instead of raising it again.
 import { sql } from 'drizzle-orm';
 import { brokenLimit, isOutOfSpec, lotResult, ruleDescriptions, specAt, specVerdict, type RuleId } from '@shared/spc';
+import type { AlarmSignal, AlarmResolution, AlarmStatus } from '@shared/schemas/alarms';
 import { recordAudit } from '../db/audit';
 import type { Database } from '../db/client';
 import { HttpError, notFound } from '../http/errors';
@@ -15,18 +16,9 @@ export const IMMEDIATE_RULES: readonly string[] = [OUT_OF_SPEC, 'we1'];
 
 export const DATA_CHANGED_NOTE = 'The data no longer show this signal: a result was voided or corrected, a point was excluded, or the limits changed.';
 
-export interface Finding {
+/** A signal on the chart that should be an alarm now, at this lot. */
+export interface Finding extends AlarmSignal {
   lotId: number;
-  rule: RuleId | typeof OUT_OF_SPEC;
-  chart: 'location' | 'dispersion';
-  pointIndex: number;
-  statistic: number;
-  values: number[];
-  limitName: string | null;
-  limitValue: number | null;
-  description: string;
-  /** Set when the point lies before the newest point charted last time. */
-  lateReason: string | null;
 }
 
 const STATISTIC: Record<string, { location: string; dispersion: string }> = {
@@ -138,8 +130,8 @@ type ExistingAlarm = {
   rule: string;
   chart: string;
   lot_id: number;
-  status: 'open' | 'acknowledged' | 'closed';
-  resolution: string | null;
+  status: AlarmStatus;
+  resolution: AlarmResolution | null;
   point_index: number;
   statistic: number;
   description: string;

@@ -6,9 +6,9 @@ import type pg from 'pg';
 import type { Database } from '../db/client';
 import { CHARACTERISTIC_QUEUE, jobSettings, type JobSettings, type SpcQueue } from './queue';
 import type { Executor } from './db';
-import type { RunStatus, RunSummary, RunTrigger } from '@shared/schemas/runs';
+import type { RunDetail, RunStatus, RunSummary, RunTrigger } from '@shared/schemas/runs';
 
-export type { RunStatus, RunSummary, RunTrigger } from '@shared/schemas/runs';
+export type { RunDetail, RunStatus, RunSummary, RunTrigger } from '@shared/schemas/runs';
 
 export interface StartRunRequest {
   trigger: RunTrigger;
@@ -139,12 +139,6 @@ const toSummary = (r: SummaryRow): RunSummary => ({
 export async function listRuns(db: Executor, limit = 50): Promise<RunSummary[]> {
   const res = await db.execute<SummaryRow>(sql`select ${summaryColumns} from spc_runs r ${itemCounts} order by r.id desc limit ${limit}`);
   return res.rows.map(toSummary);
-}
-
-export interface RunDetail extends RunSummary {
-  failures: { characteristicId: number; characteristicCode: string; attempts: number; error: string | null }[];
-  /** Characteristics that failed an attempt and wait for a retry. */
-  retrying: { characteristicId: number; characteristicCode: string; attempts: number; error: string | null }[];
 }
 
 export async function getRun(db: Executor, id: number): Promise<RunDetail | null> {

@@ -1,8 +1,8 @@
 import { z } from 'zod';
 import { formatScreedDesignation, parseScreedDesignation, screedBinders } from '../lab/en13813';
-import { testMethod, testMethodCodes, type TestMethodCode } from '../lab/test-methods';
+import { testMethod, testMethodCodes, type RawLoadFormula, type TestMethod, type TestMethodCode } from '../lab/test-methods';
 import { CHART_TYPES, type ChartType } from '../spc/charts';
-import { RULE_SETS } from '../spc/rules';
+import { RULE_SETS, type RuleSetId } from '../spc/rules';
 export type { RuleSetId } from '../spc/rules';
 import { specRevisionSchema } from './plant-records';
 
@@ -240,3 +240,81 @@ export const updateCharacteristicSchema = changesOf(
   'a setting or active',
 );
 export type UpdateCharacteristicInput = z.input<typeof updateCharacteristicSchema>;
+
+// What the catalogue endpoints answer: every signed-in role gets the same fields.
+
+/** GET /api/v1/plants items. */
+export interface PlantView {
+  id: number;
+  code: string;
+  name: string;
+  /** IANA zone: production and test times are typed and shown in it. */
+  timeZone: string;
+  /** When the nightly SPC run starts, as a cron expression in the plant's time zone. */
+  nightlyRunCron: string;
+}
+
+/** GET /api/v1/lines items, and the answer of adding or changing a line. */
+export interface LineView {
+  id: number;
+  code: string;
+  name: string;
+  /** false: deactivated, takes no new results. */
+  active: boolean;
+  /** Lots were made on it: its code is fixed. */
+  hasLots: boolean;
+}
+
+/** GET /api/v1/products items, and the answer of adding or changing a product. */
+export interface ProductView {
+  id: number;
+  code: string;
+  name: string;
+  family: string;
+  declaredClass: string | null;
+  active: boolean;
+  lineCode: string | null;
+  lineName: string | null;
+  /** Lots of it are recorded: its code is fixed. */
+  hasLots: boolean;
+}
+
+/** The specification revision in force now. */
+export interface SpecInForce {
+  revision: number;
+  lsl: number | null;
+  usl: number | null;
+  target: number | null;
+  effectiveFrom: string;
+}
+
+/** GET /api/v1/characteristics items, and the answer of adding or changing a characteristic. */
+export interface CharacteristicView {
+  id: number;
+  code: string;
+  name: string;
+  unit: string;
+  /** Specimen age at test in days; null for fresh-mortar tests. */
+  ageDays: number | null;
+  subgroupSize: number;
+  chartType: ChartType;
+  ruleSet: RuleSetId;
+  samplingPlan: string | null;
+  active: boolean;
+  productId: number;
+  productCode: string;
+  productName: string;
+  productFamily: string;
+  lineCode: string | null;
+  testMethodCode: TestMethodCode;
+  testMethodName: string;
+  standard: string;
+  rawLoad: RawLoadFormula | null;
+  decimals: number;
+  spec: SpecInForce | null;
+  /** Results were ever recorded under it (voided ones too): its code, product, method and age are fixed. */
+  hasResults: boolean;
+}
+
+/** GET /api/v1/test-methods items: the cautions already written out, ending with the deferral line. */
+export type TestMethodView = Omit<TestMethod, 'cautions'> & { cautions: string[] };

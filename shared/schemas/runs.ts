@@ -21,3 +21,18 @@ export interface RunSummary {
   startedAt: string | null;
   finishedAt: string | null;
 }
+
+/** A characteristic whose computation in a run failed, or failed once and waits for a retry. */
+export interface RunProblem {
+  characteristicId: number;
+  characteristicCode: string;
+  attempts: number;
+  error: string | null;
+}
+
+/** GET /api/v1/spc-runs/:id */
+export interface RunDetail extends RunSummary {
+  failures: RunProblem[];
+  /** Characteristics that failed an attempt and wait for a retry. */
+  retrying: RunProblem[];
+}

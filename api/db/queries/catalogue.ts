@@ -1,6 +1,8 @@
 import { asc, eq, sql, type SQLWrapper } from 'drizzle-orm';
 import type { Database } from '../client';
 import { characteristics, productionLines, products, testMethods } from '../schema';
+import type { TestMethodCode } from '@shared/lab';
+import type { CharacteristicView, LineView, ProductView, SpecInForce } from '@shared/schemas/catalogue';
 
 type Reader = Pick<Database, 'select'>;
 
@@ -14,7 +16,7 @@ export const hasRecordedResults = (characteristicId: SQLWrapper) =>
              or exists (select 1 from measurements m where m.characteristic_id = ${characteristicId} and m.voided_at is not null))`;
 
 /** Characteristics with product, test method and the specification revision in force now; one of them with `id`. */
-export async function listCharacteristics(db: Reader, id?: number) {
+export async function listCharacteristics(db: Reader, id?: number): Promise<CharacteristicView[]> {
   return db
     .select({
       id: characteristics.id,
@@ -32,12 +34,13 @@ export async function listCharacteristics(db: Reader, id?: number) {
       productName: products.name,
       productFamily: products.family,
       lineCode: productionLines.code,
-      testMethodCode: testMethods.code,
+      // Stored as text; the rows are the method catalogue of shared/lab, written by the seed.
+      testMethodCode: sql<TestMethodCode>`${testMethods.code}`,
       testMethodName: testMethods.name,
       standard: testMethods.standard,
       rawLoad: testMethods.rawLoad,
       decimals: testMethods.decimals,
-      spec: sql<{ revision: number; lsl: number | null; usl: number | null; target: number | null; effectiveFrom: string } | null>`(
+      spec: sql<SpecInForce | null>`(
         select json_build_object('revision', s.revision, 'lsl', s.lsl, 'usl', s.usl, 'target', s.target, 'effectiveFrom', s.effective_from)
         from spec_limits s where s.characteristic_id = ${characteristics.id} and s.effective_from <= now()
         order by s.effective_from desc, s.revision desc limit 1)`,
@@ -53,7 +56,7 @@ export async function listCharacteristics(db: Reader, id?: number) {
 }
 
 /** Products with their line; one of them with `id`. */
-export async function listProducts(db: Reader, id?: number) {
+export async function listProducts(db: Reader, id?: number): Promise<ProductView[]> {
   return db
     .select({
       id: products.id,
@@ -74,7 +77,7 @@ export async function listProducts(db: Reader, id?: number) {
 }
 
 /** Production lines; one of them with `id`. */
-export async function listLines(db: Reader, id?: number) {
+export async function listLines(db: Reader, id?: number): Promise<LineView[]> {
   return db
     .select({
       id: productionLines.id,

@@ -1,6 +1,7 @@
 // What the plant makes and how it is tested: plants, lines, products, test methods, characteristics, specifications, process events.
 import { boolean, doublePrecision, index, integer, pgEnum, pgTable, serial, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core';
 import { users } from './users';
+import type { RawLoadFormula } from '../../../shared/lab/test-methods';
 
 export const chartTypeEnum = pgEnum('chart_type', ['xbar-r', 'xbar-s', 'imr']);
 export const ruleSetEnum = pgEnum('rule_set', ['we', 'extended']);
@@ -51,7 +52,7 @@ export const testMethods = pgTable('test_methods', {
   physicalMax: doublePrecision('physical_max').notNull(),
   physicalMaxExclusive: boolean('physical_max_exclusive').notNull().default(false),
   decimals: integer('decimals').notNull(),
-  rawLoad: text('raw_load'),
+  rawLoad: text('raw_load').$type<RawLoadFormula>(),
 });
 
 export const characteristics = pgTable('characteristics', {

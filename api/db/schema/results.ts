@@ -3,6 +3,8 @@ import { sql } from 'drizzle-orm';
 import { doublePrecision, index, integer, jsonb, pgEnum, pgTable, serial, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core';
 import { storedFiles } from './files';
 import { users } from './users';
+import type { RowError } from '../../../shared/ingest/validate';
+import type { UploadFormat } from '../../../shared/schemas/uploads';
 
 export const uploadStatusEnum = pgEnum('upload_status', ['imported', 'rejected', 'voided']);
 export const measurementSourceEnum = pgEnum('measurement_source', ['upload', 'manual']);
@@ -32,12 +34,12 @@ export const uploads = pgTable(
     uploadedBy: integer('uploaded_by').references(() => users.id),
     uploadedAt: timestamp('uploaded_at', { withTimezone: true }).notNull().defaultNow(),
     status: uploadStatusEnum('status').notNull(),
-    format: text('format').notNull().default('long'),
+    format: text('format').$type<UploadFormat>().notNull().default('long'),
     rowsTotal: integer('rows_total').notNull(),
     rowsImported: integer('rows_imported').notNull().default(0),
     rowsRejected: integer('rows_rejected').notNull().default(0),
     /** Row-by-row validation errors of a rejected file. */
-    errors: jsonb('errors'),
+    errors: jsonb('errors').$type<RowError[]>(),
     /** Length of the file as received, in bytes. */
     sizeBytes: integer('size_bytes').notNull(),
     /** The file exactly as received, kept as evidence (stored_files; moved there from upload_file_parts by migration 0010). */

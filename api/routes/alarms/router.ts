@@ -1,6 +1,7 @@
 import { Router } from 'express';
 import { sql } from 'drizzle-orm';
 import { ruleDescriptions, type RuleId } from '@shared/spc';
+import type { AlarmChart, AlarmList, AlarmResolution, AlarmRule, AlarmSource, AlarmStatus, AlarmView } from '@shared/schemas/alarms';
 import type { Database } from '@api/db/client';
 import { notFound, parseBody } from '@api/http/errors';
 import { requirePermission, requireSession } from '@api/auth/session';
@@ -8,6 +9,7 @@ import { signalNames, chartLink } from '@api/mail/compose';
 import { OUT_OF_SPEC, triageAlarm } from '@api/spc/alarms';
 import { alarmIdParamsSchema, alarmNoteSchema, listAlarmsQuerySchema } from './schema';
 
+/** One alarm as the list query reads it, before it becomes an AlarmView. */
 type AlarmRow = {
   id: number;
   characteristic_id: number;
@@ -20,8 +22,8 @@ type AlarmRow = {
   lot_id: number;
   lot_number: string;
   produced_at: Date;
-  rule: string;
-  chart: string;
+  rule: AlarmRule;
+  chart: AlarmChart;
   point_index: number;
   statistic: number;
   values: number[];
@@ -30,10 +32,10 @@ type AlarmRow = {
   description: string;
   late: boolean;
   late_reason: string | null;
-  source: string;
+  source: AlarmSource;
   run_id: number | null;
-  status: 'open' | 'acknowledged' | 'closed';
-  resolution: string | null;
+  status: AlarmStatus;
+  resolution: AlarmResolution | null;
   created_at: Date;
   updated_at: Date;
   acknowledged_at: Date | null;
@@ -45,12 +47,13 @@ type AlarmRow = {
 };
 
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
+const isoOf = (d: Date) => new Date(d).toISOString();
 
-function toJson(r: AlarmRow, publicUrl: string) {
+function toView(r: AlarmRow, publicUrl: string): AlarmView {
   return {
     id: r.id,
     characteristic: { id: r.characteristic_id, code: r.characteristic_code, name: r.characteristic_name, unit: r.unit, decimals: r.decimals, productCode: r.product_code, lineCode: r.line_code },
-    lot: { id: r.lot_id, lotNumber: r.lot_number, producedAt: iso(r.produced_at) },
+    lot: { id: r.lot_id, lotNumber: r.lot_number, producedAt: isoOf(r.produced_at) },
     rule: r.rule,
     signal: signalNames[r.rule] ?? r.rule,
     ruleDescription: r.rule === OUT_OF_SPEC ? 'The lot’s result lies outside the specification in force when it was produced.' : (ruleDescriptions[r.rule as RuleId] ?? null),
@@ -67,8 +70,8 @@ function toJson(r: AlarmRow, publicUrl: string) {
     runId: r.run_id,
     status: r.status,
     resolution: r.resolution,
-    createdAt: iso(r.created_at),
-    updatedAt: iso(r.updated_at),
+    createdAt: isoOf(r.created_at),
+    updatedAt: isoOf(r.updated_at),
     acknowledgedAt: iso(r.acknowledged_at),
     acknowledgedBy: r.acknowledged_by,
     acknowledgeNote: r.acknowledge_note,
@@ -78,7 +81,6 @@ function toJson(r: AlarmRow, publicUrl: string) {
     chartUrl: chartLink(publicUrl, r.characteristic_id, r.point_index),
   };
 }
-export type AlarmJson = ReturnType<typeof toJson>;
 
 const select = sql`
   select a.id, a.characteristic_id, c.code as characteristic_code, c.name as characteristic_name, c.unit, tm.decimals, p.code as product_code, pl.code as line_code,
@@ -107,15 +109,15 @@ export function alarmsRouter(db: Database, publicUrl: string): Router {
         and (${q.characteristicId ?? null}::int is null or a.characteristic_id = ${q.characteristicId ?? null}::int)
         and (${like}::text is null or l.lot_number ilike ${like} or c.code ilike ${like})
       order by a.created_at desc, a.id desc limit ${q.limit}`);
-    const counts = await db.execute<{ status: string; n: number }>(sql`select status, count(*)::int as n from alarms group by status`);
-    res.json({ items: res2.rows.map((r) => toJson(r, publicUrl)), counts: Object.fromEntries(counts.rows.map((c) => [c.status, c.n])) });
+    const counts = await db.execute<{ status: AlarmStatus; n: number }>(sql`select status, count(*)::int as n from alarms group by status`);
+    res.json({ items: res2.rows.map((r) => toView(r, publicUrl)), counts: Object.fromEntries(counts.rows.map((c) => [c.status, c.n])) } satisfies AlarmList);
   });
 
   router.get('/:id', async (req, res) => {
     const { id } = parseBody(alarmIdParamsSchema, req.params);
     const r = await db.execute<AlarmRow>(sql`${select} where a.id = ${id}`);
     if (!r.rows[0]) throw notFound(`Alarm ${id}`);
-    res.json(toJson(r.rows[0], publicUrl));
+    res.json(toView(r.rows[0], publicUrl));
   });
 
   const change = (action: 'acknowledge' | 'close') =>
@@ -124,7 +126,7 @@ export function alarmsRouter(db: Database, publicUrl: string): Router {
       const { note } = parseBody(alarmNoteSchema, req.body);
       await triageAlarm(db, { id, action, note, userId: req.user!.id });
       const r = await db.execute<AlarmRow>(sql`${select} where a.id = ${id}`);
-      res.json(toJson(r.rows[0], publicUrl));
+      res.json(toView(r.rows[0], publicUrl));
     };
 
   router.post('/:id/acknowledge', requirePermission('alarm.acknowledge'), change('acknowledge'));

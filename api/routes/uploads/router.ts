@@ -11,6 +11,8 @@ import { requirePermission, requireSession } from '@api/auth/session';
 import { importResults, type ImportOutcome } from '@api/ingest/import';
 import { getFile, StoredFileDamaged } from '@api/files/store';
 import type { ResultsChanged } from '@api/spc/results-changed';
+import type { Json } from '@api/http/json';
+import type { UploadDetail, UploadDuplicate, UploadImported, UploadListItem, UploadRejected, UploadVoided } from '@shared/schemas/uploads';
 import { listUploadsQuerySchema, uploadFieldsSchema, uploadIdParamsSchema, voidUploadSchema } from './schema';
 
 export const MAX_UPLOAD_BYTES = 20 * 1024 * 1024;
@@ -52,16 +54,17 @@ const uploadColumns = {
 
 export function respondToImport(res: Parameters<RequestHandler>[1], outcome: ImportOutcome): void {
   if (outcome.kind === 'duplicate-file') {
-    res.status(409).json({ error: `This file was already imported as upload ${outcome.uploadId} on ${outcome.uploadedAt.toISOString()}`, uploadId: outcome.uploadId });
+    res.status(409).json({ error: `This file was already imported as upload ${outcome.uploadId} on ${outcome.uploadedAt.toISOString()}`, uploadId: outcome.uploadId } satisfies UploadDuplicate);
   } else if (outcome.kind === 'rejected') {
     const rows = new Set(outcome.errors.map((e) => e.row)).size;
     res.status(422).json({
       error: `Nothing was imported: ${rows} row${rows === 1 ? '' : 's'} need${rows === 1 ? 's' : ''} correcting`,
       errors: outcome.errors,
       id: outcome.uploadId,
-    });
+    } satisfies UploadRejected);
   } else {
-    res.status(201).json({ id: outcome.uploadId, rowsImported: outcome.rowsImported });
+    // Only a file reaches here imported (manual entry answers its own 201), and a file always has its upload.
+    res.status(201).json({ id: outcome.uploadId!, rowsImported: outcome.rowsImported } satisfies UploadImported);
   }
 }
 
@@ -83,7 +86,7 @@ export function uploadsRouter(db: Database, resultsChanged: ResultsChanged): Rou
       .where(q.status ? eq(uploads.status, q.status) : undefined)
       .orderBy(desc(uploads.uploadedAt), desc(uploads.id))
       .limit(q.limit);
-    res.json({ items: rows });
+    res.json({ items: rows } satisfies { items: Json<UploadListItem>[] });
   });
 
   router.post('/', requirePermission('upload.create'), receiveFile, async (req, res) => {
@@ -104,7 +107,7 @@ export function uploadsRouter(db: Database, resultsChanged: ResultsChanged): Rou
     const { id } = parseBody(uploadIdParamsSchema, req.params);
     const [row] = await db.select({ ...uploadColumns, errors: uploads.errors }).from(uploads).leftJoin(users, eq(users.id, uploads.uploadedBy)).where(eq(uploads.id, id));
     if (!row) throw notFound('Upload');
-    res.json(row);
+    res.json(row satisfies Json<UploadDetail>);
   });
 
   router.get('/:id/errors.csv', async (req, res) => {
@@ -145,7 +148,7 @@ export function uploadsRouter(db: Database, resultsChanged: ResultsChanged): Rou
       return { measurementsVoided: voided.length, characteristicIds: [...new Set(voided.map((v) => v.characteristicId))] };
     });
     await resultsChanged({ characteristicIds: result.characteristicIds, because: 'void', by: req.user!.id });
-    res.json({ id, status: 'voided', measurementsVoided: result.measurementsVoided });
+    res.json({ id, status: 'voided', measurementsVoided: result.measurementsVoided } satisfies UploadVoided);
   });
 
   return router;

@@ -7,6 +7,7 @@ import { users } from '@api/db/schema';
 import { recordAudit } from '@api/db/audit';
 import { conflict, HttpError, isUniqueViolation, notFound, parseBody } from '@api/http/errors';
 import { requirePermission, requireSession } from '@api/auth/session';
+import { may } from '@shared/permissions';
 import { createUserSchema, updateUserSchema, userIdParamsSchema } from './schema';
 
 const publicColumns = {
@@ -52,7 +53,7 @@ export function usersRouter(db: Database): Router {
   router.patch('/:id', async (req, res) => {
     const { id } = parseBody(userIdParamsSchema, req.params);
     const input = parseBody(updateUserSchema, req.body);
-    if (id === req.user!.id && (input.active === false || (input.role && input.role !== 'admin'))) {
+    if (id === req.user!.id && (input.active === false || (input.role && !may(input.role, 'user.manage')))) {
       throw new HttpError(400, 'You cannot deactivate yourself or remove your own administrator role');
     }
     const updated = await db.transaction(async (tx) => {

@@ -1,10 +1,11 @@
 import type { ReactNode } from 'react';
 import { Navigate, useLocation } from 'react-router';
-import { useSession, useSignedInUser } from '../features/auth/api/session';
+import { useSession } from '../features/auth/api/session';
 import { Loading } from '../components/ui/Spinner';
 import { ErrorState } from '../components/ui/ErrorState';
 import { NotAllowedPage } from './routes/NotAllowedPage';
-import type { Role } from '@shared/schemas/roles';
+import type { Permission } from '@shared/permissions';
+import { useMay } from './permissions';
 
 /** Where the sign-in page sends the user afterwards: the page they asked for. */
 export interface SignInState {
@@ -31,9 +32,8 @@ export function RequireAuth({ children }: { children: ReactNode }) {
   return children;
 }
 
-/** Client-side role check for a route; the API refuses the data to other roles in any case. */
-export function RequireRole({ roles, children }: { roles: readonly Role[]; children: ReactNode }) {
-  const user = useSignedInUser();
-  if (!roles.includes(user.role)) return <NotAllowedPage />;
+/** Client-side permission check for a route; the API refuses the data to other roles in any case. */
+export function RequirePermission({ action, children }: { action: Permission; children: ReactNode }) {
+  if (!useMay(action)) return <NotAllowedPage />;
   return children;
 }

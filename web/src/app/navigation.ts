@@ -1,4 +1,5 @@
 import type { Role } from '@shared/schemas/roles';
+import { may, type Permission } from '@shared/permissions';
 
 /** Every area of the app. The router builds its routes from this list and the menu shows it by role. */
 export type AreaId = 'overview' | 'charts' | 'results' | 'methods' | 'records' | 'alarms' | 'runs' | 'ncrs' | 'reports' | 'subscriptions' | 'users' | 'catalogue' | 'outbox';
@@ -10,12 +11,10 @@ export interface Area {
   label: string;
   /** One sentence of what the area is for, shown until the area is built. */
   purpose: string;
-  /** Who may open the area. The server checks roles on every request too; this only shapes the menu and routes. */
-  roles: readonly Role[];
+  /** The action that opens the area. The server checks permissions on every request too; this only shapes the menu and routes. */
+  permission: Permission;
   group: 'work' | 'administration';
 }
-
-const everyone: readonly Role[] = ['technician', 'quality_manager', 'auditor', 'admin'];
 
 export const areas: readonly Area[] = [
   {
@@ -23,7 +22,7 @@ export const areas: readonly Area[] = [
     path: '/',
     label: 'Plant overview',
     purpose: 'The state of each line and product at a glance: open alarms, lots on hold and the latest results.',
-    roles: everyone,
+    permission: 'plant.read',
     group: 'work',
   },
   {
@@ -32,7 +31,7 @@ export const areas: readonly Area[] = [
     label: 'Control charts',
     purpose:
       'Control charts per product and characteristic, with centre line, control limits, run-rule signals and capability indices (Cp, Cpk, Pp, Ppk).',
-    roles: everyone,
+    permission: 'plant.read',
     group: 'work',
   },
   {
@@ -42,7 +41,7 @@ export const areas: readonly Area[] = [
     purpose:
       "Enter a shift's test results by hand or upload them as CSV from lab instruments or a spreadsheet, and correct rejected rows.",
     // Auditors read the upload history and the lots here; entering and uploading stay with the other roles.
-    roles: everyone,
+    permission: 'plant.read',
     group: 'work',
   },
   {
@@ -50,7 +49,7 @@ export const areas: readonly Area[] = [
     path: '/test-methods',
     label: 'Test methods',
     purpose: 'How each characteristic is tested: standard, unit, possible range, how a machine reading becomes a result, and the handling cautions.',
-    roles: everyone,
+    permission: 'plant.read',
     group: 'work',
   },
   {
@@ -60,7 +59,7 @@ export const areas: readonly Area[] = [
     purpose:
       'Specification limits per characteristic with every revision, and the process events (new sand source, press recalibrated) that mark the control charts.',
     // Everyone reads; quality managers and administrators revise specifications, the lab staff record events.
-    roles: everyone,
+    permission: 'plant.read',
     group: 'work',
   },
   {
@@ -69,7 +68,7 @@ export const areas: readonly Area[] = [
     label: 'Alarms',
     purpose:
       'What the nightly SPC run flagged — out-of-control signals, out-of-specification results and falling capability — for review and a decision on assignable cause.',
-    roles: ['quality_manager', 'auditor', 'admin'],
+    permission: 'alarm.read',
     group: 'work',
   },
   {
@@ -77,7 +76,7 @@ export const areas: readonly Area[] = [
     path: '/spc-runs',
     label: 'SPC runs',
     purpose: 'The nightly and on-demand recomputation of every control chart, followed live, with any characteristic that failed and why.',
-    roles: everyone,
+    permission: 'plant.read',
     group: 'work',
   },
   {
@@ -86,7 +85,7 @@ export const areas: readonly Area[] = [
     label: 'Nonconformance reports',
     purpose:
       'Raise and follow nonconformance reports from containment and lot hold through root cause and CAPA to disposition.',
-    roles: ['quality_manager', 'auditor', 'admin'],
+    permission: 'ncr.read',
     group: 'work',
   },
   {
@@ -95,7 +94,7 @@ export const areas: readonly Area[] = [
     label: 'Reports & audit trail',
     purpose:
       'Capability reports for a period and the audit trail of who entered or changed which record, and when — evidence for factory production control audits.',
-    roles: ['quality_manager', 'auditor', 'admin'],
+    permission: 'report.read',
     group: 'work',
   },
   {
@@ -103,7 +102,7 @@ export const areas: readonly Area[] = [
     path: '/subscriptions',
     label: 'Alerts by e-mail',
     purpose: 'Which product lines and products send you alarm e-mails: at once, in the morning digest, or both.',
-    roles: everyone,
+    permission: 'plant.read',
     group: 'work',
   },
   {
@@ -111,7 +110,7 @@ export const areas: readonly Area[] = [
     path: '/admin/users',
     label: 'Users',
     purpose: 'Who may sign in to Prismline and in which role.',
-    roles: ['admin'],
+    permission: 'user.manage',
     group: 'administration',
   },
   {
@@ -120,7 +119,7 @@ export const areas: readonly Area[] = [
     label: 'Products, lines & characteristics',
     purpose:
       'The products made on each production line and the characteristics the lab tests on them.',
-    roles: ['admin'],
+    permission: 'catalogue.manage',
     group: 'administration',
   },
   {
@@ -128,12 +127,12 @@ export const areas: readonly Area[] = [
     path: '/admin/outbox',
     label: 'Mail outbox',
     purpose: 'The e-mails the local test mail server has received, while no mail relay is configured.',
-    roles: ['admin'],
+    permission: 'outbox.read',
     group: 'administration',
   },
 ];
 
 /** The menu for one role, in menu order. */
 export function areasFor(role: Role): Area[] {
-  return areas.filter((area) => area.roles.includes(role));
+  return areas.filter((area) => may(role, area.permission));
 }

@@ -2,7 +2,7 @@ import { lazy, Suspense, type ComponentType, type LazyExoticComponent } from 're
 import { createBrowserRouter, Navigate, type RouteObject } from 'react-router';
 import { areas, type AreaId } from './navigation';
 import { AppLayout } from './layouts/AppLayout';
-import { RequireAuth, RequireRole } from './guards';
+import { RequireAuth, RequirePermission } from './guards';
 import { AreaPlaceholder } from './routes/AreaPlaceholder';
 import { NotFoundPage } from './routes/NotFoundPage';
 import { RouteErrorPage } from './routes/RouteErrorPage';
@@ -36,7 +36,7 @@ const areaRoutes: RouteObject[] = areas.map((area) => {
   const Page = pages[area.id];
   return {
     path: withSubPages.has(area.id) ? `${area.path}/*` : area.path,
-    element: <RequireRole roles={area.roles}>{Page ? <Page /> : <AreaPlaceholder area={area} />}</RequireRole>,
+    element: <RequirePermission action={area.permission}>{Page ? <Page /> : <AreaPlaceholder area={area} />}</RequirePermission>,
   };
 });
 

@@ -1,40 +1,6 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { http } from '@web/lib/http';
-
-export type AlarmStatus = 'open' | 'acknowledged' | 'closed';
-
-export interface Alarm {
-  id: number;
-  characteristic: { id: number; code: string; name: string; unit: string; decimals: number; productCode: string; lineCode: string | null };
-  lot: { id: number; lotNumber: string; producedAt: string };
-  rule: string;
-  signal: string;
-  ruleDescription: string | null;
-  chart: 'location' | 'dispersion';
-  pointIndex: number;
-  statistic: number;
-  values: number[];
-  limitName: string | null;
-  limitValue: number | null;
-  description: string;
-  late: boolean;
-  lateReason: string | null;
-  source: string;
-  status: AlarmStatus;
-  resolution: string | null;
-  createdAt: string;
-  acknowledgedAt: string | null;
-  acknowledgedBy: string | null;
-  acknowledgeNote: string | null;
-  closedAt: string | null;
-  closedBy: string | null;
-  closeNote: string | null;
-}
-
-export interface AlarmList {
-  items: Alarm[];
-  counts: Partial<Record<AlarmStatus, number>>;
-}
+import type { AlarmList, AlarmStatus, AlarmView } from '@shared/schemas/alarms';
 
 export const alarmKeys = {
   all: ['alarms'] as const,
@@ -52,7 +18,7 @@ export const fetchAlarms = ({ status, q, limit }: AlarmFilter, signal?: AbortSig
   http<AlarmList>(`/api/v1/alarms?${new URLSearchParams({ status, limit: String(limit), ...(q ? { q } : {}) })}`, { signal });
 
 export const changeAlarm = ({ id, action, note }: { id: number; action: 'acknowledge' | 'close'; note: string }) =>
-  http<Alarm>(`/api/v1/alarms/${id}/${action}`, { method: 'POST', body: { note } });
+  http<AlarmView>(`/api/v1/alarms/${id}/${action}`, { method: 'POST', body: { note } });
 
 export const alarmsQueryOptions = (filter: AlarmFilter) =>
   queryOptions({

@@ -1,5 +1,6 @@
 import { useState } from 'react';
-import { useChangeAlarm, type Alarm } from '../api/alarms';
+import type { AlarmView } from '@shared/schemas/alarms';
+import { useChangeAlarm } from '../api/alarms';
 import { errorMessage } from '@web/lib/http';
 import { Dialog } from '@web/components/ui/Dialog';
 import { Button } from '@web/components/ui/Button';
@@ -11,7 +12,7 @@ const words = {
 } as const;
 
 /** A note is required: it goes into the alarm and the audit trail. */
-export function AlarmNoteDialog({ alarm, action, onDone }: { alarm: Alarm; action: 'acknowledge' | 'close'; onDone: () => void }) {
+export function AlarmNoteDialog({ alarm, action, onDone }: { alarm: AlarmView; action: 'acknowledge' | 'close'; onDone: () => void }) {
   const [note, setNote] = useState('');
   const change = useChangeAlarm();
   const w = words[action];

@@ -1,12 +1,13 @@
 import { useState } from 'react';
 import { Link } from 'react-router';
-import { useAlarms, type Alarm, type AlarmStatus } from '../api/alarms';
+import type { AlarmStatus, AlarmView } from '@shared/schemas/alarms';
+import { useAlarms } from '../api/alarms';
 import { usePlantTimeZone } from '@web/features/results/api/catalogue';
 import { formatPlantDateTime } from '@web/features/results/lib/plant-time';
 import { ruleLabels } from '@web/features/charts/lib/format';
 import type { RuleId } from '@shared/spc';
 import { AlarmNoteDialog } from '../components/AlarmNoteDialog';
-import { useSignedInUser } from '@web/features/auth/api/session';
+import { useMay } from '@web/app/permissions';
 import { PageHeader } from '@web/components/ui/PageHeader';
 import { Button } from '@web/components/ui/Button';
 import { Badge } from '@web/components/ui/Badge';
@@ -31,7 +32,19 @@ function ruleName(rule: string): string | null {
   return label ? label.split(' · ')[0] : null;
 }
 
-function AlarmRow({ alarm, timeZone, mayDecide, onAction }: { alarm: Alarm; timeZone: string; mayDecide: boolean; onAction: (a: 'acknowledge' | 'close') => void }) {
+function AlarmRow({
+  alarm,
+  timeZone,
+  mayAcknowledge,
+  mayClose,
+  onAction,
+}: {
+  alarm: AlarmView;
+  timeZone: string;
+  mayAcknowledge: boolean;
+  mayClose: boolean;
+  onAction: (a: 'acknowledge' | 'close') => void;
+}) {
   const c = alarm.characteristic;
   const rule = ruleName(alarm.rule);
   return (
@@ -88,12 +101,12 @@ function AlarmRow({ alarm, timeZone, mayDecide, onAction }: { alarm: Alarm; time
           <Link className="text-sm font-medium text-accent-800 underline" to={`/charts/${c.id}?point=${alarm.pointIndex}`}>
             Point {alarm.pointIndex + 1} on the chart
           </Link>
-          {mayDecide && alarm.status === 'open' && (
+          {mayAcknowledge && alarm.status === 'open' && (
             <Button size="sm" variant="secondary" onClick={() => onAction('acknowledge')}>
               Acknowledge
             </Button>
           )}
-          {mayDecide && alarm.status !== 'closed' && (
+          {mayClose && alarm.status !== 'closed' && (
             <Button size="sm" variant="secondary" onClick={() => onAction('close')}>
               Close
             </Button>
@@ -105,15 +118,15 @@ function AlarmRow({ alarm, timeZone, mayDecide, onAction }: { alarm: Alarm; time
 }
 
 export default function AlarmsPage() {
-  const me = useSignedInUser();
   const [status, setStatus] = useState<AlarmStatus>('open');
-  const [acting, setActing] = useState<{ alarm: Alarm; action: 'acknowledge' | 'close' } | null>(null);
+  const [acting, setActing] = useState<{ alarm: AlarmView; action: 'acknowledge' | 'close' } | null>(null);
   const [typed, setTyped] = useState('');
   const [q, setQ] = useState('');
   const [limit, setLimit] = useState(PAGE);
   const alarms = useAlarms({ status, q, limit });
   const timeZone = usePlantTimeZone().data ?? 'UTC';
-  const mayDecide = me.role === 'quality_manager' || me.role === 'admin';
+  const mayAcknowledge = useMay('alarm.acknowledge');
+  const mayClose = useMay('alarm.close');
   const tab = tabs.find((t) => t.status === status)!;
 
   return (
@@ -182,7 +195,14 @@ export default function AlarmsPage() {
               </thead>
               <tbody>
                 {alarms.data.items.map((a) => (
-                  <AlarmRow key={a.id} alarm={a} timeZone={timeZone} mayDecide={mayDecide} onAction={(action) => setActing({ alarm: a, action })} />
+                  <AlarmRow
+                    key={a.id}
+                    alarm={a}
+                    timeZone={timeZone}
+                    mayAcknowledge={mayAcknowledge}
+                    mayClose={mayClose}
+                    onAction={(action) => setActing({ alarm: a, action })}
+                  />
                 ))}
               </tbody>
             </table>

@@ -1,49 +1,33 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { http } from '@web/lib/http';
-import type { ChartType } from '@shared/spc';
 import type {
+  CharacteristicView,
   CreateCharacteristicInput,
   CreateLineInput,
   CreateProductInput,
-  RuleSetId,
+  LineView,
+  ProductView,
   UpdateCharacteristicInput,
   UpdateLineInput,
   UpdateProductInput,
 } from '@shared/schemas/catalogue';
-import { catalogueKeys, type Characteristic, type Product, type ProductionLine } from '@web/features/results/api/catalogue';
+import { catalogueKeys } from '@web/features/results/api/catalogue';
 import { chartKeys } from '@web/features/charts/api/chart';
 import { overviewKeys } from '@web/features/overview/api/overview';
 
-/** A line as the administrator sees it: whether lots were made on it decides if its code may change. */
-export interface CatalogueLine extends ProductionLine {
-  hasLots: boolean;
-}
-
-export interface CatalogueProduct extends Product {
-  hasLots: boolean;
-}
-
-/** A characteristic with the settings the administrator edits. */
-export interface CatalogueCharacteristic extends Characteristic {
-  chartType: ChartType;
-  ruleSet: RuleSetId;
-  samplingPlan: string | null;
-  hasResults: boolean;
-}
-
 const items = async <T>(path: string, signal?: AbortSignal) => (await http<{ items: T[] }>(path, { signal })).items;
 
-export const fetchLines = (signal?: AbortSignal) => items<CatalogueLine>('/api/v1/lines', signal);
-export const fetchProducts = (signal?: AbortSignal) => items<CatalogueProduct>('/api/v1/products', signal);
-export const fetchCharacteristics = (signal?: AbortSignal) => items<CatalogueCharacteristic>('/api/v1/characteristics', signal);
+export const fetchLines = (signal?: AbortSignal) => items<LineView>('/api/v1/lines', signal);
+export const fetchProducts = (signal?: AbortSignal) => items<ProductView>('/api/v1/products', signal);
+export const fetchCharacteristics = (signal?: AbortSignal) => items<CharacteristicView>('/api/v1/characteristics', signal);
 
-export const createLine = (input: CreateLineInput) => http<CatalogueLine>('/api/v1/lines', { method: 'POST', body: input });
-export const updateLine = (id: number, changes: UpdateLineInput) => http<CatalogueLine>(`/api/v1/lines/${id}`, { method: 'PATCH', body: changes });
-export const createProduct = (input: CreateProductInput) => http<CatalogueProduct>('/api/v1/products', { method: 'POST', body: input });
-export const updateProduct = (id: number, changes: UpdateProductInput) => http<CatalogueProduct>(`/api/v1/products/${id}`, { method: 'PATCH', body: changes });
-export const createCharacteristic = (input: CreateCharacteristicInput) => http<CatalogueCharacteristic>('/api/v1/characteristics', { method: 'POST', body: input });
+export const createLine = (input: CreateLineInput) => http<LineView>('/api/v1/lines', { method: 'POST', body: input });
+export const updateLine = (id: number, changes: UpdateLineInput) => http<LineView>(`/api/v1/lines/${id}`, { method: 'PATCH', body: changes });
+export const createProduct = (input: CreateProductInput) => http<ProductView>('/api/v1/products', { method: 'POST', body: input });
+export const updateProduct = (id: number, changes: UpdateProductInput) => http<ProductView>(`/api/v1/products/${id}`, { method: 'PATCH', body: changes });
+export const createCharacteristic = (input: CreateCharacteristicInput) => http<CharacteristicView>('/api/v1/characteristics', { method: 'POST', body: input });
 export const updateCharacteristic = (id: number, changes: UpdateCharacteristicInput) =>
-  http<CatalogueCharacteristic>(`/api/v1/characteristics/${id}`, { method: 'PATCH', body: changes });
+  http<CharacteristicView>(`/api/v1/characteristics/${id}`, { method: 'PATCH', body: changes });
 
 // The same endpoints and keys as the results area's lists (every role gets the same fields), so one
 // request serves both screens; a change here invalidates `catalogueKeys.all`, refreshing every reader.

@@ -8,7 +8,8 @@ import { chartTypeLabels, ruleSetLabels } from '@shared/spc';
 import { TextArea } from '@web/features/charts/components/TextArea';
 import { showServerErrors } from '@web/features/records/lib/server-errors';
 import { browserTimeZone } from '@web/features/records/lib/date-time';
-import { useCreateCharacteristic, useUpdateCharacteristic, type CatalogueCharacteristic, type CatalogueProduct } from '../api/catalogue';
+import type { CharacteristicView, ProductView } from '@shared/schemas/catalogue';
+import { useCreateCharacteristic, useUpdateCharacteristic } from '../api/catalogue';
 import { characteristicFormSchema, emptySpec, newCharacteristicFormSchema, type CharacteristicFormValues } from '../lib/form-schemas';
 import { shortMethodName, suggestedCode, suggestedName } from '../lib/suggest';
 import { Field, Input, Select } from '@web/components/ui/Field';
@@ -39,7 +40,7 @@ const sizeRange = (chart: (typeof chartTypes)[number]) => {
   return min === max ? `${min} reading` : `${min}–${max}`;
 };
 
-function startingValues(characteristic: CatalogueCharacteristic | undefined, products: CatalogueProduct[]): CharacteristicFormValues {
+function startingValues(characteristic: CharacteristicView | undefined, products: ProductView[]): CharacteristicFormValues {
   if (!characteristic) {
     return {
       productCode: products.find((p) => p.active)?.code ?? '',
@@ -80,10 +81,10 @@ export function CharacteristicForm({
   onSaved,
   onCancel,
 }: {
-  characteristic?: CatalogueCharacteristic;
-  products: CatalogueProduct[];
+  characteristic?: CharacteristicView;
+  products: ProductView[];
   methods: TestMethodEntry[];
-  onSaved: (characteristic: CatalogueCharacteristic) => void;
+  onSaved: (characteristic: CharacteristicView) => void;
   onCancel: () => void;
 }) {
   const create = useCreateCharacteristic();

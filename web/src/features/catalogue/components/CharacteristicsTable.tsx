@@ -5,7 +5,8 @@ import { characteristicLabel } from '@web/features/results/lib/names';
 import { specLimitsText } from '@web/features/results/lib/spec';
 import { statisticNames } from '@shared/spc';
 import type { Notice } from '@web/features/users/components/UserActions';
-import { useUpdateCharacteristic, type CatalogueCharacteristic } from '../api/catalogue';
+import type { CharacteristicView } from '@shared/schemas/catalogue';
+import { useUpdateCharacteristic } from '../api/catalogue';
 import { shortMethodName } from '../lib/suggest';
 import { actionsColumn, statusColumn, type Consequences } from './RowActions';
 import { DataTable } from '@web/components/ui/Table';
@@ -13,14 +14,14 @@ import { Select } from '@web/components/ui/Field';
 import { TableFilter, useFilteredTable } from '@web/components/ui/FilteredTable';
 import { EmptyState } from '@web/components/ui/EmptyState';
 
-const column = createColumnHelper<CatalogueCharacteristic>();
+const column = createColumnHelper<CharacteristicView>();
 
 /** "X̄–R", "X̄–S", "I–MR": the plotted statistics of the two charts. */
-const chartShortName = (c: CatalogueCharacteristic) => `${statisticNames[c.chartType].location}–${statisticNames[c.chartType].dispersion}`;
+const chartShortName = (c: CharacteristicView) => `${statisticNames[c.chartType].location}–${statisticNames[c.chartType].dispersion}`;
 
-const ruleSetShortLabels: Record<CatalogueCharacteristic['ruleSet'], string> = { we: 'Western Electric', extended: 'Western Electric + extended' };
+const ruleSetShortLabels: Record<CharacteristicView['ruleSet'], string> = { we: 'Western Electric', extended: 'Western Electric + extended' };
 
-function matches(c: CatalogueCharacteristic, query: string): boolean {
+function matches(c: CharacteristicView, query: string): boolean {
   const needle = query.trim().toLowerCase();
   return [c.code, c.name, c.productCode, c.testMethodName].some((text) => text.toLowerCase().includes(needle));
 }
@@ -41,8 +42,8 @@ export function CharacteristicsTable({
   onEdit,
   onNotice,
 }: {
-  characteristics: CatalogueCharacteristic[];
-  onEdit: (characteristic: CatalogueCharacteristic) => void;
+  characteristics: CharacteristicView[];
+  onEdit: (characteristic: CharacteristicView) => void;
   onNotice: (notice: Notice) => void;
 }) {
   const { mutateAsync: update } = useUpdateCharacteristic();

@@ -2,7 +2,8 @@ import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { createLineSchema } from '@shared/schemas/catalogue';
 import { showServerErrors } from '@web/features/records/lib/server-errors';
-import { useCreateLine, useUpdateLine, type CatalogueLine } from '../api/catalogue';
+import type { LineView } from '@shared/schemas/catalogue';
+import { useCreateLine, useUpdateLine } from '../api/catalogue';
 import { Field, Input } from '@web/components/ui/Field';
 import { Alert } from '@web/components/ui/Alert';
 import { FormButtons } from './FormButtons';
@@ -10,7 +11,7 @@ import { FormButtons } from './FormButtons';
 const fields = ['code', 'name'] as const;
 
 /** Adds a line, or changes one given as `line`; its code is fixed once lots were made on it. */
-export function LineForm({ line, onSaved, onCancel }: { line?: CatalogueLine; onSaved: (line: CatalogueLine) => void; onCancel: () => void }) {
+export function LineForm({ line, onSaved, onCancel }: { line?: LineView; onSaved: (line: LineView) => void; onCancel: () => void }) {
   const create = useCreateLine();
   const update = useUpdateLine();
   const {

@@ -3,7 +3,8 @@ import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { createProductSchema } from '@shared/schemas/catalogue';
 import { showServerErrors } from '@web/features/records/lib/server-errors';
-import { useCreateProduct, useUpdateProduct, type CatalogueLine, type CatalogueProduct } from '../api/catalogue';
+import type { LineView, ProductView } from '@shared/schemas/catalogue';
+import { useCreateProduct, useUpdateProduct } from '../api/catalogue';
 import { Field, Input, Select } from '@web/components/ui/Field';
 import { Alert } from '@web/components/ui/Alert';
 import { FormButtons } from './FormButtons';
@@ -18,11 +19,11 @@ export function ProductForm({
   onSaved,
   onCancel,
 }: {
-  product?: CatalogueProduct;
-  lines: CatalogueLine[];
+  product?: ProductView;
+  lines: LineView[];
   /** Families already in use, offered as suggestions. */
   families: string[];
-  onSaved: (product: CatalogueProduct) => void;
+  onSaved: (product: ProductView) => void;
   onCancel: () => void;
 }) {
   const create = useCreateProduct();

@@ -1,11 +1,12 @@
 import { useMemo, useState } from 'react';
 import { createColumnHelper, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from '@tanstack/react-table';
 import type { Notice } from '@web/features/users/components/UserActions';
-import { useUpdateProduct, type CatalogueProduct } from '../api/catalogue';
+import type { ProductView } from '@shared/schemas/catalogue';
+import { useUpdateProduct } from '../api/catalogue';
 import { actionsColumn, statusColumn, type Consequences } from './RowActions';
 import { DataTable } from '@web/components/ui/Table';
 
-const column = createColumnHelper<CatalogueProduct>();
+const column = createColumnHelper<ProductView>();
 
 const consequences: Consequences = {
   deactivate: (
@@ -18,7 +19,7 @@ const consequences: Consequences = {
   deactivated: (code: string) => `${code} is deactivated: uploads refuse its lots and the SPC run leaves it out.`,
 };
 
-export function ProductsTable({ products, onEdit, onNotice }: { products: CatalogueProduct[]; onEdit: (product: CatalogueProduct) => void; onNotice: (notice: Notice) => void }) {
+export function ProductsTable({ products, onEdit, onNotice }: { products: ProductView[]; onEdit: (product: ProductView) => void; onNotice: (notice: Notice) => void }) {
   const { mutateAsync: update } = useUpdateProduct();
   const [sorting, setSorting] = useState<SortingState>([]);
   const columns = useMemo(

@@ -1,7 +1,8 @@
 import { useCallback, useState } from 'react';
 import { useTestMethods } from '@web/features/test-methods/api/test-methods';
 import type { Notice } from '@web/features/users/components/UserActions';
-import { useCatalogueCharacteristics, useCatalogueProducts, type CatalogueCharacteristic } from '../api/catalogue';
+import type { CharacteristicView } from '@shared/schemas/catalogue';
+import { useCatalogueCharacteristics, useCatalogueProducts } from '../api/catalogue';
 import { CharacteristicForm } from '../components/CharacteristicForm';
 import { CharacteristicsTable } from '../components/CharacteristicsTable';
 import { EditorCard } from '../components/EditorCard';
@@ -17,9 +18,9 @@ export default function CharacteristicsPage() {
   const characteristics = useCatalogueCharacteristics();
   const products = useCatalogueProducts();
   const methods = useTestMethods();
-  const [editing, setEditing] = useState<'new' | CatalogueCharacteristic | null>(null);
+  const [editing, setEditing] = useState<'new' | CharacteristicView | null>(null);
   const [notice, setNotice] = useState<Notice | null>(null);
-  const edit = useCallback((c: CatalogueCharacteristic) => {
+  const edit = useCallback((c: CharacteristicView) => {
     setNotice(null);
     setEditing(c);
   }, []);
@@ -39,7 +40,7 @@ export default function CharacteristicsPage() {
   if (failed) return <>{header}<ErrorState title="Could not load the characteristics" error={failed.error} onRetry={() => [characteristics, products, methods].forEach((q) => q.refetch())} /></>;
   if (!characteristics.data || !products.data || !methods.data) return <>{header}<Loading label="Loading the characteristics…" /></>;
 
-  const saved = (c: CatalogueCharacteristic, verb: string) => {
+  const saved = (c: CharacteristicView, verb: string) => {
     setEditing(null);
     setNotice({ tone: 'success', text: `${c.code} ${verb}.${c.spec && verb === 'added' ? ` Specification revision ${c.spec.revision} is in force.` : ''}` });
   };

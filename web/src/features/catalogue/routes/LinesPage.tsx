@@ -1,7 +1,8 @@
 import { useMemo, useState } from 'react';
 import { createColumnHelper, getCoreRowModel, useReactTable } from '@tanstack/react-table';
 import type { Notice } from '@web/features/users/components/UserActions';
-import { useCatalogueLines, useCatalogueProducts, useUpdateLine, type CatalogueLine } from '../api/catalogue';
+import type { LineView } from '@shared/schemas/catalogue';
+import { useCatalogueLines, useCatalogueProducts, useUpdateLine } from '../api/catalogue';
 import { LineForm } from '../components/LineForm';
 import { actionsColumn, statusColumn, type Consequences } from '../components/RowActions';
 import { EditorCard } from '../components/EditorCard';
@@ -13,7 +14,7 @@ import { Loading } from '@web/components/ui/Spinner';
 import { ErrorState } from '@web/components/ui/ErrorState';
 import { EmptyState } from '@web/components/ui/EmptyState';
 
-const column = createColumnHelper<CatalogueLine & { products: string[] }>();
+const column = createColumnHelper<LineView & { products: string[] }>();
 
 const consequences: Consequences = {
   deactivate: (
@@ -30,7 +31,7 @@ const consequences: Consequences = {
 export default function LinesPage() {
   const lines = useCatalogueLines();
   const products = useCatalogueProducts();
-  const [editing, setEditing] = useState<'new' | CatalogueLine | null>(null);
+  const [editing, setEditing] = useState<'new' | LineView | null>(null);
   const [notice, setNotice] = useState<Notice | null>(null);
   const { mutateAsync: update } = useUpdateLine();
 

@@ -1,6 +1,7 @@
 import { useCallback, useState } from 'react';
 import type { Notice } from '@web/features/users/components/UserActions';
-import { useCatalogueLines, useCatalogueProducts, type CatalogueProduct } from '../api/catalogue';
+import type { ProductView } from '@shared/schemas/catalogue';
+import { useCatalogueLines, useCatalogueProducts } from '../api/catalogue';
 import { ProductForm } from '../components/ProductForm';
 import { ProductsTable } from '../components/ProductsTable';
 import { EditorCard } from '../components/EditorCard';
@@ -15,9 +16,9 @@ import { EmptyState } from '@web/components/ui/EmptyState';
 export default function ProductsPage() {
   const products = useCatalogueProducts();
   const lines = useCatalogueLines();
-  const [editing, setEditing] = useState<'new' | CatalogueProduct | null>(null);
+  const [editing, setEditing] = useState<'new' | ProductView | null>(null);
   const [notice, setNotice] = useState<Notice | null>(null);
-  const edit = useCallback((p: CatalogueProduct) => {
+  const edit = useCallback((p: ProductView) => {
     setNotice(null);
     setEditing(p);
   }, []);

@@ -1,7 +1,7 @@
 import { useCallback, useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
 import { Link, useParams, useSearchParams } from 'react-router';
 import { ApiError } from '@web/lib/http';
-import { useSignedInUser } from '@web/features/auth/api/session';
+import { useMay } from '@web/app/permissions';
 import { usePlantTimeZone } from '@web/features/results/api/catalogue';
 import { useChart, type ChartRange } from '../api/chart';
 import { ControlChart, type ZoomWindow } from '../components/ControlChart';
@@ -72,8 +72,8 @@ export default function ChartPage() {
   const range = useMemo(() => rangeFor(period), [period]);
   const chart = useChart(id, range);
   const timeZone = usePlantTimeZone().data ?? 'UTC';
-  const user = useSignedInUser();
-  const canChangeLimits = user.role === 'quality_manager' || user.role === 'admin';
+  const canFreeze = useMay('limits.freeze');
+  const canExclude = useMay('point.exclude');
 
   const pointParam = search.get('point');
   const [selected, setSelected] = useState<number | null>(pointParam !== null && /^\d+$/.test(pointParam) ? Number(pointParam) : null);
@@ -176,7 +176,7 @@ export default function ChartPage() {
           title="Control limits"
           id="limits-heading"
           actions={
-            canChangeLimits && data.points.length > 0 ? (
+            canFreeze && data.points.length > 0 ? (
               <Button variant="secondary" onClick={() => setOpen({ kind: 'freeze' })}>
                 Freeze limits…
               </Button>
@@ -212,7 +212,7 @@ export default function ChartPage() {
                   chart={data}
                   index={selected}
                   timeZone={timeZone}
-                  canChangeLimits={canChangeLimits}
+                  canChangeLimits={canExclude}
                   onOpenLot={openLot}
                   onExclude={exclude}
                   onInclude={include}
@@ -253,7 +253,7 @@ export default function ChartPage() {
           <PointsTable
             chart={data}
             timeZone={timeZone}
-            canChangeLimits={canChangeLimits}
+            canChangeLimits={canExclude}
             onReveal={showOnChart}
             onOpenLot={openLot}
             onExclude={exclude}

@@ -1,8 +1,7 @@
 import { useState } from 'react';
 import { useLines, useProducts } from '@web/features/results/api/catalogue';
-import { useSignedInUser } from '@web/features/auth/api/session';
+import { useMay } from '@web/app/permissions';
 import { useProcessEvents, type EventPeriod } from '../api/process-events';
-import { processEventRoles } from '../lib/roles';
 import { browserTimeZone, formatWithZone, localDateToIso } from '../lib/date-time';
 import { ProcessEventForm, type RecordedEvent } from '../components/ProcessEventForm';
 import { ProcessEventList } from '../components/ProcessEventList';
@@ -28,7 +27,7 @@ function inPeriod(iso: string, period: EventPeriod): boolean {
 
 /** /records/events: what happened at the plant, for everyone to read and the lab staff to record. */
 export default function ProcessEventsPage() {
-  const canRecord = processEventRoles.includes(useSignedInUser().role);
+  const canRecord = useMay('process-event.create');
   const [fromDate, setFromDate] = useState('');
   const [toDate, setToDate] = useState('');
   // The end date counts in full: the period runs to the start of the next day.

@@ -3,9 +3,8 @@ import { Link, useParams } from 'react-router';
 import { useCharacteristics } from '@web/features/results/api/catalogue';
 import { characteristicLabel } from '@web/features/results/lib/names';
 import { specLimitsText } from '@web/features/results/lib/spec';
-import { useSignedInUser } from '@web/features/auth/api/session';
+import { useMay } from '@web/app/permissions';
 import { useSpecRevisions, type SpecRevision } from '../api/specifications';
-import { specificationRoles } from '../lib/roles';
 import { formatWithZone } from '../lib/date-time';
 import { RevisionNote } from '../components/RevisionNote';
 import { RevisionHistory } from '../components/RevisionHistory';
@@ -22,7 +21,7 @@ export default function SpecificationPage() {
   const id = Number(useParams().characteristicId);
   const characteristics = useCharacteristics();
   const revisions = useSpecRevisions(id);
-  const canRevise = specificationRoles.includes(useSignedInUser().role);
+  const canRevise = useMay('specification.revise');
   const [saved, setSaved] = useState<SpecRevision | null>(null);
 
   const back = (

@@ -2,8 +2,7 @@ import { Link } from 'react-router';
 import { useCharacteristics, type Characteristic } from '@web/features/results/api/catalogue';
 import { characteristicLabel } from '@web/features/results/lib/names';
 import { figure } from '@web/features/charts/lib/format';
-import { useSignedInUser } from '@web/features/auth/api/session';
-import { specificationRoles } from '../lib/roles';
+import { useMay } from '@web/app/permissions';
 import { formatWithZone } from '../lib/date-time';
 import { RevisionNote } from '../components/RevisionNote';
 import { PageHeader } from '@web/components/ui/PageHeader';
@@ -36,7 +35,7 @@ const th = 'border-b border-zinc-200 px-3 py-2.5 font-semibold whitespace-nowrap
 /** /records/specifications: the limits in force for every characteristic, by product. */
 export default function SpecificationsPage() {
   const characteristics = useCharacteristics();
-  const canRevise = specificationRoles.includes(useSignedInUser().role);
+  const canRevise = useMay('specification.revise');
 
   return (
     <>

@@ -1,63 +1,15 @@
 import { useMemo } from 'react';
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { http } from '@web/lib/http';
-import type { RawLoadFormula, TestMethodCode } from '@shared/lab';
+import type { CharacteristicView, LineView, PlantView, ProductView, SpecInForce } from '@shared/schemas/catalogue';
 import { useTestMethods, type TestMethodEntry } from '@web/features/test-methods/api/test-methods';
 
-export interface Product {
-  id: number;
-  code: string;
-  name: string;
-  family: string;
-  declaredClass: string | null;
-  active: boolean;
-  lineCode: string | null;
-  lineName: string | null;
-}
-
-export interface ProductionLine {
-  id: number;
-  code: string;
-  name: string;
-  /** false: deactivated, takes no new results. */
-  active: boolean;
-}
-
-/** The specification revision in force now. */
-export interface SpecInForce {
-  revision: number;
-  lsl: number | null;
-  usl: number | null;
-  target: number | null;
-  effectiveFrom: string;
-}
-
-export interface Characteristic {
-  id: number;
-  code: string;
-  name: string;
-  unit: string;
-  ageDays: number | null;
-  subgroupSize: number;
-  active: boolean;
-  productCode: string;
-  productName: string;
-  productFamily: string;
-  lineCode: string | null;
-  testMethodCode: TestMethodCode;
-  testMethodName: string;
-  standard: string;
-  rawLoad: RawLoadFormula | null;
-  decimals: number;
-  spec: SpecInForce | null;
-}
-
-export interface Plant {
-  id: number;
-  code: string;
-  name: string;
-  timeZone: string;
-}
+// The catalogue as the API answers it (every role gets the same fields), by the names the screens use.
+export type Product = ProductView;
+export type ProductionLine = LineView;
+export type Characteristic = CharacteristicView;
+export type Plant = PlantView;
+export type { SpecInForce };
 
 export const catalogueKeys = {
   all: ['catalogue'] as const,

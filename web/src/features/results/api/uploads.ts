@@ -1,28 +1,9 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { http } from '@web/lib/http';
 import type { ColumnMapping, CsvDialect, SaveMappingInput } from '@shared/ingest';
+import type { UploadImported, UploadListItem, UploadStatus, UploadVoided } from '@shared/schemas/uploads';
 import { fileOutcome, type UploadOutcome } from './import-outcome';
 import { lotKeys } from './lots';
-
-export type UploadStatus = 'imported' | 'rejected' | 'voided';
-
-export interface Upload {
-  id: number;
-  fileName: string;
-  sha256: string;
-  /** Size of the file as received. */
-  sizeBytes: number;
-  uploadedAt: string;
-  status: UploadStatus;
-  format: 'long' | 'wide';
-  rowsTotal: number;
-  rowsImported: number;
-  rowsRejected: number;
-  voidedAt: string | null;
-  voidReason: string | null;
-  uploadedById: number | null;
-  uploadedByName: string | null;
-}
 
 export interface SavedMapping {
   id: number;
@@ -44,9 +25,9 @@ export const uploadKeys = {
   mappings: ['column-mappings'] as const,
 };
 
-export async function fetchUploads(status: UploadStatus | undefined, signal?: AbortSignal): Promise<Upload[]> {
+export async function fetchUploads(status: UploadStatus | undefined, signal?: AbortSignal): Promise<UploadListItem[]> {
   const query = new URLSearchParams({ limit: '200', ...(status ? { status } : {}) });
-  const { items } = await http<{ items: Upload[] }>(`/api/v1/uploads?${query}`, { signal });
+  const { items } = await http<{ items: UploadListItem[] }>(`/api/v1/uploads?${query}`, { signal });
   return items;
 }
 
@@ -76,7 +57,7 @@ export async function uploadResults({ file, mapping, dialect }: UploadInput): Pr
   form.append('decimalComma', String(dialect.decimalComma));
   if (mapping) form.append('mapping', JSON.stringify(mapping));
   try {
-    const created = await http<{ id: number; rowsImported: number }>('/api/v1/uploads', { method: 'POST', body: form });
+    const created = await http<UploadImported>('/api/v1/uploads', { method: 'POST', body: form });
     return { kind: 'imported', ...created };
   } catch (error) {
     const outcome = fileOutcome(error);
@@ -95,7 +76,7 @@ export function useUploadResults() {
 }
 
 export function voidUpload({ id, reason }: { id: number; reason: string }) {
-  return http<{ id: number; status: 'voided'; measurementsVoided: number }>(`/api/v1/uploads/${id}/void`, { method: 'POST', body: { reason } });
+  return http<UploadVoided>(`/api/v1/uploads/${id}/void`, { method: 'POST', body: { reason } });
 }
 
 export function useVoidUpload() {

@@ -3,14 +3,15 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { voidUploadSchema } from '@shared/ingest';
 import { errorMessage } from '@web/lib/http';
 import { showServerFieldErrors } from '@web/lib/forms';
-import { useVoidUpload, type Upload } from '../api/uploads';
+import type { UploadListItem } from '@shared/schemas/uploads';
+import { useVoidUpload } from '../api/uploads';
 import { Alert } from '@web/components/ui/Alert';
 import { Button } from '@web/components/ui/Button';
 import { Dialog } from '@web/components/ui/Dialog';
 import { Field, Input } from '@web/components/ui/Field';
 
 /** Asks for the reason before an imported upload's results leave every calculation. */
-export function VoidUploadDialog({ upload, onClose, onVoided }: { upload: Upload; onClose: () => void; onVoided: (measurementsVoided: number) => void }) {
+export function VoidUploadDialog({ upload, onClose, onVoided }: { upload: UploadListItem; onClose: () => void; onVoided: (measurementsVoided: number) => void }) {
   const voiding = useVoidUpload();
   const {
     register,

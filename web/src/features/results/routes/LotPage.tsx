@@ -6,8 +6,7 @@ import { useCharacteristics, usePlantTimeZone, type Characteristic } from '../ap
 import { formatPlantDateTime } from '../lib/plant-time';
 import { specLimitsText, specVerdictBadge } from '../lib/spec';
 import { setResult, setStatusText, type SetResult } from '../lib/sets';
-import { entryRoles } from '../lib/roles';
-import { useSignedInUser } from '@web/features/auth/api/session';
+import { useMay } from '@web/app/permissions';
 import { CorrectMeasurementDialog, type CorrectedReading } from '../components/CorrectMeasurementDialog';
 import { Alert } from '@web/components/ui/Alert';
 import { Button } from '@web/components/ui/Button';
@@ -50,7 +49,7 @@ export default function LotPage() {
   const characteristics = useCharacteristics();
   const timeZone = usePlantTimeZone().data ?? 'UTC';
   // Whoever may enter results may correct them; auditors only read.
-  const canCorrect = entryRoles.includes(useSignedInUser().role);
+  const canCorrect = useMay('measurement.correct');
   const [correcting, setCorrecting] = useState<{ reading: LotResult; decimals: number } | null>(null);
   const [corrected, setCorrected] = useState<CorrectedReading | null>(null);
 

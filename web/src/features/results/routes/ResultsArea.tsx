@@ -1,11 +1,11 @@
 import { lazy, Suspense } from 'react';
 import { Navigate, Route, Routes } from 'react-router';
+import { RequirePermission } from '@web/app/guards';
 import { useSignedInUser } from '@web/features/auth/api/session';
-import { RequireRole } from '@web/app/guards';
+import { may, type Permission } from '@shared/permissions';
 import { NotFoundPage } from '@web/app/routes/NotFoundPage';
 import { Loading } from '@web/components/ui/Spinner';
 import { AreaTabs } from '@web/components/ui/AreaTabs';
-import { entryRoles } from '../lib/roles';
 
 const UploadPage = lazy(() => import('./UploadPage'));
 const ManualEntryPage = lazy(() => import('./ManualEntryPage'));
@@ -13,37 +13,36 @@ const UploadHistoryPage = lazy(() => import('./UploadHistoryPage'));
 const LotPage = lazy(() => import('./LotPage'));
 
 const tabs = [
-  { to: '/results/upload', label: 'Upload a file', entry: true },
-  { to: '/results/enter', label: 'Enter a lot by hand', entry: true },
-  { to: '/results/history', label: 'Upload history', entry: false },
-] as const;
+  { to: '/results/upload', label: 'Upload a file', permission: 'upload.create' },
+  { to: '/results/enter', label: 'Enter a lot by hand', permission: 'measurement.create' },
+  { to: '/results/history', label: 'Upload history', permission: 'plant.read' },
+] as const satisfies readonly { to: string; label: string; permission: Permission }[];
 
-/** /results/*: entry for technicians, managers and administrators; the history and lots for every role. */
+/** /results/*: upload and entry for the roles the permissions map allows them; the history and lots for every role. */
 export default function ResultsArea() {
-  const user = useSignedInUser();
-  const canEnter = entryRoles.includes(user.role);
-  const shown = tabs.filter((tab) => canEnter || !tab.entry);
+  const role = useSignedInUser().role;
+  const shown = tabs.filter((tab) => may(role, tab.permission));
 
   return (
     <>
       <AreaTabs label="Results pages" tabs={shown} />
       <Suspense fallback={<Loading />}>
         <Routes>
-          <Route index element={<Navigate to={canEnter ? '/results/upload' : '/results/history'} replace />} />
+          <Route index element={<Navigate to={shown[0].to} replace />} />
           <Route
             path="upload"
             element={
-              <RequireRole roles={entryRoles}>
+              <RequirePermission action="upload.create">
                 <UploadPage />
-              </RequireRole>
+              </RequirePermission>
             }
           />
           <Route
             path="enter"
             element={
-              <RequireRole roles={entryRoles}>
+              <RequirePermission action="measurement.create">
                 <ManualEntryPage />
-              </RequireRole>
+              </RequirePermission>
             }
           />
           <Route path="history" element={<UploadHistoryPage />} />

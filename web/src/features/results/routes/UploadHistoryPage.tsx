@@ -1,11 +1,11 @@
 import { useMemo, useState } from 'react';
 import { Link, useSearchParams } from 'react-router';
 import { createColumnHelper, getCoreRowModel, useReactTable } from '@tanstack/react-table';
-import { useSignedInUser } from '@web/features/auth/api/session';
-import { uploadLinks, useUploads, type Upload, type UploadStatus } from '../api/uploads';
+import { useMay } from '@web/app/permissions';
+import type { UploadListItem, UploadStatus } from '@shared/schemas/uploads';
+import { uploadLinks, useUploads } from '../api/uploads';
 import { usePlantTimeZone } from '../api/catalogue';
 import { formatPlantDateTime } from '../lib/plant-time';
-import { entryRoles, voidRoles } from '../lib/roles';
 import { VoidUploadDialog } from '../components/VoidUploadDialog';
 import { DownloadLink } from '../components/DownloadLink';
 import { PageHeader } from '@web/components/ui/PageHeader';
@@ -19,7 +19,7 @@ import { ErrorState } from '@web/components/ui/ErrorState';
 import { EmptyState } from '@web/components/ui/EmptyState';
 import { formatBytes, formatCount } from '@web/lib/format';
 
-const column = createColumnHelper<Upload>();
+const column = createColumnHelper<UploadListItem>();
 
 const statusBadge: Record<UploadStatus, { tone: 'positive' | 'negative' | 'neutral'; label: string }> = {
   imported: { tone: 'positive', label: 'Imported' },
@@ -35,15 +35,14 @@ const statusFilters: { value: UploadStatus | ''; label: string }[] = [
 ];
 
 export default function UploadHistoryPage() {
-  const user = useSignedInUser();
   const [params, setParams] = useSearchParams();
   const status = (statusFilters.find((f) => f.value === params.get('status'))?.value || undefined) as UploadStatus | undefined;
   const uploads = useUploads(status);
   const timeZone = usePlantTimeZone().data ?? 'UTC';
-  const [voiding, setVoiding] = useState<Upload | null>(null);
+  const [voiding, setVoiding] = useState<UploadListItem | null>(null);
   const [notice, setNotice] = useState<string | null>(null);
-  const canVoid = voidRoles.includes(user.role);
-  const canUpload = entryRoles.includes(user.role);
+  const canVoid = useMay('upload.void');
+  const canUpload = useMay('upload.create');
 
   const columns = useMemo(
     () => [

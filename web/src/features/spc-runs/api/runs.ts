@@ -1,20 +1,8 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { http } from '@web/lib/http';
-import type { RunSummary } from '@shared/schemas/runs';
+import type { RunDetail, RunSummary } from '@shared/schemas/runs';
 
 export type { RunStatus, RunSummary } from '@shared/schemas/runs';
-
-export interface RunProblem {
-  characteristicId: number;
-  characteristicCode: string;
-  attempts: number;
-  error: string | null;
-}
-
-export interface RunDetail extends RunSummary {
-  failures: RunProblem[];
-  retrying: RunProblem[];
-}
 
 export const runKeys = {
   all: ['spc-runs'] as const,

@@ -2,7 +2,7 @@ import { Fragment, useState } from 'react';
 import { isActive, useRuns, useStartRun, type RunSummary } from '../api/runs';
 import { RunProgress } from '../components/RunProgress';
 import { RunDetails } from '../components/RunDetails';
-import { useSignedInUser } from '@web/features/auth/api/session';
+import { useMay } from '@web/app/permissions';
 import { errorMessage } from '@web/lib/http';
 import { PageHeader } from '@web/components/ui/PageHeader';
 import { Button } from '@web/components/ui/Button';
@@ -42,11 +42,10 @@ function duration(run: RunSummary): string {
 }
 
 export default function RunsPage() {
-  const me = useSignedInUser();
   const runs = useRuns();
   const start = useStartRun();
   const [open, setOpen] = useState<number | null>(null);
-  const mayStart = me.role === 'quality_manager' || me.role === 'admin';
+  const mayStart = useMay('spc-run.start');
   const busy = runs.data?.some(isActive) ?? false;
 
   return (

@@ -1,9 +1,9 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { http } from '@web/lib/http';
-import type { TestMethod } from '@shared/lab';
+import type { TestMethodView } from '@shared/schemas/catalogue';
 
-/** A test method as GET /api/v1/test-methods gives it: the cautions already written out, ending with the deferral line. */
-export type TestMethodEntry = Omit<TestMethod, 'cautions'> & { cautions: string[] };
+/** A test method as GET /api/v1/test-methods gives it. */
+export type TestMethodEntry = TestMethodView;
 
 export const testMethodKeys = {
   all: ['test-methods'] as const,

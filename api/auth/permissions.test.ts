@@ -1,0 +1,105 @@
+// The authorisation matrix: every protected route, each demo role, against the one permissions map.
+// Bodies and ids are deliberately invalid, so an allowed role gets a 4xx from validation and no demo record changes.
+import request from 'supertest';
+import { afterAll, describe, expect, it } from 'vitest';
+import { createTestApi } from '@tests/support/api';
+import { may, permissions, type Permission } from '@shared/permissions';
+import { roles, type Role } from '@shared/schemas/roles';
+import { areas } from '@web/app/navigation';
+
+const api = createTestApi();
+afterAll(() => api.close());
+
+interface ProtectedRoute {
+  method: 'get' | 'post' | 'patch' | 'delete';
+  path: string;
+  /** The action the route requires. */
+  permission: Permission;
+  /** A body that validation refuses, so that an allowed role changes nothing. */
+  body?: object;
+  /** What an allowed role gets for that body: 400 unless the route answers otherwise. */
+  allowed?: number;
+}
+
+const routes: ProtectedRoute[] = [
+  { method: 'post', path: '/api/v1/uploads', permission: 'upload.create', body: {} },
+  { method: 'post', path: '/api/v1/uploads/0/void', permission: 'upload.void', body: {} },
+  { method: 'post', path: '/api/v1/measurements', permission: 'measurement.create', body: {} },
+  { method: 'patch', path: '/api/v1/measurements/0', permission: 'measurement.correct', body: {} },
+  { method: 'post', path: '/api/v1/column-mappings', permission: 'column-mapping.create', body: {} },
+  { method: 'post', path: '/api/v1/process-events', permission: 'process-event.create', body: {} },
+  { method: 'post', path: '/api/v1/characteristics/0/spec-revisions', permission: 'specification.revise', body: {} },
+  { method: 'post', path: '/api/v1/characteristics/0/limit-revisions', permission: 'limits.freeze', body: {} },
+  { method: 'post', path: '/api/v1/characteristics/0/exclusions', permission: 'point.exclude', body: {} },
+  { method: 'delete', path: '/api/v1/characteristics/0/exclusions/0', permission: 'point.exclude', body: {} },
+  { method: 'post', path: '/api/v1/spc-runs', permission: 'spc-run.start', body: { characteristicIds: [] } },
+  { method: 'post', path: '/api/v1/alarms/0/acknowledge', permission: 'alarm.acknowledge', body: {} },
+  { method: 'post', path: '/api/v1/alarms/0/close', permission: 'alarm.close', body: {} },
+  { method: 'post', path: '/api/v1/lines', permission: 'catalogue.manage', body: {} },
+  { method: 'patch', path: '/api/v1/lines/0', permission: 'catalogue.manage', body: {} },
+  // Never deleted: an allowed role learns to deactivate instead (405).
+  { method: 'delete', path: '/api/v1/lines/1', permission: 'catalogue.manage', allowed: 405 },
+  { method: 'post', path: '/api/v1/products', permission: 'catalogue.manage', body: {} },
+  { method: 'patch', path: '/api/v1/products/0', permission: 'catalogue.manage', body: {} },
+  { method: 'delete', path: '/api/v1/products/1', permission: 'catalogue.manage', allowed: 405 },
+  { method: 'post', path: '/api/v1/characteristics', permission: 'catalogue.manage', body: {} },
+  { method: 'patch', path: '/api/v1/characteristics/0', permission: 'catalogue.manage', body: {} },
+  { method: 'delete', path: '/api/v1/characteristics/1', permission: 'catalogue.manage', allowed: 405 },
+  { method: 'get', path: '/api/v1/users', permission: 'user.manage', allowed: 200 },
+  { method: 'post', path: '/api/v1/users', permission: 'user.manage', body: {} },
+  { method: 'patch', path: '/api/v1/users/0', permission: 'user.manage', body: {} },
+];
+
+const as = async (role: Role) => ({ authorization: `Bearer ${await api.tokenFor(role)}` });
+const send = (route: ProtectedRoute, headers: Record<string, string> = {}) => {
+  const req = request(api.app)[route.method](route.path).set(headers);
+  return route.body ? req.send(route.body) : req;
+};
+const label = (route: ProtectedRoute) => `${route.method.toUpperCase()} ${route.path} (${route.permission})`;
+
+describe('authorisation matrix', () => {
+  describe.each(routes)('$method $path', (route) => {
+    it.each(roles)(`answers the %s as the permissions map says`, async (role) => {
+      const res = await send(route, await as(role));
+      if (may(role, route.permission)) {
+        expect(res.status, label(route)).not.toBe(403);
+        expect(res.status, label(route)).toBe(route.allowed ?? 400);
+      } else {
+        expect(res.status, label(route)).toBe(403);
+        expect(res.body.error).toBe('Your role does not allow this action');
+      }
+    });
+
+    it('asks for a session first (401)', async () => {
+      expect((await send(route)).status).toBe(401);
+    });
+  });
+
+  it('uses every action of the map on a route above or on an area of the menu', () => {
+    const used = new Set<Permission>([...routes.map((r) => r.permission), ...areas.map((a) => a.permission)]);
+    const unused = (Object.keys(permissions) as Permission[]).filter((action) => !used.has(action));
+    expect(unused).toEqual([]);
+  });
+});
+
+// The people of the product brief (/work/shared/product-brief.md, "The people and their day"), checked
+// against the map independently of it: a slip in the map itself shows here.
+describe('the map keeps the roles of the product brief', () => {
+  const writes = routes.filter((r) => r.method !== 'get');
+  it('leaves the auditor read-only: refused on every write route', () => {
+    expect(writes.filter((r) => may('auditor', r.permission)).map(label)).toEqual([]);
+  });
+
+  it('lets the QC technician enter and upload results and fix rejected rows', () => {
+    for (const action of ['upload.create', 'measurement.create', 'measurement.correct'] as const) expect(may('technician', action), action).toBe(true);
+  });
+
+  it('lets the quality manager triage alarms, freeze limits and maintain specifications, and not manage users or the catalogue', () => {
+    for (const action of ['alarm.acknowledge', 'alarm.close', 'limits.freeze', 'specification.revise'] as const) expect(may('quality_manager', action), action).toBe(true);
+    for (const action of ['user.manage', 'catalogue.manage'] as const) expect(may('quality_manager', action), action).toBe(false);
+  });
+
+  it('lets only the administrator manage users, products, lines and characteristics', () => {
+    for (const action of ['user.manage', 'catalogue.manage'] as const) expect(roles.filter((role) => may(role, action)), action).toEqual(['admin']);
+  });
+});

@@ -1,0 +1,62 @@
+// The alarm as the API answers it and the alarms page reads it. Kept free of zod.
+import type { RuleId } from '../spc';
+
+export const alarmStatuses = ['open', 'acknowledged', 'closed'] as const;
+export type AlarmStatus = (typeof alarmStatuses)[number];
+
+/** A run rule, or a result outside the specification in force when the lot was produced. */
+export type AlarmRule = RuleId | 'out-of-spec';
+/** The chart the signal is on: the lot means or values (location), or their ranges or deviations (dispersion). */
+export type AlarmChart = 'location' | 'dispersion';
+/** 'run': raised by an SPC run; 'ingest': an out-of-specification result, raised as soon as it was stored. */
+export type AlarmSource = 'run' | 'ingest';
+/** How a closed alarm was closed: by a person with a note, or because the data no longer show the signal. */
+export type AlarmResolution = 'by-user' | 'data-changed';
+
+/** What a run rule or the specification found at one point of a chart: the facts an alarm is raised from. */
+export interface AlarmSignal {
+  rule: AlarmRule;
+  chart: AlarmChart;
+  /** Position of the lot on the chart, from 0. */
+  pointIndex: number;
+  /** The plotted statistic (lot mean, range, …) and the lot's values. */
+  statistic: number;
+  values: number[];
+  limitName: string | null;
+  limitValue: number | null;
+  description: string;
+  /** Set when the point lies before the newest point charted last time: a late result, or changed limits. */
+  lateReason: string | null;
+}
+
+/** GET /api/v1/alarms items, GET /api/v1/alarms/:id, and the answer of acknowledging or closing one. */
+export interface AlarmView extends AlarmSignal {
+  id: number;
+  characteristic: { id: number; code: string; name: string; unit: string; decimals: number; productCode: string; lineCode: string | null };
+  lot: { id: number; lotNumber: string; producedAt: string };
+  /** Short name of the signal in the trade's words. */
+  signal: string;
+  ruleDescription: string | null;
+  /** The point lies before later points that were already charted. */
+  late: boolean;
+  source: AlarmSource;
+  runId: number | null;
+  status: AlarmStatus;
+  resolution: AlarmResolution | null;
+  createdAt: string;
+  updatedAt: string;
+  acknowledgedAt: string | null;
+  acknowledgedBy: string | null;
+  acknowledgeNote: string | null;
+  closedAt: string | null;
+  closedBy: string | null;
+  closeNote: string | null;
+  /** Address of the chart with the point selected, as the e-mails link it. */
+  chartUrl: string;
+}
+
+/** GET /api/v1/alarms: the newest alarms of the filter and the count of every status. */
+export interface AlarmList {
+  items: AlarmView[];
+  counts: Partial<Record<AlarmStatus, number>>;
+}
