@@ -1,12 +1,13 @@
 import { afterAll, describe, expect, it } from 'vitest';
-import { and, eq, sql } from 'drizzle-orm';
+import { and, eq, inArray, sql } from 'drizzle-orm';
 import { createDatabase } from '../db/client';
-import { alarmSubscriptions, alarms, lots, mailOutbox, measurements, spcRunItems, spcRuns, spcSnapshots } from '../db/schema';
+import { alarmSubscriptions, alarms, auditEvents, lots, mailOutbox, measurements, spcRunItems, spcRuns, spcSnapshots } from '../db/schema';
 import { databaseUrl } from '@tests/support/api';
 import { computeCharacteristicChart } from './characteristic-chart';
 import { runCharacteristic } from './run';
 import { createRunRow, createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from './testing/plant';
 import { raiseOutOfSpecAlarms } from './hooks';
+import { DATA_CHANGED_NOTE } from './alarms';
 import { queueDigests } from '../mail/notify';
 import { refersTo } from '../mail/outbox';
 
@@ -145,6 +146,17 @@ describe('one characteristic of a run', () => {
     for (const a of open) {
       expect(after.find((x) => x.id === a.id)).toMatchObject({ status: 'closed', resolution: 'data-changed', closeNote: expect.stringMatching(/no longer show/) });
     }
+    // Each closing is in the audit trail, by no one, with the reason the alarm carries.
+    const trail = await db
+      .select({ entityId: auditEvents.entityId, actorId: auditEvents.actorId, before: auditEvents.before, after: auditEvents.after, reason: auditEvents.reason })
+      .from(auditEvents)
+      .where(and(eq(auditEvents.entity, 'alarm'), eq(auditEvents.action, 'close-automatically'), inArray(auditEvents.entityId, open.map((a) => String(a.id)))))
+      .orderBy(auditEvents.entityId);
+    expect(trail).toEqual(
+      open
+        .map((a) => ({ entityId: String(a.id), actorId: null, before: { status: 'open' }, after: { status: 'closed', resolution: 'data-changed' }, reason: DATA_CHANGED_NOTE }))
+        .sort((x, y) => x.entityId.localeCompare(y.entityId)),
+    );
   });
 });
 
