@@ -159,8 +159,8 @@ describe('production lines', () => {
     expect((await request(api.app).get('/api/v1/lines').set(h)).body.items.find((l: { id: number }) => l.id === line.id).active).toBe(false);
     const refused = await upload(`${product.code}-1`);
     expect(refused.status).toBe(422);
-    expect(refused.body.errors[0]).toMatchObject({ column: 'line' });
-    expect(refused.body.errors[0].message).toMatch(new RegExp(`^Unknown production line "${line.code}"`));
+    expect(refused.body.details[0]).toMatchObject({ column: 'line' });
+    expect(refused.body.details[0].message).toMatch(new RegExp(`^Unknown production line "${line.code}"`));
 
     const on = await request(api.app).patch(`/api/v1/lines/${line.id}`).set(h).send({ active: true });
     expect(on.body.active).toBe(true);
@@ -353,7 +353,7 @@ describe('characteristics', () => {
     const later = csv.replaceAll(`${product.code}-1`, `${product.code}-2`);
     const refused = await request(api.app).post('/api/v1/uploads').set(h).attach('file', Buffer.from(later), `${product.code}-later.csv`);
     expect(refused.status).toBe(422);
-    expect(refused.body.errors[0]).toMatchObject({ column: 'characteristic', message: `Characteristic ${product.code}-RC7 is deactivated and takes no more results; an administrator can reactivate it` });
+    expect(refused.body.details[0]).toMatchObject({ column: 'characteristic', message: `Characteristic ${product.code}-RC7 is deactivated and takes no more results; an administrator can reactivate it` });
 
     const trail = await auditOf('characteristic', id);
     expect(trail.map((e) => e.action)).toEqual(['create', 'update', 'update', 'update', 'update', 'deactivate']);

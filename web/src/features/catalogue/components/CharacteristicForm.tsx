@@ -6,7 +6,7 @@ import { chartTypes, chartTypeSizes, ruleSets, SUBGROUP_SIZE_MAX, suggestedChart
 import type { TestMethodEntry } from '@web/features/test-methods/api/test-methods';
 import { chartTypeLabels, ruleSetLabels } from '@web/features/charts/lib/format';
 import { TextArea } from '@web/features/charts/components/TextArea';
-import { showServerErrors } from '@web/features/records/lib/server-errors';
+import { showServerErrors } from '@web/lib/forms';
 import { browserTimeZone } from '@web/features/records/lib/date-time';
 import { useCreateCharacteristic, useUpdateCharacteristic, type CatalogueCharacteristic, type CatalogueProduct } from '../api/catalogue';
 import { characteristicFormSchema, emptySpec, newCharacteristicFormSchema, type CharacteristicFormValues } from '../lib/form-schemas';
@@ -122,7 +122,7 @@ export function CharacteristicForm({
     try {
       onSaved(characteristic ? await update.mutateAsync({ id: characteristic.id, changes: input }) : await create.mutateAsync(input));
     } catch (error) {
-      showServerErrors(error, setError, fields, (message) => setError('root', { message }));
+      showServerErrors(error, setError, fields);
     }
   });
 

@@ -1,7 +1,7 @@
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { createLineSchema } from '@shared/schemas/catalogue';
-import { showServerErrors } from '@web/features/records/lib/server-errors';
+import { showServerErrors } from '@web/lib/forms';
 import { useCreateLine, useUpdateLine, type CatalogueLine } from '../api/catalogue';
 import { Field, Input } from '@web/components/ui/Field';
 import { Alert } from '@web/components/ui/Alert';
@@ -24,7 +24,7 @@ export function LineForm({ line, onSaved, onCancel }: { line?: CatalogueLine; on
     try {
       onSaved(line ? await update.mutateAsync({ id: line.id, changes: input }) : await create.mutateAsync(input));
     } catch (error) {
-      showServerErrors(error, setError, fields, (message) => setError('root', { message }));
+      showServerErrors(error, setError, fields);
     }
   });
 

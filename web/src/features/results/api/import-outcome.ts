@@ -7,11 +7,11 @@ export type UploadOutcome =
   | { kind: 'rejected'; id: number | null; message: string; errors: RowError[] }
   | { kind: 'duplicate'; uploadId: number };
 
-/** The 422 and 409 answers of the import path, shared by uploads and manual entry. */
+/** The 422 and 409 answers of the import path, shared by uploads and manual entry: the rows to correct are the details that name a row. */
 export function fileOutcome(error: unknown): Exclude<UploadOutcome, { kind: 'imported' }> | null {
   if (!(error instanceof ApiError)) return null;
-  const body = error.body as { errors?: RowError[]; id?: number | null; uploadId?: number } | undefined;
-  if (error.status === 422 && Array.isArray(body?.errors)) return { kind: 'rejected', id: body.id ?? null, message: error.message, errors: body.errors };
-  if (error.status === 409 && typeof body?.uploadId === 'number') return { kind: 'duplicate', uploadId: body.uploadId };
+  const errors: RowError[] = error.details.flatMap((d) => (d.row === undefined ? [] : [{ row: d.row, column: d.column ?? '', message: d.message }]));
+  if (error.status === 422 && errors.length) return { kind: 'rejected', id: error.uploadId ?? null, message: error.message, errors };
+  if (error.status === 409 && error.uploadId !== undefined) return { kind: 'duplicate', uploadId: error.uploadId };
   return null;
 }
