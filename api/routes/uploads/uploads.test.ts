@@ -94,11 +94,11 @@ describe('POST /api/v1/uploads', () => {
     const stored = await api.db.select().from(lots).where(eq(lots.lotNumber, `${lot}-0`));
     expect(stored).toHaveLength(0);
 
-    const report = await request(api.app).get(`/api/v1/uploads/${res.body.id}/errors.csv`).set(await as('technician'));
+    const report = await request(api.app).get(`/api/v1/uploads/${res.body.uploadId}/errors.csv`).set(await as('technician'));
     expect(report.text.split('\r\n')[0]).toBe('row,column,message');
     expect(report.text).toMatch(/^5,value,/m);
     const history = await request(api.app).get('/api/v1/uploads?status=rejected').set(await as('auditor'));
-    expect(history.body.items.find((u: { id: number }) => u.id === res.body.id)).toMatchObject({ status: 'rejected', rowsTotal: 6, rowsRejected: 1, rowsImported: 0 });
+    expect(history.body.items.find((u: { id: number }) => u.id === res.body.uploadId)).toMatchObject({ status: 'rejected', rowsTotal: 6, rowsRejected: 1, rowsImported: 0 });
   });
 
   it('reads European exports: ";" delimiter, decimal comma and dd.mm.yyyy HH:MM in plant time', async () => {
@@ -191,7 +191,8 @@ describe('POST /api/v1/uploads', () => {
     expect(byRow[11]).toMatch(/^replicate: Duplicate: row 10 already gives/);
     expect(byRow[12]).toMatch(/^tested_at: Test time is before the lot was produced/);
     expect(byRow[13]).toMatch(/^line: Unknown production line "L9" \(lines: .*\bL1\b.*\)$/);
-    const report = await request(api.app).get(`/api/v1/uploads/${res.body.id}/errors.csv`).set(await as('technician'));
+    const report = await request(api.app).get(`/api/v1/uploads/${res.body.uploadId}/errors.csv`).set(await as('technician'));
+    expect(report.status).toBe(200);
     expect(report.text).not.toMatch(/(^|,)=1\+1/m);
   });
 
