@@ -1,5 +1,6 @@
 // The words of alarm e-mails and the morning digest: what happened, which lot, the value and the
 // limit, and a link to the chart — as plain text and as simple HTML with the same content.
+import type { Finding } from '../spc/alarms';
 
 /** Short names of the signals, in the trade's words. */
 export const signalNames: Record<string, string> = {
@@ -16,7 +17,8 @@ export const signalNames: Record<string, string> = {
 
 export const JUDGEMENT_NOTE = 'Prismline supports the decision of trained staff; it does not replace their judgement, the product specification or the plant procedures.';
 
-export interface AlarmMailFacts {
+/** An alarm as its finding describes it, with the characteristic, product and lot it concerns. */
+export interface AlarmMailFacts extends Pick<Finding, 'pointIndex' | 'statistic' | 'values' | 'limitName' | 'limitValue' | 'description' | 'lateReason'> {
   alarmId: number;
   rule: string;
   characteristicId: number;
@@ -30,13 +32,6 @@ export interface AlarmMailFacts {
   lotNumber: string;
   producedAt: Date;
   shift: string | null;
-  pointIndex: number;
-  statistic: number;
-  values: number[];
-  limitName: string | null;
-  limitValue: number | null;
-  description: string;
-  lateReason: string | null;
 }
 
 export interface Composed {
