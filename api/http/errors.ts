@@ -1,21 +1,32 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { ZodError, type ZodType } from 'zod';
+import type { ErrorBody, ErrorDetail } from '@shared/schemas/errors';
 import { logger } from '../logger';
 
-/** An error whose message is meant for the user. */
+export type { ErrorBody, ErrorDetail } from '@shared/schemas/errors';
+
+/** An error whose message is meant for the user; answered as `{ error, details?, uploadId? }`. */
 export class HttpError extends Error {
   constructor(
     readonly status: number,
     message: string,
-    readonly details?: unknown,
+    readonly details?: readonly ErrorDetail[],
+    /** What the refusal concerns, beyond the message (see ErrorBody). */
+    readonly about: Pick<ErrorBody, 'uploadId'> = {},
   ) {
     super(message);
   }
+
+  body(): ErrorBody {
+    return { error: this.message, ...(this.details?.length ? { details: [...this.details] } : {}), ...this.about };
+  }
 }
 
-export const badRequest = (message: string, details?: unknown) => new HttpError(400, message, details);
+export const badRequest = (message: string, details?: readonly ErrorDetail[]) => new HttpError(400, message, details);
+/** A 400 about one field: the message names it, the detail puts it under the field in a form. */
+export const fieldError = (path: string, message: string) => badRequest(`${path}: ${message}`, [{ path, message }]);
 export const notFound = (what: string) => new HttpError(404, `${what} not found`);
-export const conflict = (message: string) => new HttpError(409, message);
+export const conflict = (message: string, details?: readonly ErrorDetail[]) => new HttpError(409, message, details);
 
 /** A unique index refused the row: PostgreSQL's 23505, as thrown by node-postgres or wrapped by Drizzle. */
 export const isUniqueViolation = (err: unknown) => (err as { code?: string })?.code === '23505' || (err as { cause?: { code?: string } })?.cause?.code === '23505';
@@ -35,7 +46,7 @@ function zodToHttp(error: ZodError): HttpError {
 }
 
 export const notFoundApi: RequestHandler = (req, res) => {
-  res.status(404).json({ error: `No API endpoint ${req.method} ${req.path}` });
+  res.status(404).json(new HttpError(404, `No API endpoint ${req.method} ${req.path}`).body());
 };
 
 const outageCodes = new Set(['ECONNREFUSED', 'ECONNRESET', '57P01', '57P03', 'ETIMEDOUT']);
@@ -52,24 +63,15 @@ function isDatabaseOutage(err: unknown): boolean {
 /** Last handler: the user sees a clear message, never a stack trace or SQL. */
 export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   if (err instanceof ZodError) err = zodToHttp(err);
-  if (err instanceof HttpError) {
-    res.status(err.status).json(err.details ? { error: err.message, details: err.details } : { error: err.message });
-    return;
-  }
+  const answer = (e: HttpError) => void res.status(e.status).json(e.body());
+  if (err instanceof HttpError) return answer(err);
   const status = typeof err?.status === 'number' && err.status >= 400 && err.status < 500 ? err.status : 500;
-  if (status === 413) {
-    res.status(413).json({ error: 'The request is too large' });
-    return;
-  }
-  if (status < 500) {
-    res.status(status).json({ error: err.expose && err.message ? err.message : 'The request could not be read' });
-    return;
-  }
+  if (status === 413) return answer(new HttpError(413, 'The request is too large'));
+  if (status < 500) return answer(new HttpError(status, err.expose && err.message ? err.message : 'The request could not be read'));
   if (isDatabaseOutage(err)) {
     logger.warn({ path: req.path, err: (err as Error).message }, 'database unavailable');
-    res.status(503).json({ error: 'The database is not answering; nothing was changed. Try again in a minute' });
-    return;
+    return answer(new HttpError(503, 'The database is not answering; nothing was changed. Try again in a minute'));
   }
   logger.error({ err, path: req.path }, 'unhandled error');
-  res.status(500).json({ error: 'Something went wrong on the server; the error has been logged' });
+  answer(new HttpError(500, 'Something went wrong on the server; the error has been logged'));
 };

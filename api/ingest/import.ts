@@ -183,8 +183,7 @@ async function importOn(client: pg.PoolClient, reader: pg.PoolClient, req: Impor
   if (uploadId !== null) await client.query('update uploads set rows_total = $2, rows_imported = $3 where id = $1', [uploadId, rowsTotal, store.rowsImported]);
   await recordAudit(tx, {
     actorId: req.actorId,
-    action: req.source === 'upload' ? 'import' : 'manual entry',
-    entity: req.source === 'upload' ? 'upload' : 'measurement',
+    ...(req.source === 'upload' ? ({ entity: 'upload', action: 'import' } as const) : ({ entity: 'measurement', action: 'manual entry' } as const)),
     entityId: uploadId ?? store.measurementIds[0],
     after: { fileName: req.fileName, rowsImported: store.rowsImported, lots: store.lotsTouched },
   });

@@ -1,7 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import nodemailer, { type SendMailOptions } from 'nodemailer';
-import { parseMessage, decodeWords } from './mime';
-import { startFakeSmtp } from './fake-smtp';
+import { readMessage, startFakeSmtp } from './fake-smtp';
 import { backoffSeconds, createTransport } from './outbox';
 import { composeAlarmMail, type AlarmMailFacts } from './compose';
 
@@ -24,7 +23,7 @@ describe('reading what nodemailer writes', () => {
         html: '<p>X̄ &amp; R</p>',
         textEncoding,
       });
-      const m = parseMessage(raw);
+      const m = await readMessage(raw);
       expect(m.subject).toBe('Prismline alarm: Beyond a control limit — HVL25-FLOW, lot L1-261130-E1 (X̄)');
       expect(m.to).toEqual(['manager@harrowvale.example', 'lead@harrowvale.example']);
       expect(m.from).toBe('prismline@localhost');
@@ -33,9 +32,15 @@ describe('reading what nodemailer writes', () => {
     }
   });
 
-  it('decodes RFC 2047 encoded words of both kinds and joins adjacent ones (RFC 2047 section 6.2)', () => {
-    expect(decodeWords('=?UTF-8?B?WMyE?= =?UTF-8?Q?_chart?=')).toBe('X̄ chart');
-    expect(decodeWords('plain text')).toBe('plain text');
+  it('decodes RFC 2047 encoded words of both kinds and joins adjacent ones (RFC 2047 section 6.2)', async () => {
+    const withSubject = (subject: string) => readMessage(`From: prismline@localhost\r\nSubject: ${subject}\r\n\r\nBody\r\n`);
+    expect((await withSubject('=?UTF-8?B?WMyE?= =?UTF-8?Q?_chart?=')).subject).toBe('X̄ chart');
+    expect((await withSubject('plain text')).subject).toBe('plain text');
+  });
+
+  it('reads a display name with a comma as one recipient (RFC 5322 quoted string)', async () => {
+    const raw = await build({ from: 'prismline@localhost', to: ['"Lead, Lab" <lead@harrowvale.example>', 'manager@harrowvale.example'], subject: 'x', text: 'x' });
+    expect((await readMessage(raw)).to).toEqual(['lead@harrowvale.example', 'manager@harrowvale.example']);
   });
 });
 

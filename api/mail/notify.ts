@@ -1,9 +1,10 @@
 // Who is told about which alarm: immediate messages go into the outbox in the transaction that
 // raised the alarm; the digest collects a plant's new alarms of the last 24 hours.
 import { sql } from 'drizzle-orm';
-import type { Executor } from '../spc/db';
-import { arr } from '../spc/db';
+import type { Database } from '../db/client';
+import { arr } from '../db/sql';
 import { composeAlarmMail, composeDigest, type AlarmMailFacts, type DigestEntry } from './compose';
+import { queueMail, type OutboxMail } from './outbox';
 
 type FactsRow = {
   alarm_id: number;
@@ -74,20 +75,20 @@ const subscriberFacts = (kind: 'immediate' | 'digest', where: ReturnType<typeof 
   order by a.id, u.id, s.product_id nulls last`;
 
 /** One message per alarm and subscriber; the dedupe key makes a second call a no-op. */
-export async function queueAlarmMail(tx: Executor, alarmIds: number[], publicUrl: string): Promise<number> {
+export async function queueAlarmMail(tx: Pick<Database, 'execute'>, alarmIds: number[], publicUrl: string): Promise<number> {
   if (!alarmIds.length) return 0;
   const res = await tx.execute<FactsRow>(subscriberFacts('immediate', sql`a.id = any(${arr(alarmIds)}::int[])`));
   if (!res.rows.length) return 0;
-  const mails = res.rows.map((r) => ({ r, m: composeAlarmMail(factsOf(r), publicUrl, r.scope) }));
-  const inserted = await tx.execute(sql`
-    insert into mail_outbox (dedupe_key, kind, user_id, to_address, subject, text_body, html_body, alarm_ids)
-    select u.key, 'alarm', u.user_id, u.email, u.subject, u.text_body, u.html_body, array[u.alarm_id]
-    from unnest(${arr(mails.map(({ r }) => `alarm:${r.alarm_id}:user:${r.user_id}`))}::text[], ${arr(mails.map(({ r }) => r.user_id))}::int[],
-                ${arr(mails.map(({ r }) => r.email))}::text[], ${arr(mails.map(({ m }) => m.subject))}::text[], ${arr(mails.map(({ m }) => m.text))}::text[],
-                ${arr(mails.map(({ m }) => m.html))}::text[], ${arr(mails.map(({ r }) => r.alarm_id))}::int[])
-         as u(key, user_id, email, subject, text_body, html_body, alarm_id)
-    on conflict (dedupe_key) do nothing`);
-  return inserted.rowCount ?? 0;
+  return queueMail(
+    tx,
+    res.rows.map((r) => ({
+      kind: 'alarm',
+      dedupeKey: `alarm:${r.alarm_id}:user:${r.user_id}`,
+      to: { address: r.email, userId: r.user_id },
+      ...composeAlarmMail(factsOf(r), publicUrl, r.scope),
+      refs: { alarmIds: [r.alarm_id] },
+    })),
+  );
 }
 
 /** The plant's local calendar date of an instant, yyyy-mm-dd. */
@@ -96,7 +97,7 @@ export function localDate(at: Date, timeZone: string): string {
 }
 
 /** Queues each digest subscriber's message of the plant's alarms raised in the 24 hours before `now`. */
-export async function queueDigests(db: Executor, opts: { plantId: number; timeZone: string; now: Date; publicUrl: string }): Promise<number> {
+export async function queueDigests(db: Pick<Database, 'execute'>, opts: { plantId: number; timeZone: string; now: Date; publicUrl: string }): Promise<number> {
   const from = new Date(opts.now.getTime() - 24 * 3600 * 1000);
   const day = localDate(opts.now, opts.timeZone);
   const res = await db.execute<FactsRow>(
@@ -108,15 +109,16 @@ export async function queueDigests(db: Executor, opts: { plantId: number; timeZo
     u.entries.push({ ...factsOf(r), createdAt: new Date(r.created_at) });
     byUser.set(r.user_id, u);
   }
-  let queued = 0;
+  const mails: OutboxMail[] = [];
   for (const [userId, u] of byUser) {
     u.entries.sort((a, b) => a.characteristicCode.localeCompare(b.characteristicCode) || a.pointIndex - b.pointIndex);
-    const m = composeDigest(u.entries, opts.publicUrl, { from, to: opts.now }, day);
-    const r = await db.execute(sql`
-      insert into mail_outbox (dedupe_key, kind, user_id, to_address, subject, text_body, html_body, alarm_ids)
-      values (${`digest:${opts.plantId}:${day}:user:${userId}`}, 'digest', ${userId}, ${u.email}, ${m.subject}, ${m.text}, ${m.html}, ${arr(u.entries.map((e) => e.alarmId))}::int[])
-      on conflict (dedupe_key) do nothing`);
-    queued += r.rowCount ?? 0;
+    mails.push({
+      kind: 'digest',
+      dedupeKey: `digest:${opts.plantId}:${day}:user:${userId}`,
+      to: { address: u.email, userId },
+      ...composeDigest(u.entries, opts.publicUrl, { from, to: opts.now }, day),
+      refs: { alarmIds: u.entries.map((e) => e.alarmId) },
+    });
   }
-  return queued;
+  return queueMail(db, mails);
 }

@@ -1,9 +1,12 @@
-// Sends what the outbox holds. A message is claimed for a while (so two senders never send it at
+// The outbox: any message (an alarm, the morning digest, later a report or a lot hold) is queued in
+// the transaction that decides it, with what it is about, and sent afterwards. A message is claimed for a while (so two senders never send it at
 // the same time), sent, and marked sent; a failure is kept with its error and tried again later,
 // with a growing pause, for as long as it takes — a message is never dropped.
 import { sql } from 'drizzle-orm';
 import nodemailer, { type Transporter } from 'nodemailer';
 import type { Database } from '../db/client';
+import type { MailKind, MailRefs } from '../db/schema';
+import { arr } from '../db/sql';
 import { logger } from '../logger';
 
 /** First retry after this; doubles with every failure up to MAX_BACKOFF_S. */
@@ -18,6 +21,40 @@ export function createTransport(smtpUrl: string): Transporter {
 }
 
 export const backoffSeconds = (attempts: number) => Math.min(MAX_BACKOFF_S, BASE_BACKOFF_S * 2 ** Math.max(0, attempts - 1));
+
+/** One message to queue. */
+export interface OutboxMail {
+  kind: MailKind;
+  /** At most one message per key: queuing the same key again does nothing (e.g. `alarm:7:user:3`). */
+  dedupeKey: string;
+  /** The address, and the user it belongs to when it is one. */
+  to: { address: string; userId?: number | null };
+  subject: string;
+  text: string;
+  html: string;
+  /** What the message is about. */
+  refs: MailRefs;
+}
+
+/** Queues messages in the caller's transaction, so they are sent only if it commits; returns how many were new. */
+export async function queueMail(tx: Pick<Database, 'execute'>, mail: OutboxMail | readonly OutboxMail[]): Promise<number> {
+  const mails: readonly OutboxMail[] = Array.isArray(mail) ? mail : [mail as OutboxMail];
+  if (!mails.length) return 0;
+  const column = <T>(pick: (m: OutboxMail) => T) => arr(mails.map(pick));
+  const inserted = await tx.execute(sql`
+    insert into mail_outbox (dedupe_key, kind, user_id, to_address, subject, text_body, html_body, refs)
+    select * from unnest(${column((m) => m.dedupeKey)}::text[], ${column((m) => m.kind)}::text[], ${column((m) => m.to.userId ?? null)}::int[],
+                         ${column((m) => m.to.address)}::text[], ${column((m) => m.subject)}::text[], ${column((m) => m.text)}::text[],
+                         ${column((m) => m.html)}::text[], ${column((m) => JSON.stringify(m.refs))}::jsonb[])
+    on conflict (dedupe_key) do nothing`);
+  return inserted.rowCount ?? 0;
+}
+
+type ListRefs = { [K in keyof MailRefs]-?: NonNullable<MailRefs[K]> extends number[] ? K : never }[keyof MailRefs];
+
+/** Messages about any of these alarms (or lots): a condition on `mail_outbox`. */
+export const refersTo = (list: ListRefs, ids: readonly number[]) =>
+  sql`exists (select from jsonb_array_elements(mail_outbox.refs -> ${list}::text) ref where ref::int = any(${arr([...ids])}::int[]))`;
 
 type OutboxRow = { id: number; to_address: string; subject: string; text_body: string; html_body: string; attempts: number };
 

@@ -6,7 +6,7 @@ import { z } from 'zod';
 import { asc, eq } from 'drizzle-orm';
 import type { Database } from '@api/db/client';
 import { characteristics, plants, productionLines, products, testMethods } from '@api/db/schema';
-import { badRequest, HttpError, isUniqueViolation } from '@api/http/errors';
+import { badRequest, fieldError, HttpError, isUniqueViolation } from '@api/http/errors';
 
 export type Tx = Parameters<Parameters<Database['transaction']>[0]>[0];
 
@@ -14,7 +14,6 @@ export type Tx = Parameters<Parameters<Database['transaction']>[0]>[0];
 type CodeOwner = 'Line' | 'Product' | 'Characteristic';
 
 /** A refusal that concerns one field of the request, so a form can show it under that field. */
-export const fieldError = (path: string, message: string) => badRequest(`${path}: ${message}`, [{ path, message }]);
 export const fieldConflict = (path: string, message: string) => new HttpError(409, message, [{ path, message }]);
 
 /**

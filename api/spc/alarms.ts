@@ -169,7 +169,8 @@ export async function reconcileAlarms(
     else if (a.status === 'closed' && a.resolution === 'data-changed') toReopen.push({ id: a.id, f });
     else if (a.status !== 'closed' && (a.point_index !== f.pointIndex || a.statistic !== f.statistic || a.description !== f.description)) toUpdate.push({ id: a.id, f });
   }
-  const toResolve = existing.rows.filter((a) => a.status !== 'closed' && !wanted.has(keyOf(opts.characteristicId, a.rule, a.chart, a.lot_id))).map((a) => a.id);
+  const gone = existing.rows.filter((a) => a.status !== 'closed' && !wanted.has(keyOf(opts.characteristicId, a.rule, a.chart, a.lot_id)));
+  const toResolve = gone.map((a) => a.id);
 
   let raised: number[] = [];
   if (toInsert.length) {
@@ -207,6 +208,10 @@ export async function reconcileAlarms(
     await tx.execute(sql`
       update alarms set status = 'closed', resolution = 'data-changed', closed_at = now(), close_note = ${DATA_CHANGED_NOTE}, updated_at = now()
       where id = any(${arr(toResolve)}::int[])`);
+    await recordAudit(
+      tx,
+      gone.map((a) => ({ actorId: null, action: 'close-automatically', entity: 'alarm', entityId: a.id, before: { status: a.status }, after: { status: 'closed', resolution: 'data-changed' }, reason: DATA_CHANGED_NOTE })),
+    );
   }
   return { raised, reopened: toReopen.map((r) => r.id), resolved: toResolve };
 }

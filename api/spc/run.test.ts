@@ -1,13 +1,15 @@
 import { afterAll, describe, expect, it } from 'vitest';
-import { and, eq, sql } from 'drizzle-orm';
+import { and, eq, inArray, sql } from 'drizzle-orm';
 import { createDatabase } from '../db/client';
-import { alarmSubscriptions, alarms, lots, mailOutbox, measurements, spcRunItems, spcRuns, spcSnapshots } from '../db/schema';
+import { alarmSubscriptions, alarms, auditEvents, lots, mailOutbox, measurements, spcRunItems, spcRuns, spcSnapshots } from '../db/schema';
 import { databaseUrl } from '@tests/support/api';
 import { computeCharacteristicChart } from './chart-load';
 import { runCharacteristic } from './run';
 import { createRunRow, createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from './testing/plant';
 import { raiseOutOfSpecAlarms } from './results-changed';
+import { DATA_CHANGED_NOTE } from './alarms';
 import { queueDigests } from '../mail/notify';
+import { refersTo } from '../mail/outbox';
 
 const db = createDatabase(databaseUrl(), 4);
 afterAll(async () => {
@@ -27,7 +29,7 @@ async function run(characteristicId: number) {
 
 const alarmsOf = (characteristicId: number) => db.select().from(alarms).where(eq(alarms.characteristicId, characteristicId)).orderBy(alarms.id);
 const outboxFor = (alarmIds: number[]) =>
-  db.select().from(mailOutbox).where(sql`${mailOutbox.alarmIds} && ${sql.param(alarmIds)}::int[]`).orderBy(mailOutbox.id);
+  db.select().from(mailOutbox).where(refersTo('alarmIds', alarmIds)).orderBy(mailOutbox.id);
 
 async function subscribeManager(productId: number, kinds: { immediate: boolean; digest: boolean }) {
   const userId = await userIdByEmail(db, 'manager@harrowvale.example');
@@ -85,7 +87,7 @@ describe('one characteristic of a run', () => {
     expect(await alarmsOf(t.characteristicId)).toEqual(before);
     // The same messages, none added: the test server's mail sender may be delivering them meanwhile,
     // so their delivery state (attempts, lock, sent time) is not compared.
-    const message = (m: (typeof mails)[number]) => ({ id: m.id, kind: m.kind, dedupeKey: m.dedupeKey, userId: m.userId, alarmIds: m.alarmIds, subject: m.subject });
+    const message = (m: (typeof mails)[number]) => ({ id: m.id, kind: m.kind, dedupeKey: m.dedupeKey, userId: m.userId, refs: m.refs, subject: m.subject });
     expect((await outboxFor(before.map((a) => a.id))).map(message)).toEqual(mails.map(message));
     const [snapAfter] = await db.select().from(spcSnapshots).where(eq(spcSnapshots.characteristicId, t.characteristicId));
     expect(snapAfter).toEqual(snapBefore);
@@ -123,7 +125,7 @@ describe('one characteristic of a run', () => {
     const queued = await queueDigests(db, { plantId: plant.rows[0].id, timeZone: plant.rows[0].time_zone, now, publicUrl });
     expect(queued).toBeGreaterThanOrEqual(1);
     expect(await queueDigests(db, { plantId: plant.rows[0].id, timeZone: plant.rows[0].time_zone, now, publicUrl })).toBe(0);
-    const digests = await db.select().from(mailOutbox).where(and(eq(mailOutbox.kind, 'digest'), eq(mailOutbox.userId, userId), sql`${mailOutbox.alarmIds} @> array[${we1.id}]::int[]`));
+    const digests = await db.select().from(mailOutbox).where(and(eq(mailOutbox.kind, 'digest'), eq(mailOutbox.userId, userId), refersTo('alarmIds', [we1.id])));
     expect(digests).toHaveLength(1);
     expect(digests[0].textBody).toContain(t.code);
   });
@@ -144,6 +146,17 @@ describe('one characteristic of a run', () => {
     for (const a of open) {
       expect(after.find((x) => x.id === a.id)).toMatchObject({ status: 'closed', resolution: 'data-changed', closeNote: expect.stringMatching(/no longer show/) });
     }
+    // Each closing is in the audit trail, by no one, with the reason the alarm carries.
+    const trail = await db
+      .select({ entityId: auditEvents.entityId, actorId: auditEvents.actorId, before: auditEvents.before, after: auditEvents.after, reason: auditEvents.reason })
+      .from(auditEvents)
+      .where(and(eq(auditEvents.entity, 'alarm'), eq(auditEvents.action, 'close-automatically'), inArray(auditEvents.entityId, open.map((a) => String(a.id)))))
+      .orderBy(auditEvents.entityId);
+    expect(trail).toEqual(
+      open
+        .map((a) => ({ entityId: String(a.id), actorId: null, before: { status: 'open' }, after: { status: 'closed', resolution: 'data-changed' }, reason: DATA_CHANGED_NOTE }))
+        .sort((x, y) => x.entityId.localeCompare(y.entityId)),
+    );
   });
 });
 

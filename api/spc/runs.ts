@@ -2,7 +2,9 @@
 // run never exists without its jobs (nor jobs without their run).
 import { randomUUID } from 'node:crypto';
 import { sql } from 'drizzle-orm';
+import { drizzle } from 'drizzle-orm/node-postgres';
 import type pg from 'pg';
+import { recordAudit } from '../db/audit';
 import type { Database } from '../db/client';
 import { CHARACTERISTIC_QUEUE, jobSettings, type JobSettings, type SpcQueue } from './queue';
 import type { Executor } from './db';
@@ -68,6 +70,10 @@ export async function startRun(db: Database, queue: SpcQueue, req: StartRunReque
         })),
         { db: { executeSql: (text: string, values: unknown[]) => client.query(text, values) } },
       );
+    }
+    // A run someone started is theirs in the audit trail; the others follow from a change recorded there.
+    if (req.trigger === 'manual') {
+      await recordAudit(drizzle(client), { actorId: req.requestedBy ?? null, action: 'start', entity: 'spc run', entityId: runId, after: { characteristicIds: req.characteristicIds ?? 'all' } });
     }
     await client.query('commit');
     return runId;

@@ -36,20 +36,6 @@ export interface UploadImported {
   rowsImported: number;
 }
 
-/** 422 of POST /api/v1/uploads and /api/v1/measurements: nothing is stored; the rows to correct. */
-export interface UploadRejected {
-  error: string;
-  errors: RowError[];
-  /** The upload kept as evidence; null for a manual entry. */
-  id: number | null;
-}
-
-/** 409 of POST /api/v1/uploads: the same bytes were imported before. */
-export interface UploadDuplicate {
-  error: string;
-  uploadId: number;
-}
-
 /** POST /api/v1/uploads/:id/void */
 export interface UploadVoided {
   id: number;

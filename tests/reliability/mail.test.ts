@@ -23,8 +23,8 @@ const rows = () =>
 describe('sending the outbox', () => {
   it('keeps a message whose send failed, retries it after a growing pause, and sends it exactly once when the relay answers', async () => {
     await cluster.db.execute(sql`
-      insert into mail_outbox (dedupe_key, kind, to_address, subject, text_body, html_body, alarm_ids)
-      select 'k' || g, 'alarm', 'manager@harrowvale.example', 'Alarm ' || g, 'Text ' || g, '<p>' || g || '</p>', '{}' from generate_series(1, 3) g`);
+      insert into mail_outbox (dedupe_key, kind, to_address, subject, text_body, html_body)
+      select 'k' || g, 'alarm', 'manager@harrowvale.example', 'Alarm ' || g, 'Text ' || g, '<p>' || g || '</p>' from generate_series(1, 3) g`);
     const down = { sendMail: async () => Promise.reject(new Error('connect ECONNREFUSED 127.0.0.1:2525')) };
 
     expect(await sendDue(cluster.db, down, 'prismline@localhost')).toEqual({ sent: 0, failed: 3 });
@@ -50,9 +50,9 @@ describe('sending the outbox', () => {
 
   it('takes over a message that a sender claimed and never finished (it died), once the claim has run out', async () => {
     await cluster.db.execute(sql`
-      insert into mail_outbox (dedupe_key, kind, to_address, subject, text_body, html_body, alarm_ids, attempts, locked_until)
-      values ('claimed', 'alarm', 'lead@harrowvale.example', 'Claimed', 'Text', '<p>x</p>', '{}', 1, now() + interval '1 minute'),
-             ('abandoned', 'alarm', 'lead@harrowvale.example', 'Abandoned', 'Text', '<p>x</p>', '{}', 1, now() - interval '1 second')`);
+      insert into mail_outbox (dedupe_key, kind, to_address, subject, text_body, html_body, attempts, locked_until)
+      values ('claimed', 'alarm', 'lead@harrowvale.example', 'Claimed', 'Text', '<p>x</p>', 1, now() + interval '1 minute'),
+             ('abandoned', 'alarm', 'lead@harrowvale.example', 'Abandoned', 'Text', '<p>x</p>', 1, now() - interval '1 second')`);
     const up = createTransport(fake.url);
     expect(await sendDue(cluster.db, up, 'prismline@localhost')).toEqual({ sent: 1, failed: 0 });
     up.close();

@@ -126,7 +126,7 @@ export async function expectWholeResults(db: Database, characteristicIds: number
     alarmCount += open.rows[0].n;
   }
   const doubled = await db.execute<{ n: number }>(sql`
-    select count(*)::int as n from (select alarm_ids[1], user_id from mail_outbox where kind = 'alarm' group by 1, 2 having count(*) > 1) d`);
+    select count(*)::int as n from (select refs -> 'alarmIds' -> 0, user_id from mail_outbox where kind = 'alarm' group by 1, 2 having count(*) > 1) d`);
   if (doubled.rows[0].n) problems.push(`${doubled.rows[0].n} alarms e-mailed twice to one person`);
   const mails = await db.execute<{ n: number }>(sql`select count(*)::int as n from mail_outbox where kind = 'alarm'`);
   if (problems.length) throw new Error(problems.join('\n'));

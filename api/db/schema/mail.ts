@@ -1,8 +1,19 @@
 // Who is told about alarms, and the durable outbox of e-mail.
 import { sql } from 'drizzle-orm';
-import { boolean, check, index, integer, pgEnum, pgTable, serial, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core';
+import { boolean, check, index, integer, jsonb, pgEnum, pgTable, serial, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core';
 import { users } from './users';
 import { productionLines, products } from './catalogue';
+
+/** The kinds of message the outbox sends; each has its composer and its dedupe key. */
+export const mailKinds = ['alarm', 'digest'] as const;
+export type MailKind = (typeof mailKinds)[number];
+
+/** What a message is about, so that the messages of an alarm, a lot or a report can be found. */
+export interface MailRefs {
+  alarmIds?: number[];
+  lotIds?: number[];
+  ncrId?: number;
+}
 
 export const mailStatusEnum = pgEnum('mail_status', ['pending', 'sent']);
 
@@ -32,13 +43,13 @@ export const mailOutbox = pgTable(
     id: serial('id').primaryKey(),
     /** One message per alarm and recipient, or per digest day and recipient. */
     dedupeKey: text('dedupe_key').notNull().unique(),
-    kind: text('kind').notNull(),
+    kind: text('kind').$type<MailKind>().notNull(),
     userId: integer('user_id').references(() => users.id),
     toAddress: text('to_address').notNull(),
     subject: text('subject').notNull(),
     textBody: text('text_body').notNull(),
     htmlBody: text('html_body').notNull(),
-    alarmIds: integer('alarm_ids').array().notNull(),
+    refs: jsonb('refs').$type<MailRefs>().notNull().default({}),
     status: mailStatusEnum('status').notNull().default('pending'),
     attempts: integer('attempts').notNull().default(0),
     nextAttemptAt: timestamp('next_attempt_at', { withTimezone: true }).notNull().defaultNow(),

@@ -2,6 +2,7 @@ import request from 'supertest';
 import { afterAll, describe, expect, it } from 'vitest';
 import { and, eq, sql } from 'drizzle-orm';
 import { alarms, alarmSubscriptions, auditEvents, mailOutbox, spcRuns } from '@api/db/schema';
+import { refersTo } from '@api/mail/outbox';
 import { createSpcTestApi, eventually, TEST_PUBLIC_URL } from '@api/spc/testing/api';
 import { createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from '@api/spc/testing/plant';
 
@@ -90,7 +91,7 @@ describe('alarms from uploads', () => {
     expect(up.status).toBe(201);
     const [oos] = await api.db.select().from(alarms).where(and(eq(alarms.characteristicId, t.characteristicId), eq(alarms.rule, 'out-of-spec')));
     expect(oos).toMatchObject({ source: 'ingest', status: 'open', statistic: 131.5, limitName: 'LSL', limitValue: 135, pointIndex: 21 });
-    const [mail] = await api.db.select().from(mailOutbox).where(sql`${mailOutbox.alarmIds} @> array[${oos.id}]::int[]`);
+    const [mail] = await api.db.select().from(mailOutbox).where(refersTo('alarmIds', [oos.id]));
     expect(mail).toMatchObject({ toAddress: 'manager@harrowvale.example', kind: 'alarm' });
 
     const run = await eventually(async () => {

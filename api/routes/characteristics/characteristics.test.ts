@@ -186,7 +186,7 @@ describe('characteristics', () => {
     const later = csv.replaceAll(`${product.code}-1`, `${product.code}-2`);
     const refused = await request(api.app).post('/api/v1/uploads').set(h).attach('file', Buffer.from(later), `${product.code}-later.csv`);
     expect(refused.status).toBe(422);
-    expect(refused.body.errors[0]).toMatchObject({ column: 'characteristic', message: `Characteristic ${product.code}-RC7 is deactivated and takes no more results; an administrator can reactivate it` });
+    expect(refused.body.details[0]).toMatchObject({ column: 'characteristic', message: `Characteristic ${product.code}-RC7 is deactivated and takes no more results; an administrator can reactivate it` });
 
     const trail = await auditOf('characteristic', id);
     expect(trail.map((e) => e.action)).toEqual(['create', 'update', 'update', 'update', 'update', 'deactivate']);

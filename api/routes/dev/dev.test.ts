@@ -12,9 +12,9 @@ describe('GET /api/v1/dev/outbox', () => {
   it('lists what the fake SMTP server received from the outbox: recipients, subject, text and HTML', async () => {
     const key = `dev-test:${Date.now()}`;
     await api.db.execute(sql`
-      insert into mail_outbox (dedupe_key, kind, to_address, subject, text_body, html_body, alarm_ids)
+      insert into mail_outbox (dedupe_key, kind, to_address, subject, text_body, html_body)
       values (${key}, 'alarm', 'manager@harrowvale.example', ${`Prismline alarm: Beyond a control limit — ${key}`}, ${'Lot L1-1: X̄ = 158.5 mm is above the UCL 151.2 mm.\nChart: http://x/charts/1?point=3'},
-              ${'<p>Lot L1-1: X̄ = 158.5 mm</p>'}, '{}')`);
+              ${'<p>Lot L1-1: X̄ = 158.5 mm</p>'})`);
     const h = { authorization: `Bearer ${await api.tokenFor('admin')}` };
     const message = await eventually(async () => {
       const res = await request(base).get('/api/v1/dev/outbox').set(h);

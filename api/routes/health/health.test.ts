@@ -25,8 +25,8 @@ describe('GET /api/health', () => {
     const down = await health();
     expect(down.status).toBe(503);
     expect(down.body.status).toBe('unavailable');
-    expect(down.body.reason).toMatch(/Database unavailable/);
-    expect(down.body.reason).not.toMatch(/\n\s+at /);
+    expect(down.body.error).toMatch(/Database unavailable/);
+    expect(down.body.error).not.toMatch(/\n\s+at /);
     // Any other request fails plainly too: no stack trace, no SQL, no connection string.
     const products = await fetch(`${baseUrl}/api/v1/products`, { headers: { authorization: `Bearer ${login.token}` } });
     expect(products.status).toBe(503);

@@ -2,7 +2,7 @@ import { Router } from 'express';
 import { sql } from 'drizzle-orm';
 import type { Database } from '@api/db/client';
 
-/** GET /api/health: 200 while the database answers, 503 with the reason when it does not. */
+/** GET /api/health: 200 while the database answers, 503 with the reason as `error` when it does not. */
 export function healthRouter(db: Database): Router {
   const router = Router();
   router.get('/', async (_req, res) => {
@@ -13,7 +13,7 @@ export function healthRouter(db: Database): Router {
       ]);
       res.json({ status: 'ok' });
     } catch (err) {
-      res.status(503).json({ status: 'unavailable', reason: `Database unavailable: ${(err as Error).message}` });
+      res.status(503).json({ error: `Database unavailable: ${(err as Error).message}`, status: 'unavailable' });
     }
   });
   return router;

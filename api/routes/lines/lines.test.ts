@@ -106,8 +106,8 @@ describe('production lines', () => {
     expect((await request(api.app).get('/api/v1/lines').set(h)).body.items.find((l: { id: number }) => l.id === line.id).active).toBe(false);
     const refused = await upload(`${product.code}-1`);
     expect(refused.status).toBe(422);
-    expect(refused.body.errors[0]).toMatchObject({ column: 'line' });
-    expect(refused.body.errors[0].message).toMatch(new RegExp(`^Unknown production line "${line.code}"`));
+    expect(refused.body.details[0]).toMatchObject({ column: 'line' });
+    expect(refused.body.details[0].message).toMatch(new RegExp(`^Unknown production line "${line.code}"`));
 
     const on = await request(api.app).patch(`/api/v1/lines/${line.id}`).set(h).send({ active: true });
     expect(on.body.active).toBe(true);

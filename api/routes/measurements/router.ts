@@ -5,7 +5,7 @@ import type { CanonicalRow } from '@shared/ingest';
 import type { Database } from '@api/db/client';
 import { characteristics, measurements, testMethods } from '@api/db/schema';
 import { recordAudit } from '@api/db/audit';
-import { badRequest, notFound, parseBody } from '@api/http/errors';
+import { badRequest, fieldError, notFound, parseBody } from '@api/http/errors';
 import { requirePermission, requireSession } from '@api/auth/session';
 import { importResults } from '@api/ingest/import';
 import type { ResultsChanged } from '@api/spc/results-changed';
@@ -81,7 +81,7 @@ export function measurementsRouter(db: Database, resultsChanged: ResultsChanged)
         .where(and(eq(measurements.id, id), isNull(measurements.voidedAt)))
         .for('update', { of: measurements });
       if (!before) throw notFound('Measurement');
-      if (value < before.min || value > before.max) throw badRequest(`value: ${value} ${before.unit} is outside the possible range ${before.min}–${before.max} ${before.unit}`);
+      if (value < before.min || value > before.max) throw fieldError('value', `${value} ${before.unit} is outside the possible range ${before.min}–${before.max} ${before.unit}`);
       const [after] = await tx.update(measurements).set({ value }).where(eq(measurements.id, id)).returning();
       await recordAudit(tx, { actorId: req.user!.id, action: 'correct', entity: 'measurement', entityId: id, before: { value: before.value }, after: { value }, reason });
       return after;

@@ -3,7 +3,6 @@ import type { Database } from '@api/db/client';
 import { HttpError, notFound, parseBody } from '@api/http/errors';
 import { logger } from '@api/logger';
 import { requirePermission, requireSession } from '@api/auth/session';
-import { recordAudit } from '@api/db/audit';
 import type { SpcQueue } from '@api/spc/queue';
 import { getRun, listRuns, startRun } from '@api/spc/runs';
 import { listRunsQuerySchema, runIdParamsSchema, startRunSchema } from './schema';
@@ -22,7 +21,6 @@ export function spcRunsRouter(db: Database, queue: SpcQueue): Router {
       logger.error({ err: (err as Error).message }, 'SPC run not started');
       throw new HttpError(503, 'The SPC job queue cannot be reached right now, so the run was not started. Try again in a minute.');
     }
-    await recordAudit(db, { actorId: req.user!.id, action: 'start', entity: 'spc run', entityId: id, after: { characteristicIds: body.characteristicIds ?? 'all' } });
     res.status(202).json({ id });
   });
 

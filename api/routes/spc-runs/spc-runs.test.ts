@@ -3,7 +3,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { and, eq, sql } from 'drizzle-orm';
 import { auditEvents, lots, spcRunItems, spcSnapshots } from '@api/db/schema';
 import { createSpcTestApi } from '@api/spc/testing/api';
-import { createTestCharacteristic, removeTestCharacteristics } from '@api/spc/testing/plant';
+import { createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from '@api/spc/testing/plant';
 
 const api = createSpcTestApi();
 afterAll(async () => {
@@ -25,6 +25,7 @@ describe('POST /api/v1/spc-runs', () => {
     expect(Object.keys(res.body)).toEqual(['id']);
     const [audit] = await api.db.select().from(auditEvents).where(and(eq(auditEvents.entity, 'spc run'), eq(auditEvents.entityId, String(res.body.id))));
     expect(audit.action).toBe('start');
+    expect(audit).toMatchObject({ actorId: await userIdByEmail(api.db, 'manager@harrowvale.example'), after: { characteristicIds: [t.characteristicId] } });
   });
 
   it('reports progress with the agreed fields and ends succeeded with every characteristic done', async () => {

@@ -3,7 +3,7 @@ import { and, eq, sql } from 'drizzle-orm';
 import type { Database } from '@api/db/client';
 import { alarmSubscriptions, productionLines, products } from '@api/db/schema';
 import { recordAudit } from '@api/db/audit';
-import { badRequest, conflict, HttpError, isUniqueViolation, notFound, parseBody } from '@api/http/errors';
+import { conflict, fieldError, HttpError, isUniqueViolation, notFound, parseBody } from '@api/http/errors';
 import { requireSession } from '@api/auth/session';
 import { createSubscriptionSchema, subscriptionIdParamsSchema, updateSubscriptionSchema } from './schema';
 
@@ -40,10 +40,10 @@ export function subscriptionsRouter(db: Database): Router {
     const input = parseBody(createSubscriptionSchema, req.body);
     if (input.lineId !== undefined) {
       const [line] = await db.select({ id: productionLines.id }).from(productionLines).where(eq(productionLines.id, input.lineId));
-      if (!line) throw badRequest(`lineId: there is no production line ${input.lineId}`);
+      if (!line) throw fieldError('lineId', `there is no production line ${input.lineId}`);
     } else {
       const [product] = await db.select({ id: products.id }).from(products).where(eq(products.id, input.productId!));
-      if (!product) throw badRequest(`productId: there is no product ${input.productId}`);
+      if (!product) throw fieldError('productId', `there is no product ${input.productId}`);
     }
     try {
       const row = await db.transaction(async (tx) => {

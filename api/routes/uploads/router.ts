@@ -2,6 +2,7 @@ import { Router, type RequestHandler } from 'express';
 import multer from 'multer';
 import { and, desc, eq, sql } from 'drizzle-orm';
 import { canonicalColumns, looksLikeFormula, type RowError } from '@shared/ingest';
+import { rowErrorDetail } from '@shared/schemas/errors';
 import type { Database } from '@api/db/client';
 import { measurements, uploads, users } from '@api/db/schema';
 import { recordAudit } from '@api/db/audit';
@@ -12,7 +13,7 @@ import { importResults, type ImportOutcome } from '@api/ingest/import';
 import { getFile, StoredFileDamaged } from '@api/files/store';
 import type { ResultsChanged } from '@api/spc/results-changed';
 import type { Json } from '@api/http/json';
-import type { UploadDetail, UploadDuplicate, UploadImported, UploadListItem, UploadRejected, UploadVoided } from '@shared/schemas/uploads';
+import type { UploadDetail, UploadImported, UploadListItem, UploadVoided } from '@shared/schemas/uploads';
 import { listUploadsQuerySchema, uploadFieldsSchema, uploadIdParamsSchema, voidUploadSchema } from './schema';
 
 export const MAX_UPLOAD_BYTES = 20 * 1024 * 1024;
@@ -52,16 +53,14 @@ const uploadColumns = {
   uploadedByName: users.name,
 };
 
+/** 201 for an import; a refusal is thrown as 409 (the same file before) or 422 (each row to correct as a detail). */
 export function respondToImport(res: Parameters<RequestHandler>[1], outcome: ImportOutcome): void {
   if (outcome.kind === 'duplicate-file') {
-    res.status(409).json({ error: `This file was already imported as upload ${outcome.uploadId} on ${outcome.uploadedAt.toISOString()}`, uploadId: outcome.uploadId } satisfies UploadDuplicate);
+    throw new HttpError(409, `This file was already imported as upload ${outcome.uploadId} on ${outcome.uploadedAt.toISOString()}`, undefined, { uploadId: outcome.uploadId });
   } else if (outcome.kind === 'rejected') {
     const rows = new Set(outcome.errors.map((e) => e.row)).size;
-    res.status(422).json({
-      error: `Nothing was imported: ${rows} row${rows === 1 ? '' : 's'} need${rows === 1 ? 's' : ''} correcting`,
-      errors: outcome.errors,
-      id: outcome.uploadId,
-    } satisfies UploadRejected);
+    const message = `Nothing was imported: ${rows} row${rows === 1 ? '' : 's'} need${rows === 1 ? 's' : ''} correcting`;
+    throw new HttpError(422, message, outcome.errors.map(rowErrorDetail), outcome.uploadId === null ? {} : { uploadId: outcome.uploadId });
   } else {
     // Only a file reaches here imported (manual entry answers its own 201), and a file always has its upload.
     res.status(201).json({ id: outcome.uploadId!, rowsImported: outcome.rowsImported } satisfies UploadImported);

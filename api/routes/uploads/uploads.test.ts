@@ -70,11 +70,14 @@ describe('POST /api/v1/uploads', () => {
   it('refuses the same bytes a second time (409) and stores nothing twice', async () => {
     const lot = newLot();
     const csv = `${header}\n${lot},HVL25,L1,2026-11-03T06:30:00Z,HVL25-AIR,3.1,early,1,,,\n`;
-    expect((await upload('technician', csv)).status).toBe(201);
+    const first = await upload('technician', csv);
+    expect(first.status).toBe(201);
     const before = await liveCount();
     const again = await upload('quality_manager', csv, 'renamed.csv');
     expect(again.status).toBe(409);
     expect(again.body.error).toMatch(/already imported as upload/);
+    // The one error shape, with the earlier upload named for the page's link.
+    expect(again.body).toEqual({ error: expect.any(String), uploadId: first.body.id });
     expect(await liveCount()).toBe(before);
   });
 
@@ -85,16 +88,17 @@ describe('POST /api/v1/uploads', () => {
     const before = await liveCount();
     const res = await upload('technician', `${header}\n${rows.join('\n')}\n`);
     expect(res.status).toBe(422);
-    expect(res.body.errors).toEqual([{ row: 5, column: 'value', message: expect.stringMatching(/"heavy" is not a number/) }]);
+    expect(Object.keys(res.body).sort()).toEqual(['details', 'error', 'uploadId']);
+    expect(res.body.details).toEqual([{ path: 'row 5 › value', row: 5, column: 'value', message: expect.stringMatching(/"heavy" is not a number/) }]);
     expect(await liveCount()).toBe(before);
     const stored = await api.db.select().from(lots).where(eq(lots.lotNumber, `${lot}-0`));
     expect(stored).toHaveLength(0);
 
-    const report = await request(api.app).get(`/api/v1/uploads/${res.body.id}/errors.csv`).set(await as('technician'));
+    const report = await request(api.app).get(`/api/v1/uploads/${res.body.uploadId}/errors.csv`).set(await as('technician'));
     expect(report.text.split('\r\n')[0]).toBe('row,column,message');
     expect(report.text).toMatch(/^5,value,/m);
     const history = await request(api.app).get('/api/v1/uploads?status=rejected').set(await as('auditor'));
-    expect(history.body.items.find((u: { id: number }) => u.id === res.body.id)).toMatchObject({ status: 'rejected', rowsTotal: 6, rowsRejected: 1, rowsImported: 0 });
+    expect(history.body.items.find((u: { id: number }) => u.id === res.body.uploadId)).toMatchObject({ status: 'rejected', rowsTotal: 6, rowsRejected: 1, rowsImported: 0 });
   });
 
   it('reads European exports: ";" delimiter, decimal comma and dd.mm.yyyy HH:MM in plant time', async () => {
@@ -140,11 +144,11 @@ describe('POST /api/v1/uploads', () => {
     // Detection alone would read "3,2" as 3.2; told the decimal mark is a point, the cell is no number.
     const point = await send({ decimalComma: 'false' });
     expect(point.status).toBe(422);
-    expect(point.body.errors).toEqual([{ row: 2, column: 'value', message: '"3,2" is not a number (this file uses "." as the decimal mark)' }]);
+    expect(point.body.details).toEqual([{ path: 'row 2 › value', row: 2, column: 'value', message: '"3,2" is not a number (this file uses "." as the decimal mark)' }]);
     // Told the delimiter is a comma, the header is one long column and the canonical ones are missing.
     const comma = await send({ delimiter: ',' });
     expect(comma.status).toBe(422);
-    expect(comma.body.errors[0]).toMatchObject({ row: 1, message: 'Missing columns: lot, product, line, produced_at, characteristic, value' });
+    expect(comma.body.details[0]).toMatchObject({ row: 1, message: 'Missing columns: lot, product, line, produced_at, characteristic, value' });
     expect((await send({ delimiter: '|' })).status).toBe(400);
     expect(await api.db.select().from(lots).where(eq(lots.lotNumber, lot))).toHaveLength(0);
 
@@ -173,7 +177,7 @@ describe('POST /api/v1/uploads', () => {
     ].join('\n');
     const res = await upload('technician', csv);
     expect(res.status).toBe(422);
-    const byRow = Object.fromEntries(res.body.errors.map((e: { row: number; column: string; message: string }) => [e.row, `${e.column}: ${e.message}`]));
+    const byRow = Object.fromEntries(res.body.details.map((e: { row: number; column: string; message: string }) => [e.row, `${e.column}: ${e.message}`]));
     // The messages name what the cell may hold, so the technician can correct it without asking.
     expect(byRow[2]).toMatch(/^product: Unknown product code "NOPE" \(products: .*\bHVL25\b.*\)$/);
     expect(byRow[3]).toMatch(/^characteristic: Unknown characteristic code "HVL25-XYZ" \(HVL25 has: .*\bHVL25-FLOW\b.*\)$/);
@@ -187,7 +191,8 @@ describe('POST /api/v1/uploads', () => {
     expect(byRow[11]).toMatch(/^replicate: Duplicate: row 10 already gives/);
     expect(byRow[12]).toMatch(/^tested_at: Test time is before the lot was produced/);
     expect(byRow[13]).toMatch(/^line: Unknown production line "L9" \(lines: .*\bL1\b.*\)$/);
-    const report = await request(api.app).get(`/api/v1/uploads/${res.body.id}/errors.csv`).set(await as('technician'));
+    const report = await request(api.app).get(`/api/v1/uploads/${res.body.uploadId}/errors.csv`).set(await as('technician'));
+    expect(report.status).toBe(200);
     expect(report.text).not.toMatch(/(^|,)=1\+1/m);
   });
 
@@ -204,7 +209,7 @@ describe('POST /api/v1/uploads', () => {
     expect((await upload('technician', `${header}\n${lot},HVL25,L1,2026-11-06T06:00:00Z,HVL25-AIR,3.0,,1,,,\n`)).status).toBe(201);
     const res = await upload('technician', `${header}\n${lot},HVL25,L1,2026-11-06T06:00:00Z,HVL25-AIR,3.9,,1,,,corrected\n`);
     expect(res.status).toBe(422);
-    expect(res.body.errors[0]).toMatchObject({ row: 2, column: 'replicate', message: expect.stringMatching(/already stored/) });
+    expect(res.body.details[0]).toMatchObject({ row: 2, column: 'replicate', message: expect.stringMatching(/already stored/) });
     const detail = await request(api.app).get(`/api/v1/lots/${lot}`).set(await as('auditor'));
     expect(detail.body.results.map((r: { value: number }) => r.value)).toEqual([3.0]);
   });
@@ -222,7 +227,7 @@ describe('POST /api/v1/uploads', () => {
     const before = await liveCount();
     const refused = await upload('technician', `${header}\n${bad.join('\n')}\n`, 'many-pieces.csv');
     expect(refused.status).toBe(422);
-    expect(refused.body.errors).toEqual([{ row: 23_992, column: 'value', message: '"abc" is not a number (this file uses "." as the decimal mark)' }]);
+    expect(refused.body.details).toEqual([{ path: 'row 23992 › value', row: 23_992, column: 'value', message: '"abc" is not a number (this file uses "." as the decimal mark)' }]);
     expect(await liveCount()).toBe(before);
     const [{ n: lotsAfterRefusal }] = await api.db.select({ n: sql<number>`count(*)::int` }).from(lots).where(sql`${lots.lotNumber} like ${`${base}-%`}`);
     expect(lotsAfterRefusal).toBe(0);
@@ -248,17 +253,17 @@ describe('POST /api/v1/uploads', () => {
     const before = await liveCount();
     const res = await upload('technician', `${header}\n${rows.join('\n')}\n`);
     expect(res.status).toBe(422);
-    expect(res.body.errors).toEqual([{ row: 15_002, column: 'replicate', message: expect.stringMatching(/^Duplicate: HVL25-FLOW replicate 1 of lot .* is already stored/) }]);
+    expect(res.body.details).toEqual([{ path: 'row 15002 › replicate', row: 15_002, column: 'replicate', message: expect.stringMatching(/^Duplicate: HVL25-FLOW replicate 1 of lot .* is already stored/) }]);
     expect(await liveCount()).toBe(before);
   });
 
   it('names missing columns and empty files', async () => {
     const missing = await upload('technician', 'lot,product,value\nA,HVL25,1\n');
     expect(missing.status).toBe(422);
-    expect(missing.body.errors[0]).toMatchObject({ row: 1, message: 'Missing columns: line, produced_at, characteristic' });
+    expect(missing.body.details[0]).toMatchObject({ row: 1, message: 'Missing columns: line, produced_at, characteristic' });
     const empty = await upload('technician', '');
     expect(empty.status).toBe(422);
-    expect(empty.body.errors[0].message).toMatch(/empty/);
+    expect(empty.body.details[0].message).toMatch(/empty/);
   });
 
   it('imports a wide file (one row per lot) through a column mapping', async () => {
@@ -296,7 +301,7 @@ describe('POST /api/v1/uploads', () => {
 
     for (const [id, bytes] of [
       [imported.body.id, good],
-      [rejected.body.id, bad],
+      [rejected.body.uploadId, bad],
     ] as const) {
       const file = await request(api.app).get(`/api/v1/uploads/${id}/file`).set(await as('auditor')).buffer(true)
         .parse((res, done) => {

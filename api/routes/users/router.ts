@@ -45,7 +45,7 @@ export function usersRouter(db: Database): Router {
       });
       res.status(201).json(toPublic(created));
     } catch (err) {
-      if (isUniqueViolation(err)) throw conflict(`A user with e-mail ${input.email} already exists`);
+      if (isUniqueViolation(err)) throw conflict(`A user with e-mail ${input.email} already exists`, [{ path: 'email', message: `A user with e-mail ${input.email} already exists` }]);
       throw err;
     }
   });

@@ -1,5 +1,5 @@
 import type { FieldValues, Path, UseFormSetError } from 'react-hook-form';
-import { ApiError } from './http';
+import { ApiError, errorMessage } from './http';
 
 /**
  * Puts the API's field-level messages (`details: [{ path, message }]`) under the matching form
@@ -16,4 +16,9 @@ export function showServerFieldErrors<T extends FieldValues>(error: unknown, set
     }
   }
   return shown;
+}
+
+/** Shows a refusal of the server: under the fields its `details` name, otherwise on the form as a whole (`root`). */
+export function showServerErrors<T extends FieldValues>(error: unknown, setError: UseFormSetError<T>, fields: readonly Path<T>[]): void {
+  if (!showServerFieldErrors(error, setError, fields)) setError('root', { message: errorMessage(error) });
 }

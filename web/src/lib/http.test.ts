@@ -32,10 +32,15 @@ describe('http', () => {
     expect((init!.headers as Record<string, string>)['Content-Type']).toBeUndefined();
   });
 
-  it('keeps the whole error body for answers that carry more than a message', async () => {
-    const rejected = { error: 'Nothing was imported: 1 row needs correcting', errors: [{ row: 5, column: 'value', message: '"heavy" is not a number' }], id: 41 };
+  it('keeps the rows of a refused file (details with row and column) and the upload it concerns', async () => {
+    const rejected = { error: 'Nothing was imported: 1 row needs correcting', details: [{ path: 'row 5 › value', row: 5, column: 'value', message: '"heavy" is not a number' }], uploadId: 41 };
     answer(422, rejected);
-    await expect(http('/api/v1/uploads', { method: 'POST', body: new FormData() })).rejects.toMatchObject({ status: 422, message: rejected.error, body: rejected });
+    await expect(http('/api/v1/uploads', { method: 'POST', body: new FormData() })).rejects.toMatchObject({ status: 422, message: rejected.error, details: rejected.details, uploadId: 41 });
+    answer(409, { error: 'This file was already imported as upload 40', uploadId: 40 });
+    await expect(http('/api/v1/uploads', { method: 'POST', body: new FormData() })).rejects.toMatchObject({ status: 409, details: [], uploadId: 40 });
+    // A detail whose row is not a number is not a row of the file.
+    answer(422, { error: 'x', details: [{ path: 'row 5', row: '5', message: 'y' }], uploadId: '41' });
+    await expect(http('/api/v1/uploads', { method: 'POST', body: new FormData() })).rejects.toMatchObject({ details: [], uploadId: undefined });
   });
 
   it('returns undefined for 204 No Content', async () => {

@@ -1,25 +1,24 @@
-/** One field-level problem reported by the API, e.g. `{ path: 'email', message: 'Enter a valid e-mail address' }`. */
-export interface ApiErrorDetail {
-  path: string;
-  message: string;
-}
+import type { ErrorBody, ErrorDetail } from '@shared/schemas/errors';
+
+/** One problem reported by the API: a field (`{ path: 'email', message: … }`) or a row of a file (with `row` and `column`). */
+export type ApiErrorDetail = ErrorDetail;
 
 /**
  * Every failed request ends here, so screens handle one error type. `status` is the HTTP status,
- * or 0 when the server could not be reached at all.
+ * or 0 when the server could not be reached at all. The API answers every error as `{ error, details?, uploadId? }`.
  */
 export class ApiError extends Error {
   readonly status: number;
   readonly details: ApiErrorDetail[];
-  /** The whole JSON error body, for answers that carry more than a message (e.g. an upload's row errors). */
-  readonly body: unknown;
+  /** The upload a refused file concerns: the stored rejected file (422) or the earlier import of the same bytes (409). */
+  readonly uploadId: number | undefined;
 
-  constructor(status: number, message: string, details: ApiErrorDetail[] = [], body: unknown = undefined) {
+  constructor(status: number, message: string, details: ApiErrorDetail[] = [], uploadId?: number) {
     super(message);
     this.name = 'ApiError';
     this.status = status;
     this.details = details;
-    this.body = body;
+    this.uploadId = uploadId;
   }
 }
 
@@ -84,21 +83,21 @@ export async function http<T>(path: string, options: RequestOptions = {}): Promi
     response.status,
     payload.error ?? `The server answered ${response.status} ${response.statusText}`.trim(),
     payload.details,
-    payload.body,
+    payload.uploadId,
   );
   if (response.status === 401 && endsSessionOn401) unauthorizedListener?.();
   throw error;
 }
 
-async function readErrorPayload(response: Response): Promise<{ error?: string; details?: ApiErrorDetail[]; body?: unknown }> {
+async function readErrorPayload(response: Response): Promise<Partial<ErrorBody>> {
   try {
     const payload: unknown = await response.json();
     if (payload && typeof payload === 'object') {
-      const { error, details } = payload as { error?: unknown; details?: unknown };
+      const { error, details, uploadId } = payload as { [K in keyof ErrorBody]?: unknown };
       return {
         error: typeof error === 'string' && error ? error : undefined,
         details: Array.isArray(details) ? details.filter(isDetail) : undefined,
-        body: payload,
+        uploadId: typeof uploadId === 'number' ? uploadId : undefined,
       };
     }
   } catch {
@@ -108,12 +107,9 @@ async function readErrorPayload(response: Response): Promise<{ error?: string; d
 }
 
 function isDetail(value: unknown): value is ApiErrorDetail {
-  return (
-    !!value &&
-    typeof value === 'object' &&
-    typeof (value as ApiErrorDetail).path === 'string' &&
-    typeof (value as ApiErrorDetail).message === 'string'
-  );
+  if (!value || typeof value !== 'object') return false;
+  const d = value as Record<keyof ApiErrorDetail, unknown>;
+  return typeof d.path === 'string' && typeof d.message === 'string' && (d.row === undefined || typeof d.row === 'number') && (d.column === undefined || typeof d.column === 'string');
 }
 
 /** A message fit for the screen from anything a query or mutation threw. */

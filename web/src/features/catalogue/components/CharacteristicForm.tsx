@@ -6,7 +6,7 @@ import { chartTypes, chartTypeSizes, ruleSets, SUBGROUP_SIZE_MAX, suggestedChart
 import type { TestMethodEntry } from '@web/features/test-methods/api/test-methods';
 import { chartTypeLabels, ruleSetLabels } from '@shared/spc';
 import { TextArea } from '@web/features/charts/components/TextArea';
-import { showServerErrors } from '@web/features/records/lib/server-errors';
+import { showServerErrors } from '@web/lib/forms';
 import { browserTimeZone } from '@web/features/records/lib/date-time';
 import type { CharacteristicView, ProductView } from '@shared/schemas/catalogue';
 import { useCreateCharacteristic, useUpdateCharacteristic } from '../api/catalogue';
@@ -123,7 +123,7 @@ export function CharacteristicForm({
     try {
       onSaved(characteristic ? await update.mutateAsync({ id: characteristic.id, changes: input }) : await create.mutateAsync(input));
     } catch (error) {
-      showServerErrors(error, setError, fields, (message) => setError('root', { message }));
+      showServerErrors(error, setError, fields);
     }
   });
 

@@ -1,7 +1,7 @@
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { createLineSchema } from '@shared/schemas/catalogue';
-import { showServerErrors } from '@web/features/records/lib/server-errors';
+import { showServerErrors } from '@web/lib/forms';
 import type { LineView } from '@shared/schemas/catalogue';
 import { useCreateLine, useUpdateLine } from '../api/catalogue';
 import { Field, Input } from '@web/components/ui/Field';
@@ -25,7 +25,7 @@ export function LineForm({ line, onSaved, onCancel }: { line?: LineView; onSaved
     try {
       onSaved(line ? await update.mutateAsync({ id: line.id, changes: input }) : await create.mutateAsync(input));
     } catch (error) {
-      showServerErrors(error, setError, fields, (message) => setError('root', { message }));
+      showServerErrors(error, setError, fields);
     }
   });
 

@@ -2,7 +2,7 @@ import { useId } from 'react';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { createProductSchema } from '@shared/schemas/catalogue';
-import { showServerErrors } from '@web/features/records/lib/server-errors';
+import { showServerErrors } from '@web/lib/forms';
 import type { LineView, ProductView } from '@shared/schemas/catalogue';
 import { useCreateProduct, useUpdateProduct } from '../api/catalogue';
 import { Field, Input, Select } from '@web/components/ui/Field';
@@ -49,7 +49,7 @@ export function ProductForm({
     try {
       onSaved(product ? await update.mutateAsync({ id: product.id, changes: input }) : await create.mutateAsync(input));
     } catch (error) {
-      showServerErrors(error, setError, fields, (message) => setError('root', { message }));
+      showServerErrors(error, setError, fields);
     }
   });
 

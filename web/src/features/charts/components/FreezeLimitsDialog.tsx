@@ -2,8 +2,7 @@ import { useForm, type Resolver } from 'react-hook-form';
 import { freezeLimitsSchema, type CharacteristicChart } from '@shared/schemas/charts';
 import { PHASE_ONE_MIN_POINTS } from '@shared/spc';
 import { parsePlantDateTime } from '@shared/ingest/values';
-import { errorMessage } from '@web/lib/http';
-import { showServerFieldErrors } from '@web/lib/forms';
+import { showServerErrors } from '@web/lib/forms';
 import { plantDateTimeInput } from '@web/features/results/lib/plant-time';
 import { Dialog } from '@web/components/ui/Dialog';
 import { Field, Input } from '@web/components/ui/Field';
@@ -77,7 +76,7 @@ export function FreezeLimitsDialog({ chart, timeZone, view, onClose, onDone }: F
     freeze.mutate(toBody(values, timeZone), {
       onSuccess: (revision) => onDone(`Limits frozen as revision ${revision.revision} from ${revision.baselinePoints} points. New points are judged against them from now on.`),
       onError: (error) => {
-        if (!showServerFieldErrors(error, form.setError, fields)) form.setError('root', { message: errorMessage(error) });
+        showServerErrors(error, form.setError, fields);
       },
     }),
   );

@@ -1,8 +1,7 @@
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { excludePointSchema, includePointSchema, type CharacteristicChart, type ChartPointRecord } from '@shared/schemas/charts';
-import { errorMessage } from '@web/lib/http';
-import { showServerFieldErrors } from '@web/lib/forms';
+import { showServerErrors } from '@web/lib/forms';
 import { Dialog } from '@web/components/ui/Dialog';
 import { Alert } from '@web/components/ui/Alert';
 import { useExcludePoint, useIncludePoint } from '../api/chart';
@@ -39,7 +38,7 @@ export function ExcludePointDialog({ chart, point, timeZone, onClose, onDone }: 
     exclude.mutate(input, {
       onSuccess: () => onDone(`Point ${point.index + 1} (lot ${point.lotNumber}) is excluded${frozen ? '; the frozen limits stay as they are until limits are frozen again' : ' and the trial limits were recomputed'}.`),
       onError: (error) => {
-        if (!showServerFieldErrors(error, form.setError, ['reason'])) form.setError('root', { message: errorMessage(error) });
+        showServerErrors(error, form.setError, ['reason']);
       },
     }),
   );
@@ -79,7 +78,7 @@ export function IncludePointDialog({ chart, point, timeZone, onClose, onDone }: 
       {
         onSuccess: () => onDone(`Point ${point.index + 1} (lot ${point.lotNumber}) counts towards the limits again.`),
         onError: (error) => {
-          if (!showServerFieldErrors(error, form.setError, ['reason'])) form.setError('root', { message: errorMessage(error) });
+          showServerErrors(error, form.setError, ['reason']);
         },
       },
     ),

@@ -5,7 +5,7 @@ import { TextArea } from '@web/features/charts/components/TextArea';
 import { useCreateProcessEvent } from '../api/process-events';
 import { processEventFormSchema } from '../lib/form-schemas';
 import { browserTimeZone, nowAsLocalInput } from '../lib/date-time';
-import { showServerErrors } from '../lib/server-errors';
+import { showServerErrors } from '@web/lib/forms';
 import { Alert } from '@web/components/ui/Alert';
 import { Button } from '@web/components/ui/Button';
 import { Field, Input, Select } from '@web/components/ui/Field';
@@ -43,7 +43,7 @@ export function ProcessEventForm({ lines, products, onRecorded }: { lines: Produ
         reset(emptyEvent());
         onRecorded({ title: saved.title, occurredAt: saved.occurredAt, lineCode: input.lineCode, productCode: input.productCode });
       },
-      onError: (error) => showServerErrors(error, setError, fields, (message) => setError('root', { message })),
+      onError: (error) => showServerErrors(error, setError, fields),
     }),
   );
 

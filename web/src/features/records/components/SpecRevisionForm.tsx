@@ -5,7 +5,7 @@ import { TextArea } from '@web/features/charts/components/TextArea';
 import { useCreateSpecRevision, type SpecRevision } from '../api/specifications';
 import { specRevisionFormSchema } from '../lib/form-schemas';
 import { browserTimeZone, formatWithZone } from '../lib/date-time';
-import { showServerErrors } from '../lib/server-errors';
+import { showServerErrors } from '@web/lib/forms';
 import { Alert } from '@web/components/ui/Alert';
 import { Button } from '@web/components/ui/Button';
 import { Field, Input } from '@web/components/ui/Field';
@@ -36,7 +36,7 @@ export function SpecRevisionForm({ characteristic, latest, onSaved }: { characte
     try {
       onSaved(await create.mutateAsync(input));
     } catch (error) {
-      showServerErrors(error, setError, fields, (message) => setError('root', { message }));
+      showServerErrors(error, setError, fields);
     }
   });
 

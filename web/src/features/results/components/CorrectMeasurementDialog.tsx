@@ -4,7 +4,7 @@ import { correctMeasurementSchema } from '@shared/ingest';
 import { ApiError } from '@web/lib/http';
 import { useCorrectMeasurement, type LotResult } from '../api/lots';
 import { typedNumber } from '../lib/form-values';
-import { showServerErrors } from '@web/features/records/lib/server-errors';
+import { showServerErrors } from '@web/lib/forms';
 import { TextArea } from '@web/features/charts/components/TextArea';
 import { Alert } from '@web/components/ui/Alert';
 import { Button } from '@web/components/ui/Button';
@@ -51,7 +51,7 @@ export function CorrectMeasurementDialog({
             setError('root', { message: 'This reading is no longer stored: its upload may have been voided meanwhile. Close the dialog to see the lot as it is now.' });
             return;
           }
-          showServerErrors(error, setError, ['value', 'reason'], (message) => setError('root', { message }));
+          showServerErrors(error, setError, ['value', 'reason']);
         },
       },
     ),

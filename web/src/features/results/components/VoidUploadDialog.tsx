@@ -1,8 +1,7 @@
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { voidUploadSchema } from '@shared/ingest';
-import { errorMessage } from '@web/lib/http';
-import { showServerFieldErrors } from '@web/lib/forms';
+import { showServerErrors } from '@web/lib/forms';
 import type { UploadListItem } from '@shared/schemas/uploads';
 import { useVoidUpload } from '../api/uploads';
 import { Alert } from '@web/components/ui/Alert';
@@ -26,7 +25,7 @@ export function VoidUploadDialog({ upload, onClose, onVoided }: { upload: Upload
       {
         onSuccess: (result) => onVoided(result.measurementsVoided),
         onError: (error) => {
-          if (!showServerFieldErrors(error, setError, ['reason'])) setError('root', { message: errorMessage(error) });
+          showServerErrors(error, setError, ['reason']);
         },
       },
     ),

@@ -1,8 +1,7 @@
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { createUserSchema, type PublicUser } from '@shared/schemas/users';
-import { ApiError, errorMessage } from '@web/lib/http';
-import { showServerFieldErrors } from '@web/lib/forms';
+import { showServerErrors } from '@web/lib/forms';
 import { useCreateUser } from '../api/users';
 import { Field, Input, Select } from '@web/components/ui/Field';
 import { Alert } from '@web/components/ui/Alert';
@@ -31,9 +30,8 @@ export function CreateUserForm({ onCreated, onCancel }: { onCreated: (user: Publ
         onCreated(user);
       },
       onError: (error) => {
-        // 409: the address belongs to someone already; say so where it was typed.
-        if (error instanceof ApiError && error.status === 409) setError('email', { message: error.message });
-        else if (!showServerFieldErrors(error, setError, fields)) setError('root', { message: errorMessage(error) });
+        // A 409 names the e-mail field: the address belongs to someone already.
+        showServerErrors(error, setError, fields);
       },
     }),
   );

@@ -3,7 +3,7 @@ import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { createUserSchema, roleLabels, type PublicUser, type Role } from '@shared/schemas/users';
 import { errorMessage } from '@web/lib/http';
-import { showServerFieldErrors } from '@web/lib/forms';
+import { showServerErrors } from '@web/lib/forms';
 import { useUpdateUser } from '../api/users';
 import { Alert } from '@web/components/ui/Alert';
 import { Button } from '@web/components/ui/Button';
@@ -120,7 +120,7 @@ function SetPasswordDialog({ user, onClose, onDone }: { user: PublicUser; onClos
       {
         onSuccess: onDone,
         onError: (error) => {
-          if (!showServerFieldErrors(error, setError, ['password'])) setError('root', { message: errorMessage(error) });
+          showServerErrors(error, setError, ['password']);
         },
       },
     ),

@@ -1,0 +1,20 @@
+// Every change the audit trail records, entity by entity: recordAudit accepts only these pairs, so a
+// misspelt action or entity fails the typecheck. A new kind of change is added here first. The words
+// are stored as they stand; renaming one would split the trail of existing records.
+
+export const auditActions = {
+  alarm: ['acknowledge', 'close', 'close-automatically'],
+  'alarm subscription': ['subscribe', 'update', 'unsubscribe'],
+  characteristic: ['create', 'update', 'deactivate', 'reactivate', 'revise specification', 'freeze limits', 'exclude point', 'include point'],
+  'column mapping': ['create'],
+  measurement: ['manual entry', 'correct'],
+  'process event': ['record event'],
+  product: ['create', 'update', 'deactivate', 'reactivate'],
+  'production line': ['create', 'update', 'deactivate', 'reactivate'],
+  'spc run': ['start'],
+  upload: ['import', 'void'],
+  user: ['sign-in', 'create', 'update', 'update (password reset)'],
+} as const satisfies Record<string, readonly string[]>;
+
+export type AuditEntity = keyof typeof auditActions;
+export type AuditAction<E extends AuditEntity = AuditEntity> = (typeof auditActions)[E][number];
