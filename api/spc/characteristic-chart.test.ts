@@ -5,7 +5,7 @@ import { createDatabase } from '../db/client';
 import { auditEvents, lots, measurements, plants, processEvents, productionLines } from '../db/schema';
 import { databaseUrl } from '@tests/support/api';
 import { computeCharacteristicChart, excludePoint, freezeLimits, includePoint, limitRevisions } from './characteristic-chart';
-import { createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from './testing/plant';
+import { createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from '@tests/support/plant';
 
 const db = createDatabase(databaseUrl(), 4);
 afterAll(async () => {

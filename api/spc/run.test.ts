@@ -5,7 +5,7 @@ import { alarmSubscriptions, alarms, lots, mailOutbox, measurements, spcRunItems
 import { databaseUrl } from '@tests/support/api';
 import { computeCharacteristicChart } from './characteristic-chart';
 import { runCharacteristic } from './run';
-import { createRunRow, createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from './testing/plant';
+import { createRunRow, createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from '@tests/support/plant';
 import { raiseOutOfSpecAlarms } from './hooks';
 import { queueDigests } from '../mail/notify';
 

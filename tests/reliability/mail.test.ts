@@ -1,7 +1,7 @@
 // The outbox sender on a private cluster (the test server's own sender would take the messages).
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
-import { startPrivateCluster, type PrivateCluster } from '@api/spc/testing/cluster';
+import { startPrivateCluster, type PrivateCluster } from '@tests/support/private-cluster';
 import { startFakeSmtp, type FakeSmtp } from '@api/mail/fake-smtp';
 import { createTransport, sendDue } from '@api/mail/outbox';
 

@@ -3,8 +3,8 @@
 import { afterEach, describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
 import type PgBoss from 'pg-boss';
-import { seedScaledPlant } from '@api/spc/testing/scaled-plant';
-import { startPrivateCluster, type PrivateCluster } from '@api/spc/testing/cluster';
+import { seedScaledPlant } from '@tests/support/scaled-plant';
+import { startPrivateCluster, type PrivateCluster } from '@tests/support/private-cluster';
 import { freePort } from '@scripts/lib/cluster';
 import { addSubscriber, expectWholeResults, producer, spawnWorker, startFullRun, stopWorkers, waitForRun, type WorkerProcess } from './support';
 

@@ -4,10 +4,10 @@ import request from 'supertest';
 import { createApp } from '@api/app';
 import { createDatabase } from '@api/db/client';
 import { DEMO_PASSWORD } from '@api/db/seed';
-import { demoEmail, databaseUrl, TEST_JWT_SECRET } from '@tests/support/api';
+import { demoEmail, databaseUrl, TEST_JWT_SECRET } from './api';
 import type { Role } from '@shared/schemas/users';
-import { createSpcIngestHooks } from '../hooks';
-import { lazyQueue } from '../queue';
+import { createSpcIngestHooks } from '@api/spc/hooks';
+import { lazyQueue } from '@api/spc/queue';
 
 export const TEST_PUBLIC_URL = 'http://prismline.test';
 
