@@ -1,7 +1,7 @@
 // Worker processes that die, a database that restarts, and two workers sharing one run. Each test
 // has its own PostgreSQL cluster, so the test server's workers never take these jobs.
 import { afterEach, describe, expect, it } from 'vitest';
-import { sql } from 'drizzle-orm';
+import { sql, type SQL } from 'drizzle-orm';
 import type PgBoss from 'pg-boss';
 import { seedScaledPlant } from '@tests/support/scaled-plant';
 import { startPrivateCluster, type PrivateCluster } from '@tests/support/private-cluster';
@@ -33,6 +33,55 @@ async function ready(w: WorkerProcess, timeoutMs = 30_000) {
 const items = (runId: number) =>
   cluster!.db.execute<{ characteristic_id: number; status: string; attempts: number; worker: string | null; error: string | null }>(sql`
     select characteristic_id, status, attempts, worker, error from spc_run_items where run_id = ${runId} order by characteristic_id`);
+
+/** Waits until `check` answers true. */
+async function until(check: () => Promise<boolean>, what: string, timeoutMs = 30_000) {
+  const deadline = Date.now() + timeoutMs;
+  while (!(await check())) {
+    if (Date.now() > deadline) throw new Error(`timed out waiting until ${what}`);
+    await new Promise((r) => setTimeout(r, 50));
+  }
+}
+
+/**
+ * SIGKILLs a worker while at least one of its characteristics has written everything inside its
+ * transaction but not committed, and answers the characteristics it left running.
+ *
+ * A kill at a moment picked by polling raced the worker: an item read as running could commit
+ * between the read and the kill, and then count as killed with one attempt. Here the run's row is
+ * held locked, so every transaction of the worker stops at its last step (settling the run) and
+ * none can commit before the kill. Their COMMIT would have come from the dead process, so once the
+ * lock is let go PostgreSQL can only roll them back; the items are read after that, and before
+ * another worker starts.
+ */
+async function killInsideItsTransaction(worker: WorkerProcess, runId: number): Promise<number[]> {
+  const db = cluster!.db;
+  const count = async (query: SQL) => (await db.execute<{ n: number }>(query)).rows[0].n;
+  const holder = await db.$client.connect();
+  let holderPid: number;
+  try {
+    await holder.query('begin');
+    await holder.query('select id from spc_runs where id = $1 for update', [runId]);
+    holderPid = (await holder.query<{ pid: number }>('select pg_backend_pid() as pid')).rows[0].pid;
+    await until(
+      async () => (await count(sql`select count(*)::int as n from pg_stat_activity where ${holderPid} = any(pg_blocking_pids(pid))`)) > 0,
+      'a characteristic waits to settle the run',
+    );
+    worker.kill('SIGKILL');
+    await worker.exited;
+  } finally {
+    await holder.query('commit').catch(() => undefined);
+    holder.release();
+  }
+  await until(
+    async () =>
+      (await count(sql`
+        select count(*)::int as n from pg_stat_activity
+        where backend_type = 'client backend' and xact_start is not null and pid <> pg_backend_pid()`)) === 0,
+    "PostgreSQL rolls back the dead worker's transactions",
+  );
+  return (await items(runId)).rows.filter((r) => r.status === 'running').map((r) => r.characteristic_id);
+}
 
 describe('worker processes', () => {
   it('two workers started at once split the characteristics without doing any twice', async () => {
@@ -84,11 +133,11 @@ describe('worker processes', () => {
 
     const runId = await startFullRun(cluster.db, queue);
     let killedWhileRunning: number[] = [];
+    let killed = false;
     await waitForRun(cluster.db, runId, 60_000, async (run) => {
-      if (killedWhileRunning.length || run.done < 6 || run.running < 1) return;
-      killedWhileRunning = (await items(runId)).rows.filter((r) => r.status === 'running').map((r) => r.characteristic_id);
-      first.kill('SIGKILL');
-      await first.exited;
+      if (killed || run.done < 6) return;
+      killed = true;
+      killedWhileRunning = await killInsideItsTransaction(first, runId);
       workers.push(spawnWorker(cluster!.databaseUrl, env));
     });
     expect(killedWhileRunning.length).toBeGreaterThan(0);
