@@ -1,8 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
 import type PgBoss from 'pg-boss';
-import { startPrivateCluster, type PrivateCluster } from '@api/spc/testing/cluster';
-import { seedScaledPlant, type ScaledPlant } from '@api/spc/testing/scaled-plant';
+import { startPrivateCluster, type PrivateCluster } from '@tests/support/private-cluster';
+import { seedScaledPlant, type ScaledPlant } from '@tests/support/scaled-plant';
 import { fixedQueue, startBoss } from '@api/spc/queue';
 import { startNightlyRun, startScheduler } from './scheduler';
 

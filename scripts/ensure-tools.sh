@@ -14,7 +14,21 @@ apt_install() {
   DEBIAN_FRONTEND=noninteractive apt-get install -y -qq "$@" >/dev/null
 }
 
-if [ ! -d node_modules ] || [ package-lock.json -nt node_modules/.package-lock.json ]; then
+# npm keeps what it installed in node_modules/.package-lock.json. Installed means every package of
+# package-lock.json is there in its version, optional ones for other platforms aside. The contents are
+# compared, not the times: a checkout or merge rewrites package-lock.json without changing it.
+installed() {
+  node -e '
+    const { readFileSync } = require("node:fs");
+    const read = (f) => JSON.parse(readFileSync(f, "utf8")).packages;
+    const want = read("package-lock.json");
+    const have = read("node_modules/.package-lock.json");
+    const missing = Object.entries(want).filter(([path, p]) => path !== "" && !p.optional && have[path]?.version !== p.version);
+    process.exit(missing.length ? 1 : 0);
+  ' 2>/dev/null
+}
+
+if [ ! -d node_modules ] || ! installed; then
   echo "Installing npm dependencies…"
   npm ci --no-audit --no-fund --loglevel=error
 fi

@@ -1,11 +1,14 @@
-// npm test: a throw-away PostgreSQL cluster and database, the demo seed, a real server, then every test.
-// Ends with one line "N passed, N failed".
+// npm test: lint and typecheck over the whole tree, a throw-away PostgreSQL cluster and database, the
+// demo seed, a real server, then every test. Ends with one line "N passed, N failed", in which lint and
+// typecheck count as one test each.
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { existsSync, mkdirSync, readdirSync, readFileSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { dataRoot } from '@api/paths';
-import { buildServer, serverCommand, waitForServer } from './lib/server-build';
+import { reportCheck, startCheck, type RunningCheck } from './lib/checks';
 import { destroyCluster, ensureDatabase, freePort, initCluster, startCluster, type Cluster } from './lib/cluster';
+import { runCommand } from './lib/command';
+import { buildServer, serverCommand, waitForServer } from './lib/server-build';
 import { buildWebIfStale } from './lib/web-build';
 
 const root = resolve(import.meta.dirname, '..');
@@ -15,8 +18,15 @@ const cluster: Cluster = { root: resolve(testClusters, String(process.pid)), por
 const resultsFile = resolve(cluster.root, 'test-results.json');
 const JWT_SECRET = 'test-secret-that-is-long-enough-for-hs256-signing';
 
+const vitestArgs = process.argv.slice(2);
+// A run narrowed by arguments (`npm test -- api/routes/uploads`) answers for those tests alone; the
+// whole-tree checks run in a full run, or when PRISMLINE_CHECKS=1 asks for them.
+const runChecks = process.env.PRISMLINE_CHECKS ? process.env.PRISMLINE_CHECKS === '1' : vitestArgs.length === 0;
+let checks: RunningCheck[] = [];
+
 let server: ChildProcess | undefined;
 function cleanUp() {
+  for (const c of checks) c.stop();
   // The server runs in its own process group so that tsx's child goes down with it.
   if (server?.pid && server.exitCode === null) {
     try {
@@ -43,7 +53,23 @@ function removeStaleClusters() {
   }
 }
 
+/** vitest's counts from its JSON report; a file that fails to load is a failure though it has no tests. */
+function vitestCounts(exitStatus: number | null): { passed: number; failed: number } {
+  if (!existsSync(resultsFile)) return { passed: 0, failed: 1 };
+  const r = JSON.parse(readFileSync(resultsFile, 'utf8')) as {
+    numPassedTests?: number;
+    numFailedTests?: number;
+    testResults?: { status: string; assertionResults: unknown[] }[];
+  };
+  const brokenFiles = (r.testResults ?? []).filter((f) => f.status === 'failed' && f.assertionResults.length === 0).length;
+  const passed = r.numPassedTests ?? 0;
+  const failed = (r.numFailedTests ?? 0) + brokenFiles;
+  return { passed, failed: exitStatus !== 0 && failed === 0 ? 1 : failed };
+}
+
 async function main(): Promise<number> {
+  // Lint and typecheck need no database: they run while the cluster, the web app and the server are made.
+  if (runChecks) checks = ['lint', 'typecheck'].map(startCheck);
   removeStaleClusters();
   cluster.port = Number(process.env.PRISMLINE_TEST_PG_PORT ?? (await freePort()));
   initCluster(cluster);
@@ -81,40 +107,26 @@ async function main(): Promise<number> {
   });
   await waitForServer(baseUrl, server);
 
+  const checked = await Promise.all(checks.map((c) => c.result));
+  if (checked.length) console.log(`\n${checked.map(reportCheck).join('\n')}\n`);
+  else console.log('\nlint and typecheck skipped: a run narrowed by arguments (PRISMLINE_CHECKS=1 runs them)\n');
+
   const vitest = spawnSync(
     'npx',
-    ['vitest', 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${resultsFile}`, ...process.argv.slice(2)],
+    ['vitest', 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${resultsFile}`, ...vitestArgs],
     { cwd: root, env, stdio: 'inherit' },
   );
-
-  let passed = 0;
-  let failed = 0;
-  if (existsSync(resultsFile)) {
-    const r = JSON.parse(readFileSync(resultsFile, 'utf8'));
-    passed = r.numPassedTests ?? 0;
-    // A file that fails to load has no tests of its own but is a failure all the same.
-    const brokenFiles = (r.testResults ?? []).filter((f: { status: string; assertionResults: unknown[] }) => f.status === 'failed' && f.assertionResults.length === 0).length;
-    failed = (r.numFailedTests ?? 0) + brokenFiles;
-  } else {
-    failed = 1;
-  }
-  if (vitest.status !== 0 && failed === 0) failed = 1;
+  const tests = vitestCounts(vitest.status);
+  const passed = tests.passed + checked.filter((c) => c.ok).length;
+  const failed = tests.failed + checked.filter((c) => !c.ok).length;
   console.log(`\n${passed} passed, ${failed} failed`);
-  return failed === 0 && passed > 0 ? 0 : 1;
+  return failed === 0 && tests.passed > 0 ? 0 : 1;
 }
 
-process.on('SIGINT', () => {
-  cleanUp();
-  process.exit(130);
-});
-main()
-  .then((code) => {
-    cleanUp();
-    process.exit(code);
-  })
-  .catch((err) => {
+runCommand(main, {
+  cleanUp,
+  onError(err) {
     console.error(`\nThe test set-up failed: ${err.message}`);
-    cleanUp();
     console.log('\n0 passed, 1 failed');
-    process.exit(1);
-  });
+  },
+});

@@ -175,6 +175,9 @@ function report(chart: ChartResult, cap: CapabilityResult | null) {
   };
 }
 
+/** The JSON document the command prints. */
+export type SpcReport = ReturnType<typeof report>;
+
 function main(argv: string[]): number {
   const opts = parseArgs(argv);
   const data = readData(opts.file);

@@ -6,7 +6,7 @@ import { auditEvents, lots } from '../db/schema';
 import { databaseUrl } from '@tests/support/api';
 import { excludePoint, freezeLimits, includePoint } from './chart-commands';
 import { computeCharacteristicChart, limitRevisions } from './chart-load';
-import { createTestCharacteristic, removeTestCharacteristics, testDay as day, testPair as pair, userIdByEmail } from './testing/plant';
+import { createTestCharacteristic, removeTestCharacteristics, testDay as day, testPair as pair, userIdByEmail } from '@tests/support/plant';
 
 const db = createDatabase(databaseUrl(), 4);
 afterAll(async () => {

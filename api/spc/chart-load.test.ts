@@ -5,7 +5,7 @@ import { createDatabase } from '../db/client';
 import { measurements, plants, processEvents, productionLines } from '../db/schema';
 import { databaseUrl } from '@tests/support/api';
 import { computeCharacteristicChart } from './chart-load';
-import { createTestCharacteristic, removeTestCharacteristics, testDay as day, testPair as pair } from './testing/plant';
+import { createTestCharacteristic, removeTestCharacteristics, testDay as day, testPair as pair } from '@tests/support/plant';
 
 const db = createDatabase(databaseUrl(), 4);
 afterAll(async () => {

@@ -7,7 +7,7 @@ import { alarms, spcRuns } from '../db/schema';
 import { DEMO_PASSWORD } from '../db/seed';
 import { databaseUrl, demoEmail, TEST_JWT_SECRET } from '@tests/support/api';
 import { resultsChanged } from './results-changed';
-import { createTestCharacteristic, removeTestCharacteristics } from './testing/plant';
+import { createTestCharacteristic, removeTestCharacteristics } from '@tests/support/plant';
 
 const db = createDatabase(databaseUrl(), 2);
 afterAll(async () => {

@@ -5,7 +5,7 @@ import { alarmSubscriptions, alarms, auditEvents, lots, mailOutbox, measurements
 import { databaseUrl } from '@tests/support/api';
 import { computeCharacteristicChart } from './chart-load';
 import { runCharacteristic } from './run';
-import { createRunRow, createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from './testing/plant';
+import { createRunRow, createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from '@tests/support/plant';
 import { raiseOutOfSpecAlarms } from './results-changed';
 import { DATA_CHANGED_NOTE } from './alarms';
 import { queueDigests } from '../mail/notify';

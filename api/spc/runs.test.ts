@@ -7,7 +7,7 @@ import { auditEvents, spcRunItems } from '../db/schema';
 import { databaseUrl } from '@tests/support/api';
 import type { SpcQueue } from './queue';
 import { startRun } from './runs';
-import { createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from './testing/plant';
+import { createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from '@tests/support/plant';
 
 const db = createDatabase(databaseUrl(), 2);
 afterAll(async () => {

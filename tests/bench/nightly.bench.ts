@@ -8,8 +8,8 @@
 import { sql } from 'drizzle-orm';
 import { importResults } from '@api/ingest/import';
 import { resultsChanged } from '@api/spc/results-changed';
-import { startPrivateCluster } from '@api/spc/testing/cluster';
-import { seedScaledPlant } from '@api/spc/testing/scaled-plant';
+import { startPrivateCluster } from '@tests/support/private-cluster';
+import { seedScaledPlant } from '@tests/support/scaled-plant';
 import { fixedQueue, startBoss } from '@api/spc/queue';
 import { getRun, startRun } from '@api/spc/runs';
 import { spawnWorker, stopWorkers, type WorkerProcess } from '../reliability/support';

@@ -6,6 +6,7 @@ import { resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { dataRoot } from '@api/paths';
 import { destroyCluster, ensureDatabase, freePort, initCluster, startCluster, type Cluster } from '@scripts/lib/cluster';
+import { runCommand } from '@scripts/lib/command';
 
 interface BenchRow {
   name: string;
@@ -55,18 +56,7 @@ async function main(): Promise<number> {
   return failures ? 1 : 0;
 }
 
-const cleanUp = () => destroyCluster(cluster);
-process.on('SIGINT', () => {
-  cleanUp();
-  process.exit(130);
+runCommand(main, {
+  cleanUp: () => destroyCluster(cluster),
+  onError: (err) => console.error(err),
 });
-main()
-  .then((code) => {
-    cleanUp();
-    process.exit(code);
-  })
-  .catch((err) => {
-    console.error(err);
-    cleanUp();
-    process.exit(1);
-  });

@@ -4,6 +4,7 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
+import type { SpcReport } from '@scripts/spc';
 
 const root = resolve(import.meta.dirname, '../..');
 const dir = mkdtempSync(join(tmpdir(), 'prismline-spc-'));
@@ -20,15 +21,15 @@ interface Run {
   status: number | null;
   stdout: string;
   stderr: string;
-  json: any;
+  /** The printed report when the command succeeded, else null. */
+  json: SpcReport;
 }
 
 function spc(args: string[], viaNpm = false): Run {
   const r = viaNpm
     ? spawnSync('npm', ['run', '--silent', 'spc', '--', ...args], { cwd: root, encoding: 'utf8' })
     : spawnSync(process.execPath, ['--import', 'tsx', 'scripts/spc.ts', ...args], { cwd: root, encoding: 'utf8' });
-  let json: unknown = null;
-  if (r.status === 0) json = JSON.parse(r.stdout);
+  const json = r.status === 0 ? (JSON.parse(r.stdout) as SpcReport) : null!;
   return { status: r.status, stdout: r.stdout, stderr: r.stderr, json };
 }
 
@@ -115,19 +116,19 @@ describe('spc command line', () => {
   it('computes capability against a one-sided specification', () => {
     const strength = Array.from({ length: 40 }, (_, i) => 32 + ((i * 37) % 17) / 8 - 1);
     const out = spc([csv(`value\n${strength.join('\n')}\n`), '--lsl', '28']).json;
-    const cap = out.capability;
+    const cap = out.capability!;
     expect(cap.cp).toBeNull();
     expect(cap.cpu).toBeNull();
     expect(cap.cpk).toBe(cap.cpl);
-    expect(cap.cpl).toBeCloseTo((mean(strength) - 28) / (3 * out.sigmaWithin), 10);
-    expect(cap.ppk).toBeCloseTo((mean(strength) - 28) / (3 * out.sigmaOverall), 10);
+    expect(cap.cpl).toBeCloseTo((mean(strength) - 28) / (3 * out.sigmaWithin!), 10);
+    expect(cap.ppk).toBeCloseTo((mean(strength) - 28) / (3 * out.sigmaOverall!), 10);
     expect(cap.cpkCi95).toHaveLength(2);
-    expect(cap.cpkCi95[0]).toBeLessThan(cap.cpk);
+    expect(cap.cpkCi95![0]).toBeLessThan(cap.cpk!);
     expect(cap.ppmObserved).toBe(0);
-    expect(cap.normality.test).toBe('anderson-darling');
+    expect(cap.normality!.test).toBe('anderson-darling');
     expect(cap.preliminary).toBe(true);
-    const both = spc([csv(`value\n${strength.join('\n')}\n`), '--lsl=28', '--usl', '36,5']).json.capability;
-    expect(both.cp).toBeCloseTo(8.5 / (6 * out.sigmaWithin), 10);
+    const both = spc([csv(`value\n${strength.join('\n')}\n`), '--lsl=28', '--usl', '36,5']).json.capability!;
+    expect(both.cp).toBeCloseTo(8.5 / (6 * out.sigmaWithin!), 10);
   });
 
   it('gives nulls with reasons, never NaN, for degenerate data', () => {
@@ -135,7 +136,7 @@ describe('spc command line', () => {
     expect(r.status).toBe(0);
     expect(r.stdout).not.toMatch(/NaN|Infinity/);
     expect(r.json.sigmaWithin).toBe(0);
-    expect(r.json.capability.cp).toBeNull();
+    expect(r.json.capability!.cp).toBeNull();
     expect(r.json.reasons.length).toBeGreaterThan(0);
     const single = spc([csv('value\n7\n')]).json;
     expect(single.location).toEqual({ center: 7, ucl: null, lcl: null });

@@ -7,7 +7,7 @@ import { baseUrl, browserTest, pageHeading, screenshot, signIn } from '../suppor
 import { databaseUrl, demoEmail } from '../support/api';
 import { DEMO_PASSWORD } from '@api/db/seed';
 import { createDatabase } from '@api/db/client';
-import { createTestCharacteristic, removeTestCharacteristics, userIdByEmail, type TestCharacteristic } from '@api/spc/testing/plant';
+import { createTestCharacteristic, removeTestCharacteristics, userIdByEmail, type TestCharacteristic } from '@tests/support/plant';
 import type { Role } from '@shared/schemas/users';
 
 const db = createDatabase(databaseUrl(), 2);

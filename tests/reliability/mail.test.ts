@@ -1,7 +1,7 @@
 // The outbox sender on a private cluster (the test server's own sender would take the messages).
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
-import { startPrivateCluster, type PrivateCluster } from '@api/spc/testing/cluster';
+import { startPrivateCluster, type PrivateCluster } from '@tests/support/private-cluster';
 import { startFakeSmtp, type FakeSmtp } from '@api/mail/fake-smtp';
 import { createTransport, sendDue } from '@api/mail/outbox';
 
@@ -30,14 +30,21 @@ describe('sending the outbox', () => {
     expect(await sendDue(cluster.db, down, 'prismline@localhost')).toEqual({ sent: 0, failed: 3 });
     let r = (await rows()).rows;
     expect(r.map((m) => [m.status, m.attempts, m.last_error])).toEqual(Array(3).fill(['pending', 1, 'connect ECONNREFUSED 127.0.0.1:2525']));
-    for (const m of r) expect(m.wait_s).toBeGreaterThan(3), expect(m.wait_s).toBeLessThanOrEqual(5);
+    for (const m of r) {
+      expect(m.wait_s).toBeGreaterThan(3);
+      expect(m.wait_s).toBeLessThanOrEqual(5);
+    }
     // Not due yet: nothing is tried again before the pause is over.
     expect(await sendDue(cluster.db, down, 'prismline@localhost')).toEqual({ sent: 0, failed: 0 });
 
     await cluster.db.execute(sql`update mail_outbox set next_attempt_at = now()`);
     await sendDue(cluster.db, down, 'prismline@localhost');
     r = (await rows()).rows;
-    for (const m of r) expect(m.attempts).toBe(2), expect(m.wait_s).toBeGreaterThan(8), expect(m.wait_s).toBeLessThanOrEqual(10);
+    for (const m of r) {
+      expect(m.attempts).toBe(2);
+      expect(m.wait_s).toBeGreaterThan(8);
+      expect(m.wait_s).toBeLessThanOrEqual(10);
+    }
 
     await cluster.db.execute(sql`update mail_outbox set next_attempt_at = now()`);
     const up = createTransport(fake.url);

@@ -1,10 +1,10 @@
 // Worker processes that die, a database that restarts, and two workers sharing one run. Each test
 // has its own PostgreSQL cluster, so the test server's workers never take these jobs.
 import { afterEach, describe, expect, it } from 'vitest';
-import { sql } from 'drizzle-orm';
+import { sql, type SQL } from 'drizzle-orm';
 import type PgBoss from 'pg-boss';
-import { seedScaledPlant } from '@api/spc/testing/scaled-plant';
-import { startPrivateCluster, type PrivateCluster } from '@api/spc/testing/cluster';
+import { seedScaledPlant } from '@tests/support/scaled-plant';
+import { startPrivateCluster, type PrivateCluster } from '@tests/support/private-cluster';
 import { freePort } from '@scripts/lib/cluster';
 import { addSubscriber, expectWholeResults, producer, spawnWorker, startFullRun, stopWorkers, waitForRun, type WorkerProcess } from './support';
 
@@ -34,6 +34,77 @@ const items = (runId: number) =>
   cluster!.db.execute<{ characteristic_id: number; status: string; attempts: number; worker: string | null; error: string | null }>(sql`
     select characteristic_id, status, attempts, worker, error from spc_run_items where run_id = ${runId} order by characteristic_id`);
 
+/** Waits until `check` answers true; on time-out, says what `diagnosis` finds. */
+async function until(check: () => Promise<boolean>, what: string, timeoutMs = 30_000, diagnosis?: () => Promise<string>) {
+  const deadline = Date.now() + timeoutMs;
+  while (!(await check())) {
+    if (Date.now() > deadline) throw new Error(`timed out waiting until ${what}${diagnosis ? `: ${await diagnosis()}` : ''}`);
+    await new Promise((r) => setTimeout(r, 50));
+  }
+}
+
+/**
+ * Starts a run whose characteristics commit only while the test allows it, SIGKILLs the worker once
+ * `afterDone` have succeeded while at least one more has written everything inside its transaction
+ * but not committed, and answers the run and the characteristics the worker left running.
+ *
+ * A kill at a moment picked by polling raced the worker: an item read as running could commit
+ * between the read and the kill, and then count as killed with one attempt. Here the run's row is
+ * held locked, so every transaction of the worker stops at its last step (settling the run); the
+ * lock is let go for one round of them at a time until enough have succeeded. The worker is paused
+ * (SIGSTOP) while the run is started and its row locked, so that no characteristic gets past the
+ * gate first. Their COMMIT would have come from the dead process, so once the lock is let go after
+ * the kill PostgreSQL can only roll them back; the items are read after that, and before another
+ * worker starts.
+ */
+async function killInsideItsTransaction(worker: WorkerProcess, start: () => Promise<number>, afterDone: number): Promise<{ runId: number; killed: number[] }> {
+  const db = cluster!.db;
+  worker.kill('SIGSTOP');
+  const runId = await start();
+  const count = async (query: SQL) => (await db.execute<{ n: number }>(query)).rows[0].n;
+  const holder = await db.$client.connect();
+  const holderPid = (await holder.query<{ pid: number }>('select pg_backend_pid() as pid')).rows[0].pid;
+  const waiting = async () => (await count(sql`select count(*)::int as n from pg_stat_activity where ${holderPid} = any(pg_blocking_pids(pid))`)) > 0;
+  const doneBefore: number[] = [];
+  const diagnosis = async () =>
+    JSON.stringify({
+      doneBefore,
+      items: (await db.execute(sql`select status, count(*)::int as n from spc_run_items where run_id = ${runId} group by 1`)).rows,
+      sessions: (await db.execute(sql`
+        select pid, state, wait_event_type, wait_event, pg_blocking_pids(pid) as blocked_by, left(query, 80) as query
+        from pg_stat_activity where backend_type = 'client backend' and pid <> pg_backend_pid()`)).rows,
+      worker: worker.output().slice(-2000),
+    });
+  try {
+    for (;;) {
+      await holder.query('begin');
+      // NO KEY UPDATE: the alarms' foreign-key checks (KEY SHARE) pass, settling the run waits.
+      await holder.query('select id from spc_runs where id = $1 for no key update', [runId]);
+      worker.kill('SIGCONT');
+      await until(waiting, `a characteristic waits to settle the run`, 30_000, diagnosis);
+      const done = await count(sql`select count(*)::int as n from spc_run_items where run_id = ${runId} and status = 'succeeded'`);
+      if (done >= afterDone) break;
+      doneBefore.push(done);
+      await holder.query('commit');
+    }
+    worker.kill('SIGKILL');
+    await worker.exited;
+  } finally {
+    await holder.query('commit').catch(() => undefined);
+    holder.release();
+  }
+  await until(
+    async () =>
+      (await count(sql`
+        select count(*)::int as n from pg_stat_activity
+        where backend_type = 'client backend' and xact_start is not null and pid <> pg_backend_pid()`)) === 0,
+    "PostgreSQL rolls back the dead worker's transactions",
+    30_000,
+    diagnosis,
+  );
+  return { runId, killed: (await items(runId)).rows.filter((r) => r.status === 'running').map((r) => r.characteristic_id) };
+}
+
 describe('worker processes', () => {
   it('two workers started at once split the characteristics without doing any twice', async () => {
     cluster = await startPrivateCluster('split');
@@ -56,6 +127,9 @@ describe('worker processes', () => {
       expect(key, `items of worker ${w.child.pid}`).toBeDefined();
       expect(byWorker.get(key!)).toBeGreaterThanOrEqual(8);
     }
+    // A worker marks its job completed just after the characteristic's transaction has committed, so
+    // the last job may still be active when the run is already seen finished.
+    await until(async () => (await cluster!.db.execute<{ n: number }>(sql`select count(*)::int as n from pgboss.job where state = 'active'`)).rows[0].n === 0, 'the last job is marked completed');
     const jobs = await cluster.db.execute<{ state: string; retry_count: number; n: number }>(sql`
       select state, retry_count, count(*)::int as n from (select state, retry_count from pgboss.job union all select state, retry_count from pgboss.archive) j group by 1, 2`);
     expect(jobs.rows).toEqual([{ state: 'completed', retry_count: 0, n: 40 }]);
@@ -82,15 +156,8 @@ describe('worker processes', () => {
       insert into measurements (lot_id, characteristic_id, replicate, value, source)
       select l.id, c.id, 1, 170, 'upload' from characteristics c join lots l on l.product_id = c.product_id and l.lot_number like '%-LATEST'`);
 
-    const runId = await startFullRun(cluster.db, queue);
-    let killedWhileRunning: number[] = [];
-    await waitForRun(cluster.db, runId, 60_000, async (run) => {
-      if (killedWhileRunning.length || run.done < 6 || run.running < 1) return;
-      killedWhileRunning = (await items(runId)).rows.filter((r) => r.status === 'running').map((r) => r.characteristic_id);
-      first.kill('SIGKILL');
-      await first.exited;
-      workers.push(spawnWorker(cluster!.databaseUrl, env));
-    });
+    const { runId, killed: killedWhileRunning } = await killInsideItsTransaction(first, () => startFullRun(cluster!.db, queue), 6);
+    workers.push(spawnWorker(cluster.databaseUrl, env));
     expect(killedWhileRunning.length).toBeGreaterThan(0);
     const run = await waitForRun(cluster.db, runId);
     expect(run).toMatchObject({ status: 'succeeded', done: 30, failed: 0 });

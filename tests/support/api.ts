@@ -29,21 +29,21 @@ export function databaseUrl(): string {
   return url;
 }
 
+/** Signs the demo users in to an app, once a role: their bearer tokens. */
+export function demoTokens(app: Express): (role: Role) => Promise<string> {
+  const tokens = new Map<Role, string>();
+  return async (role) => {
+    const cached = tokens.get(role);
+    if (cached) return cached;
+    const res = await request(app).post('/api/v1/auth/login').send({ email: demoEmail[role], password: DEMO_PASSWORD });
+    if (res.status !== 200) throw new Error(`Sign-in as ${role} failed: ${res.status} ${JSON.stringify(res.body)}`);
+    tokens.set(role, res.body.token);
+    return res.body.token;
+  };
+}
+
 export function createTestApi(): TestApi {
   const db = createDatabase(databaseUrl(), 4);
   const app = createApp({ db, config: { jwtSecret: TEST_JWT_SECRET, loginAttemptsPer15Min: 10 }, serveWeb: false });
-  const tokens = new Map<Role, string>();
-  return {
-    app,
-    db,
-    async tokenFor(role) {
-      const cached = tokens.get(role);
-      if (cached) return cached;
-      const res = await request(app).post('/api/v1/auth/login').send({ email: demoEmail[role], password: DEMO_PASSWORD });
-      if (res.status !== 200) throw new Error(`Sign-in as ${role} failed: ${res.status} ${JSON.stringify(res.body)}`);
-      tokens.set(role, res.body.token);
-      return res.body.token;
-    },
-    close: () => db.$client.end(),
-  };
+  return { app, db, tokenFor: demoTokens(app), close: () => db.$client.end() };
 }

@@ -3,8 +3,8 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { and, eq, sql } from 'drizzle-orm';
 import { alarms, alarmSubscriptions, auditEvents, mailOutbox, spcRuns } from '@api/db/schema';
 import { refersTo } from '@api/mail/outbox';
-import { createSpcTestApi, eventually, TEST_PUBLIC_URL } from '@api/spc/testing/api';
-import { createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from '@api/spc/testing/plant';
+import { createSpcTestApi, eventually, TEST_PUBLIC_URL } from '@tests/support/spc-api';
+import { createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from '@tests/support/plant';
 
 const api = createSpcTestApi();
 afterAll(async () => {

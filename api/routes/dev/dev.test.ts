@@ -1,7 +1,7 @@
 import request from 'supertest';
 import { afterAll, describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
-import { createSpcTestApi, eventually } from '@api/spc/testing/api';
+import { createSpcTestApi, eventually } from '@tests/support/spc-api';
 
 // The test server (scripts/run-tests.ts) runs without SMTP_URL, so it uses the local fake SMTP server.
 const api = createSpcTestApi();

@@ -2,8 +2,8 @@ import request from 'supertest';
 import { afterAll, describe, expect, it } from 'vitest';
 import { and, eq, sql } from 'drizzle-orm';
 import { auditEvents, lots, spcRunItems, spcSnapshots } from '@api/db/schema';
-import { createSpcTestApi } from '@api/spc/testing/api';
-import { createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from '@api/spc/testing/plant';
+import { createSpcTestApi } from '@tests/support/spc-api';
+import { createTestCharacteristic, removeTestCharacteristics, userIdByEmail } from '@tests/support/plant';
 
 const api = createSpcTestApi();
 afterAll(async () => {

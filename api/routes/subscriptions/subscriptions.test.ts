@@ -2,8 +2,8 @@ import request from 'supertest';
 import { afterAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { productionLines } from '@api/db/schema';
-import { createSpcTestApi } from '@api/spc/testing/api';
-import { createTestCharacteristic, removeTestCharacteristics } from '@api/spc/testing/plant';
+import { createSpcTestApi } from '@tests/support/spc-api';
+import { createTestCharacteristic, removeTestCharacteristics } from '@tests/support/plant';
 
 const api = createSpcTestApi();
 afterAll(async () => {

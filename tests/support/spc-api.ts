@@ -3,11 +3,10 @@
 import request from 'supertest';
 import { createApp } from '@api/app';
 import { createDatabase } from '@api/db/client';
-import { DEMO_PASSWORD } from '@api/db/seed';
-import { demoEmail, databaseUrl, TEST_JWT_SECRET } from '@tests/support/api';
+import { databaseUrl, demoTokens, TEST_JWT_SECRET } from './api';
 import type { Role } from '@shared/schemas/users';
-import { resultsChanged } from '../results-changed';
-import { lazyQueue } from '../queue';
+import { resultsChanged } from '@api/spc/results-changed';
+import { lazyQueue } from '@api/spc/queue';
 
 export const TEST_PUBLIC_URL = 'http://prismline.test';
 
@@ -22,15 +21,7 @@ export function createSpcTestApi() {
     spcQueue: queue,
     publicUrl: TEST_PUBLIC_URL,
   });
-  const tokens = new Map<Role, string>();
-  async function tokenFor(role: Role): Promise<string> {
-    const cached = tokens.get(role);
-    if (cached) return cached;
-    const res = await request(app).post('/api/v1/auth/login').send({ email: demoEmail[role], password: DEMO_PASSWORD });
-    if (res.status !== 200) throw new Error(`Sign-in as ${role} failed: ${res.status}`);
-    tokens.set(role, res.body.token);
-    return res.body.token;
-  }
+  const tokenFor = demoTokens(app);
   const as = async (role: Role) => ({ authorization: `Bearer ${await tokenFor(role)}` });
 
   /** Polls the run until it has finished; the run as last seen. */

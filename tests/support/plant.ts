@@ -5,7 +5,7 @@ import type { ChartType, RuleSetId } from '@shared/spc';
 import type { Database } from '@api/db/client';
 import { characteristics, plants, productionLines, products, specLimits, testMethods } from '@api/db/schema';
 import { importResults, type Subgroup } from '@api/ingest/import';
-import { createRunRecord } from '../runs';
+import { createRunRecord } from '@api/spc/runs';
 
 export interface TestCharacteristic {
   productId: number;
