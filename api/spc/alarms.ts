@@ -1,7 +1,7 @@
 // Alarms: what a chart shows that someone must look at. One row per characteristic, rule, chart and
 // lot (the dedupe key), so a re-run finds the row it raised before instead of raising it again.
 import { sql } from 'drizzle-orm';
-import { brokenLimit, isOutOfSpec, lotResult, ruleDescriptions, specAt, specVerdict, type RuleId } from '@shared/spc';
+import { brokenLimit, isOutOfSpec, lotResult, ruleDescriptions, specAt, specVerdict } from '@shared/spc';
 import type { AlarmSignal, AlarmResolution, AlarmStatus } from '@shared/schemas/alarms';
 import { recordAudit } from '../db/audit';
 import type { Database } from '../db/client';

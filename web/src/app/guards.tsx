@@ -1,6 +1,6 @@
 import type { ReactNode } from 'react';
 import { Navigate, useLocation } from 'react-router';
-import { useSession } from '../features/auth/api/session';
+import { useSession } from '@web/lib/session';
 import { Loading } from '../components/ui/Spinner';
 import { ErrorState } from '../components/ui/ErrorState';
 import { NotAllowedPage } from './routes/NotAllowedPage';

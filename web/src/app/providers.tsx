@@ -2,7 +2,7 @@ import { useEffect, useState } from 'react';
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { RouterProvider } from 'react-router';
 import { ApiError, onUnauthorized } from '../lib/http';
-import { replaceSession } from '../features/auth/api/session';
+import { replaceSession } from '@web/lib/session';
 import { router } from './router';
 
 function createQueryClient() {

@@ -1,6 +1,6 @@
 import { Suspense, useState } from 'react';
 import { NavLink, Outlet, useNavigate } from 'react-router';
-import { useSignOut, useSignedInUser } from '@web/features/auth/api/session';
+import { useSignOut, useSignedInUser } from '@web/lib/session';
 import { areasFor, type Area } from '../navigation';
 import { roleLabels } from '@shared/schemas/roles';
 import { Button } from '@web/components/ui/Button';

@@ -1,5 +1,5 @@
 import { Link } from 'react-router';
-import { useSignedInUser } from '@web/features/auth/api/session';
+import { useSignedInUser } from '@web/lib/session';
 import { roleLabels } from '@shared/schemas/roles';
 
 export function NotAllowedPage() {

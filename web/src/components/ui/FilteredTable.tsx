@@ -14,6 +14,7 @@ export function useFilteredTable<T>({
 }: {
   data: T[];
   /** Columns of mixed value types, as createColumnHelper gives them (typed as useReactTable takes them). */
+  // eslint-disable-next-line @typescript-eslint/no-explicit-any -- TanStack Table types a list of columns of different value types only as ColumnDef<T, any>
   columns: ColumnDef<T, any>[];
   matches: (row: T, query: string) => boolean;
   initialSorting?: SortingState;

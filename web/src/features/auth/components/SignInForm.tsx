@@ -3,7 +3,7 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { loginSchema, type LoginInput } from '@shared/schemas/users';
 import { ApiError } from '@web/lib/http';
 import { showServerFieldErrors } from '@web/lib/forms';
-import { useSignIn } from '../api/session';
+import { useSignIn } from '@web/lib/session';
 import { Field, Input } from '@web/components/ui/Field';
 import { Alert } from '@web/components/ui/Alert';
 import { Button } from '@web/components/ui/Button';

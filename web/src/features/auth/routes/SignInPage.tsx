@@ -1,5 +1,5 @@
 import { Navigate, useLocation } from 'react-router';
-import { useSession } from '../api/session';
+import { useSession } from '@web/lib/session';
 import { SignInForm } from '../components/SignInForm';
 import { SafetyNote } from '@web/components/SafetyNote';
 import { Loading } from '@web/components/ui/Spinner';

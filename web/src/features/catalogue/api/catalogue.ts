@@ -11,9 +11,9 @@ import type {
   UpdateLineInput,
   UpdateProductInput,
 } from '@shared/schemas/catalogue';
-import { catalogueKeys } from '@web/features/results/api/catalogue';
-import { chartKeys } from '@web/features/charts/api/chart';
-import { overviewKeys } from '@web/features/overview/api/overview';
+import { catalogueKeys } from '@web/lib/catalogue';
+import { chartKeys } from '@web/lib/query-keys';
+import { overviewKeys } from '@web/lib/query-keys';
 
 const items = async <T>(path: string, signal?: AbortSignal) => (await http<{ items: T[] }>(path, { signal })).items;
 

@@ -1,10 +1,10 @@
 import { useMemo, useState } from 'react';
 import { Link } from 'react-router';
 import { createColumnHelper } from '@tanstack/react-table';
-import { characteristicLabel } from '@web/features/results/lib/names';
-import { specLimitsText } from '@web/features/results/lib/spec';
+import { characteristicLabel } from '@web/lib/names';
+import { specLimitsText } from '@web/lib/spec';
 import { statisticNames } from '@shared/spc';
-import type { Notice } from '@web/features/users/components/UserActions';
+import type { Notice } from '@web/components/ui/Notice';
 import type { CharacteristicView } from '@shared/schemas/catalogue';
 import { useUpdateCharacteristic } from '../api/catalogue';
 import { shortMethodName } from '../lib/suggest';

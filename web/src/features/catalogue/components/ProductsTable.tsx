@@ -1,6 +1,6 @@
 import { useMemo, useState } from 'react';
 import { createColumnHelper, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from '@tanstack/react-table';
-import type { Notice } from '@web/features/users/components/UserActions';
+import type { Notice } from '@web/components/ui/Notice';
 import type { ProductView } from '@shared/schemas/catalogue';
 import { useUpdateProduct } from '../api/catalogue';
 import { actionsColumn, statusColumn, type Consequences } from './RowActions';

@@ -1,7 +1,7 @@
 import { useState, type ReactNode } from 'react';
 import type { ColumnHelper } from '@tanstack/react-table';
 import { errorMessage } from '@web/lib/http';
-import type { Notice } from '@web/features/users/components/UserActions';
+import type { Notice } from '@web/components/ui/Notice';
 import { Badge } from '@web/components/ui/Badge';
 import { Button } from '@web/components/ui/Button';
 import { Dialog } from '@web/components/ui/Dialog';

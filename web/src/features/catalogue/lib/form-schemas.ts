@@ -2,8 +2,8 @@ import { z } from 'zod';
 import { characteristicSettingsSchema, createCharacteristicSchema, type RuleSetId } from '@shared/schemas/catalogue';
 import type { TestMethodCode } from '@shared/lab';
 import type { ChartType } from '@shared/spc';
-import { typedNumber } from '@web/features/results/lib/form-values';
-import { localInputToIso } from '@web/features/records/lib/date-time';
+import { typedNumber } from '@web/lib/form-values';
+import { localInputToIso } from '@web/lib/date-time';
 
 // The characteristic form keeps what was typed (numbers with a decimal comma or point, a local
 // date-time) and turns it into the request body before the shared schema checks it, so the schema's

@@ -1,4 +1,4 @@
-import type { TestMethodEntry } from '@web/features/test-methods/api/test-methods';
+import type { TestMethodEntry } from '@web/lib/test-methods';
 
 // What the characteristic form fills in until the administrator types their own, following the
 // demo plant's pattern: HVL25-RC28, "HV Level 25 · compressive strength · 28 d".

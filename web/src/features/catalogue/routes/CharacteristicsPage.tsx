@@ -1,6 +1,6 @@
 import { useCallback, useState } from 'react';
-import { useTestMethods } from '@web/features/test-methods/api/test-methods';
-import type { Notice } from '@web/features/users/components/UserActions';
+import { useTestMethods } from '@web/lib/test-methods';
+import type { Notice } from '@web/components/ui/Notice';
 import type { CharacteristicView } from '@shared/schemas/catalogue';
 import { useCatalogueCharacteristics, useCatalogueProducts } from '../api/catalogue';
 import { CharacteristicForm } from '../components/CharacteristicForm';

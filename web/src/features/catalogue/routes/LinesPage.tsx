@@ -1,6 +1,6 @@
 import { useMemo, useState } from 'react';
 import { createColumnHelper, getCoreRowModel, useReactTable } from '@tanstack/react-table';
-import type { Notice } from '@web/features/users/components/UserActions';
+import type { Notice } from '@web/components/ui/Notice';
 import type { LineView } from '@shared/schemas/catalogue';
 import { useCatalogueLines, useCatalogueProducts, useUpdateLine } from '../api/catalogue';
 import { LineForm } from '../components/LineForm';

@@ -1,5 +1,5 @@
 import { useCallback, useState } from 'react';
-import type { Notice } from '@web/features/users/components/UserActions';
+import type { Notice } from '@web/components/ui/Notice';
 import type { ProductView } from '@shared/schemas/catalogue';
 import { useCatalogueLines, useCatalogueProducts } from '../api/catalogue';
 import { ProductForm } from '../components/ProductForm';

@@ -1,20 +1,9 @@
 import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { http } from '@web/lib/http';
-import { overviewKeys } from '@web/features/overview/api/overview';
+import { chartKeys, overviewKeys, type ChartRange } from '@web/lib/query-keys';
+
+export type { ChartRange };
 import type { CharacteristicChart, ExcludePointInput, IncludePointInput, LimitRevisionRecord } from '@shared/schemas/charts';
-
-export interface ChartRange {
-  from?: string;
-  to?: string;
-}
-
-/** Query keys of this feature; every change to a chart invalidates `chartKeys.characteristic(id)`. */
-export const chartKeys = {
-  all: ['charts'] as const,
-  characteristic: (id: number) => [...chartKeys.all, id] as const,
-  chart: (id: number, range: ChartRange) => [...chartKeys.characteristic(id), 'chart', range] as const,
-  revisions: (id: number) => [...chartKeys.characteristic(id), 'limit-revisions'] as const,
-};
 
 export function fetchChart(id: number, range: ChartRange, signal?: AbortSignal): Promise<CharacteristicChart> {
   const params = new URLSearchParams();

@@ -3,7 +3,7 @@ import { useMemo } from 'react';
 import ReactEChartsCore from 'echarts-for-react/esm/core';
 import { echarts } from '../lib/echarts';
 import { buildCapabilityOption } from '../lib/capability-option';
-import { figure, indexFigure } from '../lib/format';
+import { figure, indexFigure } from '@web/lib/chart-format';
 import type { CharacteristicChart } from '@shared/schemas/charts';
 import type { Interval } from '@shared/spc';
 import { Badge } from '@web/components/ui/Badge';

@@ -1,4 +1,4 @@
-import { useCallback, useEffect, useMemo, useRef, useState, type KeyboardEvent } from 'react';
+import { useCallback, useEffect, useLayoutEffect, useMemo, useRef, useState, type KeyboardEvent } from 'react';
 // The ES module build of the core component: the CommonJS one under lib/ reaches the bundle as a module object.
 import ReactEChartsCore from 'echarts-for-react/esm/core';
 import type { EChartsType } from 'echarts/core';
@@ -65,7 +65,9 @@ export function ControlChart({ chart, timeZone, selected, onSelect, onOpen, onZo
 
   // echarts keeps the listeners bound at start-up; they read the current props through this.
   const latest = useRef<{ chart: CharacteristicChart; index: ChartIndex; marks: MarkerSets; onSelect: typeof onSelect; onOpen: typeof onOpen; onZoom: typeof onZoom }>({ chart, index, marks, onSelect, onOpen, onZoom });
-  latest.current = { chart, index, marks, onSelect, onOpen, onZoom };
+  useLayoutEffect(() => {
+    latest.current = { chart, index, marks, onSelect, onOpen, onZoom };
+  });
   const rethin = useRef(0);
   const zoomed = useRef<ZoomWindow | null>(null);
 

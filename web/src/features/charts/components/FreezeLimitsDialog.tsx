@@ -3,7 +3,7 @@ import { freezeLimitsSchema, type CharacteristicChart } from '@shared/schemas/ch
 import { PHASE_ONE_MIN_POINTS } from '@shared/spc';
 import { parsePlantDateTime } from '@shared/ingest/values';
 import { showServerErrors } from '@web/lib/forms';
-import { plantDateTimeInput } from '@web/features/results/lib/plant-time';
+import { plantDateTimeInput } from '@web/lib/plant-time';
 import { Dialog } from '@web/components/ui/Dialog';
 import { Field, Input } from '@web/components/ui/Field';
 import { Alert } from '@web/components/ui/Alert';

@@ -3,7 +3,7 @@ import { Badge } from '@web/components/ui/Badge';
 import { Loading } from '@web/components/ui/Spinner';
 import { ErrorState } from '@web/components/ui/ErrorState';
 import { EmptyState } from '@web/components/ui/EmptyState';
-import { figure, formatDateTime } from '../lib/format';
+import { figure, formatDateTime } from '@web/lib/chart-format';
 
 /** Every freeze of this chart's limits: who, when, why and from which baseline. Newest first. */
 export function LimitRevisions({ characteristicId, decimals, timeZone }: { characteristicId: number; decimals: number; timeZone: string }) {

@@ -1,6 +1,6 @@
 import type { CharacteristicChart } from '@shared/schemas/charts';
 import { Badge } from '@web/components/ui/Badge';
-import { figure, formatDateTime } from '../lib/format';
+import { figure, formatDateTime } from '@web/lib/chart-format';
 import { statisticNames } from '@shared/spc';
 
 function Figure({ label, value, testId }: { label: string; value: string; testId?: string }) {

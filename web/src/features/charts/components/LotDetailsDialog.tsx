@@ -1,11 +1,11 @@
 import { Link } from 'react-router';
-import { useLot, type LotResult } from '@web/features/results/api/lots';
-import { useCharacteristics } from '@web/features/results/api/catalogue';
+import { useLot, type LotResult } from '@web/lib/lots';
+import { useCharacteristics } from '@web/lib/catalogue';
 import { Dialog } from '@web/components/ui/Dialog';
 import { Loading } from '@web/components/ui/Spinner';
 import { ErrorState } from '@web/components/ui/ErrorState';
 import { Button } from '@web/components/ui/Button';
-import { formatDateTime, shiftName } from '../lib/format';
+import { formatDateTime, shiftName } from '@web/lib/chart-format';
 
 interface Group {
   code: string;

@@ -5,7 +5,7 @@ import { showServerErrors } from '@web/lib/forms';
 import { Dialog } from '@web/components/ui/Dialog';
 import { Alert } from '@web/components/ui/Alert';
 import { useExcludePoint, useIncludePoint } from '../api/chart';
-import { figure, formatDateTime } from '../lib/format';
+import { figure, formatDateTime } from '@web/lib/chart-format';
 import { statisticNames } from '@shared/spc';
 import { ReasonAndActions } from './ReasonAndActions';
 

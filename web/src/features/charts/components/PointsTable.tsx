@@ -13,7 +13,7 @@ import { DataTable } from '@web/components/ui/Table';
 import { Badge } from '@web/components/ui/Badge';
 import { Button } from '@web/components/ui/Button';
 import { EmptyState } from '@web/components/ui/EmptyState';
-import { figure, formatDateTime, shiftName } from '../lib/format';
+import { figure, formatDateTime, shiftName } from '@web/lib/chart-format';
 import { ruleLabels, statisticNames } from '@shared/spc';
 import { downloadText, pointsCsv } from '../lib/points-csv';
 

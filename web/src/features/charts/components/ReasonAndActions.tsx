@@ -1,7 +1,7 @@
 import type { UseFormRegisterReturn } from 'react-hook-form';
 import { Field } from '@web/components/ui/Field';
 import { Button } from '@web/components/ui/Button';
-import { TextArea } from './TextArea';
+import { TextArea } from '@web/components/ui/TextArea';
 
 interface ReasonAndActionsProps {
   /** The reason's label, e.g. "Assignable cause". */

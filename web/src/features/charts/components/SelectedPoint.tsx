@@ -1,6 +1,6 @@
 import type { CharacteristicChart } from '@shared/schemas/charts';
 import { Button } from '@web/components/ui/Button';
-import { figure, formatDateTime, shiftName } from '../lib/format';
+import { figure, formatDateTime, shiftName } from '@web/lib/chart-format';
 import { ruleLabels, statisticNames } from '@shared/spc';
 
 interface SelectedPointProps {

@@ -1,7 +1,7 @@
 import { useState } from 'react';
 import type { CharacteristicChart, ChartViolation } from '@shared/schemas/charts';
 import { Button } from '@web/components/ui/Button';
-import { formatDateTime } from '../lib/format';
+import { formatDateTime } from '@web/lib/chart-format';
 import { ruleLabels, statisticNames } from '@shared/spc';
 
 const FIRST = 12;

@@ -14,7 +14,7 @@ import type {
 import type { CharacteristicChart, ChartPointRecord, ChartViolation } from '@shared/schemas/charts';
 import { lineStyles, markers, zoneFill, type LineKind, type MarkerKind } from './line-styles';
 import { ruleLabels, statisticNames } from '@shared/spc';
-import { escapeHtml, figure, formatDateTime, formatShortDate, shiftName } from './format';
+import { escapeHtml, figure, formatDateTime, formatShortDate, shiftName } from '@web/lib/chart-format';
 
 export type ControlChartOption = ComposeOption<
   | LineSeriesOption

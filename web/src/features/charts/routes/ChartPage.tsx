@@ -2,7 +2,7 @@ import { useCallback, useEffect, useMemo, useRef, useState, type ReactNode } fro
 import { Link, useParams, useSearchParams } from 'react-router';
 import { ApiError } from '@web/lib/http';
 import { useMay } from '@web/app/permissions';
-import { usePlantTimeZone } from '@web/features/results/api/catalogue';
+import { usePlantTimeZone } from '@web/lib/catalogue';
 import { useChart, type ChartRange } from '../api/chart';
 import { ControlChart, type ZoomWindow } from '../components/ControlChart';
 import { ChartLegend } from '../components/ChartLegend';
@@ -15,7 +15,7 @@ import { FreezeLimitsDialog } from '../components/FreezeLimitsDialog';
 import { LotDetailsDialog } from '../components/LotDetailsDialog';
 import { SelectedPoint } from '../components/SelectedPoint';
 import { SignalList } from '../components/SignalList';
-import { formatDateTime } from '../lib/format';
+import { formatDateTime } from '@web/lib/chart-format';
 import { chartTypeLabels, ruleSetLabels } from '@shared/spc';
 import type { CharacteristicChart } from '@shared/schemas/charts';
 import { PageHeader } from '@web/components/ui/PageHeader';
@@ -47,7 +47,8 @@ type Open =
   | { kind: 'lot'; index: number }
   | { kind: 'exclude'; index: number }
   | { kind: 'include'; index: number }
-  | { kind: 'freeze' }
+  /** The zoom window as it was when the dialog opened: the baseline it offers. */
+  | { kind: 'freeze'; view: ZoomWindow | null }
   | null;
 
 function Section({ title, actions, children, id }: { title: string; actions?: ReactNode; children: ReactNode; id?: string }) {
@@ -177,7 +178,7 @@ export default function ChartPage() {
           id="limits-heading"
           actions={
             canFreeze && data.points.length > 0 ? (
-              <Button variant="secondary" onClick={() => setOpen({ kind: 'freeze' })}>
+              <Button variant="secondary" onClick={() => setOpen({ kind: 'freeze', view: view.current })}>
                 Freeze limits…
               </Button>
             ) : undefined
@@ -265,7 +266,7 @@ export default function ChartPage() {
       {open?.kind === 'lot' && openPoint && <LotDetailsDialog lotNumber={openPoint.lotNumber} currentCode={c.code} timeZone={timeZone} onClose={() => setOpen(null)} />}
       {open?.kind === 'exclude' && openPoint && <ExcludePointDialog chart={data} point={openPoint} timeZone={timeZone} onClose={() => setOpen(null)} onDone={done} />}
       {open?.kind === 'include' && openPoint && <IncludePointDialog chart={data} point={openPoint} timeZone={timeZone} onClose={() => setOpen(null)} onDone={done} />}
-      {open?.kind === 'freeze' && <FreezeLimitsDialog chart={data} timeZone={timeZone} view={view.current} onClose={() => setOpen(null)} onDone={done} />}
+      {open?.kind === 'freeze' && <FreezeLimitsDialog chart={data} timeZone={timeZone} view={open.view} onClose={() => setOpen(null)} onDone={done} />}
     </>
   );
 }

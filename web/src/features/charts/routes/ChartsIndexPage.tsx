@@ -1,6 +1,6 @@
 import { useState } from 'react';
 import { Link } from 'react-router';
-import { useCharacteristics, useLines, type Characteristic } from '@web/features/results/api/catalogue';
+import { useCharacteristics, useLines, type Characteristic } from '@web/lib/catalogue';
 import { PageHeader } from '@web/components/ui/PageHeader';
 import { Input } from '@web/components/ui/Field';
 import { Loading } from '@web/components/ui/Spinner';

@@ -1,18 +1,8 @@
 import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
 import { http } from '@web/lib/http';
 import type { Overview } from '@shared/schemas/overview';
+import { overviewKeys, type OverviewFilters } from '@web/lib/query-keys';
 
-export interface OverviewFilters {
-  line?: string;
-  family?: string;
-  days: number;
-}
-
-/** Query keys of this feature; chart changes (exclusions, freezes) invalidate `overviewKeys.all`. */
-export const overviewKeys = {
-  all: ['overview'] as const,
-  view: (filters: OverviewFilters) => [...overviewKeys.all, filters] as const,
-};
 
 export function fetchOverview(filters: OverviewFilters, signal?: AbortSignal): Promise<Overview> {
   const params = new URLSearchParams({ days: String(filters.days) });

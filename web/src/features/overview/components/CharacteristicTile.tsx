@@ -1,7 +1,7 @@
 import { Link } from 'react-router';
 import type { OverviewItem } from '@shared/schemas/overview';
 import { Badge } from '@web/components/ui/Badge';
-import { formatPlantDateTime } from '@web/features/results/lib/plant-time';
+import { formatPlantDateTime } from '@web/lib/plant-time';
 import { TrendLine } from './TrendLine';
 
 const fixed = (v: number | null | undefined, d: number) => (v === null || v === undefined ? '–' : v.toFixed(d));

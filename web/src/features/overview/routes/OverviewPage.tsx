@@ -1,9 +1,9 @@
 import { useMemo } from 'react';
 import { useSearchParams } from 'react-router';
 import { useOverview } from '../api/overview';
-import { usePlantTimeZone } from '@web/features/results/api/catalogue';
+import { usePlantTimeZone } from '@web/lib/catalogue';
 import { CharacteristicTile } from '../components/CharacteristicTile';
-import { formatPlantDateTime } from '@web/features/results/lib/plant-time';
+import { formatPlantDateTime } from '@web/lib/plant-time';
 import { overviewPeriods, type OverviewItem } from '@shared/schemas/overview';
 import { PageHeader } from '@web/components/ui/PageHeader';
 import { Select } from '@web/components/ui/Field';

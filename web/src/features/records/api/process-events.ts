@@ -1,7 +1,7 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { http } from '@web/lib/http';
 import type { ProcessEventInput } from '@shared/schemas/plant-records';
-import { chartKeys } from '@web/features/charts/api/chart';
+import { chartKeys } from '@web/lib/query-keys';
 
 export interface ProcessEvent {
   id: number;

@@ -1,10 +1,10 @@
 import { useForm, useWatch } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import type { Product, ProductionLine } from '@web/features/results/api/catalogue';
-import { TextArea } from '@web/features/charts/components/TextArea';
+import type { Product, ProductionLine } from '@web/lib/catalogue';
+import { TextArea } from '@web/components/ui/TextArea';
 import { useCreateProcessEvent } from '../api/process-events';
 import { processEventFormSchema } from '../lib/form-schemas';
-import { browserTimeZone, nowAsLocalInput } from '../lib/date-time';
+import { browserTimeZone, nowAsLocalInput } from '@web/lib/date-time';
 import { showServerErrors } from '@web/lib/forms';
 import { Alert } from '@web/components/ui/Alert';
 import { Button } from '@web/components/ui/Button';

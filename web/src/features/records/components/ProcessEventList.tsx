@@ -1,5 +1,5 @@
 import type { ProcessEvent } from '../api/process-events';
-import { formatWithZone } from '../lib/date-time';
+import { formatWithZone } from '@web/lib/date-time';
 
 const th = 'border-b border-zinc-200 px-3 py-2.5 font-semibold whitespace-nowrap';
 

@@ -1,7 +1,7 @@
-import { figure } from '@web/features/charts/lib/format';
-import type { SpecRevision } from '../api/specifications';
+import { figure } from '@web/lib/chart-format';
+import type { SpecRevision } from '@web/lib/specifications';
 import { revisionState, type RevisionState } from '../lib/in-force';
-import { formatWithZone } from '../lib/date-time';
+import { formatWithZone } from '@web/lib/date-time';
 import { Badge } from '@web/components/ui/Badge';
 
 const stateTone: Record<RevisionState, 'positive' | 'accent' | 'neutral'> = { 'in force': 'positive', scheduled: 'accent', superseded: 'neutral' };

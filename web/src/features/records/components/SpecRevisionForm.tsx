@@ -1,10 +1,10 @@
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import type { Characteristic } from '@web/features/results/api/catalogue';
-import { TextArea } from '@web/features/charts/components/TextArea';
-import { useCreateSpecRevision, type SpecRevision } from '../api/specifications';
+import type { Characteristic } from '@web/lib/catalogue';
+import { TextArea } from '@web/components/ui/TextArea';
+import { useCreateSpecRevision, type SpecRevision } from '@web/lib/specifications';
 import { specRevisionFormSchema } from '../lib/form-schemas';
-import { browserTimeZone, formatWithZone } from '../lib/date-time';
+import { browserTimeZone, formatWithZone } from '@web/lib/date-time';
 import { showServerErrors } from '@web/lib/forms';
 import { Alert } from '@web/components/ui/Alert';
 import { Button } from '@web/components/ui/Button';

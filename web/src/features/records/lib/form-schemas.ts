@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { processEventSchema, specRevisionSchema } from '@shared/schemas/plant-records';
-import { typedNumber } from '@web/features/results/lib/form-values';
-import { localInputToIso } from './date-time';
+import { typedNumber } from '@web/lib/form-values';
+import { localInputToIso } from '@web/lib/date-time';
 
 // The forms keep what was typed (numbers with a decimal comma or point, local date-times) and turn it
 // into the request body before the shared schema checks it, so its rules and messages land on the same

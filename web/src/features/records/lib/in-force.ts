@@ -1,4 +1,4 @@
-import type { SpecRevision } from '../api/specifications';
+import type { SpecRevision } from '@web/lib/specifications';
 
 export type RevisionState = 'in force' | 'scheduled' | 'superseded';
 

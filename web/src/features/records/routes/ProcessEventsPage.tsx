@@ -1,8 +1,8 @@
 import { useState } from 'react';
-import { useLines, useProducts } from '@web/features/results/api/catalogue';
+import { useLines, useProducts } from '@web/lib/catalogue';
 import { useMay } from '@web/app/permissions';
 import { useProcessEvents, type EventPeriod } from '../api/process-events';
-import { browserTimeZone, formatWithZone, localDateToIso } from '../lib/date-time';
+import { browserTimeZone, formatWithZone, localDateToIso } from '@web/lib/date-time';
 import { ProcessEventForm, type RecordedEvent } from '../components/ProcessEventForm';
 import { ProcessEventList } from '../components/ProcessEventList';
 import { PageHeader } from '@web/components/ui/PageHeader';

@@ -1,11 +1,11 @@
 import { useState } from 'react';
 import { Link, useParams } from 'react-router';
-import { useCharacteristics } from '@web/features/results/api/catalogue';
-import { characteristicLabel } from '@web/features/results/lib/names';
-import { specLimitsText } from '@web/features/results/lib/spec';
+import { useCharacteristics } from '@web/lib/catalogue';
+import { characteristicLabel } from '@web/lib/names';
+import { specLimitsText } from '@web/lib/spec';
 import { useMay } from '@web/app/permissions';
-import { useSpecRevisions, type SpecRevision } from '../api/specifications';
-import { formatWithZone } from '../lib/date-time';
+import { useSpecRevisions, type SpecRevision } from '@web/lib/specifications';
+import { formatWithZone } from '@web/lib/date-time';
 import { RevisionNote } from '../components/RevisionNote';
 import { RevisionHistory } from '../components/RevisionHistory';
 import { SpecRevisionForm } from '../components/SpecRevisionForm';
@@ -22,7 +22,8 @@ export default function SpecificationPage() {
   const characteristics = useCharacteristics();
   const revisions = useSpecRevisions(id);
   const canRevise = useMay('specification.revise');
-  const [saved, setSaved] = useState<SpecRevision | null>(null);
+  // Whether the saved revision is still to come is judged when it is saved, not at every render.
+  const [saved, setSaved] = useState<(SpecRevision & { future: boolean }) | null>(null);
 
   const back = (
     <p className="mb-4 text-sm">
@@ -77,7 +78,7 @@ export default function SpecificationPage() {
         {saved && (
           <Alert tone="success">
             Revision <span className="font-mono">{saved.revision}</span> saved
-            {Date.parse(saved.effectiveFrom) > Date.now() ? (
+            {saved.future ? (
               <>
                 ; it takes effect on <span className="font-mono">{formatWithZone(saved.effectiveFrom)}</span>.
               </>
@@ -102,7 +103,7 @@ export default function SpecificationPage() {
                   key={revisions.data[0]?.id ?? 'first'}
                   characteristic={characteristic}
                   latest={revisions.data[0]}
-                  onSaved={setSaved}
+                  onSaved={(revision) => setSaved({ ...revision, future: Date.parse(revision.effectiveFrom) > Date.now() })}
                 />
               </Card>
             )}

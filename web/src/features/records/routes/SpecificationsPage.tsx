@@ -1,9 +1,9 @@
 import { Link } from 'react-router';
-import { useCharacteristics, type Characteristic } from '@web/features/results/api/catalogue';
-import { characteristicLabel } from '@web/features/results/lib/names';
-import { figure } from '@web/features/charts/lib/format';
+import { useCharacteristics, type Characteristic } from '@web/lib/catalogue';
+import { characteristicLabel } from '@web/lib/names';
+import { figure } from '@web/lib/chart-format';
 import { useMay } from '@web/app/permissions';
-import { formatWithZone } from '../lib/date-time';
+import { formatWithZone } from '@web/lib/date-time';
 import { RevisionNote } from '../components/RevisionNote';
 import { PageHeader } from '@web/components/ui/PageHeader';
 import { Loading } from '@web/components/ui/Spinner';

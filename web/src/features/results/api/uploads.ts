@@ -2,8 +2,8 @@ import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/r
 import { http } from '@web/lib/http';
 import type { ColumnMapping, CsvDialect, SaveMappingInput } from '@shared/ingest';
 import type { UploadImported, UploadListItem, UploadStatus, UploadVoided } from '@shared/schemas/uploads';
-import { fileOutcome, type UploadOutcome } from './import-outcome';
-import { lotKeys } from './lots';
+import { fileOutcome, type UploadOutcome } from '@web/lib/import-outcome';
+import { lotKeys } from '@web/lib/lots';
 
 export interface SavedMapping {
   id: number;

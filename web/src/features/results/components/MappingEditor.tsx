@@ -1,9 +1,9 @@
 import { useState } from 'react';
 import { missingColumns, saveMappingSchema, type ColumnMapping } from '@shared/ingest';
 import { errorMessage } from '@web/lib/http';
-import type { Characteristic } from '../api/catalogue';
+import type { Characteristic } from '@web/lib/catalogue';
 import { useSaveColumnMapping, type SavedMapping } from '../api/uploads';
-import { characteristicLabel } from '../lib/names';
+import { characteristicLabel } from '@web/lib/names';
 import { columnLabels, draftColumns, draftFromMapping, isRequired, suggestDraft, type MappingDraft } from '../lib/mapping';
 import { Alert } from '@web/components/ui/Alert';
 import { Button } from '@web/components/ui/Button';

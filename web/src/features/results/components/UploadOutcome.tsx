@@ -1,6 +1,6 @@
 import { Link } from 'react-router';
 import { uploadLinks } from '../api/uploads';
-import type { UploadOutcome as Outcome } from '../api/import-outcome';
+import type { UploadOutcome as Outcome } from '@web/lib/import-outcome';
 import { RowErrorList } from './RowErrorList';
 import { DownloadLink } from './DownloadLink';
 import { Alert } from '@web/components/ui/Alert';

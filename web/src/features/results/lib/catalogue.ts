@@ -1,6 +1,6 @@
 import type { IngestCatalogue } from '@shared/ingest';
-import type { TestMethodEntry } from '@web/features/test-methods/api/test-methods';
-import type { EntryCatalogue } from '../api/catalogue';
+import type { TestMethodEntry } from '@web/lib/test-methods';
+import type { EntryCatalogue } from '@web/lib/catalogue';
 
 /** The catalogue as the shared row validation needs it, built like the server builds it: active lines, products and characteristics only. */
 export function ingestCatalogue({ timeZone, products, lines, characteristics, testMethods }: EntryCatalogue): IngestCatalogue {

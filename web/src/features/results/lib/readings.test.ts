@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import type { Characteristic } from '../api/catalogue';
+import type { Characteristic } from '@web/lib/catalogue';
 import { readingResult } from './readings';
 import { setResult } from './sets';
-import { specVerdictBadge } from './spec';
+import { specVerdictBadge } from '@web/lib/spec';
 
 const characteristic = (testMethodCode: Characteristic['testMethodCode'], rawLoad: Characteristic['rawLoad']) => ({ testMethodCode, rawLoad }) as Characteristic;
 const rc = characteristic('RC', 'compressive');

@@ -1,6 +1,6 @@
 import { isPhysicallyPossible, resultFromEntry, roundHead50, squareHead50, type PullHead } from '@shared/lab';
 import type { ManualEntryInput } from '@shared/ingest';
-import type { Characteristic } from '../api/catalogue';
+import type { Characteristic } from '@web/lib/catalogue';
 
 type ManualResult = ManualEntryInput['results'][number];
 

@@ -1,5 +1,5 @@
 import { evaluateCompressiveSet, evaluateFlexuralSet, type SetStatus } from '@shared/lab';
-import type { Characteristic } from '../api/catalogue';
+import type { Characteristic } from '@web/lib/catalogue';
 
 export interface SetResult {
   /** The lot's result for the characteristic; null when the set is rejected. */

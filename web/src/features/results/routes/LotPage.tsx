@@ -1,10 +1,10 @@
 import { useState } from 'react';
 import { Link, useParams } from 'react-router';
 import { ApiError } from '@web/lib/http';
-import { useLot, type Lot, type LotResult } from '../api/lots';
-import { useCharacteristics, usePlantTimeZone, type Characteristic } from '../api/catalogue';
-import { formatPlantDateTime } from '../lib/plant-time';
-import { specLimitsText, specVerdictBadge } from '../lib/spec';
+import { useLot, type Lot, type LotResult } from '@web/lib/lots';
+import { useCharacteristics, usePlantTimeZone, type Characteristic } from '@web/lib/catalogue';
+import { formatPlantDateTime } from '@web/lib/plant-time';
+import { specLimitsText, specVerdictBadge } from '@web/lib/spec';
 import { setResult, setStatusText, type SetResult } from '../lib/sets';
 import { useMay } from '@web/app/permissions';
 import { CorrectMeasurementDialog, type CorrectedReading } from '../components/CorrectMeasurementDialog';

@@ -4,11 +4,11 @@ import { useFieldArray, useForm, useWatch, type FieldPath } from 'react-hook-for
 import { zodResolver } from '@hookform/resolvers/zod';
 import { manualEntrySchema, parsePlantDateTime, type ManualEntryInput, type RowError } from '@shared/ingest';
 import { ApiError, errorMessage } from '@web/lib/http';
-import { useEntryCatalogue, type EntryCatalogue } from '../api/catalogue';
-import { useSaveManualEntry } from '../api/lots';
+import { useEntryCatalogue, type EntryCatalogue } from '@web/lib/catalogue';
+import { useSaveManualEntry } from '@web/lib/lots';
 import { ManualResultCard } from '../components/ManualResultCard';
-import { characteristicLabel } from '../lib/names';
-import { blankAsUndefined } from '../lib/form-values';
+import { characteristicLabel } from '@web/lib/names';
+import { blankAsUndefined } from '@web/lib/form-values';
 import { PageHeader } from '@web/components/ui/PageHeader';
 import { Card } from '@web/components/ui/Card';
 import { Alert } from '@web/components/ui/Alert';

@@ -1,7 +1,7 @@
 import { lazy, Suspense } from 'react';
 import { Navigate, Route, Routes } from 'react-router';
 import { RequirePermission } from '@web/app/guards';
-import { useSignedInUser } from '@web/features/auth/api/session';
+import { useSignedInUser } from '@web/lib/session';
 import { may, type Permission } from '@shared/permissions';
 import { NotFoundPage } from '@web/app/routes/NotFoundPage';
 import { Loading } from '@web/components/ui/Spinner';

@@ -4,8 +4,8 @@ import { createColumnHelper, getCoreRowModel, useReactTable } from '@tanstack/re
 import { useMay } from '@web/app/permissions';
 import type { UploadListItem, UploadStatus } from '@shared/schemas/uploads';
 import { uploadLinks, useUploads } from '../api/uploads';
-import { usePlantTimeZone } from '../api/catalogue';
-import { formatPlantDateTime } from '../lib/plant-time';
+import { usePlantTimeZone } from '@web/lib/catalogue';
+import { formatPlantDateTime } from '@web/lib/plant-time';
 import { VoidUploadDialog } from '../components/VoidUploadDialog';
 import { DownloadLink } from '../components/DownloadLink';
 import { PageHeader } from '@web/components/ui/PageHeader';

@@ -1,6 +1,6 @@
 import { useMemo, useState } from 'react';
 import { decodeText, detectDialect, missingColumns, parseCsv, type CsvDialect } from '@shared/ingest';
-import { useEntryCatalogue, type EntryCatalogue } from '../api/catalogue';
+import { useEntryCatalogue, type EntryCatalogue } from '@web/lib/catalogue';
 import { uploadLinks, useColumnMappings, useUploadResults, type SavedMapping } from '../api/uploads';
 import { ingestCatalogue } from '../lib/catalogue';
 import { checkFile } from '../lib/check-file';

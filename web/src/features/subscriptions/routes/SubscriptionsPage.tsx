@@ -1,6 +1,6 @@
 import { useDeleteSubscription, useScope, useSubscriptions, useUpdateSubscription, type Subscription } from '../api/subscriptions';
 import { AddSubscriptionForm } from '../components/AddSubscriptionForm';
-import { useSignedInUser } from '@web/features/auth/api/session';
+import { useSignedInUser } from '@web/lib/session';
 import { errorMessage } from '@web/lib/http';
 import { PageHeader } from '@web/components/ui/PageHeader';
 import { Card } from '@web/components/ui/Card';

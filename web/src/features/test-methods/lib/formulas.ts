@@ -1,5 +1,5 @@
 import { compressiveStrength, flexuralStrength, pullHeadAreaMm2, pullOffStrength, roundHead50, squareHead50, standardPrism } from '@shared/lab';
-import type { TestMethodEntry } from '../api/test-methods';
+import type { TestMethodEntry } from '@web/lib/test-methods';
 
 export interface RawLoadExplanation {
   reading: string;

@@ -1,7 +1,7 @@
 import { useMemo } from 'react';
 import { Link } from 'react-router';
 import { createColumnHelper, getCoreRowModel, useReactTable } from '@tanstack/react-table';
-import { useTestMethods, type TestMethodEntry } from '../api/test-methods';
+import { useTestMethods, type TestMethodEntry } from '@web/lib/test-methods';
 import { stateLabels } from '../lib/formulas';
 import { PageHeader } from '@web/components/ui/PageHeader';
 import { DataTable } from '@web/components/ui/Table';

@@ -1,9 +1,9 @@
 import { Link, useParams } from 'react-router';
-import { useTestMethods } from '../api/test-methods';
-import { useCharacteristics } from '@web/features/results/api/catalogue';
-import { specLimitsText } from '@web/features/results/lib/spec';
+import { useTestMethods } from '@web/lib/test-methods';
+import { useCharacteristics } from '@web/lib/catalogue';
+import { specLimitsText } from '@web/lib/spec';
 import { physicalRangeText, rawLoadExplanation, stateLabels } from '../lib/formulas';
-import { MethodCautions } from '../components/MethodCautions';
+import { MethodCautions } from '@web/components/MethodCautions';
 import { PageHeader } from '@web/components/ui/PageHeader';
 import { Card } from '@web/components/ui/Card';
 import { Loading } from '@web/components/ui/Spinner';

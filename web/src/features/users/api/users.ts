@@ -1,6 +1,6 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { http } from '@web/lib/http';
-import { sessionQueryKey, type SessionUser } from '@web/features/auth/api/session';
+import { sessionQueryKey, type SessionUser } from '@web/lib/session';
 import type { CreateUserInput, PublicUser, UpdateUserInput } from '@shared/schemas/users';
 
 /** Query keys of this feature; mutations invalidate `userKeys.all` so every list refreshes. */

@@ -10,12 +10,7 @@ import { Button } from '@web/components/ui/Button';
 import { RoleOptions } from './RoleOptions';
 import { Dialog } from '@web/components/ui/Dialog';
 import { Field, Input, Select } from '@web/components/ui/Field';
-
-/** A one-line outcome of an action, shown above the table. */
-export interface Notice {
-  tone: 'success' | 'error';
-  text: string;
-}
+import type { Notice } from '@web/components/ui/Notice';
 
 type Open = 'none' | 'activity' | 'password';
 

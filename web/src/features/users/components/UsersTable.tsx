@@ -6,7 +6,8 @@ import { DataTable } from '@web/components/ui/Table';
 import { Badge } from '@web/components/ui/Badge';
 import { TableFilter, useFilteredTable } from '@web/components/ui/FilteredTable';
 import { EmptyState } from '@web/components/ui/EmptyState';
-import { RoleSelect, UserActions, type Notice } from './UserActions';
+import type { Notice } from '@web/components/ui/Notice';
+import { RoleSelect, UserActions } from './UserActions';
 
 const column = createColumnHelper<PublicUser>();
 

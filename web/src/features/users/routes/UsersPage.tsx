@@ -1,9 +1,9 @@
 import { useState } from 'react';
 import { useUsers } from '../api/users';
-import { useSignedInUser } from '@web/features/auth/api/session';
+import { useSignedInUser } from '@web/lib/session';
 import { UsersTable } from '../components/UsersTable';
 import { CreateUserForm } from '../components/CreateUserForm';
-import type { Notice } from '../components/UserActions';
+import type { Notice } from '@web/components/ui/Notice';
 import { PageHeader } from '@web/components/ui/PageHeader';
 import { Card } from '@web/components/ui/Card';
 import { Button } from '@web/components/ui/Button';

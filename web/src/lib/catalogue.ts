@@ -1,8 +1,8 @@
 import { useMemo } from 'react';
 import { queryOptions, useQuery } from '@tanstack/react-query';
-import { http } from '@web/lib/http';
+import { http } from './http';
 import type { CharacteristicView, LineView, PlantView, ProductView, SpecInForce } from '@shared/schemas/catalogue';
-import { useTestMethods, type TestMethodEntry } from '@web/features/test-methods/api/test-methods';
+import { useTestMethods, type TestMethodEntry } from './test-methods';
 
 // The catalogue as the API answers it (every role gets the same fields), by the names the screens use.
 export type Product = ProductView;

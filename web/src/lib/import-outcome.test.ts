@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { ApiError } from '@web/lib/http';
+import { ApiError } from './http';
 import { fileOutcome } from './import-outcome';
 
 describe('the outcome of a refused file', () => {

@@ -1,5 +1,5 @@
 import { specVerdict } from '@shared/spc';
-import type { SpecInForce } from '../api/catalogue';
+import type { SpecInForce } from './catalogue';
 
 export interface SpecVerdictBadge {
   tone: 'positive' | 'negative' | 'neutral';

@@ -1,5 +1,5 @@
 import type { Ref, TextareaHTMLAttributes } from 'react';
-import { cx } from '@web/components/ui/cx';
+import { cx } from './cx';
 
 /** A multi-line text control styled like the shared Input, for reasons that take a sentence. */
 export function TextArea({

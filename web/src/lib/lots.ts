@@ -1,8 +1,8 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { http } from '@web/lib/http';
+import { http } from './http';
 import type { ManualEntry } from '@shared/ingest';
-import { chartKeys } from '@web/features/charts/api/chart';
-import { overviewKeys } from '@web/features/overview/api/overview';
+import { chartKeys } from './query-keys';
+import { overviewKeys } from './query-keys';
 import { fileOutcome, type UploadOutcome } from './import-outcome';
 
 export interface LotResult {

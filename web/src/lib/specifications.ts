@@ -1,9 +1,9 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { http } from '@web/lib/http';
+import { http } from './http';
 import type { SpecRevisionInput } from '@shared/schemas/plant-records';
-import { catalogueKeys } from '@web/features/results/api/catalogue';
-import { chartKeys } from '@web/features/charts/api/chart';
-import { overviewKeys } from '@web/features/overview/api/overview';
+import { catalogueKeys } from './catalogue';
+import { chartKeys } from './query-keys';
+import { overviewKeys } from './query-keys';
 
 /** One revision of a characteristic's specification, newest first in the history. */
 export interface SpecRevision {

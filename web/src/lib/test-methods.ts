@@ -1,5 +1,5 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
-import { http } from '@web/lib/http';
+import { http } from './http';
 import type { TestMethodView } from '@shared/schemas/catalogue';
 
 /** A test method as GET /api/v1/test-methods gives it. */

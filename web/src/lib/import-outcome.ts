@@ -1,4 +1,4 @@
-import { ApiError } from '@web/lib/http';
+import { ApiError } from './http';
 import type { RowError } from '@shared/ingest';
 import type { UploadImported } from '@shared/schemas/uploads';
 

@@ -1,4 +1,4 @@
-import type { Characteristic } from '../api/catalogue';
+import type { Characteristic } from './catalogue';
 
 /** A characteristic's name without its product, where a list already groups or filters by product: "flow diameter". */
 export function characteristicLabel(c: Pick<Characteristic, 'name' | 'productName'>): string {

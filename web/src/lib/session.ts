@@ -1,5 +1,5 @@
 import { queryOptions, useMutation, useQuery, useQueryClient, type QueryClient } from '@tanstack/react-query';
-import { ApiError, http } from '@web/lib/http';
+import { ApiError, http } from './http';
 import type { LoginInput, PublicUser } from '@shared/schemas/users';
 
 /** The signed-in user as /auth/me and /auth/login return it. */
