@@ -5,8 +5,9 @@ import type { Database } from '../db/client';
 import { arr } from '../db/sql';
 import { composeAlarmMail, composeDigest, type AlarmMailFacts, type DigestEntry } from './compose';
 import { queueMail, type OutboxMail } from './outbox';
+import { alarmsInContext, signalOfRow, type AlarmSignalColumns } from '../spc/alarms';
 
-type FactsRow = {
+type FactsRow = AlarmSignalColumns & {
   alarm_id: number;
   rule: string;
   characteristic_id: number;
@@ -20,13 +21,6 @@ type FactsRow = {
   lot_number: string;
   produced_at: Date;
   shift: string | null;
-  point_index: number;
-  statistic: number;
-  values: number[];
-  limit_name: string | null;
-  limit_value: number | null;
-  description: string;
-  late_reason: string | null;
   created_at: Date;
   user_id: number;
   email: string;
@@ -47,13 +41,7 @@ const factsOf = (r: FactsRow): AlarmMailFacts => ({
   lotNumber: r.lot_number,
   producedAt: new Date(r.produced_at),
   shift: r.shift,
-  pointIndex: r.point_index,
-  statistic: r.statistic,
-  values: r.values.map(Number),
-  limitName: r.limit_name,
-  limitValue: r.limit_value,
-  description: r.description,
-  lateReason: r.late_reason,
+  ...signalOfRow(r),
 });
 
 /** Alarms with each active subscriber of their product or line (once per user) who wants `kind`. */
@@ -63,12 +51,7 @@ const subscriberFacts = (kind: 'immediate' | 'digest', where: ReturnType<typeof 
     pl.code as line_code, l.lot_number, l.produced_at, l.shift, a.point_index, a.statistic, a."values", a.limit_name, a.limit_value,
     a.description, a.late_reason, a.created_at, u.id as user_id, u.email,
     case when s.product_id is not null then 'product ' || p.code else 'line ' || pl.code end as scope
-  from alarms a
-  join characteristics c on c.id = a.characteristic_id
-  join test_methods tm on tm.id = c.test_method_id
-  join products p on p.id = c.product_id
-  left join production_lines pl on pl.id = p.line_id
-  join lots l on l.id = a.lot_id
+  ${alarmsInContext}
   join alarm_subscriptions s on s.${sql.raw(kind)} and (s.product_id = p.id or s.line_id = p.line_id)
   join users u on u.id = s.user_id and u.active
   where ${where}

@@ -10,6 +10,37 @@ import { queueAlarmMail } from '../mail/notify';
 import type { CharacteristicChart, ChartInputs } from './chart-assembly';
 import { arr, type Executor } from './db';
 
+/** The columns of an alarm row that hold its signal, as raw SQL reads them (alarm list, alarm e-mail). */
+export type AlarmSignalColumns = {
+  point_index: number;
+  statistic: number;
+  values: number[];
+  limit_name: string | null;
+  limit_value: number | null;
+  description: string;
+  late_reason: string | null;
+};
+
+/** An alarm with what it concerns: characteristic c, its test method tm, product p, line pl and lot l. */
+export const alarmsInContext = sql`
+  from alarms a
+  join characteristics c on c.id = a.characteristic_id
+  join test_methods tm on tm.id = c.test_method_id
+  join products p on p.id = c.product_id
+  left join production_lines pl on pl.id = p.line_id
+  join lots l on l.id = a.lot_id`;
+
+/** The signal's facts of an alarm row, in the answer's and the e-mail's names. */
+export const signalOfRow = (r: AlarmSignalColumns) => ({
+  pointIndex: r.point_index,
+  statistic: r.statistic,
+  values: r.values.map(Number),
+  limitName: r.limit_name,
+  limitValue: r.limit_value,
+  description: r.description,
+  lateReason: r.late_reason,
+});
+
 export const OUT_OF_SPEC = 'out-of-spec';
 /** Rules that e-mail subscribers at once; the rest wait for the morning digest. */
 export const IMMEDIATE_RULES: readonly string[] = [OUT_OF_SPEC, 'we1'];

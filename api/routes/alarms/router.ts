@@ -6,11 +6,11 @@ import type { Database } from '@api/db/client';
 import { notFound, parseBody } from '@api/http/errors';
 import { requirePermission, requireSession } from '@api/auth/session';
 import { signalNames, chartLink } from '@api/mail/compose';
-import { OUT_OF_SPEC, triageAlarm } from '@api/spc/alarms';
+import { alarmsInContext, OUT_OF_SPEC, signalOfRow, triageAlarm, type AlarmSignalColumns } from '@api/spc/alarms';
 import { alarmIdParamsSchema, alarmNoteSchema, listAlarmsQuerySchema } from './schema';
 
 /** One alarm as the list query reads it, before it becomes an AlarmView. */
-type AlarmRow = {
+type AlarmRow = AlarmSignalColumns & {
   id: number;
   characteristic_id: number;
   characteristic_code: string;
@@ -24,14 +24,7 @@ type AlarmRow = {
   produced_at: Date;
   rule: AlarmRule;
   chart: AlarmChart;
-  point_index: number;
-  statistic: number;
-  values: number[];
-  limit_name: string | null;
-  limit_value: number | null;
-  description: string;
   late: boolean;
-  late_reason: string | null;
   source: AlarmSource;
   run_id: number | null;
   status: AlarmStatus;
@@ -58,14 +51,8 @@ function toView(r: AlarmRow, publicUrl: string): AlarmView {
     signal: signalNames[r.rule] ?? r.rule,
     ruleDescription: r.rule === OUT_OF_SPEC ? 'The lot’s result lies outside the specification in force when it was produced.' : (ruleDescriptions[r.rule as RuleId] ?? null),
     chart: r.chart,
-    pointIndex: r.point_index,
-    statistic: r.statistic,
-    values: r.values.map(Number),
-    limitName: r.limit_name,
-    limitValue: r.limit_value,
-    description: r.description,
+    ...signalOfRow(r),
     late: r.late,
-    lateReason: r.late_reason,
     source: r.source,
     runId: r.run_id,
     status: r.status,
@@ -87,12 +74,7 @@ const select = sql`
     a.lot_id, l.lot_number, l.produced_at, a.rule, a.chart, a.point_index, a.statistic, a."values", a.limit_name, a.limit_value, a.description, a.late, a.late_reason,
     a.source, a.run_id, a.status, a.resolution, a.created_at, a.updated_at, a.acknowledged_at, ua.name as acknowledged_by, a.acknowledge_note,
     a.closed_at, uc.name as closed_by, a.close_note
-  from alarms a
-  join characteristics c on c.id = a.characteristic_id
-  join test_methods tm on tm.id = c.test_method_id
-  join products p on p.id = c.product_id
-  left join production_lines pl on pl.id = p.line_id
-  join lots l on l.id = a.lot_id
+  ${alarmsInContext}
   left join users ua on ua.id = a.acknowledged_by
   left join users uc on uc.id = a.closed_by`;
 

@@ -80,3 +80,24 @@ function HeaderLabel<T>({ header }: { header: Header<T, unknown> }) {
     </button>
   );
 }
+
+/** A table of hand-written rows with the same frame, caption and header row as DataTable: for rows that are not one record a cell. */
+export function PlainTable({ caption, headings, children }: { caption: string; headings: readonly string[]; children: ReactNode }) {
+  return (
+    <div className="overflow-x-auto rounded-lg border border-zinc-200 bg-white">
+      <table className="w-full border-collapse text-left">
+        <caption className="sr-only">{caption}</caption>
+        <thead className="bg-zinc-100/80 text-sm text-zinc-700">
+          <tr>
+            {headings.map((h, i) => (
+              <th key={`${h}-${i}`} scope="col" className="border-b border-zinc-200 px-3 py-2.5 font-semibold whitespace-nowrap">
+                {h}
+              </th>
+            ))}
+          </tr>
+        </thead>
+        <tbody>{children}</tbody>
+      </table>
+    </div>
+  );
+}

@@ -14,7 +14,7 @@ import { characteristicFormSchema, emptySpec, newCharacteristicFormSchema, type 
 import { shortMethodName, suggestedCode, suggestedName } from '../lib/suggest';
 import { Field, Input, Select } from '@web/components/ui/Field';
 import { Alert } from '@web/components/ui/Alert';
-import { FormButtons } from './FormButtons';
+import { FormButtons } from '@web/components/ui/FormButtons';
 
 const fields: FieldPath<CharacteristicFormValues>[] = [
   'productCode',

@@ -6,7 +6,7 @@ import type { LineView } from '@shared/schemas/catalogue';
 import { useCreateLine, useUpdateLine } from '../api/catalogue';
 import { Field, Input } from '@web/components/ui/Field';
 import { Alert } from '@web/components/ui/Alert';
-import { FormButtons } from './FormButtons';
+import { FormButtons } from '@web/components/ui/FormButtons';
 
 const fields = ['code', 'name'] as const;
 

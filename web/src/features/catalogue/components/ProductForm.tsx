@@ -7,7 +7,7 @@ import type { LineView, ProductView } from '@shared/schemas/catalogue';
 import { useCreateProduct, useUpdateProduct } from '../api/catalogue';
 import { Field, Input, Select } from '@web/components/ui/Field';
 import { Alert } from '@web/components/ui/Alert';
-import { FormButtons } from './FormButtons';
+import { FormButtons } from '@web/components/ui/FormButtons';
 
 const fields = ['code', 'name', 'family', 'declaredClass', 'lineCode'] as const;
 

@@ -1,3 +1,4 @@
+import { PlainTable } from '@web/components/ui/Table';
 import { useLimitRevisions } from '../api/chart';
 import { Badge } from '@web/components/ui/Badge';
 import { Loading } from '@web/components/ui/Spinner';
@@ -14,19 +15,7 @@ export function LimitRevisions({ characteristicId, decimals, timeZone }: { chara
     return <EmptyState title="Limits were never frozen">The chart uses trial limits from the points shown. A quality manager can freeze them from a stable baseline period.</EmptyState>;
   }
   return (
-    <div className="overflow-x-auto rounded-lg border border-zinc-200 bg-white">
-      <table className="w-full border-collapse text-left">
-        <caption className="sr-only">History of frozen control limits</caption>
-        <thead className="bg-zinc-100/80 text-sm text-zinc-700">
-          <tr>
-            {['Revision', 'Frozen', 'Baseline', 'Centre', 'LCL', 'UCL', 'σ within', 'Reason'].map((h) => (
-              <th key={h} scope="col" className="border-b border-zinc-200 px-3 py-2.5 font-semibold whitespace-nowrap">
-                {h}
-              </th>
-            ))}
-          </tr>
-        </thead>
-        <tbody>
+    <PlainTable caption="History of frozen control limits" headings={['Revision', 'Frozen', 'Baseline', 'Centre', 'LCL', 'UCL', 'σ within', 'Reason']}>
           {revisions.data.map((r) => (
             <tr key={r.id} className="border-b border-zinc-100 align-top last:border-b-0">
               <td className="px-3 py-2">
@@ -48,8 +37,6 @@ export function LimitRevisions({ characteristicId, decimals, timeZone }: { chara
               <td className="px-3 py-2 text-sm">{r.reason}</td>
             </tr>
           ))}
-        </tbody>
-      </table>
-    </div>
+    </PlainTable>
   );
 }

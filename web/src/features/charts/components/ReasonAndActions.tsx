@@ -1,6 +1,6 @@
 import type { UseFormRegisterReturn } from 'react-hook-form';
 import { Field } from '@web/components/ui/Field';
-import { Button } from '@web/components/ui/Button';
+import { FormButtons } from '@web/components/ui/FormButtons';
 import { TextArea } from '@web/components/ui/TextArea';
 
 interface ReasonAndActionsProps {
@@ -23,14 +23,7 @@ export function ReasonAndActions({ label, hint, error, reason, submit, busy, onC
       <Field label={label} hint={hint} error={error}>
         {(control) => <TextArea {...control} {...reason} />}
       </Field>
-      <div className="flex gap-2">
-        <Button type="submit" busy={busy}>
-          {submit}
-        </Button>
-        <Button variant="secondary" onClick={onCancel}>
-          Cancel
-        </Button>
-      </div>
+      <FormButtons saveLabel={submit} busy={busy} onCancel={onCancel} />
     </>
   );
 }

@@ -1,3 +1,4 @@
+import { PlainTable } from '@web/components/ui/Table';
 import { Fragment, useState } from 'react';
 import { isActive, useRuns, useStartRun, type RunSummary } from '../api/runs';
 import { RunProgress } from '../components/RunProgress';
@@ -71,19 +72,7 @@ export default function RunsPage() {
         ) : runs.data.length === 0 ? (
           <EmptyState title="No run yet">The first nightly run starts at the time set for the plant{mayStart ? ', or start one now' : ''}.</EmptyState>
         ) : (
-          <div className="overflow-x-auto rounded-lg border border-zinc-200 bg-white">
-            <table className="w-full border-collapse text-left">
-              <caption className="sr-only">SPC runs, newest first</caption>
-              <thead className="bg-zinc-100/80 text-sm text-zinc-700">
-                <tr>
-                  {['Run', 'Why', 'Status', 'Progress', 'Alarms', 'Started', 'Took', ''].map((h) => (
-                    <th key={h} scope="col" className="border-b border-zinc-200 px-3 py-2.5 font-semibold whitespace-nowrap">
-                      {h}
-                    </th>
-                  ))}
-                </tr>
-              </thead>
-              <tbody>
+          <PlainTable caption="SPC runs, newest first" headings={['Run', 'Why', 'Status', 'Progress', 'Alarms', 'Started', 'Took', '']}>
                 {runs.data.map((run) => (
                   <Fragment key={run.id}>
                     <tr className="border-b border-zinc-100 align-top" data-run={run.id}>
@@ -124,9 +113,7 @@ export default function RunsPage() {
                     )}
                   </Fragment>
                 ))}
-              </tbody>
-            </table>
-          </div>
+          </PlainTable>
         )}
       </div>
     </>

@@ -1,5 +1,6 @@
-import { Button } from '@web/components/ui/Button';
+import { Button } from './Button';
 
+/** Save and Cancel under a form. */
 export function FormButtons({ saveLabel, busy, onCancel }: { saveLabel: string; busy: boolean; onCancel: () => void }) {
   return (
     <div className="flex gap-2">
