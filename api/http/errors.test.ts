@@ -5,6 +5,7 @@ import request from 'supertest';
 import { describe, expect, it } from 'vitest';
 import { z } from 'zod';
 import { rowErrorDetail } from '@shared/schemas/errors';
+import { DomainError } from '@api/spc/errors';
 import { errorHandler, fieldError, HttpError, notFoundApi, parseBody } from './errors';
 
 function app() {
@@ -18,6 +19,9 @@ function app() {
   });
   a.post('/api/file', () => {
     throw new HttpError(422, 'Nothing was imported: 1 row needs correcting', [rowErrorDetail({ row: 12, column: 'value', message: '"heavy" is not a number' })], { uploadId: 41 });
+  });
+  a.get('/api/domain/:kind', (req) => {
+    throw new DomainError(req.params.kind as DomainError['kind'], `Refused as ${req.params.kind}`);
   });
   a.get('/api/fault', () => {
     throw new Error('relation "nowhere" does not exist');
@@ -68,5 +72,14 @@ describe('the error shape', () => {
       expect(typeof res.body.error).toBe('string');
     }
     expect(fault.body.error).not.toMatch(/relation|nowhere/);
+  });
+
+  it('answers a refusal of the domain with the status of its kind, whichever route met it (RFC 9110 §15.5)', async () => {
+    const statuses = { 'not-found': 404, conflict: 409, invalid: 400, 'not-possible': 422 } as const;
+    for (const [kind, status] of Object.entries(statuses)) {
+      const res = await request(app()).get(`/api/domain/${kind}`);
+      expect(res.status).toBe(status);
+      expect(res.body).toEqual({ error: `Refused as ${kind}` });
+    }
   });
 });

@@ -2,6 +2,7 @@ import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { ZodError, type ZodType } from 'zod';
 import type { ErrorBody, ErrorDetail } from '@shared/schemas/errors';
 import { logger } from '../logger';
+import { DomainError } from '@api/spc/errors';
 
 export type { ErrorBody, ErrorDetail } from '@shared/schemas/errors';
 
@@ -60,9 +61,13 @@ function isDatabaseOutage(err: unknown): boolean {
   return false;
 }
 
+/** The HTTP status of each kind of refusal of the domain (api/spc/errors.ts), whichever route met it. */
+const domainStatus: Record<DomainError['kind'], number> = { 'not-found': 404, conflict: 409, invalid: 400, 'not-possible': 422 };
+
 /** Last handler: the user sees a clear message, never a stack trace or SQL. */
 export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   if (err instanceof ZodError) err = zodToHttp(err);
+  if (err instanceof DomainError) err = new HttpError(domainStatus[err.kind], err.message);
   const answer = (e: HttpError) => void res.status(e.status).json(e.body());
   if (err instanceof HttpError) return answer(err);
   const status = typeof err?.status === 'number' && err.status >= 400 && err.status < 500 ? err.status : 500;

@@ -1,6 +1,6 @@
 /**
  * A refusal of the SPC domain, in plain words for the person who asked. Domain code never speaks HTTP:
- * the route that called it maps the kind to a status (see api/routes/charts/router.ts).
+ * the API's error handler maps the kind to a status (api/http/errors.ts), for every route.
  * - not-found: the characteristic, point or exclusion named does not exist;
  * - conflict: the request clashes with the current state (a point already excluded);
  * - invalid: the request itself is incomplete or contradictory (no reason, a baseline that ends before it starts);

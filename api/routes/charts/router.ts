@@ -1,12 +1,11 @@
-import { Router, type ErrorRequestHandler } from 'express';
+import { Router } from 'express';
 import { eq } from 'drizzle-orm';
 import type { Database } from '@api/db/client';
 import { characteristics } from '@api/db/schema';
 import { excludePoint, freezeLimits, includePoint } from '@api/spc/chart-commands';
 import { limitRevisions, type LimitRevision } from '@api/spc/chart-load';
-import { DomainError } from '@api/spc/errors';
 import type { ResultsChanged } from '@api/spc/results-changed';
-import { HttpError, notFound, parseBody } from '@api/http/errors';
+import { notFound, parseBody } from '@api/http/errors';
 import { requirePermission, requireSession } from '@api/auth/session';
 import type { LimitRevisionRecord } from '@shared/schemas/charts';
 import { chartCacheFor } from './chart-cache';
@@ -34,14 +33,6 @@ function revisionJson(r: LimitRevision): LimitRevisionRecord {
     supersededAt: r.supersededAt ? r.supersededAt.toISOString() : null,
   };
 }
-
-/** The HTTP status of each kind of refusal of the SPC domain. */
-const domainStatus: Record<DomainError['kind'], number> = { 'not-found': 404, conflict: 409, invalid: 400, 'not-possible': 422 };
-
-/** Turns a refusal of the chart commands or the chart loader into an HTTP answer with its plain message. */
-const domainErrorsToHttp: ErrorRequestHandler = (err, _req, _res, next) => {
-  next(err instanceof DomainError ? new HttpError(domainStatus[err.kind], err.message) : err);
-};
 
 /**
  * One characteristic's control chart, its exclusions and its frozen-limit revisions. Every role
@@ -104,6 +95,5 @@ export function chartsRouter(db: Database, resultsChanged: ResultsChanged): Rout
     res.status(201).json(revisionJson(revision));
   });
 
-  router.use(domainErrorsToHttp);
   return router;
 }
