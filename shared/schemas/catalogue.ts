@@ -5,6 +5,7 @@ import { CHART_TYPES, type ChartType } from '../spc/charts';
 import { RULE_SETS, type RuleSetId } from '../spc/rules';
 export type { RuleSetId } from '../spc/rules';
 import { specRevisionSchema } from './plant-records';
+import type { PlantDateFormat } from '../time';
 
 /** The chart types and run-rule sets are the engine's (shared/spc). */
 export const chartTypes = CHART_TYPES;
@@ -252,6 +253,8 @@ export interface PlantView {
   timeZone: string;
   /** When the nightly SPC run starts, as a cron expression in the plant's time zone. */
   nightlyRunCron: string;
+  /** How dates are typed and shown at the plant, e.g. "dd/MM/yyyy". */
+  dateFormat: PlantDateFormat;
 }
 
 /** GET /api/v1/lines items, and the answer of adding or changing a line. */

@@ -2,6 +2,7 @@
 import { boolean, doublePrecision, index, integer, pgEnum, pgTable, serial, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core';
 import { users } from './users';
 import type { RawLoadFormula } from '../../../shared/lab/test-methods';
+import type { PlantDateFormat } from '../../../shared/time';
 
 export const chartTypeEnum = pgEnum('chart_type', ['xbar-r', 'xbar-s', 'imr']);
 export const ruleSetEnum = pgEnum('rule_set', ['we', 'extended']);
@@ -14,6 +15,8 @@ export const plants = pgTable('plants', {
   timeZone: text('time_zone').notNull(),
   /** node-cron expression of the nightly SPC run in the plant's time zone. */
   nightlyRunCron: text('nightly_run_cron').notNull().default('0 2 * * *'),
+  /** How people type and read dates at this plant (date-fns tokens, one of PLANT_DATE_FORMATS). */
+  dateFormat: text('date_format').$type<PlantDateFormat>().notNull().default('dd/MM/yyyy'),
 });
 
 export const productionLines = pgTable(

@@ -1,5 +1,5 @@
 import type { ReactNode } from 'react';
-import { Navigate, useLocation } from 'react-router';
+import { Navigate, useLocation } from 'react-router-dom';
 import { useSession } from '@web/lib/session';
 import { Loading } from '../components/ui/Spinner';
 import { ErrorState } from '../components/ui/ErrorState';

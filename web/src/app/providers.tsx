@@ -1,6 +1,6 @@
 import { useEffect, useState } from 'react';
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { RouterProvider } from 'react-router';
+import { RouterProvider } from 'react-router-dom';
 import { ApiError, onUnauthorized } from '../lib/http';
 import { replaceSession } from '@web/lib/session';
 import { router } from './router';

@@ -1,5 +1,5 @@
 import { lazy, Suspense, type ComponentType, type LazyExoticComponent } from 'react';
-import { createBrowserRouter, Navigate, type RouteObject } from 'react-router';
+import { createBrowserRouter, Navigate, type RouteObject } from 'react-router-dom';
 import { areas, type AreaId } from './navigation';
 import { AppLayout } from './layouts/AppLayout';
 import { RequireAuth, RequirePermission } from './guards';

@@ -3,6 +3,7 @@ import { queryOptions, useQuery } from '@tanstack/react-query';
 import { http } from './http';
 import type { CharacteristicView, LineView, PlantView, ProductView, SpecInForce } from '@shared/schemas/catalogue';
 import { useTestMethods, type TestMethodEntry } from './test-methods';
+import { DEFAULT_PLANT_DATE_FORMAT, type PlantClock } from '@shared/time';
 
 // The catalogue as the API answers it (every role gets the same fields), by the names the screens use.
 export type Product = ProductView;
@@ -48,6 +49,13 @@ export function useCharacteristics() {
 /** The plant's time zone: production and test times are typed and shown in it. */
 export function usePlantTimeZone() {
   return useQuery({ ...plantsQueryOptions(), select: (plants) => plants[0]?.timeZone ?? 'UTC' });
+}
+
+const selectClock = (plants: PlantView[]): PlantClock => ({ timeZone: plants[0]?.timeZone ?? 'UTC', dateFormat: plants[0]?.dateFormat ?? DEFAULT_PLANT_DATE_FORMAT });
+
+/** The plant's zone and date format: every time on a page is shown and typed with it (shared/time). */
+export function usePlantClock() {
+  return useQuery({ ...plantsQueryOptions(), select: selectClock });
 }
 
 export interface EntryCatalogue {

@@ -102,3 +102,8 @@ export function useCorrectMeasurement() {
       ]),
   });
 }
+
+/** The lot page, where a lot's results are read and corrected: every screen that names a lot links here. */
+export function lotPath(lotNumber: string): string {
+  return `/results/lots/${encodeURIComponent(lotNumber)}`;
+}

@@ -1,5 +1,5 @@
 import { Suspense, useState } from 'react';
-import { NavLink, Outlet, useNavigate } from 'react-router';
+import { NavLink, Outlet, useNavigate } from 'react-router-dom';
 import { useSignOut, useSignedInUser } from '@web/lib/session';
 import { areasFor, type Area } from '../navigation';
 import { roleLabels } from '@shared/schemas/roles';

@@ -1,4 +1,4 @@
-import { Link } from 'react-router';
+import { Link } from 'react-router-dom';
 import { useSignedInUser } from '@web/lib/session';
 import { roleLabels } from '@shared/schemas/roles';
 

@@ -1,4 +1,4 @@
-import { useRouteError } from 'react-router';
+import { useRouteError } from 'react-router-dom';
 import { ErrorState } from '@web/components/ui/ErrorState';
 
 /** Catches a page that failed to render or to load its code (for example after a new release). */

@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import { Link } from 'react-router';
+import { Link } from 'react-router-dom';
 import type { AlarmStatus, AlarmView } from '@shared/schemas/alarms';
 import { useAlarms } from '../api/alarms';
 import { usePlantTimeZone } from '@web/lib/catalogue';

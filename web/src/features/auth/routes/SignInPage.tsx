@@ -1,4 +1,4 @@
-import { Navigate, useLocation } from 'react-router';
+import { Navigate, useLocation } from 'react-router-dom';
 import { useSession } from '@web/lib/session';
 import { SignInForm } from '../components/SignInForm';
 import { SafetyNote } from '@web/components/SafetyNote';

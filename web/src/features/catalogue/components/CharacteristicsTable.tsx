@@ -1,5 +1,5 @@
 import { useMemo, useState } from 'react';
-import { Link } from 'react-router';
+import { Link } from 'react-router-dom';
 import { createColumnHelper } from '@tanstack/react-table';
 import { characteristicLabel } from '@web/lib/names';
 import { specLimitsText } from '@web/lib/spec';

@@ -1,4 +1,4 @@
-import { Link } from 'react-router';
+import { Link } from 'react-router-dom';
 import { useLot, type LotResult } from '@web/lib/lots';
 import { useCharacteristics } from '@web/lib/catalogue';
 import { Dialog } from '@web/components/ui/Dialog';

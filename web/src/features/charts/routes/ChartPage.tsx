@@ -1,5 +1,5 @@
 import { useCallback, useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
-import { Link, useParams, useSearchParams } from 'react-router';
+import { Link, useParams, useSearchParams } from 'react-router-dom';
 import { ApiError } from '@web/lib/http';
 import { useMay } from '@web/app/permissions';
 import { usePlantTimeZone } from '@web/lib/catalogue';

@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import { Link } from 'react-router';
+import { Link } from 'react-router-dom';
 import { useCharacteristics, useLines, type Characteristic } from '@web/lib/catalogue';
 import { PageHeader } from '@web/components/ui/PageHeader';
 import { Input } from '@web/components/ui/Field';

@@ -1,4 +1,4 @@
-import { Link } from 'react-router';
+import { Link } from 'react-router-dom';
 import type { OverviewItem } from '@shared/schemas/overview';
 import { Badge } from '@web/components/ui/Badge';
 import { formatPlantDateTime } from '@web/lib/plant-time';

@@ -1,5 +1,5 @@
 import { useMemo } from 'react';
-import { useSearchParams } from 'react-router';
+import { useSearchParams } from 'react-router-dom';
 import { useOverview } from '../api/overview';
 import { usePlantTimeZone } from '@web/lib/catalogue';
 import { CharacteristicTile } from '../components/CharacteristicTile';

@@ -1,5 +1,5 @@
 import { lazy, Suspense } from 'react';
-import { Navigate, Route, Routes } from 'react-router';
+import { Navigate, Route, Routes } from 'react-router-dom';
 import { NotFoundPage } from '@web/app/routes/NotFoundPage';
 import { Loading } from '@web/components/ui/Spinner';
 import { AreaTabs } from '@web/components/ui/AreaTabs';

@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import { Link, useParams } from 'react-router';
+import { Link, useParams } from 'react-router-dom';
 import { useCharacteristics } from '@web/lib/catalogue';
 import { characteristicLabel } from '@web/lib/names';
 import { specLimitsText } from '@web/lib/spec';

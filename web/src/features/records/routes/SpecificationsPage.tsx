@@ -1,4 +1,4 @@
-import { Link } from 'react-router';
+import { Link } from 'react-router-dom';
 import { useCharacteristics, type Characteristic } from '@web/lib/catalogue';
 import { characteristicLabel } from '@web/lib/names';
 import { figure } from '@web/lib/chart-format';

@@ -1,6 +1,7 @@
-import { Link } from 'react-router';
+import { Link } from 'react-router-dom';
 import { uploadLinks } from '../api/uploads';
 import type { UploadOutcome as Outcome } from '@web/lib/import-outcome';
+import { lotPath } from '@web/lib/lots';
 import { RowErrorList } from './RowErrorList';
 import { DownloadLink } from './DownloadLink';
 import { Alert } from '@web/components/ui/Alert';
@@ -24,7 +25,7 @@ export function UploadOutcome({ outcome, fileName, lots }: { outcome: Outcome; f
               {lots.slice(0, 5).map((lot, i) => (
                 <span key={lot}>
                   {i > 0 && ', '}
-                  <Link to={`/results/lots/${encodeURIComponent(lot)}`} className={link}>
+                  <Link to={lotPath(lot)} className={link}>
                     {lot}
                   </Link>
                 </span>

@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import { Link, useParams } from 'react-router';
+import { Link, useParams } from 'react-router-dom';
 import { ApiError } from '@web/lib/http';
 import { useLot, type Lot, type LotResult } from '@web/lib/lots';
 import { useCharacteristics, usePlantTimeZone, type Characteristic } from '@web/lib/catalogue';

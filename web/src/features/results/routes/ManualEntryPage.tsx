@@ -1,11 +1,11 @@
 import { useMemo, useState } from 'react';
-import { Link } from 'react-router';
+import { Link } from 'react-router-dom';
 import { useFieldArray, useForm, useWatch, type FieldPath } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { manualEntrySchema, parsePlantDateTime, type ManualEntryInput, type RowError } from '@shared/ingest';
 import { ApiError, errorMessage } from '@web/lib/http';
 import { useEntryCatalogue, type EntryCatalogue } from '@web/lib/catalogue';
-import { useSaveManualEntry } from '@web/lib/lots';
+import { lotPath, useSaveManualEntry } from '@web/lib/lots';
 import { ManualResultCard } from '../components/ManualResultCard';
 import { characteristicLabel } from '@web/lib/names';
 import { blankAsUndefined } from '@web/lib/form-values';
@@ -143,7 +143,7 @@ function ManualEntryForm({ catalogue }: { catalogue: EntryCatalogue }) {
       {saved && (
         <Alert tone="success">
           Saved: <span className="font-mono">{saved.rows}</span> results of lot{' '}
-          <Link to={`/results/lots/${encodeURIComponent(saved.lot)}`} className="font-medium underline underline-offset-2">
+          <Link to={lotPath(saved.lot)} className="font-medium underline underline-offset-2">
             {saved.lot}
           </Link>
           . The form is ready for the next lot.

@@ -1,5 +1,5 @@
 import { lazy, Suspense } from 'react';
-import { Navigate, Route, Routes } from 'react-router';
+import { Navigate, Route, Routes } from 'react-router-dom';
 import { RequirePermission } from '@web/app/guards';
 import { useSignedInUser } from '@web/lib/session';
 import { may, type Permission } from '@shared/permissions';

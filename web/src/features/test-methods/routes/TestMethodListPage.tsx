@@ -1,5 +1,5 @@
 import { useMemo } from 'react';
-import { Link } from 'react-router';
+import { Link } from 'react-router-dom';
 import { createColumnHelper, getCoreRowModel, useReactTable } from '@tanstack/react-table';
 import { useTestMethods, type TestMethodEntry } from '@web/lib/test-methods';
 import { stateLabels } from '../lib/formulas';

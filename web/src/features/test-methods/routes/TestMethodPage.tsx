@@ -1,4 +1,4 @@
-import { Link, useParams } from 'react-router';
+import { Link, useParams } from 'react-router-dom';
 import { useTestMethods } from '@web/lib/test-methods';
 import { useCharacteristics } from '@web/lib/catalogue';
 import { specLimitsText } from '@web/lib/spec';

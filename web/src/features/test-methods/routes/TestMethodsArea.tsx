@@ -1,4 +1,4 @@
-import { Route, Routes } from 'react-router';
+import { Route, Routes } from 'react-router-dom';
 import TestMethodListPage from './TestMethodListPage';
 import TestMethodPage from './TestMethodPage';
 import { NotFoundPage } from '@web/app/routes/NotFoundPage';

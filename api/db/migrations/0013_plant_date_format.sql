@@ -1,0 +1,1 @@
+ALTER TABLE "plants" ADD COLUMN "date_format" text DEFAULT 'dd/MM/yyyy' NOT NULL;
