@@ -44,6 +44,8 @@ export const permissions = {
   'report.read': reviewers,
   /** Add, change, deactivate lines, products and characteristics. */
   'catalogue.manage': admins,
+  /** Set the plant's date format (its time zone is read-only). */
+  'plant.manage': admins,
   /** Create users, change their roles, deactivate them. */
   'user.manage': admins,
   /** Read the local fake mail server's outbox. */

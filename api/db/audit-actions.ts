@@ -8,6 +8,7 @@ export const auditActions = {
   characteristic: ['create', 'update', 'deactivate', 'reactivate', 'revise specification', 'freeze limits', 'exclude point', 'include point'],
   'column mapping': ['create'],
   measurement: ['manual entry', 'correct'],
+  plant: ['update'],
   'process event': ['record event'],
   product: ['create', 'update', 'deactivate', 'reactivate'],
   'production line': ['create', 'update', 'deactivate', 'reactivate'],

@@ -45,6 +45,9 @@ const routes: ProtectedRoute[] = [
   { method: 'post', path: '/api/v1/characteristics', permission: 'catalogue.manage', body: {} },
   { method: 'patch', path: '/api/v1/characteristics/0', permission: 'catalogue.manage', body: {} },
   { method: 'delete', path: '/api/v1/characteristics/1', permission: 'catalogue.manage', allowed: 405 },
+  { method: 'patch', path: '/api/v1/plants/0', permission: 'plant.manage', body: {} },
+  // The lot search of the header: every signed-in role.
+  { method: 'get', path: '/api/v1/lots?q=L&limit=1', permission: 'plant.read', allowed: 200 },
   { method: 'get', path: '/api/v1/users', permission: 'user.manage', allowed: 200 },
   { method: 'post', path: '/api/v1/users', permission: 'user.manage', body: {} },
   { method: 'patch', path: '/api/v1/users/0', permission: 'user.manage', body: {} },
@@ -99,7 +102,7 @@ describe('the map keeps the roles of the product brief', () => {
     for (const action of ['user.manage', 'catalogue.manage'] as const) expect(may('quality_manager', action), action).toBe(false);
   });
 
-  it('lets only the administrator manage users, products, lines and characteristics', () => {
-    for (const action of ['user.manage', 'catalogue.manage'] as const) expect(roles.filter((role) => may(role, action)), action).toEqual(['admin']);
+  it("lets only the administrator manage users, products, lines, characteristics and the plant's settings", () => {
+    for (const action of ['user.manage', 'catalogue.manage', 'plant.manage'] as const) expect(roles.filter((role) => may(role, action)), action).toEqual(['admin']);
   });
 });

@@ -23,6 +23,26 @@ describe('GET /api/v1/lots', () => {
     expect((await request(api.app).get('/api/v1/lots').query({ q: '%' }).set(await auditor())).body.items).toEqual([]);
   });
 
+  it('finds a lot typed in lower case, the lot typed in full first, within the limit', async () => {
+    const [newest] = (await request(api.app).get('/api/v1/lots').query({ product: 'HVL25', limit: 1 }).set(await auditor())).body.items;
+    const res = await request(api.app).get('/api/v1/lots').query({ q: newest.lotNumber.toLowerCase(), limit: 3 }).set(await auditor());
+    expect(res.status).toBe(200);
+    expect(res.body.items[0].lotNumber).toBe(newest.lotNumber);
+    // The start of a number matches many lots; the limit bounds the answer.
+    const many = await request(api.app).get('/api/v1/lots').query({ q: newest.lotNumber.slice(0, 2), limit: 3 }).set(await auditor());
+    expect(many.body.items).toHaveLength(3);
+  });
+
+  it('refuses a control character in the search with a plain 400, not a database error', async () => {
+    for (const q of ['L1\u0000', 'L1\nX']) {
+      const res = await request(api.app).get('/api/v1/lots').query({ q }).set(await auditor());
+      expect(res.status, JSON.stringify(q)).toBe(400);
+      expect(res.body.details[0]).toEqual({ path: 'q', message: 'The lot number may not contain control characters' });
+    }
+    const long = await request(api.app).get('/api/v1/lots').query({ q: 'L'.repeat(65) }).set(await auditor());
+    expect(long.status).toBe(400);
+  });
+
   it('refuses a limit out of range (400) and answers 401 without a session', async () => {
     const res = await request(api.app).get('/api/v1/lots').query({ limit: 1000 }).set(await auditor());
     expect(res.status).toBe(400);

@@ -3,7 +3,9 @@ import { and, asc, desc, eq, ilike, isNull, sql } from 'drizzle-orm';
 import type { Database } from '@api/db/client';
 import { characteristics, lots, measurements, productionLines, products, uploads } from '@api/db/schema';
 import { notFound, parseBody } from '@api/http/errors';
-import { requireSession } from '@api/auth/session';
+import { requirePermission, requireSession } from '@api/auth/session';
+import type { Json } from '@api/http/json';
+import type { LotListItem } from '@shared/schemas/lots';
 import { listLotsQuerySchema, lotParamsSchema } from './schema';
 
 /** Lots as produced, and one lot with its live results and the specification revisions that judge it: every signed-in role reads them. */
@@ -11,7 +13,7 @@ export function lotsRouter(db: Database): Router {
   const router = Router();
   router.use(requireSession);
 
-  router.get('/', async (req, res) => {
+  router.get('/', requirePermission('plant.read'), async (req, res) => {
     const q = parseBody(listLotsQuerySchema, req.query);
     const rows = await db
       .select({ id: lots.id, lotNumber: lots.lotNumber, producedAt: lots.producedAt, shift: lots.shift, productCode: products.code, lineCode: productionLines.code })
@@ -19,9 +21,10 @@ export function lotsRouter(db: Database): Router {
       .innerJoin(products, eq(products.id, lots.productId))
       .innerJoin(productionLines, eq(productionLines.id, lots.lineId))
       .where(and(q.product ? eq(products.code, q.product) : undefined, q.q ? ilike(lots.lotNumber, `${q.q.replace(/[%_\\]/g, '\\$&')}%`) : undefined))
-      .orderBy(desc(lots.producedAt))
+      // A lot number typed in full comes before the lots whose number merely starts with it.
+      .orderBy(...(q.q ? [desc(sql`lower(${lots.lotNumber}) = lower(${q.q})`)] : []), desc(lots.producedAt))
       .limit(q.limit);
-    res.json({ items: rows });
+    res.json({ items: rows satisfies Json<LotListItem>[] });
   });
 
   router.get('/:lotNumber', async (req, res) => {

@@ -1,11 +1,20 @@
 import { z } from 'zod';
 
+// A lot number or product code is printable text: a control character (NUL among them) is refused
+// here with a plain message, before PostgreSQL would refuse it with a 500.
+const printable = (what: string) =>
+  z
+    .string()
+    .trim()
+    .max(64, `Keep the ${what} under 64 characters`)
+    .regex(/^[^\p{Cc}]*$/u, `The ${what} may not contain control characters`);
+
 /** GET /api/v1/lots query. */
 export const listLotsQuerySchema = z.object({
   /** Product code to narrow to. */
-  product: z.string().trim().optional(),
-  /** Start of a lot number, e.g. "L1-2611". */
-  q: z.string().trim().max(64).optional(),
+  product: printable('product code').optional(),
+  /** Start of a lot number, e.g. "L1-2611", in any case; an exact match comes first. */
+  q: printable('lot number').optional(),
   /** At most this many, newest first. */
   limit: z.coerce.number().int().min(1).max(200).default(50),
 });
@@ -13,5 +22,5 @@ export const listLotsQuerySchema = z.object({
 /** :lotNumber of /api/v1/lots/:lotNumber. */
 export const lotParamsSchema = z.object({
   /** Lot number as stored. */
-  lotNumber: z.string().trim().min(1).max(64),
+  lotNumber: printable('lot number').pipe(z.string().min(1, 'Give a lot number')),
 });

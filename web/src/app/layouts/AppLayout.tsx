@@ -7,6 +7,9 @@ import { Button } from '@web/components/ui/Button';
 import { Loading } from '@web/components/ui/Spinner';
 import { cx } from '@web/components/ui/cx';
 import { SafetyNote } from '@web/components/SafetyNote';
+import { plantTimeNote } from '@shared/time';
+import { usePlantClock } from '@web/lib/catalogue';
+import { LotSearch } from './LotSearch';
 
 export function AppLayout() {
   const user = useSignedInUser();
@@ -47,7 +50,8 @@ export function AppLayout() {
               {menuOpen ? 'Close menu' : 'Menu'}
             </Button>
             <Brand className="lg:hidden" compact />
-            <div className="ml-auto flex items-center gap-4">
+            <LotSearch className="ml-auto w-full max-w-64 min-w-0 flex-1 sm:ml-4" />
+            <div className="ml-auto flex shrink-0 items-center gap-4">
               <div className="hidden text-right leading-tight sm:block">
                 <p className="font-medium text-zinc-900">
                   {user.name}
@@ -77,11 +81,23 @@ export function AppLayout() {
           </Suspense>
         </main>
 
-        <footer className="border-t border-zinc-200 px-4 py-4 sm:px-6 lg:px-8">
+        <footer className="space-y-1 border-t border-zinc-200 px-4 py-4 sm:px-6 lg:px-8">
+          <PlantClockNote />
           <SafetyNote />
         </footer>
       </div>
     </div>
+  );
+}
+
+/** Names the plant's zone once for the whole page: every time shown and typed on it is plant time. */
+function PlantClockNote() {
+  const clock = usePlantClock().data;
+  if (!clock) return null;
+  return (
+    <p className="text-sm text-zinc-600" data-testid="plant-time-note">
+      {plantTimeNote(clock.timeZone)}. Dates are written {clock.dateFormat.toLowerCase()}.
+    </p>
   );
 }
 

@@ -1,4 +1,4 @@
-import { useEffect } from 'react';
+import { useEffect, useMemo } from 'react';
 import { Link } from 'react-router-dom';
 import { useForm, type FieldPath } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
@@ -7,7 +7,8 @@ import type { TestMethodEntry } from '@web/lib/test-methods';
 import { chartTypeLabels, ruleSetLabels } from '@shared/spc';
 import { TextArea } from '@web/components/ui/TextArea';
 import { showServerErrors } from '@web/lib/forms';
-import { browserTimeZone } from '@web/lib/date-time';
+import type { PlantClock } from '@shared/time';
+import { PlantDateField } from '@web/components/PlantDateInput';
 import type { CharacteristicView, ProductView } from '@shared/schemas/catalogue';
 import { useCreateCharacteristic, useUpdateCharacteristic } from '../api/catalogue';
 import { characteristicFormSchema, emptySpec, newCharacteristicFormSchema, type CharacteristicFormValues } from '../lib/form-schemas';
@@ -78,18 +79,21 @@ export function CharacteristicForm({
   characteristic,
   products,
   methods,
+  clock,
   onSaved,
   onCancel,
 }: {
   characteristic?: CharacteristicView;
   products: ProductView[];
   methods: TestMethodEntry[];
+  clock: PlantClock;
   onSaved: (characteristic: CharacteristicView) => void;
   onCancel: () => void;
 }) {
   const create = useCreateCharacteristic();
   const update = useUpdateCharacteristic();
   const adding = !characteristic;
+  const newSchema = useMemo(() => newCharacteristicFormSchema(clock), [clock]);
   const {
     register,
     handleSubmit,
@@ -100,7 +104,7 @@ export function CharacteristicForm({
     formState: { errors },
   } = useForm<CharacteristicFormValues, unknown, CreateCharacteristicInput>({
     // Both give the request body: a new one with its optional first specification, a change without.
-    resolver: adding ? zodResolver(newCharacteristicFormSchema) : zodResolver(characteristicFormSchema),
+    resolver: adding ? zodResolver(newSchema) : zodResolver(characteristicFormSchema),
     defaultValues: startingValues(characteristic, products),
   });
 
@@ -255,9 +259,7 @@ export function CharacteristicForm({
             <Field label={`USL${method ? ` (${method.unit})` : ''}`} hint="Upper specification limit; empty for none." error={errors.spec?.usl?.message}>
               {(control) => <Input {...control} inputMode="decimal" autoComplete="off" className="font-mono" {...register('spec.usl')} />}
             </Field>
-            <Field label="Effective from (optional)" hint={`Empty: from now. Your browser's time zone, ${browserTimeZone()}.`} error={errors.spec?.effectiveFrom?.message}>
-              {(control) => <Input {...control} type="datetime-local" {...register('spec.effectiveFrom')} />}
-            </Field>
+            <PlantDateField label="Effective from (optional)" kind="dateTime" hint="Empty: from now." error={errors.spec?.effectiveFrom?.message} {...register('spec.effectiveFrom')} />
             <Field label="Reason" hint="Kept with the revision and in the audit trail, e.g. “Lower limit from the declared class”." error={errors.spec?.reason?.message} className="sm:col-span-2">
               {(control) => <Input {...control} autoComplete="off" {...register('spec.reason')} />}
             </Field>

@@ -3,10 +3,11 @@ import { characteristicSettingsSchema, createCharacteristicSchema, type RuleSetI
 import type { TestMethodCode } from '@shared/lab';
 import type { ChartType } from '@shared/spc';
 import { typedNumber } from '@web/lib/form-values';
-import { localInputToIso } from '@web/lib/date-time';
+import type { PlantClock } from '@shared/time';
+import { plantDateText } from '@web/lib/plant-dates';
 
-// The characteristic form keeps what was typed (numbers with a decimal comma or point, a local
-// date-time) and turns it into the request body before the shared schema checks it, so the schema's
+// The characteristic form keeps what was typed (numbers with a decimal comma or point, a date-time
+// in the plant's format and zone) and turns it into the request body before the shared schema checks it, so the schema's
 // rules and messages land on the same field names. Codes picked from lists are only typed here; the
 // shared schema refuses anything else.
 
@@ -46,20 +47,21 @@ function settings(form: Omit<CharacteristicFormValues, 'spec'>): z.input<typeof 
 const limit = (text: string) => (text.trim() === '' ? null : typedNumber(text));
 
 /** The specification part counts as given once any of its fields is filled in. */
-const specGiven = (spec: CharacteristicFormValues['spec']) => Object.values(spec).some((text) => text.trim() !== '');
+const specGiven = (spec: Record<string, string | undefined>) => Object.values(spec).some((text) => text !== undefined && text.trim() !== '');
 
 /** Adding a characteristic, with its first specification revision when one is filled in. */
-export const newCharacteristicFormSchema = z
-  .object({ ...settingsFields, spec: z.object(specFields) })
-  .transform(
-    ({ spec, ...form }): z.input<typeof createCharacteristicSchema> => ({
-      ...settings(form),
-      spec: specGiven(spec)
-        ? { lsl: limit(spec.lsl), usl: limit(spec.usl), target: limit(spec.target), effectiveFrom: localInputToIso(spec.effectiveFrom), reason: spec.reason }
-        : undefined,
-    }),
-  )
-  .pipe(createCharacteristicSchema);
+export const newCharacteristicFormSchema = (clock: PlantClock) =>
+  z
+    .object({ ...settingsFields, spec: z.object({ ...specFields, effectiveFrom: plantDateText('dateTime', clock) }) })
+    .transform(
+      ({ spec, ...form }): z.input<typeof createCharacteristicSchema> => ({
+        ...settings(form),
+        spec: specGiven(spec)
+          ? { lsl: limit(spec.lsl), usl: limit(spec.usl), target: limit(spec.target), effectiveFrom: spec.effectiveFrom, reason: spec.reason }
+          : undefined,
+      }),
+    )
+    .pipe(createCharacteristicSchema);
 
 /** Changing a characteristic's settings; its specification has its own revisions, so the form's spec part is left out. */
 export const characteristicFormSchema = z

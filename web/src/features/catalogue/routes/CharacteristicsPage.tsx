@@ -1,5 +1,6 @@
 import { useCallback, useState } from 'react';
 import { useTestMethods } from '@web/lib/test-methods';
+import { usePlantClock } from '@web/lib/catalogue';
 import type { Notice } from '@web/components/ui/Notice';
 import type { CharacteristicView } from '@shared/schemas/catalogue';
 import { useCatalogueCharacteristics, useCatalogueProducts } from '../api/catalogue';
@@ -18,6 +19,7 @@ export default function CharacteristicsPage() {
   const characteristics = useCatalogueCharacteristics();
   const products = useCatalogueProducts();
   const methods = useTestMethods();
+  const clock = usePlantClock();
   const [editing, setEditing] = useState<'new' | CharacteristicView | null>(null);
   const [notice, setNotice] = useState<Notice | null>(null);
   const edit = useCallback((c: CharacteristicView) => {
@@ -25,7 +27,7 @@ export default function CharacteristicsPage() {
     setEditing(c);
   }, []);
 
-  const failed = [characteristics, products, methods].find((q) => q.isError);
+  const failed = [characteristics, products, methods, clock].find((q) => q.isError);
   const header = (
     <PageHeader
       title="Characteristics"
@@ -37,8 +39,8 @@ export default function CharacteristicsPage() {
       }
     />
   );
-  if (failed) return <>{header}<ErrorState title="Could not load the characteristics" error={failed.error} onRetry={() => [characteristics, products, methods].forEach((q) => q.refetch())} /></>;
-  if (!characteristics.data || !products.data || !methods.data) return <>{header}<Loading label="Loading the characteristics…" /></>;
+  if (failed) return <>{header}<ErrorState title="Could not load the characteristics" error={failed.error} onRetry={() => [characteristics, products, methods, clock].forEach((q) => q.refetch())} /></>;
+  if (!characteristics.data || !products.data || !methods.data || !clock.data) return <>{header}<Loading label="Loading the characteristics…" /></>;
 
   const saved = (c: CharacteristicView, verb: string) => {
     setEditing(null);
@@ -54,6 +56,7 @@ export default function CharacteristicsPage() {
               characteristic={editing === 'new' ? undefined : editing}
               products={products.data}
               methods={methods.data}
+              clock={clock.data}
               onSaved={(c) => saved(c, editing === 'new' ? 'added' : 'saved')}
               onCancel={() => setEditing(null)}
             />

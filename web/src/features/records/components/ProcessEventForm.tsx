@@ -1,10 +1,13 @@
+import { useMemo } from 'react';
 import { useForm, useWatch } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import type { Product, ProductionLine } from '@web/lib/catalogue';
 import { TextArea } from '@web/components/ui/TextArea';
 import { useCreateProcessEvent } from '../api/process-events';
 import { processEventFormSchema } from '../lib/form-schemas';
-import { browserTimeZone, nowAsLocalInput } from '@web/lib/date-time';
+import type { PlantClock } from '@shared/time';
+import { plantDateValue } from '@web/lib/plant-dates';
+import { PlantDateField } from '@web/components/PlantDateInput';
 import { showServerErrors } from '@web/lib/forms';
 import { Alert } from '@web/components/ui/Alert';
 import { Button } from '@web/components/ui/Button';
@@ -19,11 +22,22 @@ export interface RecordedEvent {
   productCode?: string;
 }
 
-const emptyEvent = () => ({ occurredAt: nowAsLocalInput(), title: '', description: '', lineCode: '', productCode: '' });
+const emptyEvent = (clock: PlantClock) => ({ occurredAt: plantDateValue('dateTime', new Date(), clock), title: '', description: '', lineCode: '', productCode: '' });
 
 /** Something that happened at the plant or in the lab, recorded so that a change on a chart can be explained. */
-export function ProcessEventForm({ lines, products, onRecorded }: { lines: ProductionLine[]; products: Product[]; onRecorded: (event: RecordedEvent) => void }) {
+export function ProcessEventForm({
+  lines,
+  products,
+  clock,
+  onRecorded,
+}: {
+  lines: ProductionLine[];
+  products: Product[];
+  clock: PlantClock;
+  onRecorded: (event: RecordedEvent) => void;
+}) {
   const create = useCreateProcessEvent();
+  const schema = useMemo(() => processEventFormSchema(clock), [clock]);
   const {
     register,
     handleSubmit,
@@ -33,14 +47,14 @@ export function ProcessEventForm({ lines, products, onRecorded }: { lines: Produ
     reset,
     control,
     formState: { errors },
-  } = useForm({ resolver: zodResolver(processEventFormSchema), defaultValues: emptyEvent() });
+  } = useForm({ resolver: zodResolver(schema), defaultValues: emptyEvent(clock) });
   const lineCode = useWatch({ control, name: 'lineCode' });
   const productChoices = lineCode ? products.filter((p) => p.lineCode === lineCode) : products;
 
   const onSubmit = handleSubmit((input) =>
     create.mutate(input, {
       onSuccess: (saved) => {
-        reset(emptyEvent());
+        reset(emptyEvent(clock));
         onRecorded({ title: saved.title, occurredAt: saved.occurredAt, lineCode: input.lineCode, productCode: input.productCode });
       },
       onError: (error) => showServerErrors(error, setError, fields),
@@ -51,9 +65,7 @@ export function ProcessEventForm({ lines, products, onRecorded }: { lines: Produ
     <form onSubmit={onSubmit} noValidate className="space-y-4" aria-label="Record an event">
       {errors.root && <Alert tone="error">{errors.root.message}</Alert>}
       <div className="grid gap-4 sm:grid-cols-2">
-        <Field label="When it happened" hint={`Your browser's time zone, ${browserTimeZone()}.`} error={errors.occurredAt?.message}>
-          {(ids) => <Input {...ids} type="datetime-local" {...register('occurredAt')} />}
-        </Field>
+        <PlantDateField label="When it happened" kind="dateTime" error={errors.occurredAt?.message} {...register('occurredAt')} />
         <Field label="Title" hint="Short, as it will label the chart marker, e.g. “New sand source”." error={errors.title?.message}>
           {(ids) => <Input {...ids} autoComplete="off" maxLength={80} {...register('title')} />}
         </Field>

@@ -1,5 +1,5 @@
 import type { ProcessEvent } from '../api/process-events';
-import { formatWithZone } from '@web/lib/date-time';
+import { PlantTime } from '@web/components/PlantTime';
 
 const th = 'border-b border-zinc-200 px-3 py-2.5 font-semibold whitespace-nowrap';
 
@@ -21,7 +21,7 @@ export function ProcessEventList({ events }: { events: ProcessEvent[] }) {
         <tbody>
           {events.map((e) => (
             <tr key={e.id} className="border-b border-zinc-100 align-top last:border-b-0">
-              <td className="px-3 py-2 font-mono text-sm whitespace-nowrap">{formatWithZone(e.occurredAt)}</td>
+              <td className="px-3 py-2 font-mono text-sm whitespace-nowrap"><PlantTime at={e.occurredAt} /></td>
               <th scope="row" className="min-w-64 px-3 py-2 text-left font-normal">
                 <span className="block font-medium text-zinc-900">{e.title}</span>
                 {e.description && <span className="block text-sm text-zinc-600 [overflow-wrap:anywhere]">{e.description}</span>}

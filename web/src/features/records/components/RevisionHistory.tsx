@@ -1,7 +1,7 @@
 import { figure } from '@web/lib/chart-format';
 import type { SpecRevision } from '@web/lib/specifications';
 import { revisionState, type RevisionState } from '../lib/in-force';
-import { formatWithZone } from '@web/lib/date-time';
+import { PlantTime } from '@web/components/PlantTime';
 import { Badge } from '@web/components/ui/Badge';
 
 const stateTone: Record<RevisionState, 'positive' | 'accent' | 'neutral'> = { 'in force': 'positive', scheduled: 'accent', superseded: 'neutral' };
@@ -38,11 +38,11 @@ export function RevisionHistory({ revisions, inForce, unit, decimals }: { revisi
                 <td className="px-3 py-2 text-right font-mono">{figure(r.lsl, decimals)}</td>
                 <td className="px-3 py-2 text-right font-mono">{figure(r.target, decimals)}</td>
                 <td className="px-3 py-2 text-right font-mono">{figure(r.usl, decimals)}</td>
-                <td className="px-3 py-2 font-mono text-sm whitespace-nowrap">{formatWithZone(r.effectiveFrom)}</td>
+                <td className="px-3 py-2 font-mono text-sm whitespace-nowrap"><PlantTime at={r.effectiveFrom} /></td>
                 <td className="min-w-56 px-3 py-2 text-sm">
                   <span className="block text-zinc-900 [overflow-wrap:anywhere]">{r.reason ?? '—'}</span>
                   <span className="mt-0.5 block text-zinc-600">
-                    {r.createdBy ?? 'Unknown user'}, <span className="font-mono whitespace-nowrap">{formatWithZone(r.createdAt)}</span>
+                    {r.createdBy ?? 'Unknown user'}, <span className="font-mono whitespace-nowrap"><PlantTime at={r.createdAt} /></span>
                   </span>
                 </td>
               </tr>

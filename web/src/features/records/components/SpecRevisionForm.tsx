@@ -1,10 +1,12 @@
+import { useMemo } from 'react';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import type { Characteristic } from '@web/lib/catalogue';
 import { TextArea } from '@web/components/ui/TextArea';
 import { useCreateSpecRevision, type SpecRevision } from '@web/lib/specifications';
 import { specRevisionFormSchema } from '../lib/form-schemas';
-import { browserTimeZone, formatWithZone } from '@web/lib/date-time';
+import { formatPlantDateTime, type PlantClock } from '@shared/time';
+import { PlantDateField } from '@web/components/PlantDateInput';
 import { showServerErrors } from '@web/lib/forms';
 import { Alert } from '@web/components/ui/Alert';
 import { Button } from '@web/components/ui/Button';
@@ -18,15 +20,26 @@ const typedLimit = (value: number | null | undefined) => (value == null ? '' : S
  * A new revision, starting from the latest one's limits since a revision usually moves one of them.
  * The parent gives it a key per latest revision, so a saved revision brings fresh starting values.
  */
-export function SpecRevisionForm({ characteristic, latest, onSaved }: { characteristic: Characteristic; latest: SpecRevision | undefined; onSaved: (revision: SpecRevision) => void }) {
+export function SpecRevisionForm({
+  characteristic,
+  latest,
+  clock,
+  onSaved,
+}: {
+  characteristic: Characteristic;
+  latest: SpecRevision | undefined;
+  clock: PlantClock;
+  onSaved: (revision: SpecRevision) => void;
+}) {
   const create = useCreateSpecRevision(characteristic.id);
+  const schema = useMemo(() => specRevisionFormSchema(clock), [clock]);
   const {
     register,
     handleSubmit,
     setError,
     formState: { errors },
   } = useForm({
-    resolver: zodResolver(specRevisionFormSchema),
+    resolver: zodResolver(schema),
     defaultValues: { lsl: typedLimit(latest?.lsl), usl: typedLimit(latest?.usl), target: typedLimit(latest?.target), effectiveFrom: '', reason: '' },
   });
 
@@ -59,14 +72,14 @@ export function SpecRevisionForm({ characteristic, latest, onSaved }: { characte
           {limitInput('usl')}
         </Field>
       </div>
-      <Field
+      <PlantDateField
         label="Effective from (optional)"
-        hint={`Empty: from now. Your browser's time zone, ${browserTimeZone()}.${latest ? ` Not before revision ${latest.revision}, in force from ${formatWithZone(latest.effectiveFrom)}.` : ''}`}
+        kind="dateTime"
+        hint={`Empty: from now.${latest ? ` Not before revision ${latest.revision}, in force from ${formatPlantDateTime(latest.effectiveFrom, clock)}.` : ''}`}
         error={errors.effectiveFrom?.message}
         className="max-w-sm"
-      >
-        {(control) => <Input {...control} type="datetime-local" {...register('effectiveFrom')} />}
-      </Field>
+        {...register('effectiveFrom')}
+      />
       <Field label="Reason" hint="Kept with the revision and in the audit trail, e.g. “Limit agreed with the customer for the new data sheet”." error={errors.reason?.message}>
         {(control) => <TextArea {...control} {...register('reason')} />}
       </Field>

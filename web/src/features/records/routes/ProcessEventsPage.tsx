@@ -1,14 +1,17 @@
 import { useState } from 'react';
-import { useLines, useProducts } from '@web/lib/catalogue';
+import { useLines, usePlantClock, useProducts } from '@web/lib/catalogue';
 import { useMay } from '@web/app/permissions';
 import { useProcessEvents, type EventPeriod } from '../api/process-events';
-import { browserTimeZone, formatWithZone, localDateToIso } from '@web/lib/date-time';
+import { plantIso, type PlantClock } from '@shared/time';
+import { plantDateError, plantDayAfter, readPlantInput } from '@web/lib/plant-dates';
+import { PlantTime } from '@web/components/PlantTime';
+import { PlantDateInput } from '@web/components/PlantDateInput';
 import { ProcessEventForm, type RecordedEvent } from '../components/ProcessEventForm';
 import { ProcessEventList } from '../components/ProcessEventList';
 import { PageHeader } from '@web/components/ui/PageHeader';
 import { Card } from '@web/components/ui/Card';
 import { Alert } from '@web/components/ui/Alert';
-import { Field, Input } from '@web/components/ui/Field';
+import { Field } from '@web/components/ui/Field';
 import { Loading } from '@web/components/ui/Spinner';
 import { ErrorState } from '@web/components/ui/ErrorState';
 import { EmptyState } from '@web/components/ui/EmptyState';
@@ -18,6 +21,34 @@ function markerScope(event: RecordedEvent): string {
   if (event.productCode) return `the control charts of ${event.productCode}`;
   if (event.lineCode) return `the control charts of line ${event.lineCode}`;
   return 'every control chart';
+}
+
+/** A typed day of the filter: blank is an open end, unreadable text is named under the field and leaves that end open. */
+function typedDay(text: string, clock: PlantClock | undefined): { day?: Date; error?: string } {
+  if (!clock || text.trim() === '') return {};
+  const day = readPlantInput('date', text, clock);
+  return day ? { day } : { error: plantDateError('date', clock) };
+}
+
+/** One end of the period. A half-typed day is not yet wrong: its message waits until the field is left. */
+function DayField({ label, text, onText, unreadable, error }: { label: string; text: string; onText: (text: string) => void; unreadable?: string; error?: string }) {
+  const [left, setLeft] = useState(false);
+  return (
+    <Field label={label} className="w-44" error={(left ? unreadable : undefined) ?? error}>
+      {(ids) => (
+        <PlantDateInput
+          kind="date"
+          {...ids}
+          value={text}
+          onChange={(e) => {
+            onText(e.target.value);
+            setLeft(false);
+          }}
+          onBlur={() => setLeft(true)}
+        />
+      )}
+    </Field>
+  );
 }
 
 function inPeriod(iso: string, period: EventPeriod): boolean {
@@ -30,8 +61,12 @@ export default function ProcessEventsPage() {
   const canRecord = useMay('process-event.create');
   const [fromDate, setFromDate] = useState('');
   const [toDate, setToDate] = useState('');
-  // The end date counts in full: the period runs to the start of the next day.
-  const period: EventPeriod = { from: localDateToIso(fromDate), to: localDateToIso(toDate, 1) };
+  const clock = usePlantClock().data;
+  const from = typedDay(fromDate, clock);
+  const to = typedDay(toDate, clock);
+  // The end date counts in full: the period runs to the start of the plant's next day.
+  const period: EventPeriod =
+    clock === undefined ? {} : { from: from.day && plantIso(from.day, clock.timeZone), to: to.day && plantIso(plantDayAfter(to.day, clock), clock.timeZone) };
   const backwards = !!period.from && !!period.to && Date.parse(period.to) <= Date.parse(period.from);
   const events = useProcessEvents(period);
   const lines = useLines();
@@ -56,8 +91,8 @@ export default function ProcessEventsPage() {
                   if (products.isError) products.refetch();
                 }}
               />
-            ) : lines.data && products.data ? (
-              <ProcessEventForm lines={lines.data} products={products.data} onRecorded={setRecorded} />
+            ) : lines.data && products.data && clock ? (
+              <ProcessEventForm lines={lines.data} products={products.data} clock={clock} onRecorded={setRecorded} />
             ) : (
               <Loading label="Loading the lines and products…" />
             )}
@@ -65,7 +100,7 @@ export default function ProcessEventsPage() {
         )}
         {recorded && (
           <Alert tone="success">
-            Recorded “{recorded.title}”, <span className="font-mono">{formatWithZone(recorded.occurredAt)}</span>. It appears as a marker on {markerScope(recorded)}.
+            Recorded “{recorded.title}”, <span className="font-mono"><PlantTime at={recorded.occurredAt} /></span>. It appears as a marker on {markerScope(recorded)}.
             {!inPeriod(recorded.occurredAt, period) && ' It lies outside the period listed below.'}
           </Alert>
         )}
@@ -75,13 +110,8 @@ export default function ProcessEventsPage() {
             Recorded events
           </h2>
           <div className="mt-2 mb-4 flex flex-wrap items-start gap-4">
-            <Field label="From (optional)" className="w-44" error={backwards ? 'The period ends before it starts' : undefined}>
-              {(ids) => <Input {...ids} type="date" value={fromDate} onChange={(e) => setFromDate(e.target.value)} />}
-            </Field>
-            <Field label="To (optional)" className="w-44">
-              {(ids) => <Input {...ids} type="date" value={toDate} onChange={(e) => setToDate(e.target.value)} />}
-            </Field>
-            <p className="self-end pb-2 text-sm text-zinc-600">Days and times in your browser's time zone, {browserTimeZone()}.</p>
+            <DayField label="From (optional)" text={fromDate} onText={setFromDate} unreadable={from.error} error={backwards ? 'The period ends before it starts' : undefined} />
+            <DayField label="To (optional)" text={toDate} onText={setToDate} unreadable={to.error} />
           </div>
           {events.isPending ? (
             <Loading label="Loading the events…" />

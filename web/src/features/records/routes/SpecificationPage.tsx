@@ -1,11 +1,11 @@
 import { useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
-import { useCharacteristics } from '@web/lib/catalogue';
+import { useCharacteristics, usePlantClock } from '@web/lib/catalogue';
 import { characteristicLabel } from '@web/lib/names';
 import { specLimitsText } from '@web/lib/spec';
 import { useMay } from '@web/app/permissions';
 import { useSpecRevisions, type SpecRevision } from '@web/lib/specifications';
-import { formatWithZone } from '@web/lib/date-time';
+import { PlantTime } from '@web/components/PlantTime';
 import { RevisionNote } from '../components/RevisionNote';
 import { RevisionHistory } from '../components/RevisionHistory';
 import { SpecRevisionForm } from '../components/SpecRevisionForm';
@@ -21,6 +21,7 @@ export default function SpecificationPage() {
   const id = Number(useParams().characteristicId);
   const characteristics = useCharacteristics();
   const revisions = useSpecRevisions(id);
+  const clock = usePlantClock();
   const canRevise = useMay('specification.revise');
   // Whether the saved revision is still to come is judged when it is saved, not at every render.
   const [saved, setSaved] = useState<(SpecRevision & { future: boolean }) | null>(null);
@@ -33,8 +34,9 @@ export default function SpecificationPage() {
     </p>
   );
 
-  if (characteristics.isPending) return <Loading label="Loading the characteristic…" />;
+  if (characteristics.isPending || clock.isPending) return <Loading label="Loading the characteristic…" />;
   if (characteristics.isError) return <ErrorState title="Could not load the characteristic" error={characteristics.error} onRetry={() => characteristics.refetch()} />;
+  if (clock.isError) return <ErrorState title="Could not load the plant's clock" error={clock.error} onRetry={() => clock.refetch()} />;
   const characteristic = characteristics.data.find((c) => c.id === id);
   if (!characteristic) {
     return (
@@ -66,7 +68,7 @@ export default function SpecificationPage() {
           {characteristic.spec ? (
             <p className="mt-1 text-zinc-800" data-testid="spec-in-force">
               Revision <span className="font-mono">{characteristic.spec.revision}</span>: <span className="font-mono">{specLimitsText(characteristic.spec, unit, decimals)}</span>, since{' '}
-              <span className="font-mono">{formatWithZone(characteristic.spec.effectiveFrom)}</span>
+              <span className="font-mono"><PlantTime at={characteristic.spec.effectiveFrom} /></span>
             </p>
           ) : (
             <p className="mt-1 text-zinc-700" data-testid="spec-in-force">
@@ -80,11 +82,11 @@ export default function SpecificationPage() {
             Revision <span className="font-mono">{saved.revision}</span> saved
             {saved.future ? (
               <>
-                ; it takes effect on <span className="font-mono">{formatWithZone(saved.effectiveFrom)}</span>.
+                ; it takes effect on <span className="font-mono"><PlantTime at={saved.effectiveFrom} /></span>.
               </>
             ) : (
               <>
-                , in force from <span className="font-mono">{formatWithZone(saved.effectiveFrom)}</span>.
+                , in force from <span className="font-mono"><PlantTime at={saved.effectiveFrom} /></span>.
               </>
             )}{' '}
             The change and its reason are in the audit trail.
@@ -103,6 +105,7 @@ export default function SpecificationPage() {
                   key={revisions.data[0]?.id ?? 'first'}
                   characteristic={characteristic}
                   latest={revisions.data[0]}
+                  clock={clock.data}
                   onSaved={(revision) => setSaved({ ...revision, future: Date.parse(revision.effectiveFrom) > Date.now() })}
                 />
               </Card>

@@ -3,7 +3,7 @@ import { useCharacteristics, type Characteristic } from '@web/lib/catalogue';
 import { characteristicLabel } from '@web/lib/names';
 import { figure } from '@web/lib/chart-format';
 import { useMay } from '@web/app/permissions';
-import { formatWithZone } from '@web/lib/date-time';
+import { PlantTime } from '@web/components/PlantTime';
 import { RevisionNote } from '../components/RevisionNote';
 import { PageHeader } from '@web/components/ui/PageHeader';
 import { Loading } from '@web/components/ui/Spinner';
@@ -104,7 +104,7 @@ export default function SpecificationsPage() {
                             <td className="px-3 py-2 text-right font-mono">{figure(c.spec.usl, c.decimals)}</td>
                             <td className="px-3 py-2">{c.unit}</td>
                             <td className="px-3 py-2 text-right font-mono">{c.spec.revision}</td>
-                            <td className="px-3 py-2 font-mono text-sm whitespace-nowrap">{formatWithZone(c.spec.effectiveFrom)}</td>
+                            <td className="px-3 py-2 font-mono text-sm whitespace-nowrap"><PlantTime at={c.spec.effectiveFrom} /></td>
                           </>
                         ) : (
                           <td colSpan={6} className="px-3 py-2 text-zinc-600">

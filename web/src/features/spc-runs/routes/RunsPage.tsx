@@ -12,6 +12,7 @@ import { Alert } from '@web/components/ui/Alert';
 import { Loading } from '@web/components/ui/Spinner';
 import { ErrorState } from '@web/components/ui/ErrorState';
 import { EmptyState } from '@web/components/ui/EmptyState';
+import { PlantTime } from '@web/components/PlantTime';
 
 const statusWords: Record<RunSummary['status'], { label: string; tone: 'neutral' | 'accent' | 'positive' | 'negative' }> = {
   queued: { label: 'Waiting', tone: 'neutral' },
@@ -32,8 +33,6 @@ const triggerWords: Record<RunSummary['trigger'], string> = {
   first: 'First run over the stored history',
 };
 
-const time = new Intl.DateTimeFormat('en-GB', { day: '2-digit', month: 'short', hour: '2-digit', minute: '2-digit', second: '2-digit' });
-const when = (iso: string | null) => (iso ? time.format(new Date(iso)) : '—');
 
 function duration(run: RunSummary): string {
   if (!run.startedAt) return '—';
@@ -94,7 +93,7 @@ export default function RunsPage() {
                         {run.alarmsRaised} raised
                         {run.alarmsResolved ? <span className="block text-zinc-600">{run.alarmsResolved} resolved by changed data</span> : null}
                       </td>
-                      <td className="figures px-3 py-2 text-sm whitespace-nowrap">{when(run.startedAt ?? run.createdAt)}</td>
+                      <td className="figures px-3 py-2 text-sm whitespace-nowrap"><PlantTime at={run.startedAt ?? run.createdAt} /></td>
                       <td className="figures px-3 py-2 text-sm whitespace-nowrap">{duration(run)}</td>
                       <td className="px-3 py-2">
                         {(run.failed > 0 || isActive(run)) && (

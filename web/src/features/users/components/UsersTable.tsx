@@ -1,7 +1,7 @@
 import { useMemo } from 'react';
 import { createColumnHelper } from '@tanstack/react-table';
 import { roleLabels, type PublicUser } from '@shared/schemas/users';
-import { formatDate } from '@web/lib/format';
+import { PlantTime } from '@web/components/PlantTime';
 import { DataTable } from '@web/components/ui/Table';
 import { Badge } from '@web/components/ui/Badge';
 import { TableFilter, useFilteredTable } from '@web/components/ui/FilteredTable';
@@ -42,7 +42,7 @@ export function UsersTable({ users, currentUserId, onNotice }: { users: PublicUs
       }),
       column.accessor('createdAt', {
         header: 'Created',
-        cell: (info) => <span className="font-mono text-sm whitespace-nowrap">{formatDate(info.getValue())}</span>,
+        cell: (info) => <span className="font-mono text-sm whitespace-nowrap"><PlantTime at={info.getValue()} kind="date" /></span>,
       }),
       column.display({
         id: 'actions',
