@@ -1,18 +1,11 @@
 import { z } from 'zod';
-import { PLANT_DATE_FORMATS } from '@shared/time';
 import { recordId } from '@api/routes/catalogue-writes';
+
+/** Body of the administrator's change, shared with the plant settings page. */
+export { updatePlantSchema, type UpdatePlantInput } from '@shared/schemas/plants';
 
 /** :id of /api/v1/plants/:id. */
 export const plantParamsSchema = z.object({
   /** Numeric id of the plant. */
   id: recordId,
 });
-
-/** PATCH /api/v1/plants/:id: the plant's settings an administrator may change. The time zone is not one: every stored local time was read in it. */
-export const updatePlantSchema = z
-  .object({
-    /** How people type and read dates at the plant (date-fns tokens). */
-    dateFormat: z.enum(PLANT_DATE_FORMATS, { message: `Choose one of the date formats: ${PLANT_DATE_FORMATS.join(', ')}` }),
-  })
-  .strict();
-export type UpdatePlantInput = z.infer<typeof updatePlantSchema>;

@@ -9,7 +9,7 @@ const expected = {
   technician: ['overview', 'charts', 'results', 'methods', 'records', 'runs', 'subscriptions'],
   quality_manager: ['overview', 'charts', 'results', 'methods', 'records', 'alarms', 'runs', 'ncrs', 'reports', 'subscriptions'],
   auditor: ['overview', 'charts', 'results', 'methods', 'records', 'alarms', 'runs', 'ncrs', 'reports', 'subscriptions'],
-  admin: ['overview', 'charts', 'results', 'methods', 'records', 'alarms', 'runs', 'ncrs', 'reports', 'subscriptions', 'users', 'catalogue', 'outbox'],
+  admin: ['overview', 'charts', 'results', 'methods', 'records', 'alarms', 'runs', 'ncrs', 'reports', 'subscriptions', 'users', 'catalogue', 'plant', 'outbox'],
 } as const;
 
 describe('navigation', () => {

@@ -2,7 +2,7 @@ import type { Role } from '@shared/schemas/roles';
 import { may, type Permission } from '@shared/permissions';
 
 /** Every area of the app. The router builds its routes from this list and the menu shows it by role. */
-export type AreaId = 'overview' | 'charts' | 'results' | 'methods' | 'records' | 'alarms' | 'runs' | 'ncrs' | 'reports' | 'subscriptions' | 'users' | 'catalogue' | 'outbox';
+export type AreaId = 'overview' | 'charts' | 'results' | 'methods' | 'records' | 'alarms' | 'runs' | 'ncrs' | 'reports' | 'subscriptions' | 'users' | 'catalogue' | 'plant' | 'outbox';
 
 export interface Area {
   id: AreaId;
@@ -120,6 +120,14 @@ export const areas: readonly Area[] = [
     purpose:
       'The products made on each production line and the characteristics the lab tests on them.',
     permission: 'catalogue.manage',
+    group: 'administration',
+  },
+  {
+    id: 'plant',
+    path: '/admin/plant',
+    label: 'Plant settings',
+    purpose: "The plant's date format, in which every page shows and takes dates, beside its time zone.",
+    permission: 'plant.manage',
     group: 'administration',
   },
   {

@@ -24,6 +24,7 @@ const pages: Partial<Record<AreaId, LazyExoticComponent<ComponentType>>> = {
   subscriptions: lazy(() => import('../features/subscriptions/routes/SubscriptionsPage')),
   outbox: lazy(() => import('../features/outbox/routes/OutboxPage')),
   catalogue: lazy(() => import('../features/catalogue/routes/CatalogueArea')),
+  plant: lazy(() => import('../features/catalogue/routes/PlantSettingsPage')),
 };
 
 /** Areas whose page routes further pages below its address itself (/charts/12, /results/history, /test-methods/RC). */

@@ -11,6 +11,8 @@ import type {
   UpdateLineInput,
   UpdateProductInput,
 } from '@shared/schemas/catalogue';
+import type { PlantView } from '@shared/schemas/catalogue';
+import type { UpdatePlantInput } from '@shared/schemas/plants';
 import { catalogueKeys } from '@web/lib/catalogue';
 import { chartKeys } from '@web/lib/query-keys';
 import { overviewKeys } from '@web/lib/query-keys';
@@ -26,6 +28,7 @@ export const updateLine = (id: number, changes: UpdateLineInput) => http<LineVie
 export const createProduct = (input: CreateProductInput) => http<ProductView>('/api/v1/products', { method: 'POST', body: input });
 export const updateProduct = (id: number, changes: UpdateProductInput) => http<ProductView>(`/api/v1/products/${id}`, { method: 'PATCH', body: changes });
 export const createCharacteristic = (input: CreateCharacteristicInput) => http<CharacteristicView>('/api/v1/characteristics', { method: 'POST', body: input });
+export const updatePlant = (id: number, changes: UpdatePlantInput) => http<PlantView>(`/api/v1/plants/${id}`, { method: 'PATCH', body: changes });
 export const updateCharacteristic = (id: number, changes: UpdateCharacteristicInput) =>
   http<CharacteristicView>(`/api/v1/characteristics/${id}`, { method: 'PATCH', body: changes });
 
@@ -69,3 +72,5 @@ export const useUpdateProduct = () => useCatalogueMutation(({ id, changes }: { i
 export const useCreateCharacteristic = () => useCatalogueMutation(createCharacteristic);
 export const useUpdateCharacteristic = () =>
   useCatalogueMutation(({ id, changes }: { id: number; changes: UpdateCharacteristicInput }) => updateCharacteristic(id, changes));
+// The date format shows on every page: the catalogue's refresh takes the plants along.
+export const useUpdatePlant = () => useCatalogueMutation(({ id, changes }: { id: number; changes: UpdatePlantInput }) => updatePlant(id, changes));
