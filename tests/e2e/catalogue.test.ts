@@ -2,7 +2,7 @@
 // scripts/run-tests.ts: a line, a product on it and a characteristic of that product are added,
 // listed and deactivated; other roles cannot reach the page.
 import { afterAll, beforeAll, describe, expect } from 'vitest';
-import { and, eq } from 'drizzle-orm';
+import { and, desc, eq } from 'drizzle-orm';
 import type { Page } from 'playwright-core';
 import { baseUrl, browserTest, pageHeading, screenshot, signIn } from '../support/browser';
 import { databaseUrl } from '../support/api';
@@ -199,6 +199,66 @@ describe('products, lines and characteristics', () => {
     expect(await mainMenu(page).getByRole('link', { name: 'Products, lines & characteristics' }).count()).toBe(0);
     await screenshot(page, 'catalogue-not-allowed');
     const res = await page.request.post(`${baseUrl()}/api/v1/lines`, { data: { code: `${prefix}Q`, name: 'Line of a manager' } });
+    expect(res.status()).toBe(403);
+  });
+});
+
+describe('plant settings', () => {
+  interface PlantItem {
+    id: number;
+    timeZone: string;
+    dateFormat: string;
+  }
+  const demoPlant = async (page: Page): Promise<PlantItem> => ((await (await page.request.get(`${baseUrl()}/api/v1/plants`)).json()) as { items: PlantItem[] }).items[0];
+
+  it('lets the administrator choose the date format, which every page then shows and takes, with the zone shown read-only', async ({ page }) => {
+    await signIn(page, 'admin', '/admin/plant');
+    await pageHeading(page, 'Plant settings').waitFor();
+    const plant = await demoPlant(page);
+    expect(plant.dateFormat).toBe('dd/MM/yyyy');
+    try {
+      await page.getByText('Europe/London', { exact: true }).waitFor();
+      const form = page.getByRole('form', { name: /^Date format of/ });
+      // Each choice shows 30 November 2026 written its way.
+      expect(await form.getByLabel('Date format').locator('option').allTextContents()).toEqual([
+        'dd/mm/yyyy — 30/11/2026',
+        'dd.mm.yyyy — 30.11.2026',
+        'yyyy-mm-dd — 2026-11-30',
+        'mm/dd/yyyy — 11/30/2026',
+      ]);
+      await form.getByLabel('Date format').selectOption('yyyy-MM-dd');
+      await form.getByRole('button', { name: 'Save date format' }).click();
+      await page.getByText('Dates are now written yyyy-mm-dd, e.g. 2026-11-30. The change is in the audit trail.').waitFor();
+      await screenshot(page, 'catalogue-plant-settings');
+      expect((await demoPlant(page)).dateFormat).toBe('yyyy-MM-dd');
+      await page.getByTestId('plant-time-note').getByText(/Dates are written yyyy-mm-dd\.$/).waitFor();
+      const [audit] = await db
+        .select()
+        .from(auditEvents)
+        .where(and(eq(auditEvents.entity, 'plant'), eq(auditEvents.entityId, String(plant.id))))
+        .orderBy(desc(auditEvents.id))
+        .limit(1);
+      expect(audit).toMatchObject({ action: 'update', before: { dateFormat: 'dd/MM/yyyy' }, after: { dateFormat: 'yyyy-MM-dd' } });
+
+      // The period filter of the process events now asks for and reads yyyy-mm-dd.
+      await mainMenu(page).getByRole('link', { name: 'Specifications & events' }).click();
+      await page.getByRole('navigation', { name: 'Specification and event pages' }).getByRole('link', { name: 'Process events' }).click();
+      await pageHeading(page, 'Process events').waitFor();
+      expect(await page.getByLabel('From (optional)').getAttribute('placeholder')).toBe('yyyy-mm-dd');
+      expect(await page.getByLabel('When it happened').inputValue()).toMatch(/^\d{4}-\d\d-\d\d \d\d:\d\d$/);
+    } finally {
+      // The other browser tests expect the demo plant's own format.
+      const restored = await page.request.patch(`${baseUrl()}/api/v1/plants/${plant.id}`, { data: { dateFormat: 'dd/MM/yyyy' } });
+      expect(restored.status()).toBe(200);
+    }
+  });
+
+  it('keeps the plant settings from a quality manager, in the menu and at the API', async ({ page }) => {
+    await signIn(page, 'quality_manager', '/admin/plant');
+    await pageHeading(page, 'Not allowed for your role').waitFor();
+    expect(await mainMenu(page).getByRole('link', { name: 'Plant settings' }).count()).toBe(0);
+    const plant = await demoPlant(page);
+    const res = await page.request.patch(`${baseUrl()}/api/v1/plants/${plant.id}`, { data: { dateFormat: 'yyyy-MM-dd' } });
     expect(res.status()).toBe(403);
   });
 });

@@ -24,10 +24,17 @@ afterAll(async () => {
   await db?.$client.end();
 });
 
-/** Runs the page in a zone with summer time, so that local input really has to become an offset. */
+/** Runs the page in a browser time zone other than the plant's, so that a page reading the browser's zone is caught. */
 async function browserZone(page: Page, timezoneId: string) {
   const cdp = await page.context().newCDPSession(page);
   await cdp.send('Emulation.setTimezoneOverride', { timezoneId });
+}
+
+/** An instant on the demo plant's clock (Europe/London) as dd/MM/yyyy HH:mm, written by Intl rather than the app's own code. */
+function plantClockReference(iso: string): string {
+  const parts = new Intl.DateTimeFormat('en-GB', { timeZone: 'Europe/London', hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit' }).formatToParts(new Date(iso));
+  const get = (type: string) => parts.find((p) => p.type === type)!.value;
+  return `${get('day')}/${get('month')}/${get('year')} ${get('hour')}:${get('minute')}`;
 }
 
 interface CharacteristicItem {
@@ -74,7 +81,7 @@ describe('specifications', () => {
     // The demo seed gives HV Patch R3 air content one revision: USL 6 %, target 4 % (api/db/seed/scenario.ts).
     expect(air.spec).toMatchObject({ revision: 1, lsl: null, usl: 6, target: 4 });
     const product = page.getByRole('region', { name: /HV Patch R3/ });
-    expect(await product.getByRole('row', { name: /HVR3-AIR/ }).locator('td').allTextContents()).toEqual(['–', '4.0', '6.0', '%', '1', expect.stringMatching(/^\d\d \w{3} \d{4}, \d\d:\d\d \w+/)]);
+    expect(await product.getByRole('row', { name: /HVR3-AIR/ }).locator('td').allTextContents()).toEqual(['–', '4.0', '6.0', '%', '1', expect.stringMatching(/^\d\d\/\d\d\/\d{4} \d\d:\d\d$/)]);
     await screenshot(page, 'records-specifications');
 
     await product.getByRole('link', { name: 'HVR3-AIR' }).click();
@@ -107,8 +114,8 @@ describe('specifications', () => {
       '–',
       '4.0',
       '6.2',
-      expect.stringMatching(/^\d\d \w{3} \d{4}, \d\d:\d\d/),
-      expect.stringMatching(/^Upper limit widened with the data sheet revisionDemo Quality Manager, \d\d \w{3} \d{4}/),
+      expect.stringMatching(/^\d\d\/\d\d\/\d{4} \d\d:\d\d$/),
+      expect.stringMatching(/^Upper limit widened with the data sheet revisionDemo Quality Manager, \d\d\/\d\d\/\d{4} \d\d:\d\d$/),
     ]);
     expect(await revisionRow(1).getByText('Superseded').isVisible()).toBe(true);
     await page.getByTestId('spec-in-force').getByText('USL 6.2 % (target 4.0)').waitFor();
@@ -117,7 +124,11 @@ describe('specifications', () => {
 
     // Revisions follow each other in time: the server's refusal lands under the date.
     await form.getByLabel('USL (%)').fill('6.3');
-    await form.getByLabel('Effective from (optional)').fill('2021-01-01T06:00');
+    // Typed in the plant's format (dd/mm/yyyy hh:mm); the browser's own date picker is not used.
+    await form.getByLabel('Effective from (optional)').fill('2021-01-01 06:00');
+    await form.getByRole('button', { name: 'Save revision 3' }).click();
+    await form.getByText('Type the date and time as dd/mm/yyyy hh:mm, e.g. 30/11/2026 06:15').waitFor();
+    await form.getByLabel('Effective from (optional)').fill('01/01/2021 06:00');
     await form.getByLabel('Reason').fill('Back-dated widening');
     await form.getByRole('button', { name: 'Save revision 3' }).click();
     await form.getByText(/^A new revision cannot take effect before revision 2/).waitFor();
@@ -127,20 +138,34 @@ describe('specifications', () => {
 });
 
 describe('process events', () => {
-  it('lets a technician record an event typed in local time and find it in the list', async ({ page }) => {
+  it('shows and takes an event in plant time while the browser keeps another zone, the same hour the chart data gives', async ({ page }) => {
+    // The browser runs on Pacific time, the demo plant on UK time (api/db/seed/scenario/plant.ts): eight
+    // hours apart in June (IANA time zone database), so a page using the browser's zone would be caught.
+    await browserZone(page, 'America/Los_Angeles');
     await signIn(page, 'technician', '/records/events');
     await pageHeading(page, 'Process events').waitFor();
-    await browserZone(page, 'Europe/Berlin');
-    await page.reload();
-    await pageHeading(page, 'Process events').waitFor();
+    expect(await page.evaluate(() => Intl.DateTimeFormat().resolvedOptions().timeZone)).toBe('America/Los_Angeles');
+    // The zone is named once, in the footer of every page; no time carries its own zone.
+    expect(await page.getByTestId('plant-time-note').textContent()).toMatch(/^Times are plant time \(Europe\/London, (?:GMT|BST)\)\. Dates are written dd\/mm\/yyyy\.$/);
+    expect(await page.getByText(/browser's time zone/i).count()).toBe(0);
     // The demo events are listed for everyone.
     await page.getByRole('row', { name: /New sand source/ }).waitFor();
 
     const title = `Sieve replaced ${stamp}`;
     const form = page.getByRole('form', { name: 'Record an event' });
-    await form.getByText("Your browser's time zone, Europe/Berlin.").waitFor();
-    await form.getByLabel('When it happened').fill('2021-06-14T08:30');
+    const when = form.getByLabel('When it happened');
+    expect(await when.getAttribute('placeholder')).toBe('dd/mm/yyyy hh:mm');
+    expect(await when.getAttribute('type')).toBe('text');
+    // The field starts at the plant's time now, in the plant's format.
+    expect(await when.inputValue()).toMatch(/^\d\d\/\d\d\/\d{4} \d\d:\d\d$/);
+    // A browser-style ISO date is not the plant's format: the field says how to type it.
+    await when.fill('2021-06-14T08:30');
     await form.getByLabel('Title').fill(title);
+    await form.getByRole('button', { name: 'Record event' }).click();
+    await form.getByText('Type the date and time as dd/mm/yyyy hh:mm, e.g. 30/11/2026 06:15').waitFor();
+    expect(await when.getAttribute('aria-invalid')).toBe('true');
+
+    await when.fill('14/06/2021 08:30');
     await form.getByLabel('Production line').selectOption('L2');
     // Only the products of the chosen line are offered.
     // (Of the demo plant's: a catalogue test running beside this one may have added a product to the line.)
@@ -150,25 +175,44 @@ describe('process events', () => {
     await screenshot(page, 'records-event-form');
     await form.getByRole('button', { name: 'Record event' }).click();
 
-    // Summer time in Berlin is UTC+2 in June (IANA time zone database): 08:30 local is 06:30 UTC.
-    await page.getByText(`Recorded “${title}”, 14 Jun 2021, 08:30 CEST. It appears as a marker on the control charts of HVR3.`).waitFor();
+    await page.getByText(`Recorded “${title}”, 14/06/2021 08:30. It appears as a marker on the control charts of HVR3.`).waitFor();
     const row = page.getByRole('row', { name: new RegExp(title) });
-    expect(await row.locator('td').allTextContents()).toEqual(['14 Jun 2021, 08:30 CEST', 'L2', 'HVR3', 'Demo Technician']);
+    expect(await row.locator('td').allTextContents()).toEqual(['14/06/2021 08:30', 'L2', 'HVR3', 'Demo Technician']);
+    // UK summer time is UTC+1 in June (IANA time zone database): 08:30 at the plant is 07:30 UTC, whatever the browser's zone.
     const stored = (await (await page.request.get(`${baseUrl()}/api/v1/process-events?from=2021-06-14T00:00:00Z&to=2021-06-15T00:00:00Z`)).json()) as {
       items: { title: string; occurredAt: string; lineCode: string; productCode: string }[];
     };
-    expect(stored.items.find((e) => e.title === title)).toMatchObject({ occurredAt: '2021-06-14T06:30:00.000Z', lineCode: 'L2', productCode: 'HVR3' });
+    expect(stored.items.find((e) => e.title === title)).toMatchObject({ occurredAt: '2021-06-14T07:30:00.000Z', lineCode: 'L2', productCode: 'HVR3' });
+
+    // The chart of an HVR3 characteristic carries the same event at the same instant; written on the
+    // plant's clock by Intl (the platform's own zone data, not the app's date library) it is the hour the list shows.
+    const air = await characteristic(page, 'HVR3-AIR');
+    const chart = (await (await page.request.get(`${baseUrl()}/api/v1/characteristics/${air.id}/chart?from=2021-06-01T00:00:00Z&to=2021-06-30T00:00:00Z`)).json()) as {
+      events: { title: string; occurredAt: string }[];
+    };
+    const onChart = chart.events.find((e) => e.title === title);
+    expect(onChart).toBeDefined();
+    expect(plantClockReference(onChart!.occurredAt)).toBe('14/06/2021 08:30');
     // The form is ready for the next event.
     expect(await form.getByLabel('Title').inputValue()).toBe('');
     await screenshot(page, 'records-events');
 
-    // A period that ends the day before leaves it out; one that takes in the day brings it back.
-    await page.getByLabel('From (optional)').fill('2021-06-01');
-    await page.getByLabel('To (optional)').fill('2021-06-13');
+    // The period filter takes plant days as dd/mm/yyyy: one that ends the day before leaves the event out,
+    // one that takes in the day brings it back.
+    const from = page.getByLabel('From (optional)');
+    const to = page.getByLabel('To (optional)');
+    expect(await from.getAttribute('placeholder')).toBe('dd/mm/yyyy');
+    await from.fill('01/06/2021');
+    await to.fill('13/06/2021');
     await row.waitFor({ state: 'detached' });
-    await page.getByLabel('To (optional)').fill('2021-06-14');
+    await to.fill('14/06/2021');
     await row.waitFor();
     expect(await page.getByRole('row', { name: /New sand source/ }).count()).toBe(0);
+    // A day in another format is named under its field once the field is left.
+    await to.fill('2021-06-14');
+    await from.focus();
+    await page.getByText('Type the date as dd/mm/yyyy, e.g. 30/11/2026').waitFor();
+    expect(await to.getAttribute('aria-invalid')).toBe('true');
   });
 
   it('names a too-short title under its field and records nothing', async ({ page }) => {

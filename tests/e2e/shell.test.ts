@@ -158,3 +158,82 @@ describe('web app shell', () => {
     expect(await mainMenu(page).getByRole('link').allTextContents()).not.toContain('Users');
   });
 });
+
+describe('lot search in the header', () => {
+  /** The newest lot of the demo plant, as the API lists it. */
+  async function newestLot(page: Page): Promise<{ lotNumber: string; productCode: string }> {
+    const res = await page.request.get(`${baseUrl()}/api/v1/lots?limit=1`);
+    expect(res.status()).toBe(200);
+    return ((await res.json()) as { items: { lotNumber: string; productCode: string }[] }).items[0];
+  }
+
+  it('lets an auditor open a lot from the start of its number typed in lower case, or the whole number and Enter', async ({ page }) => {
+    await signIn(page, 'auditor');
+    await pageHeading(page, 'Plant overview').waitFor();
+    const lot = await newestLot(page);
+    const search = page.getByRole('combobox', { name: 'Find a lot' });
+
+    // The start of a number suggests the lots that begin with it, at most eight (LOT_SUGGESTIONS).
+    await search.fill(lot.lotNumber.slice(0, -1).toLowerCase());
+    const suggestions = page.getByRole('listbox', { name: 'Lots found' }).getByRole('option');
+    await suggestions.filter({ hasText: lot.lotNumber }).waitFor();
+    expect(await suggestions.count()).toBeLessThanOrEqual(8);
+    for (const text of await suggestions.allTextContents()) expect(text.toUpperCase().startsWith(lot.lotNumber.slice(0, -1).toUpperCase())).toBe(true);
+    await screenshot(page, 'shell-lot-search');
+    await suggestions.filter({ hasText: lot.lotNumber }).click();
+    await pageHeading(page, `Lot ${lot.lotNumber}`).waitFor();
+    expect(new URL(page.url()).pathname).toBe(`/results/lots/${encodeURIComponent(lot.lotNumber)}`);
+    // The box is emptied for the next search.
+    expect(await search.inputValue()).toBe('');
+
+    // From another page, the whole number and Enter open the lot without picking.
+    await page.getByRole('navigation', { name: 'Main menu' }).getByRole('link', { name: 'Specifications & events' }).click();
+    await pageHeading(page, 'Specifications').waitFor();
+    await search.fill(lot.lotNumber);
+    await page.getByRole('option', { name: new RegExp(lot.lotNumber) }).first().waitFor();
+    await search.press('Enter');
+    await pageHeading(page, `Lot ${lot.lotNumber}`).waitFor();
+  });
+
+  it('says plainly when no lot has that number, and moves through suggestions by keyboard', async ({ page }) => {
+    await signIn(page, 'technician');
+    await pageHeading(page, 'Plant overview').waitFor();
+    const search = page.getByRole('combobox', { name: 'Find a lot' });
+    await search.fill('NO-SUCH-LOT-42');
+    await page.getByRole('status').filter({ hasText: 'No lot called “NO-SUCH-LOT-42”.' }).waitFor();
+    await search.press('Enter');
+    expect(new URL(page.url()).pathname).toBe('/');
+
+    const lot = await newestLot(page);
+    await search.fill(lot.lotNumber.slice(0, 2));
+    const first = page.getByRole('listbox', { name: 'Lots found' }).getByRole('option').first();
+    await first.waitFor();
+    const firstNumber = (await first.locator('span').first().textContent())!;
+    await search.press('ArrowDown');
+    expect(await first.getAttribute('aria-selected')).toBe('true');
+    expect(await search.getAttribute('aria-activedescendant')).toBe(await first.getAttribute('id'));
+    await search.press('Enter');
+    await pageHeading(page, `Lot ${firstNumber}`).waitFor();
+  });
+
+  it('keeps the header, the search and the records pages on screen on a tablet (800 × 1280)', async ({ page }) => {
+    await page.setViewportSize({ width: 800, height: 1280 });
+    await signIn(page, 'quality_manager', '/records/events');
+    await pageHeading(page, 'Process events').waitFor();
+    for (const path of ['/records/events', '/records/specifications', '/spc-runs', '/results/history']) {
+      await page.goto(`${baseUrl()}${path}`);
+      await page.getByRole('heading', { level: 1 }).waitFor();
+      await page.getByTestId('plant-time-note').waitFor();
+      // Nothing wider than the screen: no sideways scrolling of the whole page.
+      expect(await page.evaluate(() => document.documentElement.scrollWidth), path).toBeLessThanOrEqual(800);
+      const box = await page.getByRole('combobox', { name: 'Find a lot' }).boundingBox();
+      expect(box, path).not.toBeNull();
+      expect(box!.x + box!.width, path).toBeLessThanOrEqual(800);
+      const signOut = await page.getByRole('button', { name: 'Sign out' }).boundingBox();
+      expect(signOut!.x + signOut!.width, path).toBeLessThanOrEqual(800);
+    }
+    await page.goto(`${baseUrl()}/records/events`);
+    await pageHeading(page, 'Process events').waitFor();
+    await screenshot(page, 'shell-tablet-events');
+  });
+});
