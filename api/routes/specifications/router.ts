@@ -1,7 +1,8 @@
 import { Router } from 'express';
 import { desc, eq } from 'drizzle-orm';
 import type { Database } from '@api/db/client';
-import { characteristics, specLimits, users } from '@api/db/schema';
+import { characteristics, plants, products, specLimits, users } from '@api/db/schema';
+import { formatPlantDateTime } from '@shared/time';
 import { recordAudit } from '@api/db/audit';
 import { badRequest, notFound, parseBody } from '@api/http/errors';
 import { requirePermission, requireSession } from '@api/auth/session';
@@ -36,13 +37,19 @@ export function specificationsRouter(db: Database): Router {
     const { id } = parseBody(characteristicIdParamsSchema, req.params);
     const input = parseBody(specRevisionSchema, req.body);
     const created = await db.transaction(async (tx) => {
-      const [ch] = await tx.select({ id: characteristics.id }).from(characteristics).where(eq(characteristics.id, id)).for('update');
+      const [ch] = await tx
+        .select({ id: characteristics.id, timeZone: plants.timeZone, dateFormat: plants.dateFormat })
+        .from(characteristics)
+        .innerJoin(products, eq(products.id, characteristics.productId))
+        .innerJoin(plants, eq(plants.id, products.plantId))
+        .where(eq(characteristics.id, id))
+        .for('update', { of: characteristics });
       if (!ch) throw notFound('Characteristic');
       const [latest] = await tx.select({ revision: specLimits.revision, effectiveFrom: specLimits.effectiveFrom }).from(specLimits).where(eq(specLimits.characteristicId, id)).orderBy(desc(specLimits.revision)).limit(1);
       const effectiveFrom = input.effectiveFrom ? new Date(input.effectiveFrom) : new Date();
       // Revisions follow each other in time, so "the revision in force at a lot's production time" has one answer.
       if (latest && effectiveFrom < latest.effectiveFrom) {
-        const message = `A new revision cannot take effect before revision ${latest.revision}, in force from ${latest.effectiveFrom.toISOString().slice(0, 16).replace('T', ' ')} UTC`;
+        const message = `A new revision cannot take effect before revision ${latest.revision}, in force from ${formatPlantDateTime(latest.effectiveFrom, ch)}`;
         throw badRequest(`effectiveFrom: ${message}`, [{ path: 'effectiveFrom', message }]);
       }
       const next = (latest?.revision ?? 0) + 1;

@@ -43,7 +43,13 @@ describe('specification revisions', () => {
       .set(await as('quality_manager'))
       .send({ lsl: 2000, usl: 2150, effectiveFrom: '2020-01-01T00:00:00Z', reason: 'Back-dated widening' });
     expect(backdated.status).toBe(400);
-    expect(backdated.body.error).toMatch(/cannot take effect before revision 2/i);
+    // The time it names is on the plant's clock (Europe/London, the demo plant's) in its date format, as
+    // Intl writes it from the tz database, not in UTC.
+    const parts = new Intl.DateTimeFormat('en-GB', { timeZone: 'Europe/London', hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit' }).formatToParts(new Date(res.body.effectiveFrom));
+    const part = (type: string) => parts.find((p) => p.type === type)!.value;
+    expect(backdated.body.details).toEqual([
+      { path: 'effectiveFrom', message: `A new revision cannot take effect before revision 2, in force from ${part('day')}/${part('month')}/${part('year')} ${part('hour')}:${part('minute')}` },
+    ]);
   });
 
   it('allows one-sided specifications and refuses inconsistent ones with a message per field', async () => {
