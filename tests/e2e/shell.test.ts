@@ -220,12 +220,17 @@ describe('lot search in the header', () => {
     await page.setViewportSize({ width: 800, height: 1280 });
     await signIn(page, 'quality_manager', '/records/events');
     await pageHeading(page, 'Process events').waitFor();
-    for (const path of ['/records/events', '/records/specifications', '/spc-runs', '/results/history']) {
+    for (const path of ['/records/events', '/records/specifications', '/spc-runs']) {
       await page.goto(`${baseUrl()}${path}`);
       await page.getByRole('heading', { level: 1 }).waitFor();
       await page.getByTestId('plant-time-note').waitFor();
       // Nothing wider than the screen: no sideways scrolling of the whole page.
       expect(await page.evaluate(() => document.documentElement.scrollWidth), path).toBeLessThanOrEqual(800);
+      // Nor a table that hides a column behind its own sideways scroll.
+      const hidden = await page.evaluate(() =>
+        [...document.querySelectorAll('main table')].filter((table) => table.parentElement!.scrollWidth > table.parentElement!.clientWidth + 1).map((table) => table.querySelector('caption')?.textContent ?? 'a table'),
+      );
+      expect(hidden, path).toEqual([]);
       const box = await page.getByRole('combobox', { name: 'Find a lot' }).boundingBox();
       expect(box, path).not.toBeNull();
       expect(box!.x + box!.width, path).toBeLessThanOrEqual(800);

@@ -22,12 +22,13 @@ export function ProcessEventList({ events }: { events: ProcessEvent[] }) {
           {events.map((e) => (
             <tr key={e.id} className="border-b border-zinc-100 align-top last:border-b-0">
               <td className="px-3 py-2 font-mono text-sm whitespace-nowrap"><PlantTime at={e.occurredAt} /></td>
-              <th scope="row" className="min-w-64 px-3 py-2 text-left font-normal">
+              <th scope="row" className="min-w-44 px-3 py-2 text-left font-normal">
                 <span className="block font-medium text-zinc-900">{e.title}</span>
                 {e.description && <span className="block text-sm text-zinc-600 [overflow-wrap:anywhere]">{e.description}</span>}
               </th>
-              <td className="px-3 py-2 font-mono text-sm whitespace-nowrap">{e.lineCode ?? <span className="font-sans text-zinc-600">Whole plant</span>}</td>
-              <td className="px-3 py-2 font-mono text-sm whitespace-nowrap">{e.productCode ?? <span className="font-sans text-zinc-600">Every product</span>}</td>
+              {/* Codes stay whole; the words for "all of them" may wrap, so the table fits a tablet's width. */}
+              <td className="px-3 py-2 text-sm">{e.lineCode ? <span className="font-mono whitespace-nowrap">{e.lineCode}</span> : <span className="text-zinc-600">Whole plant</span>}</td>
+              <td className="px-3 py-2 text-sm">{e.productCode ? <span className="font-mono whitespace-nowrap">{e.productCode}</span> : <span className="text-zinc-600">Every product</span>}</td>
               <td className="px-3 py-2 text-sm text-zinc-700">{e.createdBy ?? '—'}</td>
             </tr>
           ))}

@@ -66,7 +66,7 @@ export default function SpecificationsPage() {
               </h2>
               <div className="overflow-x-auto rounded-lg border border-zinc-200 bg-white">
                 {/* Fixed columns, so the figures of every product's table line up down the page. */}
-                <table className="w-full min-w-[48rem] table-fixed border-collapse text-left">
+                <table className="w-full min-w-[44rem] table-fixed border-collapse text-left">
                   <caption className="sr-only">Specifications of {product.name}</caption>
                   <colgroup>
                     <col className="w-[30%]" />
