@@ -6,7 +6,7 @@ export function RunProgress({ run }: { run: RunSummary }) {
   const done = (100 * run.done) / total;
   const failed = (100 * run.failed) / total;
   return (
-    <div className="min-w-40">
+    <div className="min-w-28">
       <div
         className="flex h-2 overflow-hidden rounded-full bg-zinc-200"
         role="progressbar"

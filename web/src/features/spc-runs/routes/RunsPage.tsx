@@ -71,7 +71,7 @@ export default function RunsPage() {
         ) : runs.data.length === 0 ? (
           <EmptyState title="No run yet">The first nightly run starts at the time set for the plant{mayStart ? ', or start one now' : ''}.</EmptyState>
         ) : (
-          <PlainTable caption="SPC runs, newest first" headings={['Run', 'Why', 'Status', 'Progress', 'Alarms', 'Started', 'Took', '']}>
+          <PlainTable caption="SPC runs, newest first" headings={['Run', 'Why', 'Status', 'Progress', 'Alarms', 'Started, took', '']}>
                 {runs.data.map((run) => (
                   <Fragment key={run.id}>
                     <tr className="border-b border-zinc-100 align-top" data-run={run.id}>
@@ -93,8 +93,11 @@ export default function RunsPage() {
                         {run.alarmsRaised} raised
                         {run.alarmsResolved ? <span className="block text-zinc-600">{run.alarmsResolved} resolved by changed data</span> : null}
                       </td>
-                      <td className="figures px-3 py-2 text-sm whitespace-nowrap"><PlantTime at={run.startedAt ?? run.createdAt} /></td>
-                      <td className="figures px-3 py-2 text-sm whitespace-nowrap">{duration(run)}</td>
+                      {/* Start and duration share a column, so the table fits a tablet's width. */}
+                      <td className="figures px-3 py-2 text-sm whitespace-nowrap">
+                        <PlantTime at={run.startedAt ?? run.createdAt} className="block" />
+                        <span className="block text-zinc-600">{duration(run)}</span>
+                      </td>
                       <td className="px-3 py-2">
                         {(run.failed > 0 || isActive(run)) && (
                           <Button variant="quiet" size="sm" aria-expanded={open === run.id} onClick={() => setOpen(open === run.id ? null : run.id)}>
@@ -105,7 +108,7 @@ export default function RunsPage() {
                     </tr>
                     {open === run.id && (
                       <tr className="border-b border-zinc-100 bg-zinc-50">
-                        <td colSpan={8} className="px-5 py-3">
+                        <td colSpan={7} className="px-5 py-3">
                           <RunDetails id={run.id} />
                         </td>
                       </tr>
