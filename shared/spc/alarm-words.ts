@@ -59,7 +59,8 @@ export interface AlarmWordsInput {
  * control limit 1,490 kg/m³." The limit is always the one of the chart the figure is plotted on.
  */
 export function alarmSentence(a: AlarmWordsInput): string {
-  const q = (v: number) => formatQuantity(v, a.decimals, a.unit);
+  const places = comparablePlaces(a.statistic, a.limitValue, a.decimals);
+  const q = (v: number) => formatQuantity(v, places, a.unit);
   const side = (limit: string | null) => (limit === 'UCL' || limit === 'USL' ? 'above the' : 'below the');
   if (a.rule === 'out-of-spec') {
     const of = a.values.length > 1 ? ` (mean of ${a.values.length} results: ${a.values.map((v) => formatFigure(v, a.decimals)).join(', ')})` : '';
@@ -73,6 +74,16 @@ export function alarmSentence(a: AlarmWordsInput): string {
   }
   const pattern = ruleDescriptions[a.rule as RuleId] ?? 'The chart shows a pattern of points.';
   return `${pattern} The pattern is complete at this lot, ${figure} ${q(a.statistic)}.`;
+}
+
+/**
+ * The characteristic's decimals, or as few more as it takes for a figure and the limit it broke to
+ * read differently: "13.9 MPa above the upper control limit 13.9 MPa" would contradict itself.
+ */
+function comparablePlaces(value: number, limit: number | null, decimals: number): number {
+  if (limit === null) return decimals;
+  for (let d = decimals; d < decimals + 3; d++) if (formatFigure(value, d) !== formatFigure(limit, d)) return d;
+  return decimals + 3;
 }
 
 const capitalise = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);
