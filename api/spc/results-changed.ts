@@ -89,8 +89,12 @@ export async function raiseOutOfSpecAlarms(db: Database, subgroups: Subgroup[], 
         returning id`);
       if (ins.rows[0]) raised.push(ins.rows[0].id);
     }
-    // One e-mail per lot for what this import found; the run that follows mails only what it adds.
-    if (raised.length) await queueLotMail(tx, raised, `import:${Math.min(...raised)}`, publicUrl);
+    // One e-mail per lot for what this import found; the run that follows mails only what it adds. The
+    // transaction names the occasion: a signal reopened by a later import is told again.
+    if (raised.length) {
+      const occasion = await tx.execute<{ id: string }>(sql`select txid_current()::text as id`);
+      await queueLotMail(tx, raised, `import:${occasion.rows[0].id}`, publicUrl);
+    }
     return raised;
   });
 }
