@@ -61,7 +61,7 @@ export function startSpcWorkers(boss: PgBoss, db: Database, opts: SpcWorkerOptio
       const message = e.cause?.message ? `${e.cause.message} (${e.message.split('\n')[0]})` : e.message || String(err);
       const final = job.retryCount >= job.retryLimit;
       logger.warn({ runId, characteristicId, attempt: job.retryCount + 1, final, err: message }, 'characteristic job failed');
-      await recordFailedAttempt(db, { runId, characteristicId, error: message, final }).catch((e) => logger.warn({ err: (e as Error).message }, 'could not record the failed attempt'));
+      await recordFailedAttempt(db, { runId, characteristicId, error: message, final, publicUrl: opts.publicUrl }).catch((e) => logger.warn({ err: (e as Error).message }, 'could not record the failed attempt'));
       await boss.fail(CHARACTERISTIC_QUEUE, job.id, { message }).catch((e) => logger.warn({ err: (e as Error).message }, 'could not fail the job; it will expire and be retried'));
     }
   }

@@ -48,6 +48,8 @@ export const permissions = {
   'plant.manage': admins,
   /** Create users, change their roles, deactivate them. */
   'user.manage': admins,
+  /** Read the log of the e-mails Prismline sent (to whom, when, what). */
+  'mail.read': managers,
   /** Read the local fake mail server's outbox. */
   'outbox.read': admins,
 } as const satisfies Record<string, readonly Role[]>;

@@ -1,24 +1,13 @@
 // The words of alarm e-mails and the morning digest: what happened, which lot, the value and the
-// limit, and a link to the chart — as plain text and as simple HTML with the same content.
-import type { AlarmSignal } from '@shared/schemas/alarms';
-
-/** Short names of the signals, in the trade's words. */
-export const signalNames: Record<string, string> = {
-  'out-of-spec': 'Out of specification',
-  we1: 'Beyond a control limit',
-  we2: 'Two of three beyond 2 sigma',
-  we3: 'Four of five beyond 1 sigma',
-  we4: 'Eight on one side of the centre line',
-  trend: 'Six in a row rising or falling',
-  alternating: 'Fourteen alternating up and down',
-  hugging: 'Fifteen within 1 sigma',
-  mixture: 'Eight beyond 1 sigma on both sides',
-};
+// limit, and a link to the chart at the lot — as plain text and as simple HTML with the same content.
+// One message tells every signal of a lot together; times are plant time, named once.
+import { signalName, signalRank } from '@shared/spc';
+import { formatPlantDate, formatPlantDateTime, plantTimeNote, type PlantClock } from '@shared/time';
 
 export const JUDGEMENT_NOTE = 'Prismline supports the decision of trained staff; it does not replace their judgement, the product specification or the plant procedures.';
 
-/** An alarm as its e-mail tells it: the signal's facts, with the names a reader needs. */
-export interface AlarmMailFacts extends Omit<AlarmSignal, 'rule' | 'chart'> {
+/** One signal of a lot as an e-mail tells it: the chart it is on, its figure against that chart's limit. */
+export interface SignalFacts {
   alarmId: number;
   rule: string;
   characteristicId: number;
@@ -26,12 +15,22 @@ export interface AlarmMailFacts extends Omit<AlarmSignal, 'rule' | 'chart'> {
   characteristicName: string;
   unit: string;
   decimals: number;
-  productCode: string;
-  productName: string;
-  lineCode: string | null;
+  /** The sentence of the alarm, in words and the characteristic's decimals. */
+  description: string;
+  lateReason: string | null;
+  detectedAt: Date;
+}
+
+/** A lot and every signal one run (or one import) found on it. */
+export interface LotMailFacts {
+  lotId: number;
   lotNumber: string;
   producedAt: Date;
   shift: string | null;
+  productCode: string;
+  productName: string;
+  lineCode: string | null;
+  signals: SignalFacts[];
 }
 
 export interface Composed {
@@ -41,78 +40,92 @@ export interface Composed {
 }
 
 const escapeHtml = (s: string) => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
-const fmt = (v: number, d: number) => v.toFixed(Math.max(0, Math.min(6, d)));
-const when = (d: Date) => `${d.toISOString().slice(0, 16).replace('T', ' ')} UTC`;
+const base = (publicUrl: string) => publicUrl.replace(/\/$/, '');
 
-export const chartLink = (publicUrl: string, characteristicId: number, pointIndex: number) => `${publicUrl.replace(/\/$/, '')}/charts/${characteristicId}?point=${pointIndex}`;
+/** The chart at the lot, whatever period it shows (the chart page honours `lot=`). */
+export const chartLink = (publicUrl: string, characteristicId: number, lotNumber: string) => `${base(publicUrl)}/charts/${characteristicId}?${new URLSearchParams({ lot: lotNumber })}`;
+/** The lot's page, the same address as lotPath() of the web app. */
+export const lotLink = (publicUrl: string, lotNumber: string) => `${base(publicUrl)}/results/lots/${encodeURIComponent(lotNumber)}`;
 
-const limitWords: Record<string, string> = {
-  UCL: 'upper control limit (UCL)',
-  LCL: 'lower control limit (LCL)',
-  USL: 'upper specification limit (USL)',
-  LSL: 'lower specification limit (LSL)',
-};
+const bySeverity = (a: SignalFacts, b: SignalFacts) => signalRank(a.rule) - signalRank(b.rule) || a.characteristicCode.localeCompare(b.characteristicCode);
 
-export function composeAlarmMail(f: AlarmMailFacts, publicUrl: string, scope: string): Composed {
-  const signal = signalNames[f.rule] ?? f.rule;
-  const link = chartLink(publicUrl, f.characteristicId, f.pointIndex);
-  const rows: [string, string][] = [
-    ['What happened', f.description],
-    ['Characteristic', `${f.characteristicCode} · ${f.characteristicName}`],
-    ['Product', `${f.productCode} · ${f.productName}${f.lineCode ? ` (line ${f.lineCode})` : ''}`],
-    ['Lot', `${f.lotNumber}, produced ${when(f.producedAt)}${f.shift ? `, ${f.shift} shift` : ''}`],
-    ['Values', `${f.values.map((v) => fmt(v, f.decimals)).join(', ')} ${f.unit}`],
-    ['Plotted value', `${fmt(f.statistic, f.decimals + 1)} ${f.unit}`],
+/** The signals of one lot, one line each: "HVL25-DENS · Density — Out of specification: Lot result …". */
+function signalLines(lot: LotMailFacts): { head: string; text: string }[] {
+  return [...lot.signals].sort(bySeverity).map((s) => ({
+    head: `${s.characteristicCode} · ${s.characteristicName} — ${signalName(s.rule)}`,
+    text: `${s.description}${s.lateReason ? ` ${s.lateReason}` : ''}`,
+  }));
+}
+
+/** One e-mail for one lot: every signal found on it at once, the lot's production time in plant time. */
+export function composeLotMail(lot: LotMailFacts, publicUrl: string, scope: string, clock: PlantClock): Composed {
+  const signals = [...lot.signals].sort(bySeverity);
+  const names = [...new Set(signals.map((s) => signalName(s.rule)))];
+  const codes = [...new Set(signals.map((s) => s.characteristicCode))];
+  const subject = `Prismline alarm: lot ${lot.lotNumber} — ${names.join(', ')} (${codes.join(', ')})`;
+  const detected = signals.reduce((t, s) => Math.max(t, s.detectedAt.getTime()), 0);
+  const facts: [string, string][] = [
+    ['Product', `${lot.productCode} · ${lot.productName}${lot.lineCode ? ` (line ${lot.lineCode})` : ''}`],
+    ['Lot', `${lot.lotNumber}, produced ${formatPlantDateTime(lot.producedAt, clock)}${lot.shift ? `, ${lot.shift} shift` : ''}`],
+    ['Detected', formatPlantDateTime(detected, clock)],
+    ['Lot page', lotLink(publicUrl, lot.lotNumber)],
   ];
-  if (f.limitName && f.limitValue !== null) rows.push(['Limit', `${limitWords[f.limitName] ?? f.limitName} ${fmt(f.limitValue, f.decimals + 1)} ${f.unit}`]);
-  if (f.lateReason) rows.push(['Position', f.lateReason]);
-  rows.push(['Chart', link]);
-  const subject = `Prismline alarm: ${signal} — ${f.characteristicCode}, lot ${f.lotNumber}`;
+  const lines = signalLines(lot);
   const footer = [
+    plantTimeNote(clock.timeZone, lot.producedAt) + '.',
     'Check the lot and the test, decide whether there is an assignable cause, and put the lot on hold if the specification requires it.',
     JUDGEMENT_NOTE,
-    `You receive this because you subscribed to immediate alerts for ${scope}. Change your subscriptions in Prismline under Alerts by e-mail: ${publicUrl.replace(/\/$/, '')}/subscriptions`,
+    `You receive this because you subscribed to immediate alerts for ${scope}. Change your subscriptions in Prismline under Alerts by e-mail: ${base(publicUrl)}/subscriptions`,
   ];
-  const text = [`${signal}`, '', ...rows.map(([k, v]) => `${k}: ${v}`), '', ...footer].join('\n');
+  const heading = `${signals.length} signal${signals.length === 1 ? '' : 's'} on lot ${lot.lotNumber}`;
+  const text = [
+    heading,
+    '',
+    ...facts.map(([k, v]) => `${k}: ${v}`),
+    '',
+    ...lines.flatMap((l, i) => [`${i + 1}. ${l.head}`, `   ${l.text}`, `   Chart: ${chartLink(publicUrl, signals[i].characteristicId, lot.lotNumber)}`]),
+    '',
+    ...footer,
+  ].join('\n');
   const html = [
     '<!doctype html><html><body style="font-family:sans-serif;font-size:14px;line-height:1.4">',
-    `<h2 style="font-size:18px">${escapeHtml(signal)}</h2>`,
+    `<h2 style="font-size:18px">${escapeHtml(heading)}</h2>`,
     '<table cellpadding="4" style="border-collapse:collapse">',
-    ...rows.map(([k, v]) => `<tr><th align="left" valign="top">${escapeHtml(k)}</th><td>${k === 'Chart' ? `<a href="${escapeHtml(v)}">${escapeHtml(v)}</a>` : escapeHtml(v)}</td></tr>`),
-    '</table>',
+    ...facts.map(([k, v]) => `<tr><th align="left" valign="top">${escapeHtml(k)}</th><td>${k === 'Lot page' ? `<a href="${escapeHtml(v)}">${escapeHtml(v)}</a>` : escapeHtml(v)}</td></tr>`),
+    '</table><ol>',
+    ...lines.map(
+      (l, i) =>
+        `<li><strong>${escapeHtml(l.head)}</strong><br>${escapeHtml(l.text)} <a href="${escapeHtml(chartLink(publicUrl, signals[i].characteristicId, lot.lotNumber))}">Open the chart at this lot</a></li>`,
+    ),
+    '</ol>',
     ...footer.map((p) => `<p>${escapeHtml(p)}</p>`),
     '</body></html>',
   ].join('\n');
   return { subject, text, html };
 }
 
-export interface DigestEntry extends AlarmMailFacts {
-  createdAt: Date;
-}
-
-export function composeDigest(entries: DigestEntry[], publicUrl: string, period: { from: Date; to: Date }, localDate: string): Composed {
-  const byCharacteristic = new Map<string, DigestEntry[]>();
-  for (const e of entries) {
-    const key = `${e.characteristicCode} · ${e.characteristicName} (${e.productCode})`;
-    byCharacteristic.set(key, [...(byCharacteristic.get(key) ?? []), e]);
-  }
-  const subject = `Prismline morning digest ${localDate}: ${entries.length} new alarm${entries.length === 1 ? '' : 's'}`;
-  const intro = `New alarms from ${when(period.from)} to ${when(period.to)}, by characteristic.`;
-  const line = (e: DigestEntry) => `${signalNames[e.rule] ?? e.rule} — lot ${e.lotNumber}: ${e.description}${e.lateReason ? ` ${e.lateReason}` : ''} Chart: ${chartLink(publicUrl, e.characteristicId, e.pointIndex)}`;
+/** The morning digest: the lots whose signals were detected in the period, each with its signals. */
+export function composeDigest(lots: LotMailFacts[], publicUrl: string, period: { from: Date; to: Date }, clock: PlantClock): Composed {
+  const count = lots.reduce((n, l) => n + l.signals.length, 0);
+  const subject = `Prismline morning digest ${formatPlantDate(period.to, clock)}: ${count} new signal${count === 1 ? '' : 's'} on ${lots.length} lot${lots.length === 1 ? '' : 's'}`;
+  const intro = `Signals detected from ${formatPlantDateTime(period.from, clock)} to ${formatPlantDateTime(period.to, clock)}, newest lot first. ${plantTimeNote(clock.timeZone, period.to)}.`;
+  const ordered = [...lots].sort((a, b) => b.producedAt.getTime() - a.producedAt.getTime() || a.lotNumber.localeCompare(b.lotNumber));
+  const lotHead = (l: LotMailFacts) => `Lot ${l.lotNumber} (${l.productCode}, produced ${formatPlantDateTime(l.producedAt, clock)})`;
   const text = [
     intro,
     '',
-    ...[...byCharacteristic].flatMap(([k, list]) => [k, ...list.map((e) => `  - ${line(e)}`), '']),
+    ...ordered.flatMap((l) => [lotHead(l), ...signalLines(l).map((s) => `  - ${s.head}: ${s.text}`), `  Lot page: ${lotLink(publicUrl, l.lotNumber)}`, '']),
     JUDGEMENT_NOTE,
-    `Change your subscriptions in Prismline under Alerts by e-mail: ${publicUrl.replace(/\/$/, '')}/subscriptions`,
+    `Change your subscriptions in Prismline under Alerts by e-mail: ${base(publicUrl)}/subscriptions`,
   ].join('\n');
   const html = [
     '<!doctype html><html><body style="font-family:sans-serif;font-size:14px;line-height:1.4">',
     `<h2 style="font-size:18px">${escapeHtml(subject)}</h2><p>${escapeHtml(intro)}</p>`,
-    ...[...byCharacteristic].map(
-      ([k, list]) =>
-        `<h3 style="font-size:15px">${escapeHtml(k)}</h3><ul>${list
-          .map((e) => `<li><strong>${escapeHtml(signalNames[e.rule] ?? e.rule)}</strong> — lot ${escapeHtml(e.lotNumber)}: ${escapeHtml(e.description)}${e.lateReason ? ` ${escapeHtml(e.lateReason)}` : ''} <a href="${escapeHtml(chartLink(publicUrl, e.characteristicId, e.pointIndex))}">Open the chart</a></li>`)
+    ...ordered.map(
+      (l) =>
+        `<h3 style="font-size:15px"><a href="${escapeHtml(lotLink(publicUrl, l.lotNumber))}">${escapeHtml(lotHead(l))}</a></h3><ul>${[...l.signals]
+          .sort(bySeverity)
+          .map((s) => `<li><strong>${escapeHtml(`${s.characteristicCode} — ${signalName(s.rule)}`)}</strong>: ${escapeHtml(s.description)}${s.lateReason ? ` ${escapeHtml(s.lateReason)}` : ''} <a href="${escapeHtml(chartLink(publicUrl, s.characteristicId, l.lotNumber))}">Open the chart at this lot</a></li>`)
           .join('')}</ul>`,
     ),
     `<p>${escapeHtml(JUDGEMENT_NOTE)}</p>`,

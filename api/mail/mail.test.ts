@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import nodemailer, { type SendMailOptions } from 'nodemailer';
 import { readMessage, startFakeSmtp } from './fake-smtp';
 import { backoffSeconds, createTransport } from './outbox';
-import { composeAlarmMail, type AlarmMailFacts } from './compose';
+import { composeDigest, composeLotMail, type LotMailFacts, type SignalFacts } from './compose';
 
 /** What nodemailer (the general-purpose library) writes for a message, without sending it. */
 async function build(options: SendMailOptions): Promise<string> {
@@ -61,42 +61,49 @@ describe('the local fake SMTP server', () => {
 });
 
 describe('alarm messages', () => {
-  const facts: AlarmMailFacts = {
-    alarmId: 7,
-    rule: 'out-of-spec',
-    characteristicId: 12,
-    characteristicCode: 'HVL25-RC28',
-    characteristicName: 'Compressive strength 28 d',
-    unit: 'MPa',
-    decimals: 1,
-    productCode: 'HVL25',
-    productName: 'HV Level 25',
-    lineCode: 'L1',
-    lotNumber: 'L1-261102-E1',
-    producedAt: new Date('2026-11-02T06:30:00Z'),
-    shift: 'early',
-    pointIndex: 140,
-    statistic: 24.15,
-    values: [24.1, 24.3, 23.9, 24.2, 24.4, 24.0],
-    limitName: 'LSL',
-    limitValue: 25,
-    description: 'Lot L1-261102-E1 (produced 2026-11-02 06:30 UTC): the result 24.15 MPa is below the lower specification limit 25 MPa <C25> (specification revision 1).',
-    lateReason: 'Late result: lot L1-261102-E1 was tested after later lots were charted.',
+  // One lot with three readings beyond the specification and beyond the control limit on two charts:
+  // one message lists all of it (before, each alarm was a message of its own).
+  const signal = (over: Partial<SignalFacts>): SignalFacts => ({
+    alarmId: 1, rule: 'out-of-spec', characteristicId: 12, characteristicCode: 'HVL25-DENS', characteristicName: 'Fresh mortar density', unit: 'kg/m³', decimals: 0,
+    description: 'Lot result 1,501 kg/m³ above the upper specification limit 1,500 kg/m³ <C25>.', lateReason: null, detectedAt: new Date('2026-11-03T02:00:00Z'), ...over,
+  });
+  const lot: LotMailFacts = {
+    lotId: 5, lotNumber: 'L1-261102-E1', producedAt: new Date('2026-07-02T06:30:00Z'), shift: 'early', productCode: 'HVL25', productName: 'HV Level 25', lineCode: 'L1',
+    signals: [
+      signal({ alarmId: 3, rule: 'we1', description: 'Subgroup mean 1,501 kg/m³ above the upper control limit 1,490 kg/m³.' }),
+      signal({}),
+      signal({ alarmId: 4, rule: 'trend', characteristicId: 13, characteristicCode: 'HVL25-FLOW', characteristicName: 'Flow', unit: 'mm', description: 'Six points in a row each rise above the one before.' }),
+    ],
   };
+  const clock = { timeZone: 'Europe/London', dateFormat: 'dd/MM/yyyy' as const };
 
-  it('say what happened, which lot, the values and the limit, link the chart point, and escape HTML', () => {
-    const m = composeAlarmMail(facts, 'https://prismline.plant.example/', 'line L1');
-    expect(m.subject).toBe('Prismline alarm: Out of specification — HVL25-RC28, lot L1-261102-E1');
-    expect(m.text).toContain('What happened: Lot L1-261102-E1');
-    expect(m.text).toContain('Values: 24.1, 24.3, 23.9, 24.2, 24.4, 24.0 MPa');
-    expect(m.text).toContain('Limit: lower specification limit (LSL) 25.00 MPa');
-    expect(m.text).toContain('Chart: https://prismline.plant.example/charts/12?point=140');
-    expect(m.text).toContain('Position: Late result');
+  it('tell every signal of the lot in one message, most severe first, with links to the chart at the lot and to the lot page', () => {
+    const m = composeLotMail(lot, 'https://prismline.plant.example/', 'line L1', clock);
+    expect(m.subject).toBe('Prismline alarm: lot L1-261102-E1 — Out of specification, Beyond a control limit, Six in a row rising or falling (HVL25-DENS, HVL25-FLOW)');
+    expect(m.text).toMatch(/^3 signals on lot L1-261102-E1/);
+    const order = ['Out of specification', 'Beyond a control limit', 'Six in a row'].map((w) => m.text.indexOf(w, m.text.indexOf('1. ')));
+    expect(order).toEqual([...order].sort((a, b) => a - b));
+    expect(m.text).toContain('Chart: https://prismline.plant.example/charts/12?lot=L1-261102-E1');
+    expect(m.text).toContain('Chart: https://prismline.plant.example/charts/13?lot=L1-261102-E1');
+    expect(m.text).toContain('Lot page: https://prismline.plant.example/results/lots/L1-261102-E1');
     expect(m.text).toMatch(/subscribed to immediate alerts for line L1/);
     expect(m.text).toMatch(/does not replace their judgement/);
     expect(m.html).toContain('&lt;C25&gt;');
     expect(m.html).not.toContain('<C25>');
-    expect(m.html).toContain('<a href="https://prismline.plant.example/charts/12?point=140">');
+  });
+
+  it('write times in plant time, the zone named once, and never a rule identifier or "UTC"', () => {
+    const m = composeLotMail(lot, 'https://prismline.plant.example/', 'line L1', clock);
+    // 06:30 UTC on 2 July is 07:30 in London (British Summer Time, UTC+1: the UK's statutory summer time).
+    expect(m.text).toContain('Lot: L1-261102-E1, produced 02/07/2026 07:30, early shift');
+    expect(m.text).toContain('Times are plant time (Europe/London, BST)');
+    for (const body of [m.subject, m.text, m.html]) {
+      expect(body).not.toMatch(/\bwe[1-4]\b|\bUTC\b/);
+    }
+    const digest = composeDigest([lot], 'https://prismline.plant.example/', { from: new Date('2026-11-02T06:00:00Z'), to: new Date('2026-11-03T06:00:00Z') }, clock);
+    expect(digest.subject).toBe('Prismline morning digest 03/11/2026: 3 new signals on 1 lot');
+    expect(digest.text).toContain('from 02/11/2026 06:00 to 03/11/2026 06:00');
+    expect(digest.text).not.toMatch(/\bwe[1-4]\b|\bUTC\b/);
   });
 });
 

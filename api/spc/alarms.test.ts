@@ -7,13 +7,13 @@ const HOUR = 3_600_000;
 const start = Date.UTC(2026, 0, 5, 6);
 
 /** An X̄–R chart of pairs judged against frozen limits: centre 145 mm, sigma within 2 mm, so σ of X̄ is √2 mm. */
-function inputs(means: number[], excludedAt: number[] = []): ChartInputs {
+function inputs(means: number[], excludedAt: number[] = [], spread: (i: number) => number = () => 1): ChartInputs {
   const lots: LotSubgroup[] = means.map((m, i) => ({
     lotId: i + 1,
     lotNumber: `T-${String(i).padStart(3, '0')}`,
     producedAt: new Date(start + i * 8 * HOUR),
     shift: 'early',
-    values: [m - 0.5, m + 0.5],
+    values: [m - spread(i) / 2, m + spread(i) / 2],
     lastEnteredAt: new Date(start),
   }));
   return {
@@ -70,5 +70,33 @@ describe('one alarm per pattern episode', () => {
     const means = [...quiet(), 150, 150, ...quiet(4)];
     const { findings } = alarmsOf(means);
     expect(findings.filter((f) => f.rule === 'we1').map((f) => f.pointIndex)).toEqual([20, 21]);
+  });
+});
+
+describe('what an alarm says', () => {
+  // Frozen centre 145 mm, sigma within 2 mm, pairs: UCL of X̄ = 145 + 3 · 2 / √2 = 149.24 mm; UCL of R =
+  // D4 · d2 · σ = 3.267 · 1.128 · 2 = 7.37 mm (ASTM STP 15D / Montgomery, Introduction to Statistical
+  // Quality Control, table of factors for n = 2: d2 = 1.128, D4 = 3.267; from memory).
+  it('names the figure of the chart the signal is on and compares it with that chart\'s own limit, to the characteristic\'s decimals', () => {
+    const means = [...quiet(), 145.5, 150, ...quiet(4)];
+    const input = inputs(means, [], (i) => (i === 20 ? 10 : 1));
+    const { chart } = buildChart(input);
+    const findings = findingsOf(chart, input, null);
+    const range = findings.find((f) => f.rule === 'we1' && f.chart === 'dispersion')!;
+    expect(range.pointIndex).toBe(20);
+    expect(range.statistic).toBeCloseTo(10, 9);
+    expect(range.limitValue).toBeCloseTo(7.37, 2);
+    expect(range.description).toBe('Subgroup range 10 mm above the upper control limit 7 mm.');
+    const mean = findings.find((f) => f.rule === 'we1' && f.chart === 'location')!;
+    expect(mean.pointIndex).toBe(21);
+    expect(mean.limitValue).toBeCloseTo(149.24, 2);
+    expect(mean.description).toBe('Subgroup mean 150 mm above the upper control limit 149 mm.');
+  });
+
+  it('never shows a rule identifier or a UTC time in the text', () => {
+    const high = 148.5;
+    const { findings } = alarmsOf([...quiet(), high, high, ...Array(10).fill(145.5), 150, ...quiet(4)]);
+    expect(new Set(findings.map((f) => f.rule)).size).toBeGreaterThan(1);
+    for (const f of findings) expect(f.description).not.toMatch(/\bwe[1-4]\b|UTC|T-0/);
   });
 });

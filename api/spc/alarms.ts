@@ -1,12 +1,11 @@
 // Alarms: what a chart shows that someone must look at. One row per characteristic, rule, chart and
 // lot (the dedupe key), so a re-run finds the row it raised before instead of raising it again.
 import { sql } from 'drizzle-orm';
-import { brokenLimit, isOutOfSpec, lotResult, ruleDescriptions, specAt, specVerdict } from '@shared/spc';
+import { alarmSentence, brokenLimit, isOutOfSpec, lotResult, specAt, specVerdict } from '@shared/spc';
 import type { AlarmSignal, AlarmResolution, AlarmStatus } from '@shared/schemas/alarms';
 import { recordAudit } from '../db/audit';
 import type { Database } from '../db/client';
 import { HttpError, notFound } from '../http/errors';
-import { queueAlarmMail } from '../mail/notify';
 import type { CharacteristicChart, ChartInputs } from './chart-assembly';
 import { arr, type Executor } from './db';
 
@@ -42,8 +41,6 @@ export const signalOfRow = (r: AlarmSignalColumns) => ({
 });
 
 export const OUT_OF_SPEC = 'out-of-spec';
-/** Rules that e-mail subscribers at once; the rest wait for the morning digest. */
-export const IMMEDIATE_RULES: readonly string[] = [OUT_OF_SPEC, 'we1'];
 
 export const DATA_CHANGED_NOTE = 'The data no longer show this signal: a result was voided or corrected, a point was excluded, or the limits changed.';
 
@@ -52,18 +49,9 @@ export interface Finding extends AlarmSignal {
   lotId: number;
 }
 
-const STATISTIC: Record<string, { location: string; dispersion: string }> = {
-  'xbar-r': { location: 'X̄', dispersion: 'R' },
-  'xbar-s': { location: 'X̄', dispersion: 'S' },
-  imr: { location: 'value', dispersion: 'moving range' },
-};
-
 export const lateResultText = (lot: string) =>
   `Late result: lot ${lot} was tested after later lots were charted, so this signal sits at the lot's earlier position on the chart, not at its end.`;
 export const EARLIER_POSITION_TEXT = 'This signal sits at an earlier position of the chart: the limits were recalculated or earlier data changed.';
-
-export const formatNumber = (v: number, decimals: number) => v.toFixed(Math.max(0, Math.min(6, decimals)));
-const dateOf = (iso: string) => iso.slice(0, 16).replace('T', ' ') + ' UTC';
 
 export interface PreviousSnapshot {
   /** Production time of the newest lot charted last time. */
@@ -74,9 +62,7 @@ export interface PreviousSnapshot {
 /** Everything on the chart that should be an alarm now. */
 export function findingsOf(chart: CharacteristicChart, inputs: ChartInputs, previous: PreviousSnapshot | null): Finding[] {
   const c = chart.characteristic;
-  const unit = c.unit;
-  const d = c.decimals + 1;
-  const names = STATISTIC[c.chartType];
+  const words = { chartType: c.chartType, unit: c.unit, decimals: c.decimals };
   const out: Finding[] = [];
   const lateReason = (i: number): string | null => {
     const p = chart.points[i];
@@ -100,19 +86,15 @@ export function findingsOf(chart: CharacteristicChart, inputs: ChartInputs, prev
     const p = chart.points[v.index];
     const isLocation = v.chart === 'location';
     const statistic = isLocation ? p.location : p.dispersion!;
-    const label = isLocation ? names.location : names.dispersion;
     let limitName: string | null = null;
     let limitValue: number | null = null;
-    let what: string;
     if (v.rule === 'we1') {
+      // The limit of the chart the point is plotted on: a range is compared with the range chart's limits.
       const ucl = isLocation ? p.ucl : p.dispersionUcl;
       const lcl = isLocation ? p.lcl : p.dispersionLcl;
       const above = ucl !== null && statistic > ucl;
       limitName = above ? 'UCL' : 'LCL';
       limitValue = above ? ucl : lcl;
-      what = `${label} = ${formatNumber(statistic, d)} ${unit} is ${above ? 'above the upper' : 'below the lower'} control limit ${limitValue === null ? '' : formatNumber(limitValue, d)} ${unit}.`;
-    } else {
-      what = `${ruleDescriptions[v.rule]} The pattern is complete at this lot, ${label} = ${formatNumber(statistic, d)} ${unit}; later points that prolong it raise no further alarm.`;
     }
     out.push({
       lotId: p.lotId,
@@ -123,7 +105,7 @@ export function findingsOf(chart: CharacteristicChart, inputs: ChartInputs, prev
       values: p.values,
       limitName,
       limitValue,
-      description: `Lot ${p.lotNumber} (produced ${dateOf(p.producedAt)}), ${isLocation ? '' : 'dispersion chart, '}${v.rule}: ${what}`,
+      description: alarmSentence({ ...words, rule: v.rule, chart: v.chart, statistic, values: p.values, limitName, limitValue }),
       lateReason: lateReason(v.index),
     });
   }
@@ -144,16 +126,27 @@ export function findingsOf(chart: CharacteristicChart, inputs: ChartInputs, prev
       values: p.values,
       limitName: limit.name,
       limitValue: limit.value,
-      description: outOfSpecText(p.lotNumber, p.producedAt, result, p.values, verdict === 'below-lsl', limit.value, spec.revision, unit, c.decimals),
+      description: outOfSpecText({ result, values: p.values, limitName: limit.name, limitValue: limit.value, revision: spec.revision, unit: c.unit, decimals: c.decimals }),
       lateReason: lateReason(i),
     });
   });
   return out;
 }
 
-export function outOfSpecText(lot: string, producedAt: string, result: number, values: number[], below: boolean, limit: number, revision: number, unit: string, decimals: number): string {
-  const of = values.length > 1 ? `, the mean of ${values.length} values (${values.map((v) => formatNumber(v, decimals)).join(', ')}),` : '';
-  return `Lot ${lot} (produced ${dateOf(producedAt)}): the result ${formatNumber(result, decimals + 1)} ${unit}${of} is ${below ? 'below the lower' : 'above the upper'} specification limit ${limit} ${unit} (specification revision ${revision}).`;
+/** The sentence of an out-of-specification alarm, the same whether the import or the run raised it. */
+export function outOfSpecText(o: { result: number; values: number[]; limitName: string; limitValue: number; revision: number; unit: string; decimals: number }): string {
+  return alarmSentence({
+    rule: OUT_OF_SPEC,
+    chart: 'location',
+    chartType: 'xbar-r',
+    statistic: o.result,
+    values: o.values,
+    limitName: o.limitName,
+    limitValue: o.limitValue,
+    unit: o.unit,
+    decimals: o.decimals,
+    specRevision: o.revision,
+  });
 }
 
 type ExistingAlarm = {
@@ -179,11 +172,12 @@ export interface ReconcileOutcome {
 /**
  * Brings the characteristic's alarms in line with its findings: new findings raise alarms, alarms
  * whose finding is gone are closed as resolved by a data change, moved points are updated.
- * Nothing is written for an alarm that did not change.
+ * Nothing is written for an alarm that did not change. E-mail follows when the whole run is done
+ * (queueRunMail), so that a lot's signals on several characteristics make one message.
  */
 export async function reconcileAlarms(
   tx: Executor,
-  opts: { characteristicId: number; findings: Finding[]; runId: number | null; notify: boolean; publicUrl: string },
+  opts: { characteristicId: number; findings: Finding[]; runId: number | null },
 ): Promise<ReconcileOutcome> {
   const existing = await tx.execute<ExistingAlarm>(sql`
     select id, rule, chart, lot_id, status, resolution, point_index, statistic, description from alarms where characteristic_id = ${opts.characteristicId}`);
@@ -217,16 +211,12 @@ export async function reconcileAlarms(
       on conflict (characteristic_id, rule, chart, lot_id) do nothing
       returning id, rule`);
     raised = res.rows.map((r) => r.id);
-    if (opts.notify) {
-      const immediate = res.rows.filter((r) => IMMEDIATE_RULES.includes(r.rule)).map((r) => r.id);
-      if (immediate.length) await queueAlarmMail(tx, immediate, opts.publicUrl);
-    }
   }
   for (const { id, f } of toReopen) {
     await tx.execute(sql`
       update alarms set status = 'open', resolution = null, closed_at = null, closed_by = null, close_note = null, point_index = ${f.pointIndex},
         statistic = ${f.statistic}, "values" = ${arr(f.values)}::float8[], limit_name = ${f.limitName}, limit_value = ${f.limitValue},
-        description = ${f.description}, late = ${f.lateReason !== null}, late_reason = ${f.lateReason}, run_id = ${opts.runId}::int, updated_at = now()
+        description = ${f.description}, late = ${f.lateReason !== null}, late_reason = ${f.lateReason}, run_id = ${opts.runId}::int, detected_at = now(), updated_at = now()
       where id = ${id}`);
   }
   for (const { id, f } of toUpdate) {

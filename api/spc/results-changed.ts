@@ -13,7 +13,7 @@ import { brokenLimit, isOutOfSpec, lotResult, specAt, specVerdict } from '@share
 import type { Database } from '../db/client';
 import type { Subgroup } from '../ingest/import';
 import { logger } from '../logger';
-import { queueAlarmMail } from '../mail/notify';
+import { queueLotMail } from '../mail/notify';
 import { OUT_OF_SPEC, lateResultText, outOfSpecText } from './alarms';
 import { arr, type Executor } from './db';
 import type { SpcQueue } from './queue';
@@ -74,7 +74,7 @@ export async function raiseOutOfSpecAlarms(db: Database, subgroups: Subgroup[], 
       if (!spec || !isOutOfSpec(verdict)) continue;
       const below = verdict === 'below-lsl';
       const limit = brokenLimit(verdict, spec).value;
-      const description = outOfSpecText(r.lot_number, producedAt.toISOString(), result, values, below, limit, spec.revision, r.unit, r.decimals);
+      const description = outOfSpecText({ result, values, limitName: below ? 'LSL' : 'USL', limitValue: limit, revision: spec.revision, unit: r.unit, decimals: r.decimals });
       const { pointIndex, laterLots } = await positionOf(tx, r.characteristic_id, r.lot_id);
       const lateReason = laterLots > 0 ? lateResultText(r.lot_number) : null;
       const ins = await tx.execute<{ id: number }>(sql`
@@ -89,7 +89,12 @@ export async function raiseOutOfSpecAlarms(db: Database, subgroups: Subgroup[], 
         returning id`);
       if (ins.rows[0]) raised.push(ins.rows[0].id);
     }
-    await queueAlarmMail(tx, raised, publicUrl);
+    // One e-mail per lot for what this import found; the run that follows mails only what it adds. The
+    // transaction names the occasion: a signal reopened by a later import is told again.
+    if (raised.length) {
+      const occasion = await tx.execute<{ id: string }>(sql`select txid_current()::text as id`);
+      await queueLotMail(tx, raised, `import:${occasion.rows[0].id}`, publicUrl);
+    }
     return raised;
   });
 }

@@ -9,7 +9,8 @@ import { buildChart, chartFingerprint } from './chart-assembly';
 import { loadChartInputs } from './chart-load';
 import { findingsOf, reconcileAlarms, type PreviousSnapshot } from './alarms';
 import { settleRun } from './runs';
-import { arr, CHARACTERISTIC_LOCK } from './db';
+import { arr, CHARACTERISTIC_LOCK, type Executor } from './db';
+import { queueRunMail } from '../mail/notify';
 
 export interface CharacteristicOutcome {
   skipped: boolean;
@@ -68,9 +69,7 @@ export async function runCharacteristic(db: Database, opts: RunCharacteristicOpt
     if (!prev || prev.fingerprint !== fingerprint) {
       const { chart } = buildChart(inputs);
       const previous: PreviousSnapshot | null = prev ? { periodTo: prev.period_to ? new Date(prev.period_to) : null, computedAt: new Date(prev.computed_at) } : null;
-      // The first run of a characteristic takes over its history: alarms are raised but nobody is
-      // e-mailed about months-old lots; they appear in the alarm list and the next digest.
-      const reconciled = await reconcileAlarms(tx, { characteristicId, findings: findingsOf(chart, inputs, previous), runId, notify: prev !== undefined, publicUrl: opts.publicUrl });
+      const reconciled = await reconcileAlarms(tx, { characteristicId, findings: findingsOf(chart, inputs, previous), runId });
       const location = chart.points.map((pt) => pt.location);
       const dispersion = chart.points.map((pt) => pt.dispersion);
       const values = {
@@ -98,18 +97,28 @@ export async function runCharacteristic(db: Database, opts: RunCharacteristicOpt
       update spc_run_items set status = 'succeeded', changed = ${outcome.changed}, alarms_raised = ${outcome.raised}, alarms_resolved = ${outcome.resolved},
         error = null, finished_at = now()
       where run_id = ${runId} and characteristic_id = ${characteristicId}`);
-    await settleRun(tx, runId);
+    await settleRunAndMail(tx, runId, opts.publicUrl);
     return outcome;
   });
 }
 
+/**
+ * Settles the run; the item that finishes it queues the run's e-mails, one per lot with every signal
+ * the run found on it, in the same transaction (the dedupe key keeps a second settling harmless).
+ */
+async function settleRunAndMail(tx: Executor, runId: number, publicUrl: string): Promise<void> {
+  await settleRun(tx, runId);
+  const run = await tx.execute<{ finished: boolean }>(sql`select status in ('succeeded', 'failed') as finished from spc_runs where id = ${runId}`);
+  if (run.rows[0]?.finished) await queueRunMail(tx, runId, publicUrl);
+}
+
 /** After an attempt failed: the last one fails the item with the error, an earlier one leaves the error for all to see until the retry. */
-export async function recordFailedAttempt(db: Database, opts: { runId: number; characteristicId: number; error: string; final: boolean }): Promise<void> {
+export async function recordFailedAttempt(db: Database, opts: { runId: number; characteristicId: number; error: string; final: boolean; publicUrl: string }): Promise<void> {
   await db.transaction(async (tx) => {
     await tx.execute(sql`
       update spc_run_items set status = ${opts.final ? 'failed' : 'queued'}::spc_run_status, error = ${opts.error.slice(0, 2000)},
         finished_at = case when ${opts.final} then now() end
       where run_id = ${opts.runId} and characteristic_id = ${opts.characteristicId} and status <> 'succeeded'`);
-    if (opts.final) await settleRun(tx, opts.runId);
+    if (opts.final) await settleRunAndMail(tx, opts.runId, opts.publicUrl);
   });
 }

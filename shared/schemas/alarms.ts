@@ -36,6 +36,10 @@ export interface AlarmView extends AlarmSignal {
   lot: { id: number; lotNumber: string; producedAt: string };
   /** Short name of the signal in the trade's words. */
   signal: string;
+  /** The plotted figure in words and with the characteristic's decimals: "subgroup mean", "1,501 kg/m³". */
+  figure: { name: string; text: string };
+  /** The limit of the same chart the figure is on: "upper control limit", "1,490 kg/m³". */
+  limit: { name: string; text: string } | null;
   ruleDescription: string | null;
   /** The point lies before later points that were already charted. */
   late: boolean;
@@ -44,6 +48,8 @@ export interface AlarmView extends AlarmSignal {
   status: AlarmStatus;
   resolution: AlarmResolution | null;
   createdAt: string;
+  /** When the signal was detected: the run's time; the demo history's nightly run after the lot. */
+  detectedAt: string;
   updatedAt: string;
   acknowledgedAt: string | null;
   acknowledgedBy: string | null;
@@ -51,11 +57,11 @@ export interface AlarmView extends AlarmSignal {
   closedAt: string | null;
   closedBy: string | null;
   closeNote: string | null;
-  /** Address of the chart with the point selected, as the e-mails link it. */
+  /** Address of the chart at the lot (`?lot=`), as the e-mails link it. */
   chartUrl: string;
 }
 
-/** GET /api/v1/alarms: the newest alarms of the filter and the count of every status. */
+/** GET /api/v1/alarms: the alarms of the filter in the order of what matters this morning, and the count of every status. */
 export interface AlarmList {
   items: AlarmView[];
   counts: Partial<Record<AlarmStatus, number>>;

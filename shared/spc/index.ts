@@ -56,6 +56,8 @@ export { andersonDarling, andersonDarlingPValue, NORMALITY_MIN_VALUES } from './
 export type { NormalityResult } from './normality';
 export { EXTENDED_RULES, RULE_SETS, WESTERN_ELECTRIC_RULES, resolveRules, ruleDescriptions, ruleLabels, ruleSetLabels } from './rules';
 export type { ChartPart, RuleId, RuleSelection, RuleSetId, Violation } from './rules';
+export { alarmSentence, limitWords, signalName, signalNames, signalRank, statisticWords } from './alarm-words';
+export type { AlarmWordsInput } from './alarm-words';
 export { beyondStrictestLimits, brokenLimit, isOutOfSpec, lotResult, specAt, specVerdict } from './specification';
 export type { SpecificationLimits, SpecificationRevision, SpecVerdict } from './specification';
 export { A2, A3, B3, B4, c4, d2, d3, D3, D4, E2 } from './constants';

@@ -35,6 +35,8 @@ const routes: ProtectedRoute[] = [
   { method: 'post', path: '/api/v1/spc-runs', permission: 'spc-run.start', body: { characteristicIds: [] } },
   { method: 'post', path: '/api/v1/alarms/0/acknowledge', permission: 'alarm.acknowledge', body: {} },
   { method: 'post', path: '/api/v1/alarms/0/close', permission: 'alarm.close', body: {} },
+  { method: 'get', path: '/api/v1/mail-log?pageSize=1', permission: 'mail.read', allowed: 200 },
+  { method: 'get', path: '/api/v1/mail-log/0', permission: 'mail.read' },
   { method: 'post', path: '/api/v1/lines', permission: 'catalogue.manage', body: {} },
   { method: 'patch', path: '/api/v1/lines/0', permission: 'catalogue.manage', body: {} },
   // Never deleted: an allowed role learns to deactivate instead (405).

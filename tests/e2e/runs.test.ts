@@ -22,7 +22,9 @@ beforeAll(async () => {
   await db.execute(sql`insert into alarm_subscriptions (user_id, product_id, immediate, digest) values (${await userIdByEmail(db, demoEmail.admin)}, ${t.productId}, true, false)`);
   const login = (await (await fetch(`${baseUrl()}/api/v1/auth/login`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email: demoEmail.technician, password: DEMO_PASSWORD }) })).json()) as { token: string };
   const form = new FormData();
-  const csv = `lot,product,line,produced_at,characteristic,value,replicate\n${t.lotNumber('LOW')},${t.productCode},L1,${day(6)},${t.code},130,1\n${t.lotNumber('LOW')},${t.productCode},L1,${day(6)},${t.code},131,2\n`;
+  // Produced an hour ago: a recent lot is e-mailed at once (older history goes to the digest only).
+  const recent = new Date(Date.now() - 3_600_000).toISOString();
+  const csv = `lot,product,line,produced_at,characteristic,value,replicate\n${t.lotNumber('LOW')},${t.productCode},L1,${recent},${t.code},130,1\n${t.lotNumber('LOW')},${t.productCode},L1,${recent},${t.code},131,2\n`;
   form.append('file', new Blob([csv], { type: 'text/csv' }), 'shift.csv');
   const res = await fetch(`${baseUrl()}/api/v1/uploads`, { method: 'POST', headers: { authorization: `Bearer ${login.token}` }, body: form });
   if (res.status !== 201) throw new Error(`upload failed: ${res.status} ${await res.text()}`);
@@ -69,19 +71,20 @@ describe('SPC runs page', () => {
 });
 
 describe('alarms page', () => {
-  it('lists the out-of-specification lot with its values and limit, links the chart point, and takes an acknowledgement with a note', async ({ page }) => {
+  it('lists the out-of-specification lot with its values and limit, links the chart at the lot, and takes an acknowledgement with a note', async ({ page }) => {
     await signInAt(page, 'quality_manager', '/alarms');
     await pageHeading(page, 'Alarms').waitFor();
     // After a full run of the demo plant the list is long: find the lot.
     await page.getByLabel('Lot or characteristic').fill(t.lotNumber('LOW'));
     await page.getByRole('button', { name: 'Find' }).click();
-    const row = page.locator('tr[data-alarm]').filter({ hasText: t.lotNumber('LOW') }).filter({ hasText: 'Out of specification' });
+    const card = page.locator('article[data-alarm-group]').filter({ hasText: t.lotNumber('LOW') });
+    const row = card.locator('li[data-alarm]').filter({ hasText: 'Out of specification' });
     await row.waitFor();
-    const text = await row.textContent();
+    const text = await card.textContent();
     expect(text).toContain(t.code);
-    expect(text).toContain('130, 131 mm');
-    expect(text).toContain('LSL 135.0 mm');
-    expect(await row.getByRole('link', { name: /on the chart/ }).getAttribute('href')).toBe(`/charts/${t.characteristicId}?point=6`);
+    expect(text).toContain('Results 130, 131 mm');
+    expect(await row.textContent()).toContain('Lot result 131 mm (mean of 2 results: 130, 131) below the lower specification limit 135 mm');
+    expect(await card.getByRole('link', { name: 'Chart at this lot' }).getAttribute('href')).toBe(`/charts/${t.characteristicId}?lot=${t.lotNumber('LOW')}`);
     await screenshot(page, 'alarms-open');
 
     await row.getByRole('button', { name: 'Acknowledge' }).click();
@@ -94,7 +97,7 @@ describe('alarms page', () => {
     await page.getByRole('tab', { name: /Acknowledged/ }).click();
     await page.getByLabel('Lot or characteristic').fill(t.lotNumber('LOW'));
     await page.getByRole('button', { name: 'Find' }).click();
-    const acknowledged = page.locator('tr[data-alarm]').filter({ hasText: t.lotNumber('LOW') });
+    const acknowledged = page.locator('article[data-alarm-group]').filter({ hasText: t.lotNumber('LOW') });
     await acknowledged.waitFor();
     expect(await acknowledged.textContent()).toContain('Acknowledged by Demo Quality Manager: Water dose checked');
     await screenshot(page, 'alarms-acknowledged');
@@ -105,13 +108,15 @@ describe('mail outbox page', () => {
   it('shows the administrator the alarm e-mail the fake SMTP server received, with the chart link', async ({ page }) => {
     await signInAt(page, 'admin', '/admin/outbox');
     await pageHeading(page, 'Mail outbox').waitFor();
-    const item = page.locator('li[data-message]').filter({ hasText: `lot ${t.lotNumber('LOW')}` });
+    // The import's message of the lot (out of specification) and the run's (beyond a control limit) go to each
+    // subscriber of its product or line: the administrator's of the import is the one looked at here.
+    const item = page.locator('li[data-message]').filter({ hasText: `lot ${t.lotNumber('LOW')} — Out of specification` }).filter({ hasText: `To ${demoEmail.admin}` });
     await item.waitFor({ timeout: 20_000 });
     expect(await item.textContent()).toContain(`To ${demoEmail.admin}`);
     await item.getByRole('button', { name: 'Show the text' }).click();
     const body = await item.locator('pre').textContent();
     expect(body).toContain('Out of specification');
-    expect(body).toMatch(new RegExp(`/charts/${t.characteristicId}\\?point=6`));
+    expect(body).toContain(`/charts/${t.characteristicId}?lot=${t.lotNumber('LOW')}`);
     await screenshot(page, 'outbox');
   });
 });

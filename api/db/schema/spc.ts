@@ -164,6 +164,11 @@ export const alarms = pgTable(
     /** closed: by-user or data-changed. */
     resolution: text('resolution'),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    /**
+     * When the signal was detected: the run's (or the import's) time. The demo history carries the
+     * time of the plant's nightly run after the lot's result, as if the plant had run all along.
+     */
+    detectedAt: timestamp('detected_at', { withTimezone: true }).notNull().defaultNow(),
     updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
     acknowledgedAt: timestamp('acknowledged_at', { withTimezone: true }),
     acknowledgedBy: integer('acknowledged_by').references(() => users.id),
@@ -175,5 +180,7 @@ export const alarms = pgTable(
   (t) => [
     uniqueIndex('alarms_dedupe_key').on(t.characteristicId, t.rule, t.chart, t.lotId),
     index('alarms_status_created_idx').on(t.status, t.createdAt),
+    index('alarms_detected_idx').on(t.detectedAt),
+    index('alarms_run_idx').on(t.runId),
   ],
 );

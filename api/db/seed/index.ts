@@ -6,6 +6,7 @@ import type { Database } from '../client';
 import { characteristics, plants, processEvents, productionLines, products, specLimits, testMethods, users } from '../schema';
 import { importResults } from '@api/ingest/import';
 import { recordManagerDecisions } from './decisions';
+import { dateDemoDetections, queueFirstMorningDigest, subscribeDemoManager } from './alarm-story';
 import * as scenario from './scenario';
 
 /** The demo sign-ins printed in the README. Demo mode only. */
@@ -124,10 +125,13 @@ export async function seedDemo(db: Database, opts: { publicUrl: string; now?: Da
     }
   });
 
+  await subscribeDemoManager(db, manager.id);
   const csv = scenario.toCanonicalCsv(scenario.generateDemoResults({ endDate, months }));
   const outcome = await importResults(db, { fileName: 'harrow-vale-history.csv', content: Buffer.from(csv), actorId: admin?.id ?? null, source: 'upload' });
   if (outcome.kind !== 'imported') {
     throw new Error(`The demo history did not import: ${outcome.kind === 'rejected' ? JSON.stringify(outcome.errors.slice(0, 3)) : outcome.kind}`);
   }
   await recordManagerDecisions(db, { endDate, months, managerId: manager.id, publicUrl: opts.publicUrl });
+  await dateDemoDetections(db, now);
+  await queueFirstMorningDigest(db, { endDate, publicUrl: opts.publicUrl });
 }

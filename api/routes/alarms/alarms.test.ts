@@ -40,11 +40,33 @@ describe('GET /api/v1/alarms', () => {
       statistic: 172.5,
       limitName: 'UCL',
       status: 'open',
-      chartUrl: `${TEST_PUBLIC_URL}/charts/${t.characteristicId}?point=22`,
+      chartUrl: `${TEST_PUBLIC_URL}/charts/${t.characteristicId}?lot=${t.lotNumber('A22')}`,
+      // The figure of the chart the signal is on, beside that chart's own limit, to the method's decimals (flow: whole mm).
+      figure: { name: 'subgroup mean', text: '173 mm' },
+      limit: { name: 'upper control limit', text: expect.stringMatching(/^\d{3} mm$/) },
+      description: expect.stringMatching(/^Subgroup mean 173 mm above the upper control limit \d{3} mm\.$/),
     });
+    expect(Date.parse(we1.detectedAt)).toBeGreaterThan(Date.now() - 120_000);
     expect(Date.parse(we1.createdAt)).toBeGreaterThan(Date.now() - 120_000);
     expect(res.body.items.every((a: { status: string }) => a.status === 'open')).toBe(true);
     expect(res.body.counts.open).toBeGreaterThanOrEqual(1);
+  });
+});
+
+describe('the order of what matters this morning', () => {
+  it('lists a lot out of specification before one beyond a control limit before a pattern, the signals of one lot together', async () => {
+    const t = await createTestCharacteristic(api.db, { chartType: 'xbar-r', subgroupSize: 2, specs: [{ lsl: 130, usl: 160, effectiveFrom: day(-10) }] });
+    // Lot 21: beyond the control limit only; lot 24 (the newest): beyond the specification as well.
+    for (let i = 0; i < 26; i++) await t.addLot(`W${i}`, day(i), i === 21 ? [154, 155] : i === 24 ? [171, 172] : pair(i));
+    const start = await request(api.app).post('/api/v1/spc-runs').set(await api.as('quality_manager')).send({ characteristicIds: [t.characteristicId] });
+    await api.waitForRun(start.body.id);
+    const res = await request(api.app).get(`/api/v1/alarms?status=open&characteristicId=${t.characteristicId}`).set(await api.as('auditor'));
+    const order = res.body.items.map((a: { rule: string; lot: { lotNumber: string } }) => `${a.lot.lotNumber.slice(-3)} ${a.rule}`);
+    expect(order.slice(0, 2)).toEqual(['W24 out-of-spec', 'W24 we1']);
+    expect(order.indexOf('W21 we1')).toBeGreaterThan(1);
+    const lots = res.body.items.map((a: { lot: { lotNumber: string } }) => a.lot.lotNumber);
+    // Together: once a lot's signals end, the lot does not come back further down.
+    expect(lots.filter((l: string, i: number) => i > 0 && l !== lots[i - 1] && lots.slice(0, i - 1).includes(l))).toEqual([]);
   });
 });
 
@@ -86,13 +108,16 @@ describe('alarms from uploads', () => {
     const manager = await userIdByEmail(api.db, 'manager@harrowvale.example');
     await api.db.insert(alarmSubscriptions).values({ userId: manager, productId: t.productId, immediate: true, digest: false });
 
-    const csv = `${header}\n${t.productCode}-U21,${t.productCode},L1,${day(21)},${t.code},131,1\n${t.productCode}-U21,${t.productCode},L1,${day(21)},${t.code},132,2\n`;
+    // Produced an hour ago: a recent lot is e-mailed at once (older history goes to the digest only).
+    const now = new Date(Date.now() - 3_600_000).toISOString();
+    const csv = `${header}\n${t.productCode}-U21,${t.productCode},L1,${now},${t.code},131,1\n${t.productCode}-U21,${t.productCode},L1,${now},${t.code},132,2\n`;
     const up = await request(api.app).post('/api/v1/uploads').set(await api.as('technician')).attach('file', Buffer.from(csv), 'shift.csv');
     expect(up.status).toBe(201);
     const [oos] = await api.db.select().from(alarms).where(and(eq(alarms.characteristicId, t.characteristicId), eq(alarms.rule, 'out-of-spec')));
     expect(oos).toMatchObject({ source: 'ingest', status: 'open', statistic: 131.5, limitName: 'LSL', limitValue: 135, pointIndex: 21 });
     const [mail] = await api.db.select().from(mailOutbox).where(refersTo('alarmIds', [oos.id]));
     expect(mail).toMatchObject({ toAddress: 'manager@harrowvale.example', kind: 'alarm' });
+    expect(mail.subject).toBe(`Prismline alarm: lot ${t.lotNumber('U21')} — Out of specification (${t.code})`);
 
     const run = await eventually(async () => {
       const [r] = await api.db.select().from(spcRuns).where(and(eq(spcRuns.trigger, 'upload'), sql`${spcRuns.id} in (select run_id from spc_run_items where characteristic_id = ${t.characteristicId})`));

@@ -11,7 +11,7 @@ export const listAlarmsQuerySchema = z.object({
 
 /** :id of /api/v1/alarms/:id. */
 export const alarmIdParamsSchema = z.object({
-  id: z.coerce.number({ message: 'Alarm id must be a number' }).int().positive('Alarm id must be positive'),
+  id: z.coerce.number({ message: 'Alarm id must be a number' }).int('Alarm id must be a whole number').positive('Alarm id must be positive').max(2_147_483_647, 'No such alarm'),
 });
 
 /** POST /api/v1/alarms/:id/acknowledge and /close body. */

@@ -7,9 +7,9 @@ import { roles } from '@shared/schemas/users';
 // SPC runs and manages their own alert e-mails; the mail outbox is the administrator's.
 const expected = {
   technician: ['overview', 'charts', 'results', 'methods', 'records', 'runs', 'subscriptions'],
-  quality_manager: ['overview', 'charts', 'results', 'methods', 'records', 'alarms', 'runs', 'ncrs', 'reports', 'subscriptions'],
+  quality_manager: ['overview', 'charts', 'results', 'methods', 'records', 'alarms', 'runs', 'ncrs', 'reports', 'subscriptions', 'mail-log'],
   auditor: ['overview', 'charts', 'results', 'methods', 'records', 'alarms', 'runs', 'ncrs', 'reports', 'subscriptions'],
-  admin: ['overview', 'charts', 'results', 'methods', 'records', 'alarms', 'runs', 'ncrs', 'reports', 'subscriptions', 'users', 'catalogue', 'plant', 'outbox'],
+  admin: ['overview', 'charts', 'results', 'methods', 'records', 'alarms', 'runs', 'ncrs', 'reports', 'subscriptions', 'mail-log', 'users', 'catalogue', 'plant', 'outbox'],
 } as const;
 
 describe('navigation', () => {

@@ -2,7 +2,7 @@ import type { Role } from '@shared/schemas/roles';
 import { may, type Permission } from '@shared/permissions';
 
 /** Every area of the app. The router builds its routes from this list and the menu shows it by role. */
-export type AreaId = 'overview' | 'charts' | 'results' | 'methods' | 'records' | 'alarms' | 'runs' | 'ncrs' | 'reports' | 'subscriptions' | 'users' | 'catalogue' | 'plant' | 'outbox';
+export type AreaId = 'overview' | 'charts' | 'results' | 'methods' | 'records' | 'alarms' | 'runs' | 'ncrs' | 'reports' | 'subscriptions' | 'mail-log' | 'users' | 'catalogue' | 'plant' | 'outbox';
 
 export interface Area {
   id: AreaId;
@@ -103,6 +103,14 @@ export const areas: readonly Area[] = [
     label: 'Alerts by e-mail',
     purpose: 'Which product lines and products send you alarm e-mails: at once, in the morning digest, or both.',
     permission: 'plant.read',
+    group: 'work',
+  },
+  {
+    id: 'mail-log',
+    path: '/mail-log',
+    label: 'Sent e-mail',
+    purpose: 'The alarm e-mails and morning digests that went out: when, to whom, what they said, and any still waiting to be sent.',
+    permission: 'mail.read',
     group: 'work',
   },
   {

@@ -23,6 +23,7 @@ const pages: Partial<Record<AreaId, LazyExoticComponent<ComponentType>>> = {
   runs: lazy(() => import('../features/spc-runs/routes/RunsPage')),
   subscriptions: lazy(() => import('../features/subscriptions/routes/SubscriptionsPage')),
   outbox: lazy(() => import('../features/outbox/routes/OutboxPage')),
+  'mail-log': lazy(() => import('../features/outbox/routes/MailLogPage')),
   catalogue: lazy(() => import('../features/catalogue/routes/CatalogueArea')),
   plant: lazy(() => import('../features/catalogue/routes/PlantSettingsPage')),
 };

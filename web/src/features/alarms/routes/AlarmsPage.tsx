@@ -1,11 +1,11 @@
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
 import type { AlarmStatus, AlarmView } from '@shared/schemas/alarms';
+import { formatFigure } from '@shared/figures';
+import { formatPlantDateTime, plantTimeNote, type PlantClock } from '@shared/time';
 import { useAlarms } from '../api/alarms';
-import { usePlantTimeZone } from '@web/lib/catalogue';
-import { formatPlantDateTime } from '@web/lib/plant-time';
-import { ruleLabels } from '@web/lib/chart-format';
-import type { RuleId } from '@shared/spc';
+import { usePlantClock } from '@web/lib/catalogue';
+import { lotPath } from '@web/lib/lots';
 import { AlarmNoteDialog } from '../components/AlarmNoteDialog';
 import { useMay } from '@web/app/permissions';
 import { PageHeader } from '@web/components/ui/PageHeader';
@@ -24,96 +24,117 @@ const tabs: { status: AlarmStatus; label: string; empty: string }[] = [
 ];
 
 const PAGE = 100;
-const fmt = (v: number, d: number) => v.toFixed(Math.max(0, Math.min(6, d)));
+const DEFAULT_CLOCK: PlantClock = { timeZone: 'UTC', dateFormat: 'dd/MM/yyyy' };
 
-/** "Rule 4", "Trend": the run rule as the chart page names it; null for an out-of-specification alarm. */
-function ruleName(rule: string): string | null {
-  const label = ruleLabels[rule as RuleId] as string | undefined;
-  return label ? label.split(' · ')[0] : null;
+/** The server's order (what matters this morning) keeps a lot's signals on one characteristic next to each other: one card each. */
+function groupsOf(items: AlarmView[]): AlarmView[][] {
+  const groups: AlarmView[][] = [];
+  for (const a of items) {
+    const last = groups.at(-1);
+    if (last && last[0].characteristic.id === a.characteristic.id && last[0].lot.id === a.lot.id) last.push(a);
+    else groups.push([a]);
+  }
+  return groups;
 }
 
-function AlarmRow({
+const toneOf = (rule: string) => (rule === 'out-of-spec' ? 'negative' : rule === 'we1' ? 'warning' : 'neutral');
+
+function Signal({
   alarm,
-  timeZone,
+  clock,
   mayAcknowledge,
   mayClose,
   onAction,
 }: {
   alarm: AlarmView;
-  timeZone: string;
+  clock: PlantClock;
   mayAcknowledge: boolean;
   mayClose: boolean;
   onAction: (a: 'acknowledge' | 'close') => void;
 }) {
-  const c = alarm.characteristic;
-  const rule = ruleName(alarm.rule);
+  const canAcknowledge = mayAcknowledge && alarm.status === 'open';
+  const canClose = mayClose && alarm.status !== 'closed';
   return (
-    <tr className="border-b border-zinc-100 align-top" data-alarm={alarm.id}>
-      <td className="figures px-3 py-2 text-sm">{formatPlantDateTime(alarm.createdAt, timeZone)}</td>
-      <td className="px-3 py-2">
-        <span className="block font-medium">{alarm.signal}</span>
-        {rule && (
-          <span className="block text-sm text-zinc-600">
-            {rule} · {alarm.chart === 'location' ? 'location chart' : 'dispersion chart'}
-          </span>
-        )}
-        {alarm.late && <Badge tone="warning">Earlier position</Badge>}
-      </td>
-      <td className="px-3 py-2">
-        <span className="block font-mono text-sm">{c.code}</span>
-        <span className="block text-sm text-zinc-600">
-          {c.name} · {c.productCode}
-          {c.lineCode ? ` · line ${c.lineCode}` : ''}
-        </span>
-      </td>
-      <td className="px-3 py-2">
-        <span className="block font-mono text-sm whitespace-nowrap">{alarm.lot.lotNumber}</span>
-        <span className="block text-sm text-zinc-600">produced {formatPlantDateTime(alarm.lot.producedAt, timeZone)}</span>
-      </td>
-      <td className="figures px-3 py-2 text-sm">
-        <span className="block">
-          {alarm.values.map((v) => fmt(v, c.decimals)).join(', ')} {c.unit}
-        </span>
-        {alarm.limitName && alarm.limitValue !== null && (
-          <span className="block text-zinc-600">
-            {alarm.limitName} {fmt(alarm.limitValue, c.decimals + 1)} {c.unit}
-          </span>
-        )}
-      </td>
-      {/* The account of what happened is the longest text of the row: it gets the room, the date wraps instead. */}
-      <td className="max-w-md min-w-52 px-3 py-2 text-sm">
+    <li className="flex flex-wrap items-start justify-between gap-3 border-t border-zinc-100 px-4 py-3" data-alarm={alarm.id}>
+      <div className="min-w-0 flex-1 basis-80 space-y-1">
+        <div className="flex flex-wrap items-center gap-2">
+          <Badge tone={toneOf(alarm.rule)}>{alarm.signal}</Badge>
+          {alarm.late && <Badge tone="warning">Earlier position</Badge>}
+          <span className="figures text-sm text-zinc-600">detected {formatPlantDateTime(alarm.detectedAt, clock)}</span>
+        </div>
         <p>{alarm.description}</p>
-        {alarm.lateReason && <p className="mt-1 text-amber-900">{alarm.lateReason}</p>}
+        {/* A limit's sentence already names figure and limit; a pattern's names the figure here. */}
+        {!alarm.limit && (
+          <p className="figures text-sm text-zinc-600">
+            {alarm.figure.name} {alarm.figure.text}
+          </p>
+        )}
+        {alarm.lateReason && <p className="text-sm text-amber-900">{alarm.lateReason}</p>}
         {alarm.acknowledgeNote && (
-          <p className="mt-1 text-zinc-600">
+          <p className="text-sm text-zinc-600">
             Acknowledged by {alarm.acknowledgedBy}: {alarm.acknowledgeNote}
           </p>
         )}
         {alarm.closeNote && (
-          <p className="mt-1 text-zinc-600">
+          <p className="text-sm text-zinc-600">
             {alarm.resolution === 'data-changed' ? 'Resolved by changed data: ' : `Closed by ${alarm.closedBy}: `}
             {alarm.closeNote}
           </p>
         )}
-      </td>
-      <td className="px-3 py-2">
-        <div className="flex flex-col items-start gap-1">
-          <Link className="text-sm font-medium text-accent-800 underline" to={`/charts/${c.id}?point=${alarm.pointIndex}`}>
-            Point {alarm.pointIndex + 1} on the chart
-          </Link>
-          {mayAcknowledge && alarm.status === 'open' && (
+      </div>
+      {(canAcknowledge || canClose) && (
+        <div className="flex flex-wrap gap-2">
+          {canAcknowledge && (
             <Button size="sm" variant="secondary" onClick={() => onAction('acknowledge')}>
               Acknowledge
             </Button>
           )}
-          {mayClose && alarm.status !== 'closed' && (
+          {canClose && (
             <Button size="sm" variant="secondary" onClick={() => onAction('close')}>
               Close
             </Button>
           )}
         </div>
-      </td>
-    </tr>
+      )}
+    </li>
+  );
+}
+
+/** One lot on one characteristic: the lot, its results, links to the chart at the lot and to the lot page, then each signal. */
+function AlarmGroup({ alarms, clock, ...rest }: { alarms: AlarmView[]; clock: PlantClock; mayAcknowledge: boolean; mayClose: boolean; onAction: (a: AlarmView, action: 'acknowledge' | 'close') => void }) {
+  const first = alarms[0];
+  const c = first.characteristic;
+  return (
+    <article className="rounded-lg border border-zinc-200 bg-white" data-alarm-group={`${c.id}-${first.lot.id}`} aria-label={`${c.code}, lot ${first.lot.lotNumber}`}>
+      <header className="flex flex-wrap items-start justify-between gap-x-6 gap-y-2 px-4 py-3">
+        <div className="min-w-0">
+          <p className="font-medium">
+            <span className="font-mono">{c.code}</span> · {c.name}
+          </p>
+          <p className="text-sm text-zinc-600">
+            {c.productCode}
+            {c.lineCode ? ` · line ${c.lineCode}` : ''} · lot <span className="font-mono">{first.lot.lotNumber}</span>, produced{' '}
+            <span className="figures">{formatPlantDateTime(first.lot.producedAt, clock)}</span>
+          </p>
+          <p className="figures text-sm text-zinc-600">
+            Results {first.values.map((v) => formatFigure(v, c.decimals)).join(', ')} {c.unit}
+          </p>
+        </div>
+        <div className="flex flex-wrap gap-x-4 gap-y-1 text-sm font-medium">
+          <Link className="text-accent-800 underline" to={`/charts/${c.id}?${new URLSearchParams({ lot: first.lot.lotNumber })}`}>
+            Chart at this lot
+          </Link>
+          <Link className="text-accent-800 underline" to={lotPath(first.lot.lotNumber)}>
+            Lot page
+          </Link>
+        </div>
+      </header>
+      <ul>
+        {alarms.map((a) => (
+          <Signal key={a.id} alarm={a} clock={clock} mayAcknowledge={rest.mayAcknowledge} mayClose={rest.mayClose} onAction={(action) => rest.onAction(a, action)} />
+        ))}
+      </ul>
+    </article>
   );
 }
 
@@ -124,7 +145,7 @@ export default function AlarmsPage() {
   const [q, setQ] = useState('');
   const [limit, setLimit] = useState(PAGE);
   const alarms = useAlarms({ status, q, limit });
-  const timeZone = usePlantTimeZone().data ?? 'UTC';
+  const clock = usePlantClock().data ?? DEFAULT_CLOCK;
   const mayAcknowledge = useMay('alarm.acknowledge');
   const mayClose = useMay('alarm.close');
   const tab = tabs.find((t) => t.status === status)!;
@@ -133,7 +154,7 @@ export default function AlarmsPage() {
     <>
       <PageHeader
         title="Alarms"
-        description="Out-of-specification results, raised as soon as they are stored, and the run-rule signals of the SPC runs. Decide whether there is an assignable cause; acknowledge with what was checked, close with what was found."
+        description="Out-of-specification results, raised as soon as they are stored, and the signals the SPC runs find on the charts. Decide whether there is an assignable cause; acknowledge with what was checked, close with what was found."
       />
       <div className="space-y-4">
         <div role="tablist" aria-label="Alarm status" className="flex gap-1 border-b border-zinc-200">
@@ -174,6 +195,10 @@ export default function AlarmsPage() {
             Find
           </Button>
         </form>
+        <p className="text-sm text-zinc-600" data-testid="alarm-order">
+          In order of what matters this morning: lots outside their specification first, then points beyond a control limit, then patterns of points;
+          the newest lot first within each. The signals of one lot on one characteristic stand together. {plantTimeNote(clock.timeZone)}.
+        </p>
         {alarms.isPending ? (
           <Loading label="Loading alarms…" />
         ) : alarms.isError ? (
@@ -181,39 +206,23 @@ export default function AlarmsPage() {
         ) : alarms.data.items.length === 0 ? (
           <EmptyState title={q ? `No ${tab.label.toLowerCase()} alarm matches “${q}”.` : tab.empty} />
         ) : (
-          <div className="overflow-x-auto rounded-lg border border-zinc-200 bg-white">
-            <table className="w-full border-collapse text-left">
-              <caption className="sr-only">{tab.label} alarms, newest first</caption>
-              <thead className="bg-zinc-100/80 text-sm text-zinc-700">
-                <tr>
-                  {['Raised (plant time)', 'Signal', 'Characteristic', 'Lot', 'Values and limit', 'What happened', ''].map((h) => (
-                    <th key={h} scope="col" className="border-b border-zinc-200 px-3 py-2.5 align-bottom font-semibold">
-                      {h}
-                    </th>
-                  ))}
-                </tr>
-              </thead>
-              <tbody>
-                {alarms.data.items.map((a) => (
-                  <AlarmRow
-                    key={a.id}
-                    alarm={a}
-                    timeZone={timeZone}
-                    mayAcknowledge={mayAcknowledge}
-                    mayClose={mayClose}
-                    onAction={(action) => setActing({ alarm: a, action })}
-                  />
-                ))}
-              </tbody>
-            </table>
+          <section aria-label={`${tab.label} alarms`} className="space-y-3">
+            {groupsOf(alarms.data.items).map((g) => (
+              <AlarmGroup
+                key={`${g[0].characteristic.id}-${g[0].lot.id}-${g[0].id}`}
+                alarms={g}
+                clock={clock}
+                mayAcknowledge={mayAcknowledge}
+                mayClose={mayClose}
+                onAction={(alarm, action) => setActing({ alarm, action })}
+              />
+            ))}
             {alarms.data.items.length === limit && (
-              <div className="border-t border-zinc-200 p-3">
-                <Button variant="secondary" size="sm" busy={alarms.isFetching} onClick={() => setLimit(limit + PAGE)}>
-                  Show {PAGE} more
-                </Button>
-              </div>
+              <Button variant="secondary" size="sm" busy={alarms.isFetching} onClick={() => setLimit(limit + PAGE)}>
+                Show {PAGE} more
+              </Button>
             )}
-          </div>
+          </section>
         )}
         <p className="text-sm text-zinc-600">Alarms support the decision of trained staff; they do not replace their judgement, the specification or the plant procedures.</p>
       </div>

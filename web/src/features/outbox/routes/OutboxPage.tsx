@@ -1,5 +1,7 @@
 import { useState } from 'react';
+import { formatPlantDateTime, plantTimeNote, type PlantClock } from '@shared/time';
 import { useOutbox } from '../api/outbox';
+import { usePlantClock } from '@web/lib/catalogue';
 import { ApiError } from '@web/lib/http';
 import { PageHeader } from '@web/components/ui/PageHeader';
 import { Button } from '@web/components/ui/Button';
@@ -7,16 +9,17 @@ import { Loading } from '@web/components/ui/Spinner';
 import { ErrorState } from '@web/components/ui/ErrorState';
 import { EmptyState } from '@web/components/ui/EmptyState';
 
-const time = new Intl.DateTimeFormat('en-GB', { day: '2-digit', month: 'short', hour: '2-digit', minute: '2-digit', second: '2-digit' });
+const DEFAULT_CLOCK: PlantClock = { timeZone: 'UTC', dateFormat: 'dd/MM/yyyy' };
 
 export default function OutboxPage() {
   const outbox = useOutbox();
   const [open, setOpen] = useState<number | null>(null);
+  const clock = usePlantClock().data ?? DEFAULT_CLOCK;
   return (
     <>
       <PageHeader
         title="Mail outbox"
-        description="Without a mail relay (SMTP_URL), Prismline delivers its e-mail to a local test mail server on this machine. Here are the messages it has received, newest first; they are kept in memory until the server restarts."
+        description={`Without a mail relay (SMTP_URL), Prismline delivers its e-mail to a local test mail server on this machine. Here are the messages it has received, newest first; they are kept in memory until the server restarts. ${plantTimeNote(clock.timeZone)}.`}
       />
       {outbox.isPending ? (
         <Loading label="Loading messages…" />
@@ -36,7 +39,7 @@ export default function OutboxPage() {
                 <div>
                   <p className="font-medium">{m.subject}</p>
                   <p className="text-sm text-zinc-600">
-                    To {m.recipients.join(', ')} · <span className="figures">{time.format(new Date(m.receivedAt))}</span>
+                    To {m.recipients.join(', ')} · <span className="figures">{formatPlantDateTime(m.receivedAt, clock)}</span>
                   </p>
                 </div>
                 <Button variant="quiet" size="sm" aria-expanded={open === m.id} onClick={() => setOpen(open === m.id ? null : m.id)}>
