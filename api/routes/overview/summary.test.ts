@@ -13,6 +13,7 @@ function chart(count: number, opts: { violationsAt?: number[]; outOfSpecAt?: num
     outOfSpec: (opts.outOfSpecAt ?? []).includes(i), rules: [],
   }));
   return {
+    window: { period: 'all', from: null, to: null, limitsFrom: null },
     characteristic: {} as CharacteristicChart['characteristic'],
     spec: { lsl: 135, usl: 155, target: 145, revision: 1 },
     limits: { source: opts.source ?? 'trial', location: { center: 145, ucl: opts.ucl === undefined ? 149 : opts.ucl, lcl: opts.ucl === null ? null : 141, sigma: 1 } } as CharacteristicChart['limits'],

@@ -5,6 +5,7 @@ import type { EChartsType } from 'echarts/core';
 import { echarts } from '../lib/echarts';
 import { buildControlChartOption, indexChart, markerSets, nearestPoint, SELECTED_SERIES_ID, thinMarkers, type ChartIndex, type MarkerSets } from '../lib/control-chart-option';
 import type { CharacteristicChart, ChartPointRecord } from '@shared/schemas/charts';
+import type { PlantClock } from '@shared/time';
 
 export interface ZoomWindow {
   /** First and last point index in view. */
@@ -14,8 +15,8 @@ export interface ZoomWindow {
 
 interface ControlChartProps {
   chart: CharacteristicChart;
-  /** The plant's time zone, in which production times are shown. */
-  timeZone: string;
+  /** The plant's clock, in which production times are shown. */
+  clock: PlantClock;
   /** Index of the selected point, or null. */
   selected: number | null;
   onSelect: (index: number) => void;
@@ -55,9 +56,9 @@ function zoomFromEvent(event: ZoomEvent, index: ChartIndex): ZoomWindow {
  * chart focused, ← and → step from point to point (Page Up / Page Down by ten, Home / End to the
  * ends), Enter opens the lot of the selected point.
  */
-export function ControlChart({ chart, timeZone, selected, onSelect, onOpen, onZoom, revealRequest = 0, className }: ControlChartProps) {
+export function ControlChart({ chart, clock, selected, onSelect, onOpen, onZoom, revealRequest = 0, className }: ControlChartProps) {
   const index = useMemo(() => indexChart(chart), [chart]);
-  const option = useMemo(() => buildControlChartOption(chart, timeZone, index), [chart, timeZone, index]);
+  const option = useMemo(() => buildControlChartOption(chart, clock, index), [chart, clock, index]);
   const instance = useRef<EChartsType | null>(null);
   const [ready, setReady] = useState(0);
   const positionOf = useMemo(() => new Map(chart.points.map((p, i) => [p.index, i])), [chart]);
