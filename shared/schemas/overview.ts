@@ -4,7 +4,8 @@ import type { ChartType } from '../spc';
 /** The periods the overview offers, in days back from now. */
 export const overviewPeriods = [7, 30, 90, 182] as const;
 
-export type ControlState = 'in-control' | 'signal' | 'not-enough-data';
+/** 'alarms-open': no signal in the period, but alarms of the nightly run are still open, so not "in control". */
+export type ControlState = 'in-control' | 'signal' | 'alarms-open' | 'not-enough-data';
 
 /** One characteristic on the overview. */
 export interface OverviewItem {
@@ -20,7 +21,7 @@ export interface OverviewItem {
   lineCode: string | null;
   lineName: string | null;
   spec: { lsl: number | null; usl: number | null; target: number | null } | null;
-  latest: { lotNumber: string; producedAt: string; location: number; outOfSpec: boolean; index: number } | null;
+  latest: { lotNumber: string; producedAt: string; location: number; n: number; outOfSpec: boolean } | null;
   controlState: ControlState;
   /** Rule signals among the period's points (not excluded). */
   signals: number;
@@ -30,10 +31,13 @@ export interface OverviewItem {
   /** Alarms of the nightly run still open (not acknowledged or closed). */
   openAlarms: number;
   limitsSource: 'trial' | 'frozen' | null;
+  /** Cpk of the period, unrounded; null without a specification or with too few lots (capabilityEnough). */
   cpk: number | null;
   cpkCi95: [number, number] | null;
   capabilityPreliminary: boolean;
-  /** The period's most recent locations (oldest first) for the trend line, with their rule flags. */
+  /** Whether the period has lots enough for capability at all; when not, the card says so. */
+  capabilityEnough: boolean;
+  /** The period's points (oldest first, in at most TREND_POINTS groups) for the trend line, with their flags. */
   trend: { location: number; signal: boolean; outOfSpec: boolean }[];
   /** Why the item needs attention, in plain words; empty when it does not. */
   attention: string[];

@@ -139,7 +139,7 @@ export function PointsTable({ chart, clock, canChangeLimits, onReveal, onOpenLot
           variant="secondary"
           size="sm"
           className="ml-auto"
-          onClick={() => downloadText(pointsCsv(chart), `${chart.characteristic.code}-chart-points.csv`)}
+          onClick={() => downloadText(pointsCsv(chart, clock.timeZone), `${chart.characteristic.code}-chart-points.csv`)}
         >
           Download CSV
         </Button>

@@ -81,17 +81,19 @@ type Series = {
   showSymbol?: boolean;
   xAxisIndex?: number;
   labelLayout?: unknown;
-  markLine?: { data?: { yAxis?: number; xAxis?: number; lineStyle?: { type?: unknown }; label?: { show?: boolean; formatter?: unknown } }[] };
+  markLine?: { data?: { yAxis?: number; xAxis?: number; lineStyle?: { type?: unknown; color?: string }; label?: { show?: boolean; formatter?: unknown; color?: string } }[] };
 };
-type EdgeLabel = { value: [number, number]; label: { formatter: string } };
+type EdgeLabel = { value: [number, number]; label: { formatter: string; color: string } };
 
 const UTC: PlantClock = { timeZone: 'UTC', dateFormat: 'dd/MM/yyyy' };
 
 /** Every label of a horizontal line, by its text's first word, with the line's value: zone lines label themselves, the others at the edge. */
-function lineLabels(series: Series[]): Map<string, number> {
-  const out = new Map<string, number>();
-  for (const l of series.flatMap((x) => x.markLine?.data ?? [])) if (l.yAxis !== undefined && l.label?.show !== false) out.set(String(l.label?.formatter).split(' ')[0], l.yAxis);
-  for (const x of series.filter((y) => y.id === 'location-labels')) for (const d of x.data as EdgeLabel[]) out.set(d.label.formatter.split(' ')[0], d.value[1]);
+function lineLabels(series: Series[]): Map<string, { y: number; color?: string }> {
+  const out = new Map<string, { y: number; color?: string }>();
+  for (const l of series.flatMap((x) => x.markLine?.data ?? [])) {
+    if (l.yAxis !== undefined && l.label?.show !== false) out.set(String(l.label?.formatter).split(' ')[0], { y: l.yAxis, color: l.label?.color });
+  }
+  for (const x of series.filter((y) => y.id === 'location-labels')) for (const d of x.data as EdgeLabel[]) out.set(d.label.formatter.split(' ')[0], { y: d.value[1], color: d.label.color });
   return out;
 }
 
@@ -102,8 +104,8 @@ describe('control chart option', () => {
     const lines = series.flatMap((s) => s.markLine?.data ?? []).filter((l) => l.yAxis !== undefined);
     const labels = lineLabels(series);
     expect([...labels.keys()]).toEqual(expect.arrayContaining(['CL', 'UCL', 'LCL', '+1σ', '+2σ', '−1σ', '−2σ', 'USL', 'LSL', 'Target']));
-    // Each label stands at the value of a line drawn; the dash pattern is that line's.
-    const labelled = new Map([...labels].map(([name, y]) => [name, JSON.stringify(lines.find((l) => l.yAxis === y)?.lineStyle?.type)]));
+    // Each label stands at the value of a line drawn, in its colour; the dash pattern is that line's.
+    const labelled = new Map([...labels].map(([name, { y, color }]) => [name, JSON.stringify(lines.find((l) => l.yAxis === y && l.lineStyle?.color === color)?.lineStyle?.type)]));
     for (const name of labels.keys()) expect(labelled.get(name)).toBeDefined();
     // Centre, control limit, zone, specification and target lines differ in their dash pattern.
     const patterns = ['CL', 'UCL', '+1σ', 'USL', 'Target'].map((k) => labelled.get(k));
@@ -124,8 +126,8 @@ describe('control chart option', () => {
     const labels = lineLabels(series);
     expect(labels.has('+1σ')).toBe(false);
     // The edge gives the centre line and limits of the newest point, where the stepped lines end.
-    expect(labels.get('CL')).toBe(chart.points.at(-1)!.center);
-    expect(labels.get('UCL')).toBe(chart.points.at(-1)!.ucl);
+    expect(labels.get('CL')?.y).toBe(chart.points.at(-1)!.center);
+    expect(labels.get('UCL')?.y).toBe(chart.points.at(-1)!.ucl);
     const areas = series.find((s) => s.id === 'location')!.markArea!.data!;
     expect(areas).toHaveLength(4);
     expect(areas.every(([from]) => from.xAxis === 19.5)).toBe(true);
@@ -186,7 +188,7 @@ describe('control chart option', () => {
     const edge = series.find((s) => s.id === 'location-labels')!;
     expect(edge.labelLayout).toEqual({ moveOverlap: 'shiftY' });
     const texts = (edge.data as EdgeLabel[]).map((d) => d.label.formatter);
-    expect(texts).toEqual(expect.arrayContaining(['USL 149.5', 'Target 149.0', 'UCL 151.0']));
+    expect(texts).toEqual(expect.arrayContaining(['USL 149.5', 'Target 149.0', 'UCL 149.0']));
     // On an axis of its own that the zoom does not move, at its right end.
     const zooms = option.dataZoom as { xAxisIndex: number[] }[];
     for (const z of zooms) expect(z.xAxisIndex).not.toContain(edge.xAxisIndex);
