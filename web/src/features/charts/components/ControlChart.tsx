@@ -3,7 +3,7 @@ import { useCallback, useEffect, useLayoutEffect, useMemo, useRef, useState, typ
 import ReactEChartsCore from 'echarts-for-react/esm/core';
 import type { EChartsType } from 'echarts/core';
 import { echarts } from '../lib/echarts';
-import { buildControlChartOption, indexChart, markerSets, nearestPoint, SELECTED_SERIES_ID, thinMarkers, type ChartIndex, type MarkerSets } from '../lib/control-chart-option';
+import { buildControlChartOption, edgeLabelSeries, indexChart, markerSets, nearestPoint, SELECTED_SERIES_ID, thinMarkers, type ChartIndex, type MarkerSets } from '../lib/control-chart-option';
 import type { CharacteristicChart, ChartPointRecord } from '@shared/schemas/charts';
 import type { PlantClock } from '@shared/time';
 
@@ -111,10 +111,14 @@ export function ControlChart({ chart, clock, selected, onSelect, onOpen, onZoom,
     if (chartInstance && view && view.first >= index.first && view.last <= index.last) chartInstance.dispatchAction({ type: 'dataZoom', startValue: view.first - 0.5, endValue: view.last + 0.5 });
   }, [option, index, ready]);
 
+  // Each request is served once, when the chart is drawn and the point known: a later click on another
+  // point selects it without moving the view.
+  const revealed = useRef(0);
   useEffect(() => {
-    if (revealRequest === 0 || selected === null) return;
+    if (revealRequest === revealed.current || selected === null || ready === 0) return;
     const p = index.byIndex.get(selected);
     if (!p) return;
+    revealed.current = revealRequest;
     bringIntoView(p, true);
     // The zoom redraws first; the tooltip then finds the point where it now lies.
     const timer = window.setTimeout(() => showTipAt(p), 80);
@@ -136,10 +140,11 @@ export function ControlChart({ chart, clock, selected, onSelect, onOpen, onZoom,
       const view = zoomFromEvent(event as ZoomEvent, latest.current.index);
       zoomed.current = view;
       latest.current.onZoom?.(view);
-      // Once the wheel rests, the markers are thinned again for the part in view (all of them when zoomed in).
+      // Once the wheel rests, the markers are thinned again for the part in view (all of them when zoomed in),
+      // and the edge labels name the limits that end at the right of the view.
       window.clearTimeout(rethin.current);
       rethin.current = window.setTimeout(() => {
-        chartInstance.setOption({ series: thinMarkers(latest.current.marks, view.first, view.last) });
+        chartInstance.setOption({ series: [...thinMarkers(latest.current.marks, view.first, view.last), ...edgeLabelSeries(latest.current.chart, view.last)] });
       }, 120);
     });
     setReady((n) => n + 1);

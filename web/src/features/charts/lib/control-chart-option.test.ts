@@ -5,6 +5,7 @@ import { ruleDescriptions } from '@shared/spc';
 import type { PlantClock } from '@shared/time';
 import {
   buildControlChartOption,
+  edgeLabelSeries,
   DENSE_POINTS,
   eventPositions,
   indexChart,
@@ -128,6 +129,9 @@ describe('control chart option', () => {
     // The edge gives the centre line and limits of the newest point, where the stepped lines end.
     expect(labels.get('CL')?.y).toBe(chart.points.at(-1)!.center);
     expect(labels.get('UCL')?.y).toBe(chart.points.at(-1)!.ucl);
+    // Zoomed into the stretch before the revision, the edge names the limits of that time.
+    const [zoomed] = edgeLabelSeries(chart, 10);
+    expect((zoomed.data as EdgeLabel[]).map((d) => d.label.formatter)).toEqual(expect.arrayContaining(['CL 150.0', 'UCL 154.0', 'LCL 146.0']));
     const areas = series.find((s) => s.id === 'location')!.markArea!.data!;
     expect(areas).toHaveLength(4);
     expect(areas.every(([from]) => from.xAxis === 19.5)).toBe(true);
@@ -181,14 +185,14 @@ describe('control chart option', () => {
 
   it('keeps the line labels at the right edge outside the plot, moved apart where they would overlap', () => {
     const chart = fixture(50);
-    // Target and USL one unit apart: their labels would print over each other.
-    chart.spec = { lsl: 135, usl: 149.5, target: 149, revision: 1 };
+    // Target on the UCL and the USL one unit above: their labels would print over each other.
+    chart.spec = { lsl: 135, usl: 150, target: 149, revision: 1 };
     const option = buildControlChartOption(chart, UTC);
     const series = option.series as Series[];
     const edge = series.find((s) => s.id === 'location-labels')!;
     expect(edge.labelLayout).toEqual({ moveOverlap: 'shiftY' });
     const texts = (edge.data as EdgeLabel[]).map((d) => d.label.formatter);
-    expect(texts).toEqual(expect.arrayContaining(['USL 149.5', 'Target 149.0', 'UCL 149.0']));
+    expect(texts).toEqual(expect.arrayContaining(['USL 150', 'Target 149', 'UCL 149.0']));
     // On an axis of its own that the zoom does not move, at its right end.
     const zooms = option.dataZoom as { xAxisIndex: number[] }[];
     for (const z of zooms) expect(z.xAxisIndex).not.toContain(edge.xAxisIndex);

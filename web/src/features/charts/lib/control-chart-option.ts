@@ -109,6 +109,8 @@ interface HorizontalLine {
   label: string;
   /** Labelled at the start inside the plot, without its figure: the zone lines, whose figures the limits summary gives. */
   atStart?: boolean;
+  /** Decimals of its figure when not those of the plotted statistic: a specification limit has the characteristic's own. */
+  digits?: number;
 }
 
 const drawn = (l: HorizontalLine): l is HorizontalLine & { value: number } => typeof l.value === 'number' && Number.isFinite(l.value);
@@ -128,6 +130,14 @@ function horizontalMarks(lines: HorizontalLine[]): MarkLineComponentOption {
     })),
   };
 }
+
+/**
+ * Zone letters at the left of the plot, right of the ±σ labels, so that nothing is written over the
+ * newest points at the right end.
+ */
+const zoneLabel = (letter: 'A' | 'B') => ({ show: true, position: 'insideLeft' as const, distance: 40, formatter: letter, color: '#71717a' });
+const ZONE_LABEL_A = zoneLabel('A');
+const ZONE_LABEL_B = zoneLabel('B');
 
 /** Space right of the plots for the line labels ("Target 1,501.5"). */
 const EDGE_MARGIN = 124;
@@ -152,9 +162,47 @@ function edgeLabels(id: string, grid: 0 | 1, lines: HorizontalLine[], decimals: 
     labelLayout: { moveOverlap: 'shiftY' },
     data: lines.filter(drawn).map((l) => ({
       value: [1, l.value],
-      label: { formatter: `${l.label} ${formatFigure(l.value, decimals)}`, color: lineStyles[l.kind].color },
+      label: { formatter: `${l.label} ${formatFigure(l.value, l.digits ?? decimals)}`, color: lineStyles[l.kind].color },
     })),
   };
+}
+
+/**
+ * The labels at the right edge: the specification and the limits of the last point in view (the
+ * newest until the chart is zoomed), so that where limits were revised the labels name the lines
+ * that end at the edge. The chart updates them after each zoom.
+ */
+export function edgeLabelSeries(chart: CharacteristicChart, lastInView: number): ScatterSeriesOption[] {
+  const { decimals, chartType, subgroupSize } = chart.characteristic;
+  const names = statisticNames[chartType];
+  const locDecimals = decimals + (subgroupSize > 1 ? 1 : 0);
+  const { spec, limits } = chart;
+  const end = nearestPoint(chart, lastInView);
+  return [
+    edgeLabels(
+      'location-labels',
+      0,
+      [
+        { kind: 'centre', value: end?.center ?? limits.location.center, label: 'CL' },
+        { kind: 'control', value: end?.ucl ?? limits.location.ucl, label: 'UCL' },
+        { kind: 'control', value: end?.lcl ?? limits.location.lcl, label: 'LCL' },
+        { kind: 'spec', value: spec?.usl, label: 'USL', digits: decimals },
+        { kind: 'spec', value: spec?.lsl, label: 'LSL', digits: decimals },
+        { kind: 'target', value: spec?.target, label: 'Target', digits: decimals },
+      ],
+      locDecimals,
+    ),
+    edgeLabels(
+      'dispersion-labels',
+      1,
+      [
+        { kind: 'centre', value: limits.dispersion.center, label: `${names.dispersion}̄` },
+        { kind: 'control', value: end?.dispersionUcl ?? limits.dispersion.ucl, label: 'UCL' },
+        { kind: 'control', value: end?.dispersionLcl ?? limits.dispersion.lcl, label: 'LCL' },
+      ],
+      decimals + 1,
+    ),
+  ];
 }
 
 /** Padded value range covering the points, their limits and the specification. */
@@ -381,10 +429,10 @@ export function buildControlChartOption(chart: CharacteristicChart, clock: Plant
     animation: false,
     data: zones && limits?.location.ucl != null && limits.location.lcl != null
       ? [
-          [{ ...zoneStart, yAxis: zones.plus2, itemStyle: { color: zoneFill.A }, label: { show: true, position: 'insideRight', formatter: 'A', color: '#71717a' } }, { yAxis: limits.location.ucl }],
-          [{ ...zoneStart, yAxis: zones.plus1, itemStyle: { color: zoneFill.B }, label: { show: true, position: 'insideRight', formatter: 'B', color: '#71717a' } }, { yAxis: zones.plus2 }],
-          [{ ...zoneStart, yAxis: zones.minus2, itemStyle: { color: zoneFill.B }, label: { show: true, position: 'insideRight', formatter: 'B', color: '#71717a' } }, { yAxis: zones.minus1 }],
-          [{ ...zoneStart, yAxis: limits.location.lcl, itemStyle: { color: zoneFill.A }, label: { show: true, position: 'insideRight', formatter: 'A', color: '#71717a' } }, { yAxis: zones.minus2 }],
+          [{ ...zoneStart, yAxis: zones.plus2, itemStyle: { color: zoneFill.A }, label: ZONE_LABEL_A }, { yAxis: limits.location.ucl }],
+          [{ ...zoneStart, yAxis: zones.plus1, itemStyle: { color: zoneFill.B }, label: ZONE_LABEL_B }, { yAxis: zones.plus2 }],
+          [{ ...zoneStart, yAxis: zones.minus2, itemStyle: { color: zoneFill.B }, label: ZONE_LABEL_B }, { yAxis: zones.minus1 }],
+          [{ ...zoneStart, yAxis: limits.location.lcl, itemStyle: { color: zoneFill.A }, label: ZONE_LABEL_A }, { yAxis: zones.minus2 }],
         ]
       : [],
   };
@@ -412,32 +460,6 @@ export function buildControlChartOption(chart: CharacteristicChart, clock: Plant
       { kind: 'target', value: spec?.target, label: 'Target' },
     ],
   );
-  // The edge labels give the limits of the newest point: where they move, the lines show their history.
-  const newest = points.at(-1);
-  const topEdge = edgeLabels(
-    'location-labels',
-    0,
-    [
-      { kind: 'centre', value: centreVaries ? newest?.center : center, label: 'CL' },
-      { kind: 'control', value: constantLimits ? limits?.location.ucl : newest?.ucl, label: 'UCL' },
-      { kind: 'control', value: constantLimits ? limits?.location.lcl : newest?.lcl, label: 'LCL' },
-      { kind: 'spec', value: spec?.usl, label: 'USL' },
-      { kind: 'spec', value: spec?.lsl, label: 'LSL' },
-      { kind: 'target', value: spec?.target, label: 'Target' },
-    ],
-    locDecimals,
-  );
-  const bottomEdge = edgeLabels(
-    'dispersion-labels',
-    1,
-    [
-      { kind: 'centre', value: limits?.dispersion.center, label: `${names.dispersion}̄` },
-      { kind: 'control', value: constantLimits ? limits?.dispersion.ucl : newest?.dispersionUcl, label: 'UCL' },
-      { kind: 'control', value: constantLimits ? limits?.dispersion.lcl : newest?.dispersionLcl, label: 'LCL' },
-    ],
-    dispDecimals,
-  );
-
   const limitLine = (name: string, data: [number, number | null][], axis: number, kind: 'control' | 'centre' = 'control'): LineSeriesOption => ({
     name,
     type: 'line',
@@ -582,8 +604,7 @@ export function buildControlChartOption(chart: CharacteristicChart, clock: Plant
         ]),
       },
       ...(constantLimits ? [] : [limitLine(`${names.dispersion} UCL`, dUcl, 1), limitLine(`${names.dispersion} LCL`, dLcl, 1)]),
-      topEdge,
-      bottomEdge,
+      ...edgeLabelSeries(chart, index.last),
       markerSeries('outOfSpec', 'Outside specification', 0, marked.get('out-of-spec')!, 'out-of-spec'),
       markerSeries('excluded', 'Excluded', 0, marked.get('excluded')!, 'excluded'),
       markerSeries('excluded', `${names.dispersion} of an excluded point`, 1, marked.get('excluded-dispersion')!, 'excluded-dispersion'),

@@ -1,4 +1,4 @@
-import { useCallback, useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
+import { useCallback, useMemo, useRef, useState, type ReactNode } from 'react';
 import { Link, useParams, useSearchParams } from 'react-router-dom';
 import { ApiError } from '@web/lib/http';
 import { useMay } from '@web/app/permissions';
@@ -27,7 +27,7 @@ import { ErrorState } from '@web/components/ui/ErrorState';
 import { EmptyState } from '@web/components/ui/EmptyState';
 
 const periodLabels: Record<ChartPeriod, string> = {
-  limits: 'Since the limits in force',
+  limits: 'Since the limits',
   '30': 'Last 30 days',
   '90': 'Last 90 days',
   '182': 'Last 6 months',
@@ -80,8 +80,9 @@ export default function ChartPage() {
   const canExclude = useMay('point.exclude');
 
   // A point is known by its lot, which stays the same whatever the period shows.
-  const [selectedLot, setSelectedLot] = useState<string | null>(lotParam || null);
-  const [reveal, setReveal] = useState(0);
+  const [chosenLot, setSelectedLot] = useState<string | null>(lotParam || null);
+  // A linked lot is brought into view as soon as the chart is drawn.
+  const [reveal, setReveal] = useState(lotParam || legacyPoint !== null ? 1 : 0);
   // Read only when the freeze dialog opens: a state would re-render the page on every zoom step.
   const view = useRef<ZoomWindow | null>(null);
   const onZoom = useCallback((window: ZoomWindow) => {
@@ -90,24 +91,12 @@ export default function ChartPage() {
   const [open, setOpen] = useState<Open>(null);
   const [notice, setNotice] = useState<string | null>(null);
 
-  const points = chart.data?.points;
+  const points = chart.isPlaceholderData ? undefined : chart.data?.points;
   const indexOfLot = useMemo(() => new Map((points ?? []).map((p) => [p.lotNumber, p.index])), [points]);
+  const selectedLot = chosenLot ?? (legacyPoint !== null ? (points?.[legacyPoint]?.lotNumber ?? null) : null);
   const selected = selectedLot === null ? null : (indexOfLot.get(selectedLot) ?? null);
   const select = useCallback((index: number) => setSelectedLot(points?.find((p) => p.index === index)?.lotNumber ?? null), [points]);
-
-  // A link to one lot (from an alarm) selects it and brings it into view once the chart is there.
-  const linkedShown = useRef(false);
-  const [linkedMissing, setLinkedMissing] = useState<string | null>(null);
-  useEffect(() => {
-    if (!points || chart.isPlaceholderData || linkedShown.current) return;
-    const linked = lotParam || (legacyPoint !== null ? (points[legacyPoint]?.lotNumber ?? null) : null);
-    if (!linked) return;
-    linkedShown.current = true;
-    if (indexOfLot.has(linked)) {
-      setSelectedLot(linked);
-      setReveal((n) => n + 1);
-    } else setLinkedMissing(lotParam || `at position ${(legacyPoint ?? 0) + 1}`);
-  }, [points, chart.isPlaceholderData, lotParam, legacyPoint, indexOfLot]);
+  const linkedMissing = lotParam && points && !indexOfLot.has(lotParam) ? lotParam : null;
 
   const showOnChart = useCallback(
     (index: number) => {
@@ -154,7 +143,7 @@ export default function ChartPage() {
               Period
             </label>
             {/* The select fills its box; the box keeps it beside its label and the link. */}
-            <div className="w-64">
+            <div className="w-60">
               <Select
                 id="chart-period"
                 value={period}
@@ -171,7 +160,7 @@ export default function ChartPage() {
                   .filter((p) => p !== 'limits' || data.window.limitsFrom !== null)
                   .map((p) => (
                     <option key={p} value={p}>
-                      {p === 'limits' && data.window.limitsFrom ? `${periodLabels.limits} (from ${formatPlantDate(data.window.limitsFrom, clock)})` : periodLabels[p]}
+                      {p === 'limits' && data.window.limitsFrom ? `${periodLabels.limits} (${formatPlantDate(data.window.limitsFrom, clock)})` : periodLabels[p]}
                     </option>
                   ))}
               </Select>
