@@ -1,6 +1,30 @@
 // The overview's periods and answer; free of zod, so the landing page loads without the validation library.
 import type { ChartType } from '../spc';
 
+/** Common practice: Cpk of at least 1.33 for a capable process, below 1.00 not capable. */
+export const CPK_CAPABLE = 1.33;
+export const CPK_MINIMUM = 1.0;
+
+/**
+ * An index compared with a limit, to as many decimals as show that it is below it: 1.3271 against
+ * 1.33 reads "1.327", never "1.33 is below 1.33".
+ */
+export function indexBelow(value: number, limit: number): string {
+  for (let places = 2; places <= 6; places++) {
+    const text = value.toFixed(places);
+    if (Number(text) < limit) return text;
+  }
+  // Closer than rounding to six places shows: cut off, not rounded up to the limit.
+  return (Math.floor(value * 1e6) / 1e6).toFixed(6);
+}
+
+/** Cpk as the card prints it: two decimals, more where two would round it up to a limit it is below. */
+export function cpkFigure(cpk: number): string {
+  if (cpk < CPK_MINIMUM) return indexBelow(cpk, CPK_MINIMUM);
+  if (cpk < CPK_CAPABLE) return indexBelow(cpk, CPK_CAPABLE);
+  return cpk.toFixed(2);
+}
+
 /** The periods the overview offers, in days back from now. */
 export const overviewPeriods = [7, 30, 90, 182] as const;
 

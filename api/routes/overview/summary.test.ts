@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import type { CharacteristicChart, ChartPointRecord } from '@shared/schemas/charts';
-import { indexBelow, summarise, TREND_POINTS, type OverviewBase } from './summary';
+import { indexBelow } from '@shared/schemas/overview';
+import { summarise, TREND_POINTS, type OverviewBase } from './summary';
 
 const base: OverviewBase = { id: 1, code: 'T-FLOW', name: 'Test · flow', unit: 'mm', decimals: 0, chartType: 'xbar-r', productCode: 'T', productName: 'Test', productFamily: 'levelling', lineCode: 'L1', lineName: 'Line 1' };
 const day = 86_400_000;

@@ -1,7 +1,7 @@
 // What the overview says about one characteristic, from its chart over the whole history (control
 // state against the limits the nightly run uses) and over the period (capability of recent production).
 import type { CharacteristicChart } from '@shared/schemas/charts';
-import type { ControlState, OverviewItem } from '@shared/schemas/overview';
+import { CPK_CAPABLE, CPK_MINIMUM, cpkFigure, type ControlState, type OverviewItem } from '@shared/schemas/overview';
 import { PHASE_ONE_MIN_POINTS } from '@shared/spc';
 
 /** Points of the period drawn in the overview's trend line; a longer period is drawn in as many groups. */
@@ -10,9 +10,6 @@ export const TREND_POINTS = 60;
 /** Kept lots of the period below which the overview gives no capability: one lot says nothing of the process. */
 export const CAPABILITY_MIN_LOTS = 2;
 
-/** Common practice: Cpk of at least 1.33 for a capable process, below 1.00 not capable. */
-const CPK_CAPABLE = 1.33;
-const CPK_MINIMUM = 1.0;
 
 export interface OverviewBase {
   id: number;
@@ -72,10 +69,10 @@ export function summarise(base: OverviewBase, full: CharacteristicChart, recent:
     score += 30;
   }
   if (cpk !== null && cpk < CPK_MINIMUM) {
-    attention.push(`Cpk ${indexBelow(cpk, CPK_MINIMUM)} is below ${CPK_MINIMUM.toFixed(2)}`);
+    attention.push(`Cpk ${cpkFigure(cpk)} is below ${CPK_MINIMUM.toFixed(2)}`);
     score += 30;
   } else if (cpk !== null && cpk < CPK_CAPABLE) {
-    attention.push(`Cpk ${indexBelow(cpk, CPK_CAPABLE)} is below ${CPK_CAPABLE.toFixed(2)}`);
+    attention.push(`Cpk ${cpkFigure(cpk)} is below ${CPK_CAPABLE.toFixed(2)}`);
     score += 15;
   }
   if (!enough || period.length === 0) {
@@ -103,19 +100,6 @@ export function summarise(base: OverviewBase, full: CharacteristicChart, recent:
     attention,
     attentionScore: score,
   };
-}
-
-/**
- * An index compared with a limit, to as many decimals as show that it is below it: 1.3271 against
- * 1.33 reads "1.327", never "1.33 is below 1.33".
- */
-export function indexBelow(value: number, limit: number): string {
-  for (let places = 2; places <= 6; places++) {
-    const text = value.toFixed(places);
-    if (Number(text) < limit) return text;
-  }
-  // Closer than rounding to six places shows: cut off, not rounded up to the limit.
-  return (Math.floor(value * 1e6) / 1e6).toFixed(6);
 }
 
 /**

@@ -1,5 +1,5 @@
 import { Link } from 'react-router-dom';
-import type { OverviewItem } from '@shared/schemas/overview';
+import { cpkFigure, type OverviewItem } from '@shared/schemas/overview';
 import { Badge } from '@web/components/ui/Badge';
 import { formatFigure } from '@shared/figures';
 import { formatPlantDateTime, type PlantClock } from '@shared/time';
@@ -55,7 +55,7 @@ export function CharacteristicTile({ item, clock }: { item: OverviewItem; clock:
         <div className="flex flex-col">
           <dt className="text-zinc-600">Cpk</dt>
           <dd className="mt-auto font-mono text-base" data-testid="cpk-value">
-            {tooFew ? <span className="font-sans text-sm text-zinc-600">Not enough data</span> : formatFigure(item.cpk, 2)}
+            {tooFew ? <span className="font-sans text-sm text-zinc-600">Not enough data</span> : item.cpk === null ? '–' : cpkFigure(item.cpk)}
             {item.capabilityPreliminary && item.cpk !== null && <span className="font-sans text-xs text-zinc-500"> prelim.</span>}
           </dd>
         </div>
