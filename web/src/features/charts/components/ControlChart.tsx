@@ -118,10 +118,13 @@ export function ControlChart({ chart, clock, selected, onSelect, onOpen, onZoom,
     if (revealRequest === revealed.current || selected === null || ready === 0) return;
     const p = index.byIndex.get(selected);
     if (!p) return;
-    revealed.current = revealRequest;
     bringIntoView(p, true);
-    // The zoom redraws first; the tooltip then finds the point where it now lies.
-    const timer = window.setTimeout(() => showTipAt(p), 80);
+    // The zoom redraws first; the tooltip then finds the point where it now lies. The request counts as
+    // served only then: a render in between runs this again.
+    const timer = window.setTimeout(() => {
+      revealed.current = revealRequest;
+      showTipAt(p);
+    }, 80);
     return () => window.clearTimeout(timer);
   }, [revealRequest, ready, selected, index, bringIntoView, showTipAt]);
 

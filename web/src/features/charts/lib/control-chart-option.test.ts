@@ -5,6 +5,7 @@ import { ruleDescriptions } from '@shared/spc';
 import type { PlantClock } from '@shared/time';
 import {
   buildControlChartOption,
+  edgeLabelLayout,
   edgeLabelSeries,
   DENSE_POINTS,
   eventPositions,
@@ -190,7 +191,9 @@ describe('control chart option', () => {
     const option = buildControlChartOption(chart, UTC);
     const series = option.series as Series[];
     const edge = series.find((s) => s.id === 'location-labels')!;
-    expect(edge.labelLayout).toEqual({ moveOverlap: 'shiftY' });
+    // echarts' label layout moves overlapping labels apart vertically; it does so for labels it places itself.
+    expect(edge.labelLayout).toBe(edgeLabelLayout);
+    expect(edgeLabelLayout({ rect: { x: 800, y: 100, width: 0, height: 0 } })).toEqual({ x: 806, y: 100, align: 'left', verticalAlign: 'middle', moveOverlap: 'shiftY' });
     const texts = (edge.data as EdgeLabel[]).map((d) => d.label.formatter);
     expect(texts).toEqual(expect.arrayContaining(['USL 150', 'Target 149', 'UCL 149.0']));
     // On an axis of its own that the zoom does not move, at its right end.

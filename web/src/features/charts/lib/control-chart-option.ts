@@ -143,6 +143,18 @@ const ZONE_LABEL_B = zoneLabel('B');
 const EDGE_MARGIN = 124;
 
 /**
+ * Each edge label placed beside its point, then moved down where it would overlap the one above.
+ * echarts moves only labels it places itself (x and y given), not those placed by label.position.
+ */
+export const edgeLabelLayout = (params: { rect: { x: number; y: number; width: number; height: number } }) => ({
+  x: params.rect.x + params.rect.width + 6,
+  y: params.rect.y + params.rect.height / 2,
+  align: 'left' as const,
+  verticalAlign: 'middle' as const,
+  moveOverlap: 'shiftY' as const,
+});
+
+/**
  * The labels of the lines at the right edge of a plot, outside the points, as one series on a hidden
  * axis of its own (0 to 1, untouched by the zoom) so they stay at the edge whatever part is in view;
  * echarts moves labels that would overlap apart vertically (labelLayout moveOverlap).
@@ -159,7 +171,7 @@ function edgeLabels(id: string, grid: 0 | 1, lines: HorizontalLine[], decimals: 
     tooltip: { show: false },
     z: 8,
     label: { show: true, position: 'right', distance: 6, fontFamily: 'Roboto Mono', fontSize: 12 },
-    labelLayout: { moveOverlap: 'shiftY' },
+    labelLayout: edgeLabelLayout,
     data: lines.filter(drawn).map((l) => ({
       value: [1, l.value],
       label: { formatter: `${l.label} ${formatFigure(l.value, l.digits ?? decimals)}`, color: lineStyles[l.kind].color },
