@@ -34,11 +34,13 @@ import {
   type RuleSetId,
   type SpecificationRevision,
 } from '@shared/spc';
-import type { CharacteristicChart, ChartPointRecord } from '@shared/schemas/charts';
+import type { CharacteristicChart, ChartPeriod, ChartPointRecord } from '@shared/schemas/charts';
 
 export interface ChartWindow {
   from?: Date;
   to?: Date;
+  /** The offered period the window stands for; without it, a window of from and to (or all history). */
+  period?: ChartPeriod;
 }
 
 // The answer's shape is the one the web app reads (shared/schemas/charts.ts).
@@ -97,6 +99,8 @@ export interface ChartInputs {
   specs: SpecRevision[];
   events: CharacteristicChart['events'];
   now: Date;
+  /** The window the lots were read for; all history when absent. */
+  window?: ChartWindow;
 }
 
 /** Hash of everything the chart depends on: equal hashes mean an identical chart. */
@@ -260,7 +264,14 @@ export function buildChart(inputs: ChartInputs): Computed {
   }
 
   const z = result.location.zones;
+  const w = inputs.window ?? {};
   const chart: CharacteristicChart = {
+    window: {
+      period: w.period ?? (w.from || w.to ? 'custom' : 'all'),
+      from: w.from?.toISOString() ?? null,
+      to: w.to?.toISOString() ?? null,
+      limitsFrom: inForce && inForce.chartType === c.chart_type ? inForce.baselineFrom.toISOString() : null,
+    },
     characteristic: {
       id: c.id,
       code: c.code,

@@ -2,8 +2,10 @@
 // specification revisions, values and process events (loadChartInputs), and its frozen-limit history.
 // The chart itself is assembled without I/O in chart-assembly.ts.
 import { desc, eq, sql } from 'drizzle-orm';
+import { startOfDay, subDays } from 'date-fns';
+import { tz } from '@date-fns/tz';
 import type { ChartType } from '@shared/spc';
-import type { LimitRevisionRecord } from '@shared/schemas/charts';
+import type { ChartPeriod, LimitRevisionRecord } from '@shared/schemas/charts';
 import { controlLimitRevisions, users } from '../db/schema';
 import { buildChart, type CharacteristicChart, type CharacteristicRow, type ChartInputs, type ChartWindow, type LotSubgroup } from './chart-assembly';
 import type { Executor } from './db';
@@ -85,7 +87,54 @@ export async function loadChartInputs(db: Executor, characteristicId: number, wi
     specs: (specs ?? []).map((s) => ({ revision: s.revision, lsl: s.lsl, usl: s.usl, target: s.target, effectiveFrom: new Date(s.effectiveFrom) })),
     events: eventRows.rows.map((e) => ({ id: e.id, occurredAt: new Date(e.occurred_at).toISOString(), title: e.title, description: e.description })),
     now,
+    window,
   };
+}
+
+/** What a chart request asks for: a period, a lot to show, or a window of from and to. */
+export interface ChartRequest {
+  period?: ChartPeriod;
+  lot?: string;
+  from?: Date;
+  to?: Date;
+}
+
+/**
+ * The window a chart request stands for. The default is the period since the frozen limits in force
+ * apply, so a chart never opens mixing the history before and after a process change with limits from
+ * after it; all history when the limits are trial ones. A lot alone opens the default period if that holds
+ * the lot, else the shortest period of whole plant days that does (all history at most). The day periods
+ * count back from the start of the plant's day, so a chart stays one cached window all day.
+ */
+export async function resolveChartWindow(db: Executor, characteristicId: number, request: ChartRequest, now = new Date()): Promise<ChartWindow> {
+  if (!request.period && (request.from || request.to)) return { from: request.from, to: request.to };
+  const found = await db.execute<{ time_zone: string; limits_from: Date | null; lot_produced_at: Date | null }>(sql`
+    select p.time_zone,
+           (select r.baseline_from from control_limit_revisions r
+             where r.characteristic_id = c.id and r.chart_type = c.chart_type
+               and r.revision = (select max(revision) from control_limit_revisions where characteristic_id = c.id)) as limits_from,
+           ${request.lot ? sql`(select l.produced_at from lots l where l.lot_number = ${request.lot})` : sql`null::timestamptz`} as lot_produced_at
+    from characteristics c join products pr on pr.id = c.product_id join plants p on p.id = pr.plant_id
+    where c.id = ${characteristicId}`);
+  const row = found.rows[0];
+  if (!row) throw new DomainError('not-found', `Characteristic ${characteristicId} not found`);
+  const zone = tz(row.time_zone);
+  const startOf = (period: ChartPeriod): Date | null => {
+    if (period === 'all') return null;
+    if (period === 'limits') return row.limits_from ? new Date(row.limits_from) : null;
+    return subDays(startOfDay(now, { in: zone }), Number(period), { in: zone });
+  };
+  const windowOf = (period: ChartPeriod): ChartWindow => {
+    const from = startOf(period);
+    // Under trial limits "since the limits" is all history, and says so.
+    return from ? { from, period } : { period: 'all' };
+  };
+  if (request.period) return windowOf(request.period);
+  const lotAt = row.lot_produced_at ? new Date(row.lot_produced_at).getTime() : null;
+  if (lotAt === null) return windowOf('limits');
+  const holds = (period: ChartPeriod) => (startOf(period)?.getTime() ?? -Infinity) <= lotAt;
+  if (holds('limits')) return windowOf('limits');
+  return windowOf((['30', '90', '182'] as const).find(holds) ?? 'all');
 }
 
 /** The chart of one characteristic over a window of production dates (all of it by default). */

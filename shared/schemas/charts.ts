@@ -105,8 +105,26 @@ export interface ChartProcessEvent {
   description: string | null;
 }
 
+/**
+ * The periods a chart offers: since the limits in force apply (the default), the last 30, 90 or 182
+ * plant days, or all history.
+ */
+export const chartPeriods = ['limits', '30', '90', '182', 'all'] as const;
+export type ChartPeriod = (typeof chartPeriods)[number];
+
+/** The production-time window a chart answer covers, and why. */
+export interface ChartWindowView {
+  /** The period charted; 'custom' for a window given by from and to. */
+  period: ChartPeriod | 'custom';
+  from: string | null;
+  to: string | null;
+  /** Where the frozen limits in force start to apply (their baseline's start); null under trial limits. */
+  limitsFrom: string | null;
+}
+
 /** GET /api/v1/characteristics/:id/chart */
 export interface CharacteristicChart {
+  window: ChartWindowView;
   characteristic: {
     id: number;
     code: string;

@@ -1,10 +1,35 @@
 // The overview's periods and answer; free of zod, so the landing page loads without the validation library.
 import type { ChartType } from '../spc';
 
+/** Common practice: Cpk of at least 1.33 for a capable process, below 1.00 not capable. */
+export const CPK_CAPABLE = 1.33;
+export const CPK_MINIMUM = 1.0;
+
+/**
+ * An index compared with a limit, to as many decimals as show that it is below it: 1.3271 against
+ * 1.33 reads "1.327", never "1.33 is below 1.33".
+ */
+export function indexBelow(value: number, limit: number): string {
+  for (let places = 2; places <= 6; places++) {
+    const text = value.toFixed(places);
+    if (Number(text) < limit) return text;
+  }
+  // Closer than rounding to six places shows: cut off, not rounded up to the limit.
+  return (Math.floor(value * 1e6) / 1e6).toFixed(6);
+}
+
+/** Cpk as the card prints it: two decimals, more where two would round it up to a limit it is below. */
+export function cpkFigure(cpk: number): string {
+  if (cpk < CPK_MINIMUM) return indexBelow(cpk, CPK_MINIMUM);
+  if (cpk < CPK_CAPABLE) return indexBelow(cpk, CPK_CAPABLE);
+  return cpk.toFixed(2);
+}
+
 /** The periods the overview offers, in days back from now. */
 export const overviewPeriods = [7, 30, 90, 182] as const;
 
-export type ControlState = 'in-control' | 'signal' | 'not-enough-data';
+/** 'alarms-open': no signal in the period, but alarms of the nightly run are still open, so not "in control". */
+export type ControlState = 'in-control' | 'signal' | 'alarms-open' | 'not-enough-data';
 
 /** One characteristic on the overview. */
 export interface OverviewItem {
@@ -20,7 +45,7 @@ export interface OverviewItem {
   lineCode: string | null;
   lineName: string | null;
   spec: { lsl: number | null; usl: number | null; target: number | null } | null;
-  latest: { lotNumber: string; producedAt: string; location: number; outOfSpec: boolean; index: number } | null;
+  latest: { lotNumber: string; producedAt: string; location: number; n: number; outOfSpec: boolean } | null;
   controlState: ControlState;
   /** Rule signals among the period's points (not excluded). */
   signals: number;
@@ -30,10 +55,13 @@ export interface OverviewItem {
   /** Alarms of the nightly run still open (not acknowledged or closed). */
   openAlarms: number;
   limitsSource: 'trial' | 'frozen' | null;
+  /** Cpk of the period, unrounded; null without a specification or with too few lots (capabilityEnough). */
   cpk: number | null;
   cpkCi95: [number, number] | null;
   capabilityPreliminary: boolean;
-  /** The period's most recent locations (oldest first) for the trend line, with their rule flags. */
+  /** Whether the period has lots enough for capability at all; when not, the card says so. */
+  capabilityEnough: boolean;
+  /** The period's points (oldest first, in at most TREND_POINTS groups) for the trend line, with their flags. */
   trend: { location: number; signal: boolean; outOfSpec: boolean }[];
   /** Why the item needs attention, in plain words; empty when it does not. */
   attention: string[];

@@ -1,6 +1,7 @@
 // The overview and the chart page in a real browser against the seeded demo plant: the quality
 // manager finds the flow of HV Level 25 with its limits recalculated after the new sand source, reads
 // a rule in the tooltip, opens a lot, excludes a point and freezes limits from a baseline before it.
+import { readFileSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { describe, expect } from 'vitest';
 import type { APIRequestContext, Locator, Page } from 'playwright-core';
@@ -11,8 +12,9 @@ import type { Overview } from '@shared/schemas/overview';
 
 const it = browserTest({ viewport: { width: 1600, height: 1000 }, timeout: 15_000 });
 
-async function chartJson(request: APIRequestContext, id: number): Promise<CharacteristicChart> {
-  const res = await request.get(`${baseUrl()}/api/v1/characteristics/${id}/chart`);
+/** The chart as the API gives it: by default the period since the limits in force apply, as the page opens. */
+async function chartJson(request: APIRequestContext, id: number, query = ''): Promise<CharacteristicChart> {
+  const res = await request.get(`${baseUrl()}/api/v1/characteristics/${id}/chart${query}`);
   expect(res.status()).toBe(200);
   return (await res.json()) as CharacteristicChart;
 }
@@ -74,17 +76,19 @@ describe('overview and control charts', () => {
     expect(await page.getByTestId('signal-count').textContent()).toContain(`${chart.violations.length} signal`);
     const newest = chart.violations.reduce((a, b) => (b.index > a.index ? b : a));
     const newestPoint = chart.points[newest.index];
-    await signals.getByRole('button', { name: `Show point ${newest.index + 1} on the chart` }).click();
+    await signals.getByRole('button', { name: `Show lot ${newestPoint.lotNumber} on the chart` }).click();
 
     // The tooltip names the lot, the time and shift, every replicate and the rule in words.
     const tip = page.getByTestId('control-chart').getByTestId('point-tooltip');
     await tip.waitFor();
     const tipText = (await tip.textContent()) ?? '';
     expect(tipText).toContain(`Lot ${newestPoint.lotNumber}`);
+    // Named by lot and plant time, never by a position that changes with the period shown.
+    expect(tipText).not.toMatch(/Point \d/);
     expect(tipText).toContain(`Replicates (2): ${newestPoint.values.map((v) => v.toFixed(0)).join(' · ')} mm`);
     expect(tipText).toMatch(/Early shift|Late shift|Night shift/);
     expect(tipText).toContain(ruleDescriptions[newest.rule]);
-    expect(await page.getByTestId('selected-point').textContent()).toContain(`Point ${newest.index + 1} · lot ${newestPoint.lotNumber}`);
+    expect(await page.getByTestId('selected-point').textContent()).toContain(`Lot ${newestPoint.lotNumber} · `);
     await partShot(page.locator('#chart-section'), 'charts-control-chart-tooltip');
     await screenshot(page, 'charts-chart-page');
 
@@ -92,7 +96,7 @@ describe('overview and control charts', () => {
     await page.getByTestId('control-chart').focus();
     await page.keyboard.press('End');
     const last = chart.points.at(-1)!;
-    await page.getByTestId('selected-point').getByText(`Point ${last.index + 1} · lot ${last.lotNumber}`).waitFor();
+    await page.getByTestId('selected-point').getByText(`Lot ${last.lotNumber} · `).waitFor();
     await page.keyboard.press('Enter');
     const lotDialog = page.getByRole('dialog', { name: `Lot ${last.lotNumber}` });
     await lotDialog.waitFor();
@@ -102,6 +106,56 @@ describe('overview and control charts', () => {
     await partShot(lotDialog, 'charts-lot-details');
     await lotDialog.getByRole('button', { name: 'Close' }).click();
     await lotDialog.waitFor({ state: 'detached' });
+  });
+
+  it('opens on the period since the limits in force, and an alarm link to an old lot on a period that holds it', async ({ page }) => {
+    await signIn(page, 'quality_manager');
+    await pageHeading(page, 'Plant overview').waitFor();
+    // The latest lot on a card links to its lot page.
+    const overview = (await (await page.request.get(`${baseUrl()}/api/v1/overview?days=30`)).json()) as Overview;
+    const latest = overview.items.find((i) => i.code === 'HVL25-FLOW')!.latest!;
+    const tile = page.getByTestId('tile-HVL25-FLOW');
+    expect(await tile.getByRole('link', { name: latest.lotNumber }).getAttribute('href')).toBe(`/results/lots/${encodeURIComponent(latest.lotNumber)}`);
+    await page.setViewportSize({ width: 1280, height: 1000 });
+    await page.screenshot({ path: resolve(import.meta.dirname, '..', '..', 'test-artifacts', 'charts-overview-1280.png') });
+    await page.setViewportSize({ width: 800, height: 1000 });
+    await page.screenshot({ path: resolve(import.meta.dirname, '..', '..', 'test-artifacts', 'charts-overview-800.png') });
+    await page.setViewportSize({ width: 1280, height: 1000 });
+
+    await page.goto(`${baseUrl()}/charts`);
+    await pageHeading(page, 'Control charts').waitFor();
+    await page.getByRole('link', { name: /^flow diameter X̄/ }).first().click();
+    await pageHeading(page, 'HV Level 25 · flow diameter').waitFor();
+    await chartDrawn(page);
+    const id = Number(new URL(page.url()).pathname.split('/').pop());
+    const current = await chartJson(page.request, id);
+    const all = await chartJson(page.request, id, '?period=all');
+    // The default period starts where the limits in force apply: no lot from before the process change.
+    expect(current.window.period).toBe('limits');
+    expect(await page.getByLabel('Period').inputValue()).toBe('limits');
+    await page.getByText(`${current.points.length} points`, { exact: true }).waitFor();
+    expect(current.points.length).toBeLessThan(all.points.length);
+    // The zone is named once on the page.
+    expect(await page.getByText(/^Times are plant time \(Europe\/London, (GMT|BST)\)/).count()).toBe(1);
+    await partShot(page.locator('#chart-section'), 'charts-default-period-1280');
+
+    // The oldest lot, as an alarm links to it: a longer period opens with the lot selected and its details shown.
+    const oldest = all.points[0];
+    await page.goto(`${baseUrl()}/charts/${id}?lot=${encodeURIComponent(oldest.lotNumber)}`);
+    await chartDrawn(page);
+    expect(await page.getByLabel('Period').inputValue()).not.toBe('limits');
+    const panel = page.getByTestId('selected-point');
+    await panel.getByText(`Lot ${oldest.lotNumber} · `).waitFor();
+    await page.getByTestId('control-chart').getByTestId('point-tooltip').getByText(`Lot ${oldest.lotNumber}`).waitFor();
+    await partShot(page.locator('#chart-section'), 'charts-linked-old-lot-1280');
+    // The lot page is one click from the point.
+    await panel.getByRole('link', { name: 'Lot page' }).click();
+    await page.waitForURL(`**/results/lots/${encodeURIComponent(oldest.lotNumber)}`);
+    await page.setViewportSize({ width: 800, height: 1000 });
+    await page.goto(`${baseUrl()}/charts/${id}`);
+    await chartDrawn(page);
+    await partShot(page.locator('#chart-section'), 'charts-default-period-800');
+    await page.setViewportSize({ width: 1600, height: 1000 });
   });
 
   it('lets the quality manager exclude a point with a reason and freeze limits from a baseline', async ({ page }) => {
@@ -116,12 +170,12 @@ describe('overview and control charts', () => {
     const before = await chartJson(page.request, id);
     expect(before.limits.source).toBe('frozen');
 
-    // The lot with the widest range, opened the way an alarm e-mail links to it.
+    // The lot with the widest range, opened the way an alarm links to it: by its lot number.
     const widest = before.points.filter((p) => !p.excluded).reduce((a, b) => ((b.dispersion ?? 0) > (a.dispersion ?? 0) ? b : a));
-    await page.goto(`${baseUrl()}/charts/${id}?point=${widest.index}`);
+    await page.goto(`${baseUrl()}/charts/${id}?lot=${encodeURIComponent(widest.lotNumber)}`);
     await chartDrawn(page);
     const selectedPanel = page.getByTestId('selected-point');
-    await selectedPanel.getByText(`Point ${widest.index + 1} · lot ${widest.lotNumber}`).waitFor();
+    await selectedPanel.getByText(`Lot ${widest.lotNumber} · `).waitFor();
     await page.getByTestId('control-chart').getByTestId('point-tooltip').getByText(`Lot ${widest.lotNumber}`).waitFor();
     const uclShown = page.getByTestId('limit-ucl');
     expect(await uclShown.textContent()).toBe(before.limits.location.ucl!.toFixed(2));
@@ -143,9 +197,16 @@ describe('overview and control charts', () => {
     expect(await selectedPanel.textContent()).toContain(`excluded from the limits: ${reason}`);
 
     // Freeze from the weeks before the new sand source: the lots after it then stand out against them.
-    const sand = after.events.find((e) => e.title === 'New sand source')!;
+    // Those weeks lie before the limits in force, so the whole history is one choice away.
+    await page.getByLabel('Period').selectOption('all');
+    await page.waitForURL(/period=all/);
+    const history = await chartJson(page.request, id, '?period=all');
+    const sand = history.events.find((e) => e.title === 'New sand source')!;
     const sandMs = Date.parse(sand.occurredAt);
-    const baseline = after.points.filter((p) => Date.parse(p.producedAt) < sandMs && Date.parse(p.producedAt) >= sandMs - 45 * 86_400_000);
+    const baseline = history.points.filter((p) => Date.parse(p.producedAt) < sandMs && Date.parse(p.producedAt) >= sandMs - 45 * 86_400_000);
+    await page.getByText(`${history.points.length} points`, { exact: true }).waitFor();
+    // The selected lot stays selected in the longer period: it is known by its lot, not its position.
+    await selectedPanel.getByText(`Lot ${widest.lotNumber} · `).waitFor();
     await page.getByRole('button', { name: 'Freeze limits…' }).click();
     const freeze = page.getByRole('dialog', { name: 'Freeze control limits' });
     await freeze.getByLabel('Baseline from').fill(plantInput(baseline[0].producedAt));
@@ -160,9 +221,9 @@ describe('overview and control charts', () => {
     expect(frozen.limits).toMatchObject({ source: 'frozen', reason: why, frozenBy: 'Demo Quality Manager' });
     await page.getByTestId('limits-source').getByText(why, { exact: false }).waitFor();
     expect(await page.getByTestId('limit-ucl').textContent()).toBe(frozen.limits.location.ucl!.toFixed(2));
-    const history = page.getByRole('region', { name: 'Limit revisions' });
-    await history.getByText(why).waitFor();
-    expect(await history.getByText('In force').count()).toBe(1);
+    const revisions = page.getByRole('region', { name: 'Limit revisions' });
+    await revisions.getByText(why).waitFor();
+    expect(await revisions.getByText('In force').count()).toBe(1);
     // Against the limits of the old sand, the flow after the change is a sustained signal.
     const afterSand = frozen.violations.filter((v) => Date.parse(frozen.points[v.index].producedAt) >= sandMs);
     expect(afterSand.length).toBeGreaterThan(10);
@@ -184,6 +245,12 @@ describe('overview and control charts', () => {
     await page.getByRole('button', { name: 'Download CSV' }).click();
     const file = await download;
     expect(file.suggestedFilename()).toMatch(/-DENS-chart-points\.csv$/);
+    // Plant-time stamps with their offset, figures to the characteristic decimals, no floating-point noise.
+    const csv = readFileSync((await file.path())!, 'utf8');
+    const [header, first] = csv.split('\r\n');
+    expect(header.startsWith('lot,produced_at,')).toBe(true);
+    expect(first.split(',')[1]).toMatch(/^\d{4}-\d\d-\d\dT\d\d:\d\d:00\+0[01]:00$/);
+    expect(csv).not.toMatch(/\d\.\d{5,}/);
     await partShot(page.getByRole('region', { name: 'Capability' }), 'charts-capability');
     await page.setViewportSize({ width: 820, height: 1180 });
     await page.getByTestId('control-chart').scrollIntoViewIfNeeded();

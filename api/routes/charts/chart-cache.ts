@@ -39,7 +39,7 @@ interface Entry {
   points: number;
 }
 
-const windowKey = (id: number, w: ChartWindow) => `${id}|${w.from?.toISOString() ?? ''}|${w.to?.toISOString() ?? ''}`;
+const windowKey = (id: number, w: ChartWindow) => `${id}|${w.period ?? ''}|${w.from?.toISOString() ?? ''}|${w.to?.toISOString() ?? ''}`;
 
 export class ChartCache {
   private readonly entries = new Map<string, Entry>();

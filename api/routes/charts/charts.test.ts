@@ -7,12 +7,16 @@ import { desc, eq } from 'drizzle-orm';
 import { mean as ssMean, sampleStandardDeviation } from 'simple-statistics';
 import { createTestApi } from '@tests/support/api';
 import { isDemoCode } from '@tests/support/catalogue';
+import { createTestCharacteristic, removeTestCharacteristics, testDay, testPair } from '@tests/support/plant';
 import { characteristics, spcRunItems, spcRuns } from '@api/db/schema';
 import type { CharacteristicChart, ChartPointRecord, LimitRevisionRecord } from '@shared/schemas/charts';
 import type { Role } from '@shared/schemas/users';
 
 const api = createTestApi();
-afterAll(() => api.close());
+afterAll(async () => {
+  await removeTestCharacteristics(api.db);
+  await api.close();
+});
 
 const as = async (role: Role) => ({ authorization: `Bearer ${await api.tokenFor(role)}` });
 
@@ -33,7 +37,7 @@ const idOf = (code: string) => {
   return id;
 };
 
-async function chartOf(code: string, role: Role = 'auditor', query = ''): Promise<CharacteristicChart> {
+async function chartOf(code: string, role: Role = 'auditor', query = '?period=all'): Promise<CharacteristicChart> {
   const res = await request(api.app).get(`/api/v1/characteristics/${idOf(code)}/chart${query}`).set(await as(role));
   expect(res.status).toBe(200);
   return res.body as CharacteristicChart;
@@ -147,6 +151,50 @@ describe('GET /api/v1/characteristics/:id/chart', () => {
     expect(Math.abs(inForce.locationUcl - (average(x) + 2.66 * mrBar))).toBeLessThan(0.05);
   });
 
+  it('opens on the period since the limits in force apply, with all history one choice away', async () => {
+    // HVL25-FLOW's limits were recalculated from the new level after the sand source changed (demo scenario).
+    const [inForce] = await revisionsOf('HVL25-FLOW');
+    const start = Date.parse(inForce.baselineFrom);
+    const all = await chartOf('HVL25-FLOW');
+    const byDefault = await chartOf('HVL25-FLOW', 'auditor', '');
+    expect(byDefault.window).toEqual({ period: 'limits', from: inForce.baselineFrom, to: null, limitsFrom: inForce.baselineFrom });
+    const since = all.points.filter((p) => Date.parse(p.producedAt) >= start);
+    expect(since.length).toBeGreaterThan(20);
+    expect(byDefault.points.map((p) => p.lotNumber)).toEqual(since.map((p) => p.lotNumber));
+    // No point of the default period is judged by the limits of before the change.
+    for (const p of byDefault.points) expect(p.center).toBe(inForce.center);
+    expect(all.window).toMatchObject({ period: 'all', from: null, limitsFrom: inForce.baselineFrom });
+    expect(all.points.length).toBeGreaterThan(byDefault.points.length);
+    // A characteristic under trial limits has no such period: its default is all history, and says so.
+    const t = await createTestCharacteristic(api.db, { chartType: 'xbar-r', subgroupSize: 2 });
+    for (let i = 0; i < 3; i++) await t.addLot(`T${i}`, testDay(i), testPair(i));
+    const trial = await request(api.app).get(`/api/v1/characteristics/${t.characteristicId}/chart`).set(await as('auditor'));
+    expect(trial.body.limits.source).toBe('trial');
+    expect(trial.body.points).toHaveLength(3);
+    expect(trial.body.window).toEqual({ period: 'all', from: null, to: null, limitsFrom: null });
+    // Later tests here count the demo plant's characteristics.
+    await removeTestCharacteristics(api.db);
+  });
+
+  it('opens a linked lot in the first period that holds it, by its lot number', async () => {
+    const [inForce] = await revisionsOf('HVL25-FLOW');
+    const all = await chartOf('HVL25-FLOW');
+    const newest = all.points.at(-1)!;
+    const recent = await chartOf('HVL25-FLOW', 'auditor', `?lot=${encodeURIComponent(newest.lotNumber)}`);
+    expect(recent.window.period).toBe('limits');
+    // The oldest lot lies before the change: the period that holds it is a longer one, and the lot is on it.
+    const oldest = all.points[0];
+    expect(Date.parse(oldest.producedAt)).toBeLessThan(Date.parse(inForce.baselineFrom));
+    const linked = await chartOf('HVL25-FLOW', 'auditor', `?lot=${encodeURIComponent(oldest.lotNumber)}`);
+    expect(linked.window.period).not.toBe('limits');
+    const shown = linked.points.find((p) => p.lotNumber === oldest.lotNumber);
+    expect(shown).toMatchObject({ producedAt: oldest.producedAt, values: oldest.values });
+    if (linked.window.from) expect(Date.parse(linked.window.from)).toBeLessThanOrEqual(Date.parse(oldest.producedAt));
+    // An explicit period wins over the lot; an unknown lot opens the default period.
+    expect((await chartOf('HVL25-FLOW', 'auditor', `?period=30&lot=${encodeURIComponent(oldest.lotNumber)}`)).window.period).toBe('30');
+    expect((await chartOf('HVL25-FLOW', 'auditor', '?lot=NO-SUCH-LOT')).window.period).toBe('limits');
+  });
+
   it('refuses unknown characteristics and unreadable dates in plain words', async () => {
     const h = await as('auditor');
     const missing = await request(api.app).get('/api/v1/characteristics/999999/chart').set(h);
@@ -155,6 +203,13 @@ describe('GET /api/v1/characteristics/:id/chart', () => {
     const bad = await request(api.app).get(`/api/v1/characteristics/${idOf('HVL25-FLOW')}/chart?from=yesterday-ish`).set(h);
     expect(bad.status).toBe(400);
     expect(bad.body.error).toBe('from: Enter a valid date');
+    const url = `/api/v1/characteristics/${idOf('HVL25-FLOW')}/chart`;
+    const nul = await request(api.app).get(`${url}?lot=L1%00`).set(h);
+    expect(nul.status).toBe(400);
+    expect(nul.body.error).toBe('lot: A lot number has no control characters');
+    expect((await request(api.app).get(`${url}?lot=${'9'.repeat(65)}`).set(h)).status).toBe(400);
+    expect((await request(api.app).get(`${url}?period=week`).set(h)).body.error).toMatch(/^period: period must be one of limits, 30, 90, 182, all/);
+    expect((await request(api.app).get(`${url}?period=30&from=2026-01-01`).set(h)).status).toBe(400);
     const unsigned = await request(api.app).get(`/api/v1/characteristics/${idOf('HVL25-FLOW')}/chart`);
     expect(unsigned.status).toBe(401);
   });

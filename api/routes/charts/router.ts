@@ -3,7 +3,7 @@ import { eq } from 'drizzle-orm';
 import type { Database } from '@api/db/client';
 import { characteristics } from '@api/db/schema';
 import { excludePoint, freezeLimits, includePoint } from '@api/spc/chart-commands';
-import { limitRevisions, type LimitRevision } from '@api/spc/chart-load';
+import { limitRevisions, resolveChartWindow, type LimitRevision } from '@api/spc/chart-load';
 import type { ResultsChanged } from '@api/spc/results-changed';
 import { notFound, parseBody } from '@api/http/errors';
 import { requirePermission, requireSession } from '@api/auth/session';
@@ -46,7 +46,7 @@ export function chartsRouter(db: Database, resultsChanged: ResultsChanged): Rout
 
   router.get('/:id/chart', async (req, res) => {
     const { id } = parseBody(characteristicParamsSchema, req.params);
-    const window = parseBody(chartQuerySchema, req.query);
+    const window = await resolveChartWindow(db, id, parseBody(chartQuerySchema, req.query));
     const cached = await cache.get(id, window);
     // The version tag lets a browser that already holds this state of the chart revalidate for free.
     res.set({ 'Content-Type': 'application/json; charset=utf-8', 'Cache-Control': 'private, no-cache', ETag: cached.etag, Vary: 'Accept-Encoding' });

@@ -117,6 +117,26 @@ describe('GET /api/v1/overview', () => {
     }
   });
 
+  it('never contradicts itself on a card: every signal on the trend, no "in control" beside an open alarm, no interval from one lot', async () => {
+    for (const days of [30, 182]) {
+      const body = await overview(`?days=${days}`);
+      const demo = body.items.filter((i) => isDemoCode(i.code));
+      for (const i of demo) {
+        const where = `${i.code}, ${days} days`;
+        expect(i.trend.some((t) => t.signal), where).toBe(i.signals > 0);
+        expect(i.trend.some((t) => t.outOfSpec), where).toBe(i.outOfSpecCount > 0);
+        if (i.openAlarms > 0) expect(i.controlState, where).not.toBe('in-control');
+        if (i.pointsInPeriod < 2) expect([i.cpk, i.cpkCi95, i.capabilityEnough], where).toEqual([null, null, false]);
+        // What is printed is what was compared: the printed index is below the printed limit.
+        for (const a of i.attention) {
+          const m = /^Cpk (\S+) is below (\S+)$/.exec(a);
+          if (m) expect(Number(m[1]), `${where}: ${a}`).toBeLessThan(Number(m[2]));
+        }
+      }
+      expect(demo.some((i) => i.controlState === 'alarms-open' || i.openAlarms === 0)).toBe(true);
+    }
+  });
+
   it('refuses a period it does not offer', async () => {
     const res = await request(api.app).get('/api/v1/overview?days=5').set(await as('auditor'));
     expect(res.status).toBe(400);

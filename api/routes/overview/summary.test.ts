@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import type { CharacteristicChart, ChartPointRecord } from '@shared/schemas/charts';
+import { indexBelow } from '@shared/schemas/overview';
 import { summarise, TREND_POINTS, type OverviewBase } from './summary';
 
 const base: OverviewBase = { id: 1, code: 'T-FLOW', name: 'Test · flow', unit: 'mm', decimals: 0, chartType: 'xbar-r', productCode: 'T', productName: 'Test', productFamily: 'levelling', lineCode: 'L1', lineName: 'Line 1' };
@@ -13,13 +14,14 @@ function chart(count: number, opts: { violationsAt?: number[]; outOfSpecAt?: num
     outOfSpec: (opts.outOfSpecAt ?? []).includes(i), rules: [],
   }));
   return {
+    window: { period: 'all', from: null, to: null, limitsFrom: null },
     characteristic: {} as CharacteristicChart['characteristic'],
     spec: { lsl: 135, usl: 155, target: 145, revision: 1 },
     limits: { source: opts.source ?? 'trial', location: { center: 145, ucl: opts.ucl === undefined ? 149 : opts.ucl, lcl: opts.ucl === null ? null : 141, sigma: 1 } } as CharacteristicChart['limits'],
     points,
     violations: (opts.violationsAt ?? []).map((index) => ({ rule: 'we1', chart: 'location', index, points: [index], description: 'x' })),
     events: [],
-    capability: opts.cpk === undefined ? null : ({ cpk: opts.cpk, cpkCi95: opts.cpk === null ? null : [opts.cpk - 0.1, opts.cpk + 0.1], preliminary: false } as CharacteristicChart['capability']),
+    capability: opts.cpk === undefined ? null : ({ cpk: opts.cpk, cpkCi95: opts.cpk === null ? null : [opts.cpk - 0.1, opts.cpk + 0.1], preliminary: false, subgroupCount: count } as CharacteristicChart['capability']),
     reasons: [],
   };
 }
@@ -62,5 +64,44 @@ describe('overview summary of one characteristic', () => {
     expect(item.trend).toHaveLength(Math.min(30, TREND_POINTS));
     expect(item.trend.at(-1)).toEqual({ location: 145, signal: true, outOfSpec: false });
     expect(item.trend.at(-2)).toEqual({ location: 145, signal: false, outOfSpec: true });
+  });
+
+  it('compares Cpk unrounded and prints it to the decimals that show what was compared', () => {
+    // Common practice: 1.33 for a capable process, 1.00 the minimum.
+    expect(summarise(base, chart(100), chart(30, { cpk: 1.3271 }), from, 0).attention).toEqual(['Cpk 1.327 is below 1.33']);
+    expect(summarise(base, chart(100), chart(30, { cpk: 0.99995 }), from, 0).attention).toEqual(['Cpk 0.99995 is below 1.00']);
+    expect(summarise(base, chart(100), chart(30, { cpk: 1.33 }), from, 0).attention).toEqual([]);
+    expect(summarise(base, chart(100), chart(30, { cpk: 1.2 }), from, 0).attention).toEqual(['Cpk 1.20 is below 1.33']);
+    expect(indexBelow(1.32999, 1.33)).toBe('1.32999');
+    expect(indexBelow(1.32999999, 1.33)).toBe('1.329999');
+  });
+
+  it('never says "in control" beside an open alarm', () => {
+    const item = summarise(base, chart(100), chart(30, { cpk: 1.5 }), from, 1);
+    expect(item.controlState).toBe('alarms-open');
+    expect(item.attention).toEqual(['1 open alarm']);
+    expect(summarise(base, chart(100), chart(30, { cpk: 1.5 }), from, 0).controlState).toBe('in-control');
+    // A signal in the period still reads as a signal.
+    expect(summarise(base, chart(100, { violationsAt: [99] }), chart(30, { cpk: 1.5 }), from, 1).controlState).toBe('signal');
+  });
+
+  it('gives no capability, and no interval, from a single lot', () => {
+    const one = summarise(base, chart(100), chart(1, { cpk: 2.4 }), from, 0);
+    expect(one).toMatchObject({ cpk: null, cpkCi95: null, capabilityEnough: false });
+    const two = summarise(base, chart(100), chart(2, { cpk: 0.6 }), from, 0);
+    expect(two).toMatchObject({ cpk: 0.6, capabilityEnough: true, attention: ['Cpk 0.60 is below 1.00'] });
+    expect(two.cpkCi95).toEqual([0.5, 0.7]);
+  });
+
+  it('marks on the trend every signal and every lot outside the specification that the card counts, however long the period', () => {
+    const long = new Date(end - 299.5 * day);
+    const item = summarise(base, chart(300, { violationsAt: [5, 150, 151], outOfSpecAt: [200] }), chart(300), long, 0);
+    expect(item.signals).toBe(3);
+    expect(item.outOfSpecCount).toBe(1);
+    expect(item.trend.length).toBeLessThanOrEqual(TREND_POINTS);
+    // 150 and 151 may share a group; 5 and 150 cannot.
+    expect(item.trend.filter((t) => t.signal).length).toBeGreaterThanOrEqual(2);
+    expect(item.trend.filter((t) => t.outOfSpec)).toHaveLength(1);
+    expect(item.trend.slice(0, 2).map((t) => t.signal)).toEqual([false, true]);
   });
 });

@@ -1,14 +1,18 @@
 import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { http } from '@web/lib/http';
-import { chartKeys, overviewKeys, type ChartRange } from '@web/lib/query-keys';
+import { chartKeys, overviewKeys } from '@web/lib/query-keys';
+import type { CharacteristicChart, ChartPeriod, ExcludePointInput, IncludePointInput, LimitRevisionRecord } from '@shared/schemas/charts';
 
-export type { ChartRange };
-import type { CharacteristicChart, ExcludePointInput, IncludePointInput, LimitRevisionRecord } from '@shared/schemas/charts';
+/** What the chart page asks for: a period, or a lot to open the chart at (the server picks the period). */
+export interface ChartQuery {
+  period?: ChartPeriod;
+  lot?: string;
+}
 
-export function fetchChart(id: number, range: ChartRange, signal?: AbortSignal): Promise<CharacteristicChart> {
+export function fetchChart(id: number, request: ChartQuery, signal?: AbortSignal): Promise<CharacteristicChart> {
   const params = new URLSearchParams();
-  if (range.from) params.set('from', range.from);
-  if (range.to) params.set('to', range.to);
+  if (request.period) params.set('period', request.period);
+  if (request.lot) params.set('lot', request.lot);
   const query = params.size ? `?${params}` : '';
   return http<CharacteristicChart>(`/api/v1/characteristics/${id}/chart${query}`, { signal });
 }
@@ -36,10 +40,10 @@ export function freezeLimits(id: number, input: FreezeLimitsBody) {
   return http<LimitRevisionRecord>(`/api/v1/characteristics/${id}/limit-revisions`, { method: 'POST', body: input });
 }
 
-export const chartQueryOptions = (id: number, range: ChartRange = {}) =>
+export const chartQueryOptions = (id: number, request: ChartQuery = {}) =>
   queryOptions({
-    queryKey: chartKeys.chart(id, range),
-    queryFn: ({ signal }) => fetchChart(id, range, signal),
+    queryKey: [...chartKeys.characteristic(id), 'chart', request] as const,
+    queryFn: ({ signal }) => fetchChart(id, request, signal),
   });
 
 export const limitRevisionsQueryOptions = (id: number) =>
@@ -49,8 +53,8 @@ export const limitRevisionsQueryOptions = (id: number) =>
   });
 
 /** A changed period keeps the previous chart on screen until the new one arrives. */
-export function useChart(id: number, range: ChartRange) {
-  return useQuery({ ...chartQueryOptions(id, range), placeholderData: keepPreviousData });
+export function useChart(id: number, request: ChartQuery) {
+  return useQuery({ ...chartQueryOptions(id, request), placeholderData: keepPreviousData });
 }
 
 export function useLimitRevisions(id: number) {

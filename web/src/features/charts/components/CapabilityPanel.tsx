@@ -1,9 +1,10 @@
 import { useMemo } from 'react';
+import { formatFigure } from '@shared/figures';
 // The ES module build of the core component: the CommonJS one under lib/ reaches the bundle as a module object.
 import ReactEChartsCore from 'echarts-for-react/esm/core';
 import { echarts } from '../lib/echarts';
 import { buildCapabilityOption } from '../lib/capability-option';
-import { figure, indexFigure } from '@web/lib/chart-format';
+import { indexFigure } from '@web/lib/chart-format';
 import type { CharacteristicChart } from '@shared/schemas/charts';
 import type { Interval } from '@shared/spc';
 import { Badge } from '@web/components/ui/Badge';
@@ -56,8 +57,8 @@ export function CapabilityPanel({ chart }: { chart: CharacteristicChart }) {
         <div className="flex flex-wrap items-center gap-2">
           {cap.preliminary ? <Badge tone="warning">Preliminary</Badge> : <Badge tone="neutral">{cap.subgroupCount} subgroups</Badge>}
           <span className="figures text-sm text-zinc-600">
-            n = <span className="font-mono">{cap.n}</span> · mean <span className="font-mono">{figure(cap.mean, decimals + 1)}</span> · σ within{' '}
-            <span className="font-mono">{figure(cap.sigmaWithin, decimals + 2)}</span> · σ overall <span className="font-mono">{figure(cap.sigmaOverall, decimals + 2)}</span> {unit}
+            n = <span className="font-mono">{cap.n}</span> · mean <span className="font-mono">{formatFigure(cap.mean, decimals + 1)}</span> · σ within{' '}
+            <span className="font-mono">{formatFigure(cap.sigmaWithin, decimals + 2)}</span> · σ overall <span className="font-mono">{formatFigure(cap.sigmaOverall, decimals + 2)}</span> {unit}
           </span>
         </div>
         <table className="w-full text-left">
@@ -97,7 +98,7 @@ export function CapabilityPanel({ chart }: { chart: CharacteristicChart }) {
             ) : (
               <>
                 <span className="font-mono">
-                  A² {figure(normality.statistic, 3)}, p {normality.p < 0.001 ? '< 0.001' : figure(normality.p, 3)}
+                  A² {formatFigure(normality.statistic, 3)}, p {normality.p < 0.001 ? '< 0.001' : formatFigure(normality.p, 3)}
                 </span>{' '}
                 — {normality.p < 0.05 ? 'does not look normal' : 'no evidence against normal'}
               </>

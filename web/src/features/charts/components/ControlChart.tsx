@@ -3,8 +3,9 @@ import { useCallback, useEffect, useLayoutEffect, useMemo, useRef, useState, typ
 import ReactEChartsCore from 'echarts-for-react/esm/core';
 import type { EChartsType } from 'echarts/core';
 import { echarts } from '../lib/echarts';
-import { buildControlChartOption, indexChart, markerSets, nearestPoint, SELECTED_SERIES_ID, thinMarkers, type ChartIndex, type MarkerSets } from '../lib/control-chart-option';
+import { buildControlChartOption, edgeLabelSeries, indexChart, markerSets, nearestPoint, SELECTED_SERIES_ID, thinMarkers, type ChartIndex, type MarkerSets } from '../lib/control-chart-option';
 import type { CharacteristicChart, ChartPointRecord } from '@shared/schemas/charts';
+import type { PlantClock } from '@shared/time';
 
 export interface ZoomWindow {
   /** First and last point index in view. */
@@ -14,8 +15,8 @@ export interface ZoomWindow {
 
 interface ControlChartProps {
   chart: CharacteristicChart;
-  /** The plant's time zone, in which production times are shown. */
-  timeZone: string;
+  /** The plant's clock, in which production times are shown. */
+  clock: PlantClock;
   /** Index of the selected point, or null. */
   selected: number | null;
   onSelect: (index: number) => void;
@@ -55,9 +56,9 @@ function zoomFromEvent(event: ZoomEvent, index: ChartIndex): ZoomWindow {
  * chart focused, ← and → step from point to point (Page Up / Page Down by ten, Home / End to the
  * ends), Enter opens the lot of the selected point.
  */
-export function ControlChart({ chart, timeZone, selected, onSelect, onOpen, onZoom, revealRequest = 0, className }: ControlChartProps) {
+export function ControlChart({ chart, clock, selected, onSelect, onOpen, onZoom, revealRequest = 0, className }: ControlChartProps) {
   const index = useMemo(() => indexChart(chart), [chart]);
-  const option = useMemo(() => buildControlChartOption(chart, timeZone, index), [chart, timeZone, index]);
+  const option = useMemo(() => buildControlChartOption(chart, clock, index), [chart, clock, index]);
   const instance = useRef<EChartsType | null>(null);
   const [ready, setReady] = useState(0);
   const positionOf = useMemo(() => new Map(chart.points.map((p, i) => [p.index, i])), [chart]);
@@ -110,13 +111,20 @@ export function ControlChart({ chart, timeZone, selected, onSelect, onOpen, onZo
     if (chartInstance && view && view.first >= index.first && view.last <= index.last) chartInstance.dispatchAction({ type: 'dataZoom', startValue: view.first - 0.5, endValue: view.last + 0.5 });
   }, [option, index, ready]);
 
+  // Each request is served once, when the chart is drawn and the point known: a later click on another
+  // point selects it without moving the view.
+  const revealed = useRef(0);
   useEffect(() => {
-    if (revealRequest === 0 || selected === null) return;
+    if (revealRequest === revealed.current || selected === null || ready === 0) return;
     const p = index.byIndex.get(selected);
     if (!p) return;
     bringIntoView(p, true);
-    // The zoom redraws first; the tooltip then finds the point where it now lies.
-    const timer = window.setTimeout(() => showTipAt(p), 80);
+    // The zoom redraws first; the tooltip then finds the point where it now lies. The request counts as
+    // served only then: a render in between runs this again.
+    const timer = window.setTimeout(() => {
+      revealed.current = revealRequest;
+      showTipAt(p);
+    }, 80);
     return () => window.clearTimeout(timer);
   }, [revealRequest, ready, selected, index, bringIntoView, showTipAt]);
 
@@ -135,10 +143,11 @@ export function ControlChart({ chart, timeZone, selected, onSelect, onOpen, onZo
       const view = zoomFromEvent(event as ZoomEvent, latest.current.index);
       zoomed.current = view;
       latest.current.onZoom?.(view);
-      // Once the wheel rests, the markers are thinned again for the part in view (all of them when zoomed in).
+      // Once the wheel rests, the markers are thinned again for the part in view (all of them when zoomed in),
+      // and the edge labels name the limits that end at the right of the view.
       window.clearTimeout(rethin.current);
       rethin.current = window.setTimeout(() => {
-        chartInstance.setOption({ series: thinMarkers(latest.current.marks, view.first, view.last) });
+        chartInstance.setOption({ series: [...thinMarkers(latest.current.marks, view.first, view.last), ...edgeLabelSeries(latest.current.chart, view.last)] });
       }, 120);
     });
     setReady((n) => n + 1);

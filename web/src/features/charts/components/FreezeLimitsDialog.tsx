@@ -1,4 +1,5 @@
 import { useForm, type Resolver } from 'react-hook-form';
+import type { PlantClock } from '@shared/time';
 import { freezeLimitsSchema, type CharacteristicChart } from '@shared/schemas/charts';
 import { PHASE_ONE_MIN_POINTS } from '@shared/spc';
 import { parsePlantDateTime } from '@shared/ingest/values';
@@ -44,14 +45,15 @@ const resolverFor =
 
 interface FreezeLimitsDialogProps {
   chart: CharacteristicChart;
-  timeZone: string;
+  clock: PlantClock;
   /** The part of the chart in view: its first and last point make the proposed baseline. */
   view: ZoomWindow | null;
   onClose: () => void;
   onDone: (message: string) => void;
 }
 
-export function FreezeLimitsDialog({ chart, timeZone, view, onClose, onDone }: FreezeLimitsDialogProps) {
+export function FreezeLimitsDialog({ chart, clock, view, onClose, onDone }: FreezeLimitsDialogProps) {
+  const timeZone = clock.timeZone;
   const freeze = useFreezeLimits(chart.characteristic.id);
   const points = chart.points;
   const first = points.find((p) => p.index >= (view?.first ?? -Infinity)) ?? points[0];

@@ -1,13 +1,14 @@
 import { PlainTable } from '@web/components/ui/Table';
+import { formatFigure } from '@shared/figures';
+import { formatPlantDateTime, type PlantClock } from '@shared/time';
 import { useLimitRevisions } from '../api/chart';
 import { Badge } from '@web/components/ui/Badge';
 import { Loading } from '@web/components/ui/Spinner';
 import { ErrorState } from '@web/components/ui/ErrorState';
 import { EmptyState } from '@web/components/ui/EmptyState';
-import { figure, formatDateTime } from '@web/lib/chart-format';
 
 /** Every freeze of this chart's limits: who, when, why and from which baseline. Newest first. */
-export function LimitRevisions({ characteristicId, decimals, timeZone }: { characteristicId: number; decimals: number; timeZone: string }) {
+export function LimitRevisions({ characteristicId, decimals, clock }: { characteristicId: number; decimals: number; clock: PlantClock }) {
   const revisions = useLimitRevisions(characteristicId);
   if (revisions.isPending) return <Loading label="Loading the limit history…" />;
   if (revisions.isError) return <ErrorState title="Could not load the limit history" error={revisions.error} onRetry={() => revisions.refetch()} />;
@@ -22,18 +23,18 @@ export function LimitRevisions({ characteristicId, decimals, timeZone }: { chara
                 <span className="font-mono">{r.revision}</span> {r.supersededAt === null ? <Badge tone="accent">In force</Badge> : <Badge>Replaced</Badge>}
               </td>
               <td className="px-3 py-2 text-sm">
-                <span className="font-mono whitespace-nowrap">{formatDateTime(r.createdAt, timeZone)}</span>
+                <span className="font-mono whitespace-nowrap">{formatPlantDateTime(r.createdAt, clock)}</span>
                 <span className="block text-zinc-600">{r.createdByName ?? 'unknown user'}</span>
               </td>
               <td className="px-3 py-2 text-sm">
-                <span className="font-mono whitespace-nowrap">{formatDateTime(r.baselineFrom, timeZone)}</span> to{' '}
-                <span className="font-mono whitespace-nowrap">{formatDateTime(r.baselineTo, timeZone)}</span>
+                <span className="font-mono whitespace-nowrap">{formatPlantDateTime(r.baselineFrom, clock)}</span> to{' '}
+                <span className="font-mono whitespace-nowrap">{formatPlantDateTime(r.baselineTo, clock)}</span>
                 <span className="block text-zinc-600">{r.baselinePoints} points kept</span>
               </td>
-              <td className="px-3 py-2 text-right font-mono">{figure(r.center, decimals + 1)}</td>
-              <td className="px-3 py-2 text-right font-mono">{figure(r.locationLcl, decimals + 1)}</td>
-              <td className="px-3 py-2 text-right font-mono">{figure(r.locationUcl, decimals + 1)}</td>
-              <td className="px-3 py-2 text-right font-mono">{figure(r.sigmaWithin, decimals + 2)}</td>
+              <td className="px-3 py-2 text-right font-mono">{formatFigure(r.center, decimals + 1)}</td>
+              <td className="px-3 py-2 text-right font-mono">{formatFigure(r.locationLcl, decimals + 1)}</td>
+              <td className="px-3 py-2 text-right font-mono">{formatFigure(r.locationUcl, decimals + 1)}</td>
+              <td className="px-3 py-2 text-right font-mono">{formatFigure(r.sigmaWithin, decimals + 2)}</td>
               <td className="px-3 py-2 text-sm">{r.reason}</td>
             </tr>
           ))}

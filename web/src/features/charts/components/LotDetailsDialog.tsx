@@ -1,11 +1,13 @@
 import { Link } from 'react-router-dom';
-import { useLot, type LotResult } from '@web/lib/lots';
+import { formatFigure } from '@shared/figures';
+import { formatPlantDateTime, type PlantClock } from '@shared/time';
+import { lotPath, useLot, type LotResult } from '@web/lib/lots';
 import { useCharacteristics } from '@web/lib/catalogue';
 import { Dialog } from '@web/components/ui/Dialog';
 import { Loading } from '@web/components/ui/Spinner';
 import { ErrorState } from '@web/components/ui/ErrorState';
 import { Button } from '@web/components/ui/Button';
-import { formatDateTime, shiftName } from '@web/lib/chart-format';
+import { shiftName } from '@web/lib/chart-format';
 
 interface Group {
   code: string;
@@ -32,7 +34,7 @@ function byCharacteristic(results: LotResult[]): Group[] {
 }
 
 /** One lot with all its results across characteristics, each linked to its own chart. */
-export function LotDetailsDialog({ lotNumber, currentCode, timeZone, onClose }: { lotNumber: string; currentCode: string; timeZone: string; onClose: () => void }) {
+export function LotDetailsDialog({ lotNumber, currentCode, clock, onClose }: { lotNumber: string; currentCode: string; clock: PlantClock; onClose: () => void }) {
   const lot = useLot(lotNumber);
   const characteristics = useCharacteristics();
   const idByCode = new Map((characteristics.data ?? []).map((c) => [c.code, c]));
@@ -48,7 +50,7 @@ export function LotDetailsDialog({ lotNumber, currentCode, timeZone, onClose }: 
           <>
             <p className="text-sm text-zinc-700">
               {lot.data.productName} (<span className="font-mono">{lot.data.productCode}</span>) on line <span className="font-mono">{lot.data.lineCode}</span>, produced{' '}
-              <span className="font-mono">{formatDateTime(lot.data.producedAt, timeZone)}</span>, {shiftName(lot.data.shift).toLowerCase()}.
+              <span className="font-mono">{formatPlantDateTime(lot.data.producedAt, clock)}</span>, {shiftName(lot.data.shift).toLowerCase()}.
             </p>
             <ul className="divide-y divide-zinc-100 rounded-md border border-zinc-200" aria-label={`Results of lot ${lotNumber}`}>
               {byCharacteristic(lot.data.results).map((g) => {
@@ -58,7 +60,7 @@ export function LotDetailsDialog({ lotNumber, currentCode, timeZone, onClose }: 
                   <li key={g.code} className={g.code === currentCode ? 'bg-accent-50 px-3 py-2' : 'px-3 py-2'}>
                     <div className="flex flex-wrap items-baseline justify-between gap-x-3">
                       {c && g.code !== currentCode ? (
-                        <Link to={`/charts/${c.id}`} onClick={onClose} className="font-medium text-accent-700 underline underline-offset-2">
+                        <Link to={`/charts/${c.id}?lot=${encodeURIComponent(lotNumber)}`} onClick={onClose} className="font-medium text-accent-700 underline underline-offset-2">
                           {g.name}
                         </Link>
                       ) : (
@@ -68,11 +70,11 @@ export function LotDetailsDialog({ lotNumber, currentCode, timeZone, onClose }: 
                         </span>
                       )}
                       <span className="font-mono text-sm">
-                        {g.values.map((v) => v.toFixed(decimals)).join(' · ')} {g.unit}
+                        {g.values.map((v) => formatFigure(v, decimals)).join(' · ')} {g.unit}
                       </span>
                     </div>
                     <p className="text-sm text-zinc-500">
-                      {g.testedAt ? `Tested ${formatDateTime(g.testedAt, timeZone)}` : 'Test time not recorded'}
+                      {g.testedAt ? `Tested ${formatPlantDateTime(g.testedAt, clock)}` : 'Test time not recorded'}
                       {g.operator ? ` by ${g.operator}` : ''}
                       {g.notes.length ? ` · ${g.notes.join('; ')}` : ''}
                     </p>
@@ -83,10 +85,13 @@ export function LotDetailsDialog({ lotNumber, currentCode, timeZone, onClose }: 
           </>
         )}
       </div>
-      <div className="mt-4">
+      <div className="mt-4 flex flex-wrap items-center gap-3">
         <Button variant="secondary" onClick={onClose}>
           Close
         </Button>
+        <Link to={lotPath(lotNumber)} className="font-medium text-accent-700 underline underline-offset-2">
+          Open the lot page
+        </Link>
       </div>
     </Dialog>
   );

@@ -1,34 +1,35 @@
 import { useForm } from 'react-hook-form';
+import { formatFigure } from '@shared/figures';
+import { formatPlantDateTime, type PlantClock } from '@shared/time';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { excludePointSchema, includePointSchema, type CharacteristicChart, type ChartPointRecord } from '@shared/schemas/charts';
 import { showServerErrors } from '@web/lib/forms';
 import { Dialog } from '@web/components/ui/Dialog';
 import { Alert } from '@web/components/ui/Alert';
 import { useExcludePoint, useIncludePoint } from '../api/chart';
-import { figure, formatDateTime } from '@web/lib/chart-format';
 import { statisticNames } from '@shared/spc';
 import { ReasonAndActions } from './ReasonAndActions';
 
 interface PointDialogProps {
   chart: CharacteristicChart;
   point: ChartPointRecord;
-  timeZone: string;
+  clock: PlantClock;
   onClose: () => void;
   onDone: (message: string) => void;
 }
 
-function PointSummary({ chart, point, timeZone }: Omit<PointDialogProps, 'onClose' | 'onDone'>) {
+function PointSummary({ chart, point, clock }: Omit<PointDialogProps, 'onClose' | 'onDone'>) {
   const { unit, decimals, chartType } = chart.characteristic;
   return (
     <p className="text-sm text-zinc-700">
-      Point {point.index + 1}, lot <span className="font-mono">{point.lotNumber}</span>, produced <span className="font-mono">{formatDateTime(point.producedAt, timeZone)}</span>:{' '}
-      {statisticNames[chartType].location} <span className="font-mono">{figure(point.location, decimals + 1)}</span> {unit}.
+      Lot <span className="font-mono">{point.lotNumber}</span>, produced <span className="font-mono">{formatPlantDateTime(point.producedAt, clock)}</span>:{' '}
+      {statisticNames[chartType].location} <span className="font-mono">{formatFigure(point.location, decimals + 1)}</span> {unit}.
     </p>
   );
 }
 
 /** Leaves a point out of the limit calculation; the reason is the assignable cause and goes to the audit trail. */
-export function ExcludePointDialog({ chart, point, timeZone, onClose, onDone }: PointDialogProps) {
+export function ExcludePointDialog({ chart, point, clock, onClose, onDone }: PointDialogProps) {
   const exclude = useExcludePoint(chart.characteristic.id);
   const form = useForm({ resolver: zodResolver(excludePointSchema), defaultValues: { lotId: point.lotId, reason: '' } });
   const { errors } = form.formState;
@@ -36,7 +37,7 @@ export function ExcludePointDialog({ chart, point, timeZone, onClose, onDone }: 
 
   const onSubmit = form.handleSubmit((input) =>
     exclude.mutate(input, {
-      onSuccess: () => onDone(`Point ${point.index + 1} (lot ${point.lotNumber}) is excluded${frozen ? '; the frozen limits stay as they are until limits are frozen again' : ' and the trial limits were recomputed'}.`),
+      onSuccess: () => onDone(`Lot ${point.lotNumber} is excluded${frozen ? '; the frozen limits stay as they are until limits are frozen again' : ' and the trial limits were recomputed'}.`),
       onError: (error) => {
         showServerErrors(error, form.setError, ['reason']);
       },
@@ -46,7 +47,7 @@ export function ExcludePointDialog({ chart, point, timeZone, onClose, onDone }: 
   return (
     <Dialog title="Exclude the point from the limits" onClose={onClose}>
       <form onSubmit={onSubmit} noValidate className="space-y-4" aria-label="Exclude the point from the limits">
-        <PointSummary chart={chart} point={point} timeZone={timeZone} />
+        <PointSummary chart={chart} point={point} clock={clock} />
         <p className="text-sm text-zinc-600">
           Exclude a point only for an assignable cause that was found and removed. It stays on the chart, marked, and is left out of the
           centre line, the limits and the run rules.
@@ -67,7 +68,7 @@ export function ExcludePointDialog({ chart, point, timeZone, onClose, onDone }: 
 }
 
 /** Takes an excluded point back into the calculation; the exclusion stays on record. */
-export function IncludePointDialog({ chart, point, timeZone, onClose, onDone }: PointDialogProps) {
+export function IncludePointDialog({ chart, point, clock, onClose, onDone }: PointDialogProps) {
   const include = useIncludePoint(chart.characteristic.id);
   const form = useForm({ resolver: zodResolver(includePointSchema), defaultValues: { reason: '' } });
   const { errors } = form.formState;
@@ -76,7 +77,7 @@ export function IncludePointDialog({ chart, point, timeZone, onClose, onDone }: 
     include.mutate(
       { lotId: point.lotId, reason },
       {
-        onSuccess: () => onDone(`Point ${point.index + 1} (lot ${point.lotNumber}) counts towards the limits again.`),
+        onSuccess: () => onDone(`Lot ${point.lotNumber} counts towards the limits again.`),
         onError: (error) => {
           showServerErrors(error, form.setError, ['reason']);
         },
@@ -87,7 +88,7 @@ export function IncludePointDialog({ chart, point, timeZone, onClose, onDone }: 
   return (
     <Dialog title="Take the point back into the limits" onClose={onClose}>
       <form onSubmit={onSubmit} noValidate className="space-y-4" aria-label="Take the point back into the limits">
-        <PointSummary chart={chart} point={point} timeZone={timeZone} />
+        <PointSummary chart={chart} point={point} clock={clock} />
         <p className="text-sm text-zinc-700">
           Excluded because: <q>{point.exclusionReason}</q>
         </p>

@@ -1,4 +1,6 @@
 import { useMemo, useState } from 'react';
+import { formatFigure } from '@shared/figures';
+import { formatPlantDateTime, type PlantClock } from '@shared/time';
 import {
   createColumnHelper,
   getCoreRowModel,
@@ -13,7 +15,7 @@ import { DataTable } from '@web/components/ui/Table';
 import { Badge } from '@web/components/ui/Badge';
 import { Button } from '@web/components/ui/Button';
 import { EmptyState } from '@web/components/ui/EmptyState';
-import { figure, formatDateTime, shiftName } from '@web/lib/chart-format';
+import { shiftName } from '@web/lib/chart-format';
 import { ruleLabels, statisticNames } from '@shared/spc';
 import { downloadText, pointsCsv } from '../lib/points-csv';
 
@@ -22,7 +24,7 @@ const PAGE_SIZE = 25;
 
 interface PointsTableProps {
   chart: CharacteristicChart;
-  timeZone: string;
+  clock: PlantClock;
   canChangeLimits: boolean;
   onReveal: (index: number) => void;
   onOpenLot: (index: number) => void;
@@ -30,15 +32,14 @@ interface PointsTableProps {
   onInclude: (index: number) => void;
 }
 
-export function PointsTable({ chart, timeZone, canChangeLimits, onReveal, onOpenLot, onExclude, onInclude }: PointsTableProps) {
+export function PointsTable({ chart, clock, canChangeLimits, onReveal, onOpenLot, onExclude, onInclude }: PointsTableProps) {
   const { decimals, unit, chartType, subgroupSize } = chart.characteristic;
   const names = statisticNames[chartType];
-  const [sorting, setSorting] = useState<SortingState>([{ id: 'index', desc: true }]);
+  const [sorting, setSorting] = useState<SortingState>([{ id: 'producedAt', desc: true }]);
   const [onlyFlagged, setOnlyFlagged] = useState(false);
 
   const columns = useMemo(
     () => [
-      column.accessor('index', { header: 'Point', cell: (info) => info.getValue() + 1, meta: { numeric: true } }),
       column.accessor('lotNumber', {
         header: 'Lot',
         cell: (info) => (
@@ -55,7 +56,7 @@ export function PointsTable({ chart, timeZone, canChangeLimits, onReveal, onOpen
         header: 'Produced',
         cell: (info) => (
           <span className="font-mono text-sm whitespace-nowrap">
-            {formatDateTime(info.getValue(), timeZone)}
+            {formatPlantDateTime(info.getValue(), clock)}
             <span className="block font-sans text-zinc-500">{shiftName(info.row.original.shift)}</span>
           </span>
         ),
@@ -64,13 +65,13 @@ export function PointsTable({ chart, timeZone, canChangeLimits, onReveal, onOpen
         id: 'values',
         header: `Values (${unit})`,
         enableSorting: false,
-        cell: (info) => <span className="font-mono text-sm">{info.row.original.values.map((v) => v.toFixed(decimals)).join(' · ')}</span>,
+        cell: (info) => <span className="font-mono text-sm">{info.row.original.values.map((v) => formatFigure(v, decimals)).join(' · ')}</span>,
       }),
-      column.accessor('location', { header: names.location, cell: (info) => figure(info.getValue(), decimals + (subgroupSize > 1 ? 1 : 0)), meta: { numeric: true } }),
+      column.accessor('location', { header: names.location, cell: (info) => formatFigure(info.getValue(), decimals + (subgroupSize > 1 ? 1 : 0)), meta: { numeric: true } }),
       column.accessor((p) => p.dispersion ?? -1, {
         id: 'dispersion',
         header: names.dispersion,
-        cell: (info) => figure(info.row.original.dispersion, decimals + 1),
+        cell: (info) => formatFigure(info.row.original.dispersion, decimals + 1),
         meta: { numeric: true },
       }),
       column.accessor((p) => p.rules.length * 4 + (p.outOfSpec ? 2 : 0) + (p.excluded ? 1 : 0), {
@@ -85,16 +86,16 @@ export function PointsTable({ chart, timeZone, canChangeLimits, onReveal, onOpen
           const p = info.row.original;
           return (
             <div className="flex flex-wrap gap-1.5">
-              <Button size="sm" variant="secondary" onClick={() => onReveal(p.index)} aria-label={`Show point ${p.index + 1} on the chart`}>
+              <Button size="sm" variant="secondary" onClick={() => onReveal(p.index)} aria-label={`Show lot ${p.lotNumber} on the chart`}>
                 Show on chart
               </Button>
               {canChangeLimits &&
                 (p.excluded ? (
-                  <Button size="sm" variant="quiet" onClick={() => onInclude(p.index)} aria-label={`Take point ${p.index + 1} back into the limits`}>
+                  <Button size="sm" variant="quiet" onClick={() => onInclude(p.index)} aria-label={`Take lot ${p.lotNumber} back into the limits`}>
                     Take back in
                   </Button>
                 ) : (
-                  <Button size="sm" variant="quiet" onClick={() => onExclude(p.index)} aria-label={`Exclude point ${p.index + 1} from the limits`}>
+                  <Button size="sm" variant="quiet" onClick={() => onExclude(p.index)} aria-label={`Exclude lot ${p.lotNumber} from the limits`}>
                     Exclude
                   </Button>
                 ))}
@@ -103,7 +104,7 @@ export function PointsTable({ chart, timeZone, canChangeLimits, onReveal, onOpen
         },
       }),
     ],
-    [decimals, unit, names, subgroupSize, timeZone, canChangeLimits, onReveal, onOpenLot, onExclude, onInclude],
+    [decimals, unit, names, subgroupSize, clock, canChangeLimits, onReveal, onOpenLot, onExclude, onInclude],
   );
 
   const data = useMemo(() => (onlyFlagged ? chart.points.filter((p) => p.rules.length > 0 || p.outOfSpec || p.excluded) : chart.points), [chart, onlyFlagged]);
@@ -138,7 +139,7 @@ export function PointsTable({ chart, timeZone, canChangeLimits, onReveal, onOpen
           variant="secondary"
           size="sm"
           className="ml-auto"
-          onClick={() => downloadText(pointsCsv(chart), `${chart.characteristic.code}-chart-points.csv`)}
+          onClick={() => downloadText(pointsCsv(chart, clock.timeZone), `${chart.characteristic.code}-chart-points.csv`)}
         >
           Download CSV
         </Button>

@@ -1,12 +1,16 @@
+import { Link } from 'react-router-dom';
 import type { CharacteristicChart } from '@shared/schemas/charts';
+import { formatFigure } from '@shared/figures';
+import { formatPlantDateTime, type PlantClock } from '@shared/time';
 import { Button } from '@web/components/ui/Button';
-import { figure, formatDateTime, shiftName } from '@web/lib/chart-format';
+import { lotPath } from '@web/lib/lots';
+import { shiftName } from '@web/lib/chart-format';
 import { ruleLabels, statisticNames } from '@shared/spc';
 
 interface SelectedPointProps {
   chart: CharacteristicChart;
   index: number | null;
-  timeZone: string;
+  clock: PlantClock;
   canChangeLimits: boolean;
   onOpenLot: (index: number) => void;
   onExclude: (index: number) => void;
@@ -14,7 +18,7 @@ interface SelectedPointProps {
 }
 
 /** The selected point in words (also what a screen reader hears as the selection moves) and what can be done with it. */
-export function SelectedPoint({ chart, index, timeZone, canChangeLimits, onOpenLot, onExclude, onInclude }: SelectedPointProps) {
+export function SelectedPoint({ chart, index, clock, canChangeLimits, onOpenLot, onExclude, onInclude }: SelectedPointProps) {
   const p = index === null ? undefined : chart.points.find((x) => x.index === index);
   const { unit, decimals, chartType } = chart.characteristic;
   const names = statisticNames[chartType];
@@ -26,15 +30,15 @@ export function SelectedPoint({ chart, index, timeZone, canChangeLimits, onOpenL
         ) : (
           <>
             <p className="font-medium">
-              Point {p.index + 1} · lot <span className="font-mono">{p.lotNumber}</span> · <span className="font-mono">{formatDateTime(p.producedAt, timeZone)}</span> ·{' '}
+              Lot <span className="font-mono">{p.lotNumber}</span> · <span className="font-mono">{formatPlantDateTime(p.producedAt, clock)}</span> ·{' '}
               {shiftName(p.shift)}
             </p>
             <p className="text-sm text-zinc-700">
-              Values <span className="font-mono">{p.values.map((v) => v.toFixed(decimals)).join(' · ')}</span> {unit}; {names.location}{' '}
-              <span className="font-mono">{figure(p.location, decimals + 1)}</span>
+              Values <span className="font-mono">{p.values.map((v) => formatFigure(v, decimals)).join(' · ')}</span> {unit}; {names.location}{' '}
+              <span className="font-mono">{formatFigure(p.location, decimals + (p.n > 1 ? 1 : 0))}</span>
               {p.dispersion !== null && (
                 <>
-                  , {names.dispersion} <span className="font-mono">{figure(p.dispersion, decimals + 1)}</span>
+                  , {names.dispersion} <span className="font-mono">{formatFigure(p.dispersion, decimals + 1)}</span>
                 </>
               )}
               {p.outOfSpec && '; outside the specification'}
@@ -49,6 +53,12 @@ export function SelectedPoint({ chart, index, timeZone, canChangeLimits, onOpenL
           <Button size="sm" variant="secondary" onClick={() => onOpenLot(p.index)}>
             Lot details
           </Button>
+          <Link
+            to={lotPath(p.lotNumber)}
+            className="inline-flex h-8 items-center rounded-md border border-zinc-300 bg-white px-3 text-sm font-medium text-zinc-800 hover:bg-zinc-100"
+          >
+            Lot page
+          </Link>
           {canChangeLimits &&
             (p.excluded ? (
               <Button size="sm" variant="secondary" onClick={() => onInclude(p.index)}>

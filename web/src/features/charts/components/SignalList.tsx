@@ -1,13 +1,13 @@
 import { useState } from 'react';
+import { formatPlantDateTime, type PlantClock } from '@shared/time';
 import type { CharacteristicChart, ChartViolation } from '@shared/schemas/charts';
 import { Button } from '@web/components/ui/Button';
-import { formatDateTime } from '@web/lib/chart-format';
 import { ruleLabels, statisticNames } from '@shared/spc';
 
 const FIRST = 12;
 
 /** The points that break a run rule, newest first, each rule in words and a way to see it on the chart. */
-export function SignalList({ chart, timeZone, onReveal }: { chart: CharacteristicChart; timeZone: string; onReveal: (index: number) => void }) {
+export function SignalList({ chart, clock, onReveal }: { chart: CharacteristicChart; clock: PlantClock; onReveal: (index: number) => void }) {
   const [all, setAll] = useState(false);
   const names = statisticNames[chart.characteristic.chartType];
   const byPoint = new Map<number, ChartViolation[]>();
@@ -30,11 +30,12 @@ export function SignalList({ chart, timeZone, onReveal }: { chart: Characteristi
             <li key={index} className="flex flex-wrap items-start justify-between gap-3 px-3 py-2">
               <div className="min-w-0 flex-1">
                 <p className="text-sm">
-                  <span className="font-medium">Point {index + 1}</span>
                   {p && (
                     <>
-                      {' '}
-                      · lot <span className="font-mono">{p.lotNumber}</span> · <span className="font-mono">{formatDateTime(p.producedAt, timeZone)}</span>
+                      <span className="font-medium">
+                        Lot <span className="font-mono">{p.lotNumber}</span>
+                      </span>{' '}
+                      · <span className="font-mono">{formatPlantDateTime(p.producedAt, clock)}</span>
                     </>
                   )}
                 </p>
@@ -47,7 +48,7 @@ export function SignalList({ chart, timeZone, onReveal }: { chart: Characteristi
                   ))}
                 </ul>
               </div>
-              <Button size="sm" variant="secondary" onClick={() => onReveal(index)} aria-label={`Show point ${index + 1} on the chart`}>
+              <Button size="sm" variant="secondary" onClick={() => onReveal(index)} aria-label={`Show lot ${pointOf.get(index)?.lotNumber ?? ''} on the chart`}>
                 Show on chart
               </Button>
             </li>

@@ -1,6 +1,7 @@
 // The capability histogram: counts of the kept values, the normal curve fitted with their mean and
 // overall standard deviation, and the specification limits and target as labelled vertical lines.
 import type { ComposeOption } from 'echarts/core';
+import { formatFigure } from '@shared/figures';
 import type { BarSeriesOption, LineSeriesOption } from 'echarts/charts';
 import type { GridComponentOption, MarkLineComponentOption, TooltipComponentOption } from 'echarts/components';
 import type { CapabilityResult } from '@shared/spc';
@@ -45,7 +46,7 @@ function verticalLine(kind: LineKind, value: number | null, label: string, decim
     {
       xAxis: value,
       lineStyle: { color: s.color, width: s.width, type: s.dash.length ? s.dash : ('solid' as const) },
-      label: { show: true, position: 'end' as const, formatter: `${label} ${value.toFixed(decimals)}`, color: s.color, fontFamily: 'Roboto Mono', fontSize: 12 },
+      label: { show: true, position: 'end' as const, formatter: `${label} ${formatFigure(value, decimals)}`, color: s.color, fontFamily: 'Roboto Mono', fontSize: 12 },
     },
   ];
 }
@@ -82,7 +83,7 @@ export function buildCapabilityOption(values: ArrayLike<number>, capability: Cap
         if (!bar?.value) return '';
         const [centre, count] = bar.value;
         const from = centre - h.width / 2;
-        return `${(from).toFixed(decimals + 1)} to ${(from + h.width).toFixed(decimals + 1)} ${unit}: ${count} value${count === 1 ? '' : 's'}`;
+        return `${formatFigure(from, decimals + 1)} to ${formatFigure(from + h.width, decimals + 1)} ${unit}: ${count} value${count === 1 ? '' : 's'}`;
       },
     },
     xAxis: {

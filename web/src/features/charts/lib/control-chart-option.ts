@@ -14,7 +14,9 @@ import type {
 import type { CharacteristicChart, ChartPointRecord, ChartViolation } from '@shared/schemas/charts';
 import { lineStyles, markers, zoneFill, type LineKind, type MarkerKind } from './line-styles';
 import { ruleLabels, statisticNames } from '@shared/spc';
-import { escapeHtml, figure, formatDateTime, formatShortDate, shiftName } from '@web/lib/chart-format';
+import { formatPlantDate, formatPlantDateTime, type PlantClock } from '@shared/time';
+import { formatFigure } from '@shared/figures';
+import { escapeHtml, shiftName } from '@web/lib/chart-format';
 
 export type ControlChartOption = ComposeOption<
   | LineSeriesOption
@@ -105,32 +107,114 @@ interface HorizontalLine {
   kind: LineKind;
   value: number | null | undefined;
   label: string;
-  /** Where the label sits: right of the plot (default) or inside it, for lines drawn close to others. */
-  inside?: 'start' | 'end';
-  /** Label without the figure, for the zone lines whose figures the limits summary gives. */
-  bare?: boolean;
+  /** Labelled at the start inside the plot, without its figure: the zone lines, whose figures the limits summary gives. */
+  atStart?: boolean;
+  /** Decimals of its figure when not those of the plotted statistic: a specification limit has the characteristic's own. */
+  digits?: number;
 }
 
-function horizontalMarks(lines: HorizontalLine[], decimals: number): MarkLineComponentOption {
+const drawn = (l: HorizontalLine): l is HorizontalLine & { value: number } => typeof l.value === 'number' && Number.isFinite(l.value);
+
+/** Horizontal lines across a plot; only the zone lines carry their label here, the others get theirs at the edge. */
+function horizontalMarks(lines: HorizontalLine[]): MarkLineComponentOption {
   return {
     silent: true,
     symbol: 'none',
     animation: false,
-    data: lines
-      .filter((l): l is HorizontalLine & { value: number } => typeof l.value === 'number' && Number.isFinite(l.value))
-      .map((l) => ({
-        yAxis: l.value,
-        lineStyle: lineStyle(l.kind),
-        label: {
-          show: true,
-          position: l.inside === 'start' ? ('insideStartTop' as const) : l.inside === 'end' ? ('insideEndTop' as const) : ('end' as const),
-          formatter: l.bare ? l.label : `${l.label} ${l.value.toFixed(decimals)}`,
-          color: lineStyles[l.kind].color,
-          fontFamily: 'Roboto Mono',
-          fontSize: 12,
-        },
-      })),
+    data: lines.filter(drawn).map((l) => ({
+      yAxis: l.value,
+      lineStyle: lineStyle(l.kind),
+      label: l.atStart
+        ? { show: true, position: 'insideStartTop' as const, formatter: l.label, color: lineStyles[l.kind].color, fontFamily: 'Roboto Mono', fontSize: 12 }
+        : { show: false },
+    })),
   };
+}
+
+/**
+ * Zone letters at the left of the plot, right of the ±σ labels, so that nothing is written over the
+ * newest points at the right end.
+ */
+const zoneLabel = (letter: 'A' | 'B') => ({ show: true, position: 'insideLeft' as const, distance: 40, formatter: letter, color: '#71717a' });
+const ZONE_LABEL_A = zoneLabel('A');
+const ZONE_LABEL_B = zoneLabel('B');
+
+/** Space right of the plots for the line labels ("Target 1,501.5"). */
+const EDGE_MARGIN = 124;
+
+/**
+ * Each edge label placed beside its point, then moved down where it would overlap the one above.
+ * echarts moves only labels it places itself (x and y given), not those placed by label.position.
+ */
+export const edgeLabelLayout = (params: { rect: { x: number; y: number; width: number; height: number } }) => ({
+  x: params.rect.x + params.rect.width + 6,
+  y: params.rect.y + params.rect.height / 2,
+  align: 'left' as const,
+  verticalAlign: 'middle' as const,
+  moveOverlap: 'shiftY' as const,
+});
+
+/**
+ * The labels of the lines at the right edge of a plot, outside the points, as one series on a hidden
+ * axis of its own (0 to 1, untouched by the zoom) so they stay at the edge whatever part is in view;
+ * echarts moves labels that would overlap apart vertically (labelLayout moveOverlap).
+ */
+function edgeLabels(id: string, grid: 0 | 1, lines: HorizontalLine[], decimals: number): ScatterSeriesOption {
+  return {
+    id,
+    type: 'scatter',
+    xAxisIndex: grid + 2,
+    yAxisIndex: grid,
+    symbolSize: 0,
+    silent: true,
+    animation: false,
+    tooltip: { show: false },
+    z: 8,
+    label: { show: true, position: 'right', distance: 6, fontFamily: 'Roboto Mono', fontSize: 12 },
+    labelLayout: edgeLabelLayout,
+    data: lines.filter(drawn).map((l) => ({
+      value: [1, l.value],
+      label: { formatter: `${l.label} ${formatFigure(l.value, l.digits ?? decimals)}`, color: lineStyles[l.kind].color },
+    })),
+  };
+}
+
+/**
+ * The labels at the right edge: the specification and the limits of the last point in view (the
+ * newest until the chart is zoomed), so that where limits were revised the labels name the lines
+ * that end at the edge. The chart updates them after each zoom.
+ */
+export function edgeLabelSeries(chart: CharacteristicChart, lastInView: number): ScatterSeriesOption[] {
+  const { decimals, chartType, subgroupSize } = chart.characteristic;
+  const names = statisticNames[chartType];
+  const locDecimals = decimals + (subgroupSize > 1 ? 1 : 0);
+  const { spec, limits } = chart;
+  const end = nearestPoint(chart, lastInView);
+  return [
+    edgeLabels(
+      'location-labels',
+      0,
+      [
+        { kind: 'centre', value: end?.center ?? limits.location.center, label: 'CL' },
+        { kind: 'control', value: end?.ucl ?? limits.location.ucl, label: 'UCL' },
+        { kind: 'control', value: end?.lcl ?? limits.location.lcl, label: 'LCL' },
+        { kind: 'spec', value: spec?.usl, label: 'USL', digits: decimals },
+        { kind: 'spec', value: spec?.lsl, label: 'LSL', digits: decimals },
+        { kind: 'target', value: spec?.target, label: 'Target', digits: decimals },
+      ],
+      locDecimals,
+    ),
+    edgeLabels(
+      'dispersion-labels',
+      1,
+      [
+        { kind: 'centre', value: limits.dispersion.center, label: `${names.dispersion}̄` },
+        { kind: 'control', value: end?.dispersionUcl ?? limits.dispersion.ucl, label: 'UCL' },
+        { kind: 'control', value: end?.dispersionLcl ?? limits.dispersion.lcl, label: 'LCL' },
+      ],
+      decimals + 1,
+    ),
+  ];
 }
 
 /** Padded value range covering the points, their limits and the specification. */
@@ -183,16 +267,16 @@ export function eventPositions(chart: CharacteristicChart): { x: number; title: 
 }
 
 /** The tooltip of one point: lot, time, shift, every replicate, the statistics and the rules in words. */
-export function pointTooltipHtml(chart: CharacteristicChart, point: ChartPointRecord, violations: ChartViolation[], timeZone: string): string {
+export function pointTooltipHtml(chart: CharacteristicChart, point: ChartPointRecord, violations: ChartViolation[], clock: PlantClock): string {
   const { unit, decimals, chartType } = chart.characteristic;
   const names = statisticNames[chartType];
   const esc = escapeHtml;
   const rows: string[] = [
     `<div class="font-semibold">Lot ${esc(point.lotNumber)}</div>`,
-    `<div>Point ${point.index + 1} · produced ${esc(formatDateTime(point.producedAt, timeZone))} · ${esc(shiftName(point.shift))}</div>`,
-    `<div>${point.n === 1 ? 'Result' : `Replicates (${point.n})`}: <span class="font-mono">${point.values.map((v) => v.toFixed(decimals)).join(' · ')}</span> ${esc(unit)}</div>`,
-    `<div>${names.location} <span class="font-mono">${figure(point.location, decimals + (point.n > 1 ? 1 : 0))}</span> ${esc(unit)}` +
-      (point.dispersion !== null ? ` · ${names.dispersion} <span class="font-mono">${figure(point.dispersion, decimals + 1)}</span> ${esc(unit)}` : '') +
+    `<div>Produced ${esc(formatPlantDateTime(point.producedAt, clock))} · ${esc(shiftName(point.shift))}</div>`,
+    `<div>${point.n === 1 ? 'Result' : `Replicates (${point.n})`}: <span class="font-mono">${point.values.map((v) => esc(formatFigure(v, decimals))).join(' · ')}</span> ${esc(unit)}</div>`,
+    `<div>${names.location} <span class="font-mono">${esc(formatFigure(point.location, decimals + (point.n > 1 ? 1 : 0)))}</span> ${esc(unit)}` +
+      (point.dispersion !== null ? ` · ${names.dispersion} <span class="font-mono">${esc(formatFigure(point.dispersion, decimals + 1))}</span> ${esc(unit)}` : '') +
       '</div>',
   ];
   if (point.outOfSpec) rows.push('<div class="font-medium">◆ Outside the specification</div>');
@@ -202,6 +286,20 @@ export function pointTooltipHtml(chart: CharacteristicChart, point: ChartPointRe
     rows.push(`<div class="mt-1 text-red-900">▲ ${esc(ruleLabels[v.rule] ?? v.rule)} (${where}): ${esc(v.description)}</div>`);
   }
   return `<div data-testid="point-tooltip" class="space-y-0.5">${rows.join('')}</div>`;
+}
+
+/**
+ * Where the tooltip goes: left of the pointer, so that it never hides the newest points on the right,
+ * unless there is no room; vertically beside the pointer, inside the chart.
+ */
+export function tooltipBeside(pointer: number[], _params: unknown, _dom: unknown, _rect: unknown, size: { contentSize: number[]; viewSize: number[] }): number[] {
+  const [x, y] = pointer;
+  const [width, height] = size.contentSize;
+  const [viewWidth, viewHeight] = size.viewSize;
+  const gap = 20;
+  const left = x - gap - width >= 0 ? x - gap - width : Math.min(x + gap, Math.max(0, viewWidth - width));
+  const top = Math.max(0, Math.min(y - height / 2, viewHeight - height));
+  return [left, top];
 }
 
 type Mark = [number, number];
@@ -295,7 +393,7 @@ export function thinMarkers(sets: MarkerSets, first: number, last: number): { id
   });
 }
 
-export function buildControlChartOption(chart: CharacteristicChart, timeZone: string, index: ChartIndex = indexChart(chart)): ControlChartOption {
+export function buildControlChartOption(chart: CharacteristicChart, clock: PlantClock, index: ChartIndex = indexChart(chart)): ControlChartOption {
   const { points, limits, spec } = chart;
   const { decimals, chartType } = chart.characteristic;
   const names = statisticNames[chartType];
@@ -343,10 +441,10 @@ export function buildControlChartOption(chart: CharacteristicChart, timeZone: st
     animation: false,
     data: zones && limits?.location.ucl != null && limits.location.lcl != null
       ? [
-          [{ ...zoneStart, yAxis: zones.plus2, itemStyle: { color: zoneFill.A }, label: { show: true, position: 'insideRight', formatter: 'A', color: '#71717a' } }, { yAxis: limits.location.ucl }],
-          [{ ...zoneStart, yAxis: zones.plus1, itemStyle: { color: zoneFill.B }, label: { show: true, position: 'insideRight', formatter: 'B', color: '#71717a' } }, { yAxis: zones.plus2 }],
-          [{ ...zoneStart, yAxis: zones.minus2, itemStyle: { color: zoneFill.B }, label: { show: true, position: 'insideRight', formatter: 'B', color: '#71717a' } }, { yAxis: zones.minus1 }],
-          [{ ...zoneStart, yAxis: limits.location.lcl, itemStyle: { color: zoneFill.A }, label: { show: true, position: 'insideRight', formatter: 'A', color: '#71717a' } }, { yAxis: zones.minus2 }],
+          [{ ...zoneStart, yAxis: zones.plus2, itemStyle: { color: zoneFill.A }, label: ZONE_LABEL_A }, { yAxis: limits.location.ucl }],
+          [{ ...zoneStart, yAxis: zones.plus1, itemStyle: { color: zoneFill.B }, label: ZONE_LABEL_B }, { yAxis: zones.plus2 }],
+          [{ ...zoneStart, yAxis: zones.minus2, itemStyle: { color: zoneFill.B }, label: ZONE_LABEL_B }, { yAxis: zones.minus1 }],
+          [{ ...zoneStart, yAxis: limits.location.lcl, itemStyle: { color: zoneFill.A }, label: ZONE_LABEL_A }, { yAxis: zones.minus2 }],
         ]
       : [],
   };
@@ -364,19 +462,17 @@ export function buildControlChartOption(chart: CharacteristicChart, timeZone: st
       ...(centreVaries
         ? []
         : ([
-            { kind: 'zone', value: zones?.plus1, label: '+1σ', inside: 'start', bare: true },
-            { kind: 'zone', value: zones?.plus2, label: '+2σ', inside: 'start', bare: true },
-            { kind: 'zone', value: zones?.minus1, label: '−1σ', inside: 'start', bare: true },
-            { kind: 'zone', value: zones?.minus2, label: '−2σ', inside: 'start', bare: true },
+            { kind: 'zone', value: zones?.plus1, label: '+1σ', atStart: true },
+            { kind: 'zone', value: zones?.plus2, label: '+2σ', atStart: true },
+            { kind: 'zone', value: zones?.minus1, label: '−1σ', atStart: true },
+            { kind: 'zone', value: zones?.minus2, label: '−2σ', atStart: true },
           ] satisfies HorizontalLine[])),
       { kind: 'spec', value: spec?.usl, label: 'USL' },
       { kind: 'spec', value: spec?.lsl, label: 'LSL' },
-      { kind: 'target', value: spec?.target, label: 'Target', inside: 'end' },
+      { kind: 'target', value: spec?.target, label: 'Target' },
     ],
-    locDecimals,
   );
-
-  const limitLine = (name: string, data: [number, number | null][], axis: number, label: string, digits: number, kind: 'control' | 'centre' = 'control'): LineSeriesOption => ({
+  const limitLine = (name: string, data: [number, number | null][], axis: number, kind: 'control' | 'centre' = 'control'): LineSeriesOption => ({
     name,
     type: 'line',
     xAxisIndex: axis,
@@ -388,16 +484,6 @@ export function buildControlChartOption(chart: CharacteristicChart, timeZone: st
     animation: false,
     sampling: dense ? 'lttb' : undefined,
     lineStyle: lineStyle(kind),
-    endLabel: {
-      show: true,
-      formatter: (params: { value?: unknown }) => {
-        const v = Array.isArray(params.value) ? params.value[1] : null;
-        return typeof v === 'number' ? `${label} ${v.toFixed(digits)}` : '';
-      },
-      color: lineStyles[kind].color,
-      fontFamily: 'Roboto Mono',
-      fontSize: 12,
-    },
     tooltip: { show: false },
   });
 
@@ -414,13 +500,16 @@ export function buildControlChartOption(chart: CharacteristicChart, timeZone: st
       color: '#52525b',
       formatter: (value: number) => {
         const p = index.byIndex.get(Math.round(value));
-        return p && Number.isInteger(value) ? formatShortDate(p.producedAt, timeZone) : '';
+        return p && Number.isInteger(value) ? formatPlantDate(p.producedAt, clock) : '';
       },
     },
     axisTick: { show: showLabels },
     splitLine: { show: false },
     axisPointer: { label: { show: false } },
   });
+
+  // The edge labels' own axes: 0 is the left end of the plot, 1 the right, whatever the zoom.
+  const edgeAxis = (gridIndex: number) => ({ type: 'value' as const, gridIndex, min: 0, max: 1, show: false, axisPointer: { show: false, triggerTooltip: false } });
 
   const yAxis = (gridIndex: number, range: { min: number; max: number }, name: string, digits: number) => ({
     type: 'value' as const,
@@ -453,24 +542,25 @@ export function buildControlChartOption(chart: CharacteristicChart, timeZone: st
     animation: !dense,
     textStyle: { fontFamily: 'Inter, sans-serif' },
     grid: [
-      { left: 72, right: 112, top: 28, height: '52%' },
-      { left: 72, right: 112, top: '66%', height: '20%' },
+      { left: 72, right: EDGE_MARGIN, top: 28, height: '52%' },
+      { left: 72, right: EDGE_MARGIN, top: '66%', height: '20%' },
     ],
-    axisPointer: { link: [{ xAxisIndex: 'all' }] },
+    axisPointer: { link: [{ xAxisIndex: [0, 1] }] },
     tooltip: {
       trigger: 'axis',
       confine: true,
+      position: tooltipBeside,
       axisPointer: { type: 'line', lineStyle: { color: '#a1a1aa' } },
       backgroundColor: '#ffffff',
       borderColor: '#d4d4d8',
       textStyle: { color: '#18181b', fontSize: 13 },
       extraCssText: 'max-width: 28rem; white-space: normal;',
       formatter: (params: unknown) => {
-        const first = Array.isArray(params) ? params[0] : params;
-        const x = (first as { axisValue?: number; value?: unknown })?.axisValue;
+        const list = (Array.isArray(params) ? params : [params]) as { axisValue?: number; axisIndex?: number }[];
+        const x = list.find((q) => q.axisIndex === 0 || q.axisIndex === 1)?.axisValue;
         if (typeof x !== 'number') return '';
         const p = nearestPoint(chart, x);
-        return p ? pointTooltipHtml(chart, p, index.violationsAt.get(p.index) ?? [], timeZone) : '';
+        return p ? pointTooltipHtml(chart, p, index.violationsAt.get(p.index) ?? [], clock) : '';
       },
     },
     dataZoom: [
@@ -485,12 +575,12 @@ export function buildControlChartOption(chart: CharacteristicChart, timeZone: st
         showDataShadow: false,
         labelFormatter: (value: number) => {
           const p = nearestPoint(chart, value);
-          return p ? formatShortDate(p.producedAt, timeZone) : '';
+          return p ? formatPlantDate(p.producedAt, clock) : '';
         },
         textStyle: { fontFamily: 'Roboto Mono', fontSize: 12 },
       },
     ],
-    xAxis: [xAxis(0, false), xAxis(1, true)],
+    xAxis: [xAxis(0, false), xAxis(1, true), edgeAxis(0), edgeAxis(1)],
     yAxis: [yAxis(0, topRange, `${names.location} (${chart.characteristic.unit})`, locDecimals), yAxis(1, bottomRange, names.dispersion, dispDecimals)],
     series: [
       {
@@ -504,8 +594,8 @@ export function buildControlChartOption(chart: CharacteristicChart, timeZone: st
         markLine: topMarks,
         markArea: zoneAreas,
       },
-      ...(centreVaries ? [limitLine('CL', cl, 0, 'CL', locDecimals, 'centre')] : []),
-      ...(constantLimits ? [] : [limitLine('UCL', ucl, 0, 'UCL', locDecimals), limitLine('LCL', lcl, 0, 'LCL', locDecimals)]),
+      ...(centreVaries ? [limitLine('CL', cl, 0, 'centre')] : []),
+      ...(constantLimits ? [] : [limitLine('UCL', ucl, 0), limitLine('LCL', lcl, 0)]),
       {
         id: 'dispersion',
         name: names.dispersion,
@@ -515,20 +605,18 @@ export function buildControlChartOption(chart: CharacteristicChart, timeZone: st
         data: dispersion,
         connectNulls: false,
         ...pointSeries,
-        markLine: horizontalMarks(
-          [
-            { kind: 'centre', value: limits?.dispersion.center, label: `${names.dispersion}̄` },
-            ...(constantLimits
-              ? ([
-                  { kind: 'control', value: limits?.dispersion.ucl, label: 'UCL' },
-                  { kind: 'control', value: limits?.dispersion.lcl, label: 'LCL' },
-                ] satisfies HorizontalLine[])
-              : []),
-          ],
-          dispDecimals,
-        ),
+        markLine: horizontalMarks([
+          { kind: 'centre', value: limits?.dispersion.center, label: `${names.dispersion}̄` },
+          ...(constantLimits
+            ? ([
+                { kind: 'control', value: limits?.dispersion.ucl, label: 'UCL' },
+                { kind: 'control', value: limits?.dispersion.lcl, label: 'LCL' },
+              ] satisfies HorizontalLine[])
+            : []),
+        ]),
       },
-      ...(constantLimits ? [] : [limitLine(`${names.dispersion} UCL`, dUcl, 1, 'UCL', dispDecimals), limitLine(`${names.dispersion} LCL`, dLcl, 1, 'LCL', dispDecimals)]),
+      ...(constantLimits ? [] : [limitLine(`${names.dispersion} UCL`, dUcl, 1), limitLine(`${names.dispersion} LCL`, dLcl, 1)]),
+      ...edgeLabelSeries(chart, index.last),
       markerSeries('outOfSpec', 'Outside specification', 0, marked.get('out-of-spec')!, 'out-of-spec'),
       markerSeries('excluded', 'Excluded', 0, marked.get('excluded')!, 'excluded'),
       markerSeries('excluded', `${names.dispersion} of an excluded point`, 1, marked.get('excluded-dispersion')!, 'excluded-dispersion'),

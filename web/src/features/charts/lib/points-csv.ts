@@ -1,6 +1,10 @@
 // The chart's points as CSV (RFC 4180: comma, dot decimals, CRLF, quotes where needed), one row per
-// point with one column per replicate, for a spreadsheet or an audit file.
+// point with one column per replicate, for a spreadsheet or an audit file. A point is named by its lot
+// and production time (plant time with its offset); figures keep the characteristic's decimals, a mean
+// of several replicates and a range or standard deviation one more, as the chart shows them.
 import type { CharacteristicChart } from '@shared/schemas/charts';
+import { csvFigure } from '@shared/figures';
+import { plantIso } from '@shared/time';
 
 function field(value: string | number | boolean | null): string {
   if (value === null) return '';
@@ -14,11 +18,13 @@ const columnNames = {
   imr: { location: 'result', dispersion: 'moving_range' },
 } as const;
 
-export function pointsCsv(chart: CharacteristicChart): string {
-  const names = columnNames[chart.characteristic.chartType];
+export function pointsCsv(chart: CharacteristicChart, timeZone: string): string {
+  const { chartType, decimals, subgroupSize } = chart.characteristic;
+  const names = columnNames[chartType];
+  const locationDecimals = decimals + (subgroupSize > 1 ? 1 : 0);
+  const dispersionDecimals = decimals + 1;
   const replicates = chart.points.reduce((m, p) => Math.max(m, p.n), 0);
   const header = [
-    'point',
     'lot',
     'produced_at',
     'shift',
@@ -36,20 +42,19 @@ export function pointsCsv(chart: CharacteristicChart): string {
   ];
   const lines = [header.map(field).join(',')];
   for (const p of chart.points) {
-    const values = Array.from({ length: replicates }, (_, i) => (i < p.values.length ? p.values[i] : null));
+    const values = Array.from({ length: replicates }, (_, i) => (i < p.values.length ? csvFigure(p.values[i], decimals) : null));
     lines.push(
       [
-        p.index + 1,
         p.lotNumber,
-        p.producedAt,
+        plantIso(p.producedAt, timeZone),
         p.shift,
         p.n,
         ...values,
-        p.location,
-        p.dispersion,
-        p.lcl,
-        p.ucl,
-        p.dispersionUcl,
+        csvFigure(p.location, locationDecimals),
+        csvFigure(p.dispersion, dispersionDecimals),
+        csvFigure(p.lcl, locationDecimals),
+        csvFigure(p.ucl, locationDecimals),
+        csvFigure(p.dispersionUcl, dispersionDecimals),
         p.outOfSpec,
         p.excluded,
         p.exclusionReason,

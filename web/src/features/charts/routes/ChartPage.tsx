@@ -1,9 +1,10 @@
-import { useCallback, useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
+import { useCallback, useMemo, useRef, useState, type ReactNode } from 'react';
 import { Link, useParams, useSearchParams } from 'react-router-dom';
 import { ApiError } from '@web/lib/http';
 import { useMay } from '@web/app/permissions';
-import { usePlantTimeZone } from '@web/lib/catalogue';
-import { useChart, type ChartRange } from '../api/chart';
+import { usePlantClock } from '@web/lib/catalogue';
+import { DEFAULT_PLANT_DATE_FORMAT, formatPlantDate, formatPlantDateTime, plantTimeNote, type PlantClock } from '@shared/time';
+import { useChart, type ChartQuery } from '../api/chart';
 import { ControlChart, type ZoomWindow } from '../components/ControlChart';
 import { ChartLegend } from '../components/ChartLegend';
 import { LimitsSummary } from '../components/LimitsSummary';
@@ -15,9 +16,8 @@ import { FreezeLimitsDialog } from '../components/FreezeLimitsDialog';
 import { LotDetailsDialog } from '../components/LotDetailsDialog';
 import { SelectedPoint } from '../components/SelectedPoint';
 import { SignalList } from '../components/SignalList';
-import { formatDateTime } from '@web/lib/chart-format';
 import { chartTypeLabels, ruleSetLabels } from '@shared/spc';
-import type { CharacteristicChart } from '@shared/schemas/charts';
+import { chartPeriods, type CharacteristicChart, type ChartPeriod } from '@shared/schemas/charts';
 import { PageHeader } from '@web/components/ui/PageHeader';
 import { Button } from '@web/components/ui/Button';
 import { Alert } from '@web/components/ui/Alert';
@@ -26,22 +26,18 @@ import { Loading } from '@web/components/ui/Spinner';
 import { ErrorState } from '@web/components/ui/ErrorState';
 import { EmptyState } from '@web/components/ui/EmptyState';
 
-const periods = [
-  { value: 'all', label: 'All history', days: null },
-  { value: '30', label: 'Last 30 days', days: 30 },
-  { value: '90', label: 'Last 90 days', days: 90 },
-  { value: '182', label: 'Last 6 months', days: 182 },
-] as const;
+const periodLabels: Record<ChartPeriod, string> = {
+  limits: 'Since the limits',
+  '30': 'Last 30 days',
+  '90': 'Last 90 days',
+  '182': 'Last 6 months',
+  all: 'All history',
+};
 
-/** The chart's window: a whole number of days back from the start of today, so it stays one query all day. */
-function rangeFor(period: string): ChartRange {
-  const days = periods.find((p) => p.value === period)?.days;
-  if (!days) return {};
-  const start = new Date();
-  start.setHours(0, 0, 0, 0);
-  start.setDate(start.getDate() - days);
-  return { from: start.toISOString() };
-}
+/** Until the plant is known: a stable object, so the chart is not rebuilt on every render. */
+const FALLBACK_CLOCK: PlantClock = { timeZone: 'UTC', dateFormat: DEFAULT_PLANT_DATE_FORMAT };
+
+const isPeriod = (value: string | null): value is ChartPeriod => (chartPeriods as readonly string[]).includes(value ?? '');
 
 type Open =
   | { kind: 'lot'; index: number }
@@ -69,16 +65,24 @@ export default function ChartPage() {
   const { characteristicId = '' } = useParams();
   const id = Number(characteristicId);
   const [search, setSearch] = useSearchParams();
-  const period = search.get('period') ?? 'all';
-  const range = useMemo(() => rangeFor(period), [period]);
-  const chart = useChart(id, range);
-  const timeZone = usePlantTimeZone().data ?? 'UTC';
+  const periodParam = search.get('period');
+  const lotParam = search.get('lot');
+  // ?point=<position> came in alarm e-mails sent before links named the lot: positions count over all history.
+  const pointParam = search.get('point');
+  const legacyPoint = lotParam === null && pointParam !== null && /^\d{1,9}$/.test(pointParam) ? Number(pointParam) : null;
+  const request = useMemo<ChartQuery>(
+    () => ({ period: isPeriod(periodParam) ? periodParam : legacyPoint !== null ? 'all' : undefined, lot: lotParam || undefined }),
+    [periodParam, lotParam, legacyPoint],
+  );
+  const chart = useChart(id, request);
+  const clock = usePlantClock().data ?? FALLBACK_CLOCK;
   const canFreeze = useMay('limits.freeze');
   const canExclude = useMay('point.exclude');
 
-  const pointParam = search.get('point');
-  const [selected, setSelected] = useState<number | null>(pointParam !== null && /^\d+$/.test(pointParam) ? Number(pointParam) : null);
-  const [reveal, setReveal] = useState(0);
+  // A point is known by its lot, which stays the same whatever the period shows.
+  const [chosenLot, setSelectedLot] = useState<string | null>(lotParam || null);
+  // A linked lot is brought into view as soon as the chart is drawn.
+  const [reveal, setReveal] = useState(lotParam || legacyPoint !== null ? 1 : 0);
   // Read only when the freeze dialog opens: a state would re-render the page on every zoom step.
   const view = useRef<ZoomWindow | null>(null);
   const onZoom = useCallback((window: ZoomWindow) => {
@@ -87,20 +91,21 @@ export default function ChartPage() {
   const [open, setOpen] = useState<Open>(null);
   const [notice, setNotice] = useState<string | null>(null);
 
-  // A link to one point (from an alarm e-mail) brings it into view once the chart is there.
-  const linkedShown = useRef(false);
-  useEffect(() => {
-    if (chart.data && selected !== null && !linkedShown.current && pointParam !== null) {
-      linkedShown.current = true;
-      setReveal((n) => n + 1);
-    }
-  }, [chart.data, selected, pointParam]);
+  const points = chart.isPlaceholderData ? undefined : chart.data?.points;
+  const indexOfLot = useMemo(() => new Map((points ?? []).map((p) => [p.lotNumber, p.index])), [points]);
+  const selectedLot = chosenLot ?? (legacyPoint !== null ? (points?.[legacyPoint]?.lotNumber ?? null) : null);
+  const selected = selectedLot === null ? null : (indexOfLot.get(selectedLot) ?? null);
+  const select = useCallback((index: number) => setSelectedLot(points?.find((p) => p.index === index)?.lotNumber ?? null), [points]);
+  const linkedMissing = lotParam && points && !indexOfLot.has(lotParam) ? lotParam : null;
 
-  const showOnChart = useCallback((index: number) => {
-    setSelected(index);
-    setReveal((n) => n + 1);
-    document.getElementById('chart-section')?.scrollIntoView({ block: 'start', behavior: 'smooth' });
-  }, []);
+  const showOnChart = useCallback(
+    (index: number) => {
+      select(index);
+      setReveal((n) => n + 1);
+      document.getElementById('chart-section')?.scrollIntoView({ block: 'start', behavior: 'smooth' });
+    },
+    [select],
+  );
   const openLot = useCallback((index: number) => setOpen({ kind: 'lot', index }), []);
   const exclude = useCallback((index: number) => setOpen({ kind: 'exclude', index }), []);
   const include = useCallback((index: number) => setOpen({ kind: 'include', index }), []);
@@ -114,6 +119,7 @@ export default function ChartPage() {
 
   const data: CharacteristicChart = chart.data;
   const c = data.characteristic;
+  const period: ChartPeriod = data.window.period === 'custom' ? 'all' : data.window.period;
   const pointAt = (index: number) => data.points.find((p) => p.index === index);
   const openPoint = open && open.kind !== 'freeze' ? pointAt(open.index) : undefined;
   const done = (message: string) => {
@@ -137,23 +143,26 @@ export default function ChartPage() {
               Period
             </label>
             {/* The select fills its box; the box keeps it beside its label and the link. */}
-            <div className="w-44">
+            <div className="w-60">
               <Select
                 id="chart-period"
                 value={period}
                 onChange={(e) =>
                   setSearch((s) => {
                     s.set('period', e.target.value);
+                    s.delete('lot');
                     s.delete('point');
                     return s;
                   })
                 }
               >
-                {periods.map((p) => (
-                  <option key={p.value} value={p.value}>
-                    {p.label}
-                  </option>
-                ))}
+                {chartPeriods
+                  .filter((p) => p !== 'limits' || data.window.limitsFrom !== null)
+                  .map((p) => (
+                    <option key={p} value={p}>
+                      {p === 'limits' && data.window.limitsFrom ? `${periodLabels.limits} (${formatPlantDate(data.window.limitsFrom, clock)})` : periodLabels[p]}
+                    </option>
+                  ))}
               </Select>
             </div>
             <Link to="/charts" className="inline-flex h-10 items-center rounded-md border border-zinc-300 bg-white px-4 font-medium text-zinc-800 hover:bg-zinc-100">
@@ -164,7 +173,13 @@ export default function ChartPage() {
       />
 
       <div className="space-y-5" aria-busy={chart.isFetching || undefined}>
+        <p className="text-sm text-zinc-600">{plantTimeNote(clock.timeZone)}.</p>
         {notice && <Alert tone="success">{notice}</Alert>}
+        {linkedMissing && (
+          <p role="status" className="rounded-md border border-amber-200 bg-amber-50 px-4 py-3 text-amber-950">
+            Lot <span className="font-mono">{linkedMissing}</span> has no result on this chart{data.window.period === 'all' ? '' : ' in this period'}.
+          </p>
+        )}
         {data.reasons.length > 0 && (
           <ul aria-label="Notes on this chart" className="space-y-1 rounded-md border border-amber-200 bg-amber-50 px-4 py-3 text-sm text-amber-950">
             {data.reasons.map((r) => (
@@ -184,7 +199,7 @@ export default function ChartPage() {
             ) : undefined
           }
         >
-          <LimitsSummary chart={data} timeZone={timeZone} />
+          <LimitsSummary chart={data} clock={clock} />
         </Section>
 
         <div id="chart-section" className="scroll-mt-20">
@@ -201,9 +216,9 @@ export default function ChartPage() {
                 </p>
                 <ControlChart
                   chart={data}
-                  timeZone={timeZone}
+                  clock={clock}
                   selected={selected}
-                  onSelect={setSelected}
+                  onSelect={select}
                   onOpen={openLot}
                   onZoom={onZoom}
                   revealRequest={reveal}
@@ -212,7 +227,7 @@ export default function ChartPage() {
                 <SelectedPoint
                   chart={data}
                   index={selected}
-                  timeZone={timeZone}
+                  clock={clock}
                   canChangeLimits={canExclude}
                   onOpenLot={openLot}
                   onExclude={exclude}
@@ -224,7 +239,7 @@ export default function ChartPage() {
         </div>
 
         <Section title="Run-rule signals" id="signals-heading">
-          <SignalList chart={data} timeZone={timeZone} onReveal={showOnChart} />
+          <SignalList chart={data} clock={clock} onReveal={showOnChart} />
         </Section>
 
         <Section title="Capability" id="capability-heading">
@@ -232,7 +247,7 @@ export default function ChartPage() {
         </Section>
 
         <Section title="Limit revisions" id="revisions-heading">
-          <LimitRevisions characteristicId={c.id} decimals={c.decimals} timeZone={timeZone} />
+          <LimitRevisions characteristicId={c.id} decimals={c.decimals} clock={clock} />
         </Section>
 
         <Section title="Process events" id="events-heading">
@@ -242,7 +257,7 @@ export default function ChartPage() {
             <ul className="space-y-2">
               {data.events.map((e) => (
                 <li key={e.id}>
-                  <span className="font-mono text-sm text-zinc-600">{formatDateTime(e.occurredAt, timeZone)}</span> <span className="font-medium">{e.title}</span>
+                  <span className="font-mono text-sm text-zinc-600">{formatPlantDateTime(e.occurredAt, clock)}</span> <span className="font-medium">{e.title}</span>
                   {e.description && <span className="text-zinc-700"> — {e.description}</span>}
                 </li>
               ))}
@@ -253,7 +268,7 @@ export default function ChartPage() {
         <Section title="Points" id="points-heading">
           <PointsTable
             chart={data}
-            timeZone={timeZone}
+            clock={clock}
             canChangeLimits={canExclude}
             onReveal={showOnChart}
             onOpenLot={openLot}
@@ -263,10 +278,10 @@ export default function ChartPage() {
         </Section>
       </div>
 
-      {open?.kind === 'lot' && openPoint && <LotDetailsDialog lotNumber={openPoint.lotNumber} currentCode={c.code} timeZone={timeZone} onClose={() => setOpen(null)} />}
-      {open?.kind === 'exclude' && openPoint && <ExcludePointDialog chart={data} point={openPoint} timeZone={timeZone} onClose={() => setOpen(null)} onDone={done} />}
-      {open?.kind === 'include' && openPoint && <IncludePointDialog chart={data} point={openPoint} timeZone={timeZone} onClose={() => setOpen(null)} onDone={done} />}
-      {open?.kind === 'freeze' && <FreezeLimitsDialog chart={data} timeZone={timeZone} view={open.view} onClose={() => setOpen(null)} onDone={done} />}
+      {open?.kind === 'lot' && openPoint && <LotDetailsDialog lotNumber={openPoint.lotNumber} currentCode={c.code} clock={clock} onClose={() => setOpen(null)} />}
+      {open?.kind === 'exclude' && openPoint && <ExcludePointDialog chart={data} point={openPoint} clock={clock} onClose={() => setOpen(null)} onDone={done} />}
+      {open?.kind === 'include' && openPoint && <IncludePointDialog chart={data} point={openPoint} clock={clock} onClose={() => setOpen(null)} onDone={done} />}
+      {open?.kind === 'freeze' && <FreezeLimitsDialog chart={data} clock={clock} view={open.view} onClose={() => setOpen(null)} onDone={done} />}
     </>
   );
 }

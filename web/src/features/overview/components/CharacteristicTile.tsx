@@ -1,21 +1,24 @@
 import { Link } from 'react-router-dom';
-import type { OverviewItem } from '@shared/schemas/overview';
+import { cpkFigure, type OverviewItem } from '@shared/schemas/overview';
 import { Badge } from '@web/components/ui/Badge';
-import { formatPlantDateTime } from '@web/lib/plant-time';
+import { formatFigure } from '@shared/figures';
+import { formatPlantDateTime, type PlantClock } from '@shared/time';
+import { lotPath } from '@web/lib/lots';
 import { TrendLine } from './TrendLine';
-
-const fixed = (v: number | null | undefined, d: number) => (v === null || v === undefined ? '–' : v.toFixed(d));
 
 function ControlBadge({ state }: { state: OverviewItem['controlState'] }) {
   if (state === 'signal') return <Badge tone="negative">▲ Signal</Badge>;
+  if (state === 'alarms-open') return <Badge tone="warning">Alarms open</Badge>;
   if (state === 'in-control') return <Badge tone="positive">In control</Badge>;
   return <Badge tone="neutral">Not enough data</Badge>;
 }
 
 /** One characteristic at a glance: latest result against the specification, control state, alarms, Cpk and trend. */
-export function CharacteristicTile({ item, timeZone }: { item: OverviewItem; timeZone: string }) {
+export function CharacteristicTile({ item, clock }: { item: OverviewItem; clock: PlantClock }) {
   const shortName = item.name.startsWith(`${item.productName} · `) ? item.name.slice(item.productName.length + 3) : item.name;
-  const decimals = item.decimals + (item.chartType === 'imr' ? 0 : 1);
+  // A mean of several replicates carries one decimal more than a single result, as on the chart.
+  const decimals = item.decimals + (item.latest && item.latest.n > 1 ? 1 : 0);
+  const tooFew = !item.capabilityEnough && item.spec !== null && (item.spec.lsl !== null || item.spec.usl !== null);
   return (
     <article className="flex flex-col gap-2 rounded-lg border border-zinc-200 bg-white p-4 shadow-xs" aria-labelledby={`tile-${item.id}`} data-testid={`tile-${item.code}`}>
       <div className="flex items-start justify-between gap-3">
@@ -29,7 +32,7 @@ export function CharacteristicTile({ item, timeZone }: { item: OverviewItem; tim
       {item.latest ? (
         <div className="flex flex-wrap items-baseline justify-between gap-x-3 gap-y-1">
           <p>
-            <span className="font-mono text-2xl font-medium">{fixed(item.latest.location, decimals)}</span> <span className="text-zinc-600">{item.unit}</span>
+            <span className="font-mono text-2xl font-medium">{formatFigure(item.latest.location, decimals)}</span> <span className="text-zinc-600">{item.unit}</span>
           </p>
           {item.spec && (item.spec.lsl !== null || item.spec.usl !== null) ? (
             item.latest.outOfSpec ? <Badge tone="warning">◆ Outside specification</Badge> : <Badge tone="positive">Within specification</Badge>
@@ -37,7 +40,11 @@ export function CharacteristicTile({ item, timeZone }: { item: OverviewItem; tim
             <Badge>No specification</Badge>
           )}
           <p className="w-full text-sm text-zinc-600">
-            Latest lot <span className="font-mono">{item.latest.lotNumber}</span>, <span className="font-mono">{formatPlantDateTime(item.latest.producedAt, timeZone)}</span>
+            Latest lot{' '}
+            <Link to={lotPath(item.latest.lotNumber)} className="font-mono text-accent-800 underline underline-offset-2">
+              {item.latest.lotNumber}
+            </Link>
+            , <span className="font-mono">{formatPlantDateTime(item.latest.producedAt, clock)}</span>
           </p>
         </div>
       ) : (
@@ -48,13 +55,21 @@ export function CharacteristicTile({ item, timeZone }: { item: OverviewItem; tim
         <div className="flex flex-col">
           <dt className="text-zinc-600">Cpk</dt>
           <dd className="mt-auto font-mono text-base" data-testid="cpk-value">
-            {fixed(item.cpk, 2)}
+            {tooFew ? <span className="font-sans text-sm text-zinc-600">Not enough data</span> : item.cpk === null ? '–' : cpkFigure(item.cpk)}
             {item.capabilityPreliminary && item.cpk !== null && <span className="font-sans text-xs text-zinc-500"> prelim.</span>}
           </dd>
         </div>
         <div className="flex flex-col">
           <dt className="text-zinc-600">95 % interval</dt>
-          <dd className="mt-auto font-mono">{item.cpkCi95 ? `${fixed(item.cpkCi95[0], 2)}–${fixed(item.cpkCi95[1], 2)}` : '–'}</dd>
+          <dd className="mt-auto font-mono" data-testid="cpk-interval">
+            {tooFew ? (
+              <span className="font-sans text-sm text-zinc-600">Not enough data</span>
+            ) : item.cpkCi95 ? (
+              `${formatFigure(item.cpkCi95[0], 2)}–${formatFigure(item.cpkCi95[1], 2)}`
+            ) : (
+              '–'
+            )}
+          </dd>
         </div>
         <div className="flex flex-col">
           <dt className="text-zinc-600">Open alarms</dt>

@@ -1,15 +1,17 @@
 import { useMemo } from 'react';
 import { useSearchParams } from 'react-router-dom';
 import { useOverview } from '../api/overview';
-import { usePlantTimeZone } from '@web/lib/catalogue';
+import { usePlantClock } from '@web/lib/catalogue';
 import { CharacteristicTile } from '../components/CharacteristicTile';
-import { formatPlantDateTime } from '@web/lib/plant-time';
+import { DEFAULT_PLANT_DATE_FORMAT, formatPlantDateTime, plantTimeNote, type PlantClock } from '@shared/time';
 import { overviewPeriods, type OverviewItem } from '@shared/schemas/overview';
 import { PageHeader } from '@web/components/ui/PageHeader';
 import { Select } from '@web/components/ui/Field';
 import { ErrorState } from '@web/components/ui/ErrorState';
 import { EmptyState } from '@web/components/ui/EmptyState';
 import { Button } from '@web/components/ui/Button';
+
+const FALLBACK_CLOCK: PlantClock = { timeZone: 'UTC', dateFormat: DEFAULT_PLANT_DATE_FORMAT };
 
 const familyLabels: Record<string, string> = { levelling: 'Levelling compounds', 'tile-adhesive': 'Tile adhesives', repair: 'Repair mortars' };
 const periodLabel = (days: number) => (days === 182 ? 'Last 6 months' : `Last ${days} days`);
@@ -68,7 +70,7 @@ export default function OverviewPage() {
   const days = (overviewPeriods as readonly number[]).includes(daysParam) ? daysParam : 30;
   const order: Order = search.get('order') === 'catalogue' ? 'catalogue' : 'attention';
   const overview = useOverview({ line: line || undefined, family: family || undefined, days });
-  const timeZone = usePlantTimeZone().data ?? 'UTC';
+  const clock = usePlantClock().data ?? FALLBACK_CLOCK;
 
   const set = (key: string, value: string) =>
     setSearch((s) => {
@@ -96,8 +98,8 @@ export default function OverviewPage() {
         description={
           data ? (
             <>
-              Every active characteristic by line and product. Updated <span className="font-mono">{formatPlantDateTime(data.generatedAt, timeZone)}</span>; signals, out-of-specification lots and Cpk
-              for the period from <span className="font-mono">{formatPlantDateTime(data.from, timeZone)}</span>.
+              Every active characteristic by line and product. Updated <span className="font-mono">{formatPlantDateTime(data.generatedAt, clock)}</span>; signals, out-of-specification lots and Cpk
+              for the period from <span className="font-mono">{formatPlantDateTime(data.from, clock)}</span>. {plantTimeNote(clock.timeZone)}.
             </>
           ) : (
             'Every active characteristic by line and product.'
@@ -197,7 +199,7 @@ export default function OverviewPage() {
                   </h3>
                   <div className="grid gap-4 sm:grid-cols-2 xl:grid-cols-3 2xl:grid-cols-4">
                     {p.items.map((item) => (
-                      <CharacteristicTile key={item.id} item={item} timeZone={timeZone} />
+                      <CharacteristicTile key={item.id} item={item} clock={clock} />
                     ))}
                   </div>
                 </section>
