@@ -60,6 +60,8 @@ export interface ImportRequest {
   /** Rows already in canonical form (manual entry); content is not parsed then. */
   rows?: CanonicalRow[];
   decimalComma?: boolean;
+  /** When the rows are checked (epoch ms): times later than this and the allowance are refused. The clock's now when absent. */
+  now?: number;
 }
 
 /** Validates everything, then stores every measurement in one transaction, or nothing. */
@@ -106,8 +108,12 @@ async function importOn(client: pg.PoolClient, reader: pg.PoolClient, req: Impor
     fileId = ids.rows[0].file_id;
   }
   const catalogue = await loadCatalogue(tx);
+  // One "now" for the whole file, so every row is held to the same latest time.
+  const now = req.now ?? Date.now();
 
   // The file's bytes go in first, while the first piece is parsed; counts are set once all is stored.
+  // Every later statement on the transaction's connection waits for it: node-postgres takes one query
+  // at a time, and queueing more behind a running one is deprecated (pg 8) and refused from pg 9.
   const fileKept = uploadId !== null ? insertUpload(client, req, sha256!, uploadId, fileId, 'imported', 0, 0, null) : Promise.resolve();
   fileKept.catch(() => undefined);
 
@@ -115,17 +121,18 @@ async function importOn(client: pg.PoolClient, reader: pg.PoolClient, req: Impor
   let rowsTotal: number;
   let readErrors: RowError[];
   if (req.rows) {
-    const { valid, errors } = validateRows(req.rows, catalogue, { decimalComma: req.decimalComma ?? false });
+    const { valid, errors } = validateRows(req.rows, catalogue, { decimalComma: req.decimalComma ?? false, now });
     rowsTotal = req.rows.length;
     readErrors = errors;
     for (const v of valid) store.take(v);
     await store.store(await store.prepare(store.closeRound(), errors.length > 0));
   } else {
-    const reading = readResults(decodeText(req.content ?? Buffer.alloc(0)), { dialect: req.dialect, mapping: req.mapping, catalogue, pieceSize: PIECE_CHARACTERS });
+    const reading = readResults(decodeText(req.content ?? Buffer.alloc(0)), { dialect: req.dialect, mapping: req.mapping, catalogue, pieceSize: PIECE_CHARACTERS, now });
     readErrors = reading.errors;
     // Two chains: lookups of round k + 1 on the reading connection overlap the COPY of round k.
     let looked: Promise<unknown> = Promise.resolve();
-    let stored: Promise<void> = Promise.resolve();
+    // The first COPY of rows follows the file's own statements on the connection.
+    let stored: Promise<void> = fileKept;
     /** Each submitted round's end of storing, oldest first, to wait on when parsing runs ahead. */
     const storing: Promise<unknown>[] = [];
     let ahead = 0;
@@ -198,16 +205,15 @@ async function importOn(client: pg.PoolClient, reader: pg.PoolClient, req: Impor
   };
 }
 
-/** Stores the upload's file and its row, both queued on the connection at once. */
+/** Stores the upload's file, then its row, which refers to the file. */
 async function insertUpload(client: pg.PoolClient, req: ImportRequest, sha256: string, id: number, fileId: number, status: 'imported' | 'rejected', rowsTotal: number, rowsImported: number, errors: RowError[] | null): Promise<void> {
   const content = req.content!;
-  const file = putFile(client, { id: fileId, fileName: req.fileName, bytes: content, createdBy: req.actorId, sha256 });
-  const row = client.query(
+  await putFile(client, { id: fileId, fileName: req.fileName, bytes: content, createdBy: req.actorId, sha256 });
+  await client.query(
     `insert into uploads (id, file_name, sha256, uploaded_by, status, format, rows_total, rows_imported, rows_rejected, errors, size_bytes, file_id)
      values ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12)`,
     [id, req.fileName, sha256, req.actorId, status, req.mapping?.format ?? 'long', rowsTotal, rowsImported, errors ? new Set(errors.map((e) => e.row)).size : 0, errors ? JSON.stringify(errors) : null, content.length, fileId],
   );
-  await Promise.all([file, row]);
 }
 
 /** Stores checked measurements round by round, after comparing each round with what is stored. */
