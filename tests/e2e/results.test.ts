@@ -336,6 +336,39 @@ describe('what must not get in', () => {
   });
 });
 
+describe('the lot page and the upload history', () => {
+  it('show times on the plant clock in its date format and figures to the characteristic decimals, whatever the browser zone', async ({ page }) => {
+    const lot = newLot();
+    const fileName = `plant-clock-${stamp}.csv`;
+    await signIn(page, 'technician', '/results/history');
+    await pageHeading(page, 'Upload history').waitFor();
+    // 19 July 2021 06:10 at the plant is 05:10 UTC (UK summer time, BST = UTC+1).
+    const created = await page.request.post(`${baseUrl()}/api/v1/uploads`, {
+      multipart: { file: { name: fileName, mimeType: 'text/csv', buffer: Buffer.from(`lot,product,line,produced_at,characteristic,value\n${lot},HVL25,L1,2021-07-19T06:10,HVL25-DENS,1950\n`) } },
+    });
+    expect(created.status()).toBe(201);
+    // The browser in New York: the page must not care.
+    const cdp = await page.context().newCDPSession(page);
+    await cdp.send('Emulation.setTimezoneOverride', { timezoneId: 'America/New_York' });
+
+    await page.goto(`${baseUrl()}/results/lots/${lot}`);
+    await pageHeading(page, `Lot ${lot}`).waitFor();
+    await page.getByText('19/07/2021 06:10', { exact: true }).waitFor();
+    await page.getByText(/Times are plant time \(Europe\/London, BST\)/).waitFor();
+    // Fresh density is kept to no decimals (its test method in shared/lab/test-methods.ts); thousands are grouped for reading.
+    const row = page.getByRole('row', { name: /HVL25-DENS/ });
+    expect(await row.getByRole('cell').nth(2).textContent()).toBe('1,950 kg/m³');
+    expect(await row.getByRole('cell').nth(1).textContent()).toContain('1,950');
+
+    await page.goto(`${baseUrl()}/results/history`);
+    const listed = (await (await page.request.get(`${baseUrl()}/api/v1/uploads?limit=500`)).json()) as { items: { fileName: string; uploadedAt: string }[] };
+    const uploadedAt = listed.items.find((u) => u.fileName === fileName)!.uploadedAt;
+    const historyRow = page.getByRole('row', { name: new RegExp(fileName) });
+    expect(await historyRow.getByRole('cell').first().textContent()).toContain(typed(uploadedAt));
+    await screenshot(page, 'results-history-plant-clock');
+  });
+});
+
 describe('roles', () => {
   it('shows the auditor the history and the test methods, and no way to upload', async ({ page }) => {
     await signIn(page, 'auditor', '/results');
