@@ -11,6 +11,7 @@ import { drizzle } from 'drizzle-orm/node-postgres';
 import type pg from 'pg';
 import { decodeText, readResults, validateRows, type CanonicalRow, type ColumnMapping, type CsvDialect, type RowError, type ValidMeasurement } from '@shared/ingest';
 import { beyondStrictestLimits } from '@shared/spc';
+import { DEFAULT_PLANT_DATE_FORMAT, formatPlantDateTime, type PlantDateFormat } from '@shared/time';
 import type { Database } from '@api/db/client';
 import * as schema from '@api/db/schema';
 import { recordAudit } from '@api/db/audit';
@@ -36,7 +37,7 @@ export type ImportOutcome =
       toJudge: Subgroup[];
     }
   | { kind: 'rejected'; uploadId: number | null; rowsTotal: number; errors: RowError[] }
-  | { kind: 'duplicate-file'; uploadId: number; uploadedAt: Date };
+  | { kind: 'duplicate-file'; uploadId: number; /** When the same bytes came before, as the plant's clock read then. */ uploadedAt: string };
 
 /** Serialises imports so duplicate checks and inserts see one consistent state. */
 const IMPORT_LOCK = 727_002;
@@ -96,10 +97,16 @@ async function importOn(client: pg.PoolClient, reader: pg.PoolClient, req: Impor
   let uploadId: number | null = null;
   let fileId = 0;
   if (sha256) {
-    const earlier = await client.query<{ id: number; uploaded_at: Date }>(`select id, uploaded_at from uploads where sha256 = $1 and status <> 'rejected'`, [sha256]);
-    if (earlier.rows[0]) {
+    const earlier = await client.query<{ id: number; uploaded_at: Date; time_zone: string | null; date_format: PlantDateFormat | null }>(
+      `select u.id, u.uploaded_at, p.time_zone, p.date_format from uploads u left join (select time_zone, date_format from plants order by id limit 1) p on true
+       where u.sha256 = $1 and u.status <> 'rejected'`,
+      [sha256],
+    );
+    const seen = earlier.rows[0];
+    if (seen) {
       await client.query('rollback');
-      return { kind: 'duplicate-file', uploadId: earlier.rows[0].id, uploadedAt: earlier.rows[0].uploaded_at };
+      const clock = { timeZone: seen.time_zone ?? 'UTC', dateFormat: seen.date_format ?? DEFAULT_PLANT_DATE_FORMAT };
+      return { kind: 'duplicate-file', uploadId: seen.id, uploadedAt: formatPlantDateTime(seen.uploaded_at, clock) };
     }
     const ids = await client.query<{ id: number; file_id: number }>(
       `select nextval(pg_get_serial_sequence('uploads', 'id'))::int as id, nextval(pg_get_serial_sequence('stored_files', 'id'))::int as file_id`,
@@ -320,7 +327,7 @@ class MeasurementStore {
       if (s.p !== lot.productId || s.l !== lot.lineId) {
         this.errors.push({ row: lot.row, column: 'lot', message: `Lot ${lot.number} is already recorded for another product or line` });
       } else if (Math.abs(s.t - lot.producedAt) >= 60_000) {
-        this.errors.push({ row: lot.row, column: 'produced_at', message: `Lot ${lot.number} is already recorded as produced at ${new Date(s.t).toISOString()}` });
+        this.errors.push({ row: lot.row, column: 'produced_at', message: `Lot ${lot.number} is already recorded as produced at ${formatPlantDateTime(s.t, this.cat)} (plant time)` });
       } else lot.clash = false;
     }
     this.lotsTouched += round.newLots.length;

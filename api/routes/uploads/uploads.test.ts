@@ -75,7 +75,8 @@ describe('POST /api/v1/uploads', () => {
     const before = await liveCount();
     const again = await upload('quality_manager', csv, 'renamed.csv');
     expect(again.status).toBe(409);
-    expect(again.body.error).toMatch(/already imported as upload/);
+    // When, on the plant's clock and in its date format (the demo plant: dd/MM/yyyy).
+    expect(again.body.error).toMatch(/^This file was already imported as upload \d+ on \d{2}\/\d{2}\/\d{4} \d{2}:\d{2} \(plant time\)$/);
     // The one error shape, with the earlier upload named for the page's link.
     expect(again.body).toEqual({ error: expect.any(String), uploadId: first.body.id });
     expect(await liveCount()).toBe(before);

@@ -34,7 +34,7 @@ export default function ManualEntryPage() {
         <Loading label="Loading products and characteristics…" />
       ) : (
         <>
-          <p className="-mt-3 mb-5 text-sm text-zinc-600" data-testid="plant-time-note">
+          <p className="-mt-3 mb-5 text-sm text-zinc-600">
             {plantTimeNote(clock.data.timeZone)}; type dates and times as {plantDateTimeHint(clock.data)}.
           </p>
           <ManualEntryForm catalogue={catalogue.data} clock={clock.data} />
