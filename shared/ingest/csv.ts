@@ -223,7 +223,7 @@ export function notAResultsFile(text: string): string | null {
   if (controls.nul || controls.count > Math.max(2, start.length / 100)) {
     return 'This is not a results file: it holds binary content, not text (a spreadsheet workbook, a PDF or a picture?). Export the results as CSV from the spreadsheet or the instrument and choose that file';
   }
-  const firstLine = start.split(/\r\n|\n|\r/).find((line) => line.trim() !== '');
+  const firstLine = /[^\r\n]*\S[^\r\n]*/.exec(start)?.[0];
   if (firstLine === undefined) return null;
   if (!/[,;\t]/.test(firstLine)) {
     return 'This is not a results file: no delimiter was found. Its first line has no comma, semicolon or tab between column names, so it has no columns to read';
