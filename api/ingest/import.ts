@@ -11,6 +11,7 @@ import { drizzle } from 'drizzle-orm/node-postgres';
 import type pg from 'pg';
 import { decodeText, readResults, validateRows, type CanonicalRow, type ColumnMapping, type CsvDialect, type RowError, type ValidMeasurement } from '@shared/ingest';
 import { beyondStrictestLimits } from '@shared/spc';
+import { DEFAULT_PLANT_DATE_FORMAT, formatPlantDateTime, type PlantDateFormat } from '@shared/time';
 import type { Database } from '@api/db/client';
 import * as schema from '@api/db/schema';
 import { recordAudit } from '@api/db/audit';
@@ -36,7 +37,7 @@ export type ImportOutcome =
       toJudge: Subgroup[];
     }
   | { kind: 'rejected'; uploadId: number | null; rowsTotal: number; errors: RowError[] }
-  | { kind: 'duplicate-file'; uploadId: number; uploadedAt: Date };
+  | { kind: 'duplicate-file'; uploadId: number; /** When the same bytes came before, as the plant's clock read then. */ uploadedAt: string };
 
 /** Serialises imports so duplicate checks and inserts see one consistent state. */
 const IMPORT_LOCK = 727_002;
@@ -60,6 +61,8 @@ export interface ImportRequest {
   /** Rows already in canonical form (manual entry); content is not parsed then. */
   rows?: CanonicalRow[];
   decimalComma?: boolean;
+  /** When the rows are checked (epoch ms): times later than this and the allowance are refused. The clock's now when absent. */
+  now?: number;
 }
 
 /** Validates everything, then stores every measurement in one transaction, or nothing. */
@@ -94,10 +97,16 @@ async function importOn(client: pg.PoolClient, reader: pg.PoolClient, req: Impor
   let uploadId: number | null = null;
   let fileId = 0;
   if (sha256) {
-    const earlier = await client.query<{ id: number; uploaded_at: Date }>(`select id, uploaded_at from uploads where sha256 = $1 and status <> 'rejected'`, [sha256]);
-    if (earlier.rows[0]) {
+    const earlier = await client.query<{ id: number; uploaded_at: Date; time_zone: string | null; date_format: PlantDateFormat | null }>(
+      `select u.id, u.uploaded_at, p.time_zone, p.date_format from uploads u left join (select time_zone, date_format from plants order by id limit 1) p on true
+       where u.sha256 = $1 and u.status <> 'rejected'`,
+      [sha256],
+    );
+    const seen = earlier.rows[0];
+    if (seen) {
       await client.query('rollback');
-      return { kind: 'duplicate-file', uploadId: earlier.rows[0].id, uploadedAt: earlier.rows[0].uploaded_at };
+      const clock = { timeZone: seen.time_zone ?? 'UTC', dateFormat: seen.date_format ?? DEFAULT_PLANT_DATE_FORMAT };
+      return { kind: 'duplicate-file', uploadId: seen.id, uploadedAt: formatPlantDateTime(seen.uploaded_at, clock) };
     }
     const ids = await client.query<{ id: number; file_id: number }>(
       `select nextval(pg_get_serial_sequence('uploads', 'id'))::int as id, nextval(pg_get_serial_sequence('stored_files', 'id'))::int as file_id`,
@@ -106,8 +115,12 @@ async function importOn(client: pg.PoolClient, reader: pg.PoolClient, req: Impor
     fileId = ids.rows[0].file_id;
   }
   const catalogue = await loadCatalogue(tx);
+  // One "now" for the whole file, so every row is held to the same latest time.
+  const now = req.now ?? Date.now();
 
   // The file's bytes go in first, while the first piece is parsed; counts are set once all is stored.
+  // Every later statement on the transaction's connection waits for it: node-postgres takes one query
+  // at a time, and queueing more behind a running one is deprecated (pg 8) and refused from pg 9.
   const fileKept = uploadId !== null ? insertUpload(client, req, sha256!, uploadId, fileId, 'imported', 0, 0, null) : Promise.resolve();
   fileKept.catch(() => undefined);
 
@@ -115,17 +128,18 @@ async function importOn(client: pg.PoolClient, reader: pg.PoolClient, req: Impor
   let rowsTotal: number;
   let readErrors: RowError[];
   if (req.rows) {
-    const { valid, errors } = validateRows(req.rows, catalogue, { decimalComma: req.decimalComma ?? false });
+    const { valid, errors } = validateRows(req.rows, catalogue, { decimalComma: req.decimalComma ?? false, now });
     rowsTotal = req.rows.length;
     readErrors = errors;
     for (const v of valid) store.take(v);
     await store.store(await store.prepare(store.closeRound(), errors.length > 0));
   } else {
-    const reading = readResults(decodeText(req.content ?? Buffer.alloc(0)), { dialect: req.dialect, mapping: req.mapping, catalogue, pieceSize: PIECE_CHARACTERS });
+    const reading = readResults(decodeText(req.content ?? Buffer.alloc(0)), { dialect: req.dialect, mapping: req.mapping, catalogue, pieceSize: PIECE_CHARACTERS, now });
     readErrors = reading.errors;
     // Two chains: lookups of round k + 1 on the reading connection overlap the COPY of round k.
     let looked: Promise<unknown> = Promise.resolve();
-    let stored: Promise<void> = Promise.resolve();
+    // The first COPY of rows follows the file's own statements on the connection.
+    let stored: Promise<void> = fileKept;
     /** Each submitted round's end of storing, oldest first, to wait on when parsing runs ahead. */
     const storing: Promise<unknown>[] = [];
     let ahead = 0;
@@ -198,16 +212,15 @@ async function importOn(client: pg.PoolClient, reader: pg.PoolClient, req: Impor
   };
 }
 
-/** Stores the upload's file and its row, both queued on the connection at once. */
+/** Stores the upload's file, then its row, which refers to the file. */
 async function insertUpload(client: pg.PoolClient, req: ImportRequest, sha256: string, id: number, fileId: number, status: 'imported' | 'rejected', rowsTotal: number, rowsImported: number, errors: RowError[] | null): Promise<void> {
   const content = req.content!;
-  const file = putFile(client, { id: fileId, fileName: req.fileName, bytes: content, createdBy: req.actorId, sha256 });
-  const row = client.query(
+  await putFile(client, { id: fileId, fileName: req.fileName, bytes: content, createdBy: req.actorId, sha256 });
+  await client.query(
     `insert into uploads (id, file_name, sha256, uploaded_by, status, format, rows_total, rows_imported, rows_rejected, errors, size_bytes, file_id)
      values ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12)`,
     [id, req.fileName, sha256, req.actorId, status, req.mapping?.format ?? 'long', rowsTotal, rowsImported, errors ? new Set(errors.map((e) => e.row)).size : 0, errors ? JSON.stringify(errors) : null, content.length, fileId],
   );
-  await Promise.all([file, row]);
 }
 
 /** Stores checked measurements round by round, after comparing each round with what is stored. */
@@ -314,7 +327,7 @@ class MeasurementStore {
       if (s.p !== lot.productId || s.l !== lot.lineId) {
         this.errors.push({ row: lot.row, column: 'lot', message: `Lot ${lot.number} is already recorded for another product or line` });
       } else if (Math.abs(s.t - lot.producedAt) >= 60_000) {
-        this.errors.push({ row: lot.row, column: 'produced_at', message: `Lot ${lot.number} is already recorded as produced at ${new Date(s.t).toISOString()}` });
+        this.errors.push({ row: lot.row, column: 'produced_at', message: `Lot ${lot.number} is already recorded as produced at ${formatPlantDateTime(s.t, this.cat)} (plant time)` });
       } else lot.clash = false;
     }
     this.lotsTouched += round.newLots.length;

@@ -3,10 +3,17 @@
 import Papa from 'papaparse';
 import { detectDialect, type CsvDialect } from './dialect';
 import { missingColumns, type ColumnMapping } from './mapping';
+import { looksLikeDate, parseNumber } from './values';
 import type { RowError } from './validate';
 
-/** UTF-8 unless the bytes are not valid UTF-8, then Windows-1252 (older lab PCs). */
+/**
+ * UTF-8 unless the bytes are not valid UTF-8, then Windows-1252 (older lab PCs). A file that starts with
+ * a UTF-16 byte order mark (FF FE or FE FF, the "Unicode text" some spreadsheets save) is read as UTF-16.
+ */
 export function decodeText(bytes: Uint8Array): string {
+  if (bytes.length >= 2 && ((bytes[0] === 0xff && bytes[1] === 0xfe) || (bytes[0] === 0xfe && bytes[1] === 0xff))) {
+    return new TextDecoder(bytes[0] === 0xff ? 'utf-16le' : 'utf-16be').decode(bytes).replace(/^\uFEFF/, '');
+  }
   try {
     return new TextDecoder('utf-8', { fatal: true }).decode(bytes).replace(/^\uFEFF/, '');
   } catch {
@@ -185,9 +192,56 @@ export function parseCsv(text: string, override: Partial<CsvDialect> = {}): Pars
   return { headers: reading.headers, records, decimalComma: reading.dialect.decimalComma, delimiter: reading.dialect.delimiter, errors };
 }
 
+/** The start of a file that decides whether it is text: as much as the dialect's detection reads. */
+const SNIFF_CHARACTERS = 65_536;
+/** Control characters no text export writes (C0 except tab, line feed, form feed and carriage return; DEL), and whether a NUL is among them. */
+function controlCharacters(text: string): { count: number; nul: boolean } {
+  let count = 0;
+  let nul = false;
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i);
+    if ((c < 32 && c !== 9 && c !== 10 && c !== 12 && c !== 13) || c === 127) {
+      count++;
+      if (c === 0) nul = true;
+    }
+  }
+  return { count, nul };
+}
+
+/** Whether a header cell holds a value rather than a column's name: a date, or a number. */
+const looksLikeData = (cell: string) => looksLikeDate(cell) || parseNumber(cell, false) !== null || parseNumber(cell, true) !== null;
+
+/**
+ * Why a text cannot be a results file, in words for the technician who chose it; null when it may be one.
+ * Binary content (a workbook, a PDF, a picture), no delimiter anywhere in the first line, or a first
+ * line of values rather than column names: no mapping of columns can make rows of these.
+ */
+export function notAResultsFile(text: string): string | null {
+  const start = text.slice(0, SNIFF_CHARACTERS);
+  // A NUL never appears in a text export; a few stray control characters may, a binary file is full of them.
+  const controls = controlCharacters(start);
+  if (controls.nul || controls.count > Math.max(2, start.length / 100)) {
+    return 'This is not a results file: it holds binary content, not text (a spreadsheet workbook, a PDF or a picture?). Export the results as CSV from the spreadsheet or the instrument and choose that file';
+  }
+  const firstLine = /[^\r\n]*\S[^\r\n]*/.exec(start)?.[0];
+  if (firstLine === undefined) return null;
+  if (!/[,;\t]/.test(firstLine)) {
+    return 'This is not a results file: no delimiter was found. Its first line has no comma, semicolon or tab between column names, so it has no columns to read';
+  }
+  const delimiter = detectDialect(start).delimiter;
+  const cells = firstLine.split(delimiter).map((c) => c.trim().replace(/^"(.*)"$/, '$1')).filter((c) => c !== '');
+  const values = cells.filter(looksLikeData);
+  if (cells.length === 0 || values.some((c) => looksLikeDate(c)) || values.length * 2 >= cells.length) {
+    return `This is not a results file: it has no header. Its first line holds values (${values.slice(0, 3).join(', ') || 'empty cells'}), not column names; add the header line of the CSV template`;
+  }
+  return null;
+}
+
 /** What is wrong with the file as a whole, before any row is read: the same words in the preview and in the server's 422. */
 export function fileErrors(text: string, headers: string[], rowsTotal: number | null, mapping: ColumnMapping): RowError[] {
   if (headers.length === 0 || text.trim() === '') return [{ row: 1, column: '', message: 'The file is empty: it needs a header row and at least one data row' }];
+  const notResults = rowsTotal === null ? notAResultsFile(text) : null;
+  if (notResults) return [{ row: 1, column: '', message: notResults }];
   const missing = missingColumns(headers, mapping);
   if (missing.length) return [{ row: 1, column: missing.join(', '), message: `Missing column${missing.length > 1 ? 's' : ''}: ${missing.join(', ')}` }];
   if (rowsTotal === 0) return [{ row: 2, column: '', message: 'The file has a header but no data rows' }];

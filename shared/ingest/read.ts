@@ -20,11 +20,11 @@ const canonicalLong: ColumnMapping = { format: 'long', columns: {} };
 
 export function readResults(
   text: string,
-  opts: { dialect?: Partial<CsvDialect>; mapping?: ColumnMapping; catalogue: IngestCatalogue; pieceSize?: number },
+  opts: { dialect?: Partial<CsvDialect>; mapping?: ColumnMapping; catalogue: IngestCatalogue; pieceSize?: number; /** What "later than now" means for the whole file (epoch ms). */ now?: number },
 ): ResultsReading {
   const mapping = opts.mapping ?? canonicalLong;
   const csv = readCsv(text, opts.dialect, opts.pieceSize);
-  const validator = new RowValidator(opts.catalogue, { decimalComma: csv.dialect.decimalComma });
+  const validator = new RowValidator(opts.catalogue, { decimalComma: csv.dialect.decimalComma, now: opts.now });
   const errors = validator.errors;
   let rowsTotal = 0;
 

@@ -6,6 +6,8 @@ export interface IngestCatalogue {
   timeZone: string;
   lineCodes: ReadonlySet<string>;
   productCodes: ReadonlySet<string>;
+  /** Per product code, the lines that make it; a product the catalogue ties to no line may come from any. */
+  productLines: ReadonlyMap<string, ReadonlySet<string>>;
   characteristics: ReadonlyMap<
     string,
     { productCode: string; name: string; unit: string; subgroupSize: number; physicalMin: number; physicalMax: number; physicalMaxExclusive: boolean }
@@ -36,12 +38,23 @@ export interface RowError {
   message: string;
 }
 
+export interface ValidationOptions {
+  decimalComma: boolean;
+  /** The time the rows are checked at (epoch ms): what "later than now" means; the clock's now when absent. */
+  now?: number;
+}
+
 export interface ValidationResult {
   valid: ValidMeasurement[];
   errors: RowError[];
 }
 
 const MAX_TEXT = 500;
+/**
+ * How far ahead of the checking computer's clock a production or test time may lie: a lab PC or
+ * instrument whose clock runs a few minutes fast is no reason to refuse its results, months ahead is.
+ */
+export const FUTURE_ALLOWANCE_MINUTES = 15;
 const lotPattern = /^[A-Za-z0-9][A-Za-z0-9._/-]{0,63}$/;
 
 // Module-level helpers rather than closures per row: a 100,000-row file allocates far less.
@@ -61,6 +74,12 @@ function unknownCharacteristic(cat: IngestCatalogue, code: string, product: stri
   if (cat.deactivatedCharacteristics?.has(code)) return `Characteristic ${code} is deactivated and takes no more results; an administrator can reactivate it`;
   const ofProduct = [...cat.characteristics].filter(([, c]) => c.productCode === product).map(([k]) => k);
   return ofProduct.length ? `Unknown characteristic code "${code}" (${product} has: ${knownCodes(ofProduct)})` : `Unknown characteristic code "${code}"`;
+}
+
+function inTheFuture(text: string, column: 'produced_at' | 'tested_at'): string {
+  const what = column === 'produced_at' ? 'Production time' : 'Test time';
+  const why = column === 'produced_at' ? 'a lot cannot have been made in the future' : 'a sample cannot have been tested in the future';
+  return `${what} "${text}" is later than now: ${why} (up to ${FUTURE_ALLOWANCE_MINUTES} minutes ahead are taken, for clocks that differ)`;
 }
 
 function notADate(text: string, column: 'produced_at' | 'tested_at'): string {
@@ -85,10 +104,15 @@ export class RowValidator {
   /** The last production and test time read and their instants: a lot's rows repeat the same times. */
   private readonly lastDate = { produced_at: { text: '', ms: null as number | null }, tested_at: { text: '', ms: null as number | null } };
 
+  /** The latest production or test time taken: now and the allowance, worked out once for the whole file. */
+  private readonly latest: number;
+
   constructor(
     private readonly cat: IngestCatalogue,
-    private readonly opts: { decimalComma: boolean },
-  ) {}
+    private readonly opts: ValidationOptions,
+  ) {
+    this.latest = (opts.now ?? Date.now()) + FUTURE_ALLOWANCE_MINUTES * 60_000;
+  }
 
   private date(column: 'produced_at' | 'tested_at', text: string): number | null {
     const last = this.lastDate[column];
@@ -120,11 +144,16 @@ export class RowValidator {
     const line = trimmed(cells.line);
     if (!line) fail(rowErrors, r, 'line', 'Production line is missing');
     else if (!cat.lineCodes.has(line)) fail(rowErrors, r, 'line', `Unknown production line "${line}" (lines: ${knownCodes(cat.lineCodes)})`);
+    else {
+      const makers = cat.productLines.get(product);
+      if (makers !== undefined && !makers.has(line)) fail(rowErrors, r, 'line', `Product ${product} is not made on line ${line} (${product} is made on ${knownCodes(makers)})`);
+    }
 
     const producedText = trimmed(cells.produced_at);
     const producedAt = producedText ? this.date('produced_at', producedText) : null;
     if (!producedText) fail(rowErrors, r, 'produced_at', 'Production date is missing');
     else if (producedAt === null) fail(rowErrors, r, 'produced_at', notADate(producedText, 'produced_at'));
+    else if (producedAt > this.latest) fail(rowErrors, r, 'produced_at', inTheFuture(producedText, 'produced_at'));
 
     const code = trimmed(cells.characteristic);
     const ch = code ? cat.characteristics.get(code) : undefined;
@@ -163,7 +192,11 @@ export class RowValidator {
     const testedText = trimmed(cells.tested_at);
     const testedAt = testedText ? this.date('tested_at', testedText) : null;
     if (testedText && testedAt === null) fail(rowErrors, r, 'tested_at', notADate(testedText, 'tested_at'));
-    else if (testedAt !== null && producedAt !== null && testedAt < producedAt - 60_000) fail(rowErrors, r, 'tested_at', 'Test time is before the lot was produced');
+    else if (testedAt !== null && testedAt > this.latest) fail(rowErrors, r, 'tested_at', inTheFuture(testedText, 'tested_at'));
+    // A production time in the future is its own error; measured against it, any test time would be early.
+    else if (testedAt !== null && producedAt !== null && producedAt <= this.latest && testedAt < producedAt - 60_000) {
+      fail(rowErrors, r, 'tested_at', 'Test time is before the lot was produced');
+    }
 
     const shift = trimmed(cells.shift);
     const operator = trimmed(cells.operator);
@@ -213,7 +246,7 @@ export class RowValidator {
 }
 
 /** Checks a whole set of rows at once (the browser's preview of a file, manual entry). */
-export function validateRows(rows: CanonicalRow[], cat: IngestCatalogue, opts: { decimalComma: boolean }): ValidationResult {
+export function validateRows(rows: CanonicalRow[], cat: IngestCatalogue, opts: ValidationOptions): ValidationResult {
   const validator = new RowValidator(cat, opts);
   const valid: ValidMeasurement[] = [];
   for (const r of rows) {

@@ -98,7 +98,9 @@ export async function run(): Promise<BenchRow[]> {
     const [product] = (await db.execute<{ code: string; line: string }>(sql`
       select p.code, pl.code as line from products p join production_lines pl on pl.id = p.line_id where p.id = ${plant.productIds[0]}`)).rows;
     const chars = (await db.execute<{ code: string }>(sql`select code from characteristics where product_id = ${plant.productIds[0]} order by code`)).rows;
-    const csv = ['lot,product,line,produced_at,characteristic,value,replicate', ...chars.map((c, i) => `${product.code}-NEW,${product.code},${product.line},2030-01-01T06:00:00Z,${c.code},${145 + i / 10},1`)].join('\n');
+    // The newest lot of the chart, made an hour ago: the import refuses production times later than now.
+    const madeAnHourAgo = new Date(Date.now() - 3_600_000).toISOString();
+    const csv = ['lot,product,line,produced_at,characteristic,value,replicate', ...chars.map((c, i) => `${product.code}-NEW,${product.code},${product.line},${madeAnHourAgo},${c.code},${145 + i / 10},1`)].join('\n');
     const t0 = performance.now();
     const outcome = await importResults(db, { fileName: 'new-lot.csv', content: Buffer.from(csv), actorId: null, source: 'upload' });
     if (outcome.kind !== 'imported') throw new Error(`the new lot did not import: ${outcome.kind}`);

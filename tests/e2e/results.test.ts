@@ -6,7 +6,8 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect } from 'vitest';
 import type { Page } from 'playwright-core';
-import { baseUrl, browserTest, pageHeading, plantInput, screenshot, signIn } from '../support/browser';
+import { formatPlantDateTime, type PlantClock } from '@shared/time';
+import { baseUrl, browserTest, pageHeading, screenshot, signIn } from '../support/browser';
 
 const it = browserTest();
 const files = mkdtempSync(join(tmpdir(), 'prismline-results-'));
@@ -16,6 +17,22 @@ const files = mkdtempSync(join(tmpdir(), 'prismline-results-'));
 const stamp = Date.now().toString(36).toUpperCase();
 let lotCounter = 0;
 const newLot = () => `E2E-${stamp}-${++lotCounter}`;
+// The demo plant's clock (api/db/seed/scenario/plant.ts: Europe/London, the default date format dd/MM/yyyy).
+const plantClock: PlantClock = { timeZone: 'Europe/London', dateFormat: 'dd/MM/yyyy' };
+/** An instant as a technician types it on the plant's clock, e.g. "02/11/2021 06:20". */
+const typed = (instant: Date | string) => formatPlantDateTime(instant, plantClock);
+
+/** Whether the page scrolls sideways, and the actions that lie beyond the right edge of the window. */
+async function offScreen(page: Page, actions: string[]) {
+  const scrollsSideways = await page.evaluate(() => document.documentElement.scrollWidth > document.documentElement.clientWidth);
+  const width = page.viewportSize()!.width;
+  const beyond: string[] = [];
+  for (const name of actions) {
+    const box = await page.getByRole('button', { name, exact: true }).or(page.getByRole('link', { name, exact: true })).first().boundingBox();
+    if (!box || box.x < 0 || box.x + box.width > width) beyond.push(name);
+  }
+  return { scrollsSideways, beyond };
+}
 
 function csvFile(name: string, text: string): string {
   const path = join(files, name);
@@ -182,8 +199,10 @@ describe('manual entry', () => {
     // The product's own line is proposed.
     expect(await page.getByLabel('Production line').inputValue()).toBe('L1');
     await page.getByLabel('Lot number').fill(lot);
+    // Dates are typed in the plant's format, on its clock, and the page names that clock once.
+    expect(await page.getByText(/^Times are plant time \(Europe\/London, (GMT|BST)\); type dates and times as dd\/mm\/yyyy hh:mm\.$/).count()).toBe(1);
     // Before the demo history no specification revision was in force (the seed's revision 1 starts with it).
-    await page.getByLabel('Production time').fill('2021-11-02T06:20');
+    await page.getByLabel('Production time').fill('02/11/2021 06:20');
     await page.getByLabel('Shift (optional)').selectOption('early');
     await page.getByLabel('Add a characteristic').selectOption('HVL25-RC28');
     await page.getByRole('button', { name: 'Add', exact: true }).click();
@@ -201,7 +220,7 @@ describe('manual entry', () => {
     await card.getByText('= 24.4 MPa', { exact: true }).waitFor();
     // Made an hour ago, under revision 1: 24.4 MPa is below its LSL of 25 MPa (the declared C25). This lot joins
     // the end of the HVL25-RC28 chart, which no other test reads.
-    await page.getByLabel('Production time').fill(plantInput(new Date(Date.now() - 3_600_000).toISOString()));
+    await page.getByLabel('Production time').fill(typed(new Date(Date.now() - 3_600_000)));
     await card.getByText('= 24.4 MPa out of spec').waitFor();
     // EN 196-1: 40 kN / 1600 mm² = 25.0 MPa, on the limit and so within it.
     await card.getByLabel('Half 1').fill('40');
@@ -228,7 +247,7 @@ describe('manual entry', () => {
     await signIn(page, 'technician', '/results/enter');
     await page.getByLabel('Product', { exact: true }).selectOption('HVL25');
     await page.getByLabel('Lot number').fill(lot);
-    await page.getByLabel('Production time').fill('2021-11-02T06:20');
+    await page.getByLabel('Production time').fill('02/11/2021 06:20');
     await page.getByLabel('Add a characteristic').selectOption('HVL25-FLOW');
     await page.getByRole('button', { name: 'Add', exact: true }).click();
     const card = page.getByRole('region', { name: /flow diameter$/ });
@@ -237,6 +256,116 @@ describe('manual entry', () => {
     await card.getByText('Enter a number').waitFor();
     expect(await card.getByLabel('Reading 2').getAttribute('aria-invalid')).toBe('true');
     expect(await storedValues(page, lot)).toBeNull();
+  });
+});
+
+describe('what must not get in', () => {
+  it('says plainly that a picture is not a results file, and offers no column mapping for it', async ({ page }) => {
+    // The signature every PNG picture starts with (ISO/IEC 15948, 5.2), then its header chunk.
+    const png = join(files, `photo-${stamp}.csv`);
+    writeFileSync(png, Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0x00, 0x00, 0x00, 0x0d, 0x49, 0x48, 0x44, 0x52, 0x00, 0x00, 0x01, 0x00]));
+    await signIn(page, 'technician', '/results/upload');
+    await pageHeading(page, 'Upload results').waitFor();
+    await chooseFile(page, png);
+    await page.getByText(`photo-${stamp}.csv: This is not a results file: it holds binary content`).waitFor();
+    expect(await page.getByRole('heading', { name: /Which column holds what/ }).count()).toBe(0);
+    expect(await page.getByText(/0 data rows/).count()).toBe(0);
+    await screenshot(page, 'results-upload-not-results');
+  });
+
+  it('refuses a production time in the future and a product on a line that does not make it, under their fields', async ({ page }) => {
+    const lot = newLot();
+    await signIn(page, 'technician', '/results/enter');
+    await page.getByLabel('Product', { exact: true }).selectOption('HVL25');
+    await page.getByLabel('Lot number').fill(lot);
+    await page.getByLabel('Add a characteristic').selectOption('HVL25-FLOW');
+    await page.getByRole('button', { name: 'Add', exact: true }).click();
+    const card = page.getByRole('region', { name: /flow diameter$/ });
+    await card.getByLabel('Reading 1').fill('146');
+    await card.getByLabel('Reading 2').fill('147');
+
+    // Three months ahead: the form says so under the field before anything is sent.
+    await page.getByLabel('Production time').fill(typed(new Date(Date.now() + 90 * 86_400_000)));
+    await page.getByRole('button', { name: 'Save 2 results' }).click();
+    await page.getByText(/^Production time is later than now: results cannot come from the future/).waitFor();
+    expect(await page.getByLabel('Production time').getAttribute('aria-invalid')).toBe('true');
+    // A test time before the production time.
+    await page.getByLabel('Production time').fill('02/11/2021 06:20');
+    await card.getByLabel('Test time (optional)').fill('01/11/2021 06:20');
+    await page.getByRole('button', { name: 'Save 2 results' }).click();
+    await card.getByText('Test time is before the lot was produced').waitFor();
+    await card.getByLabel('Test time (optional)').fill('02/11/2021 08:00');
+
+    // HV Level 25 is made on L1 (the demo catalogue); only the server knows the catalogue's pairing for sure.
+    await page.getByLabel('Production line').selectOption('L2');
+    await page.getByRole('button', { name: 'Save 2 results' }).click();
+    await page.getByText('Product HVL25 is not made on line L2 (HVL25 is made on L1)').waitFor();
+    expect(await page.getByLabel('Production line').getAttribute('aria-invalid')).toBe('true');
+    await screenshot(page, 'results-manual-entry-refused');
+    expect(await storedValues(page, lot)).toBeNull();
+  });
+
+  it('keeps every action of the upload and manual-entry screens on a tablet held upright (800 × 1280)', async ({ page }) => {
+    await page.setViewportSize({ width: 800, height: 1280 });
+    await signIn(page, 'technician', '/results/upload');
+    await pageHeading(page, 'Upload results').waitFor();
+    const lot = newLot();
+    await chooseFile(page, csvFile(`tablet-${stamp}.csv`, `Tablet batch;Tablet product;Tablet line;Tablet made;Ring A;Ring B\n${lot};HVL25;L1;19.07.2021 06:10;144;146\n`));
+    await page.getByRole('heading', { name: '3. Which column holds what' }).waitFor();
+    await page.getByLabel('One row per lot, a column per result').check();
+    expect(await offScreen(page, ['Download the CSV template', 'Choose another file', 'Finish the mapping first'])).toEqual({ scrollsSideways: false, beyond: [] });
+    await screenshot(page, 'results-upload-tablet');
+
+    // A file the browser refuses row by row, under a long name as exports name their files.
+    const longName = `press-export-line-1-early-shift-${stamp}-corrected-after-the-morning-meeting-final.csv`;
+    await chooseFile(page, csvFile(longName, `lot;product;line;produced_at;characteristic;value;replicate\n${lot};HVL25;L2;19.07.2021 06:10;HVL25-DENS;heavy;1\n`));
+    await page.getByRole('table', { name: 'Rows to correct' }).waitFor();
+    expect(await offScreen(page, ['Choose another file', 'Correct the file first'])).toEqual({ scrollsSideways: false, beyond: [] });
+    await screenshot(page, 'results-upload-tablet-errors');
+
+    await page.goto(`${baseUrl()}/results/enter`);
+    await pageHeading(page, 'Enter a lot by hand').waitFor();
+    await page.getByLabel('Product', { exact: true }).selectOption('HVL25');
+    for (const code of ['HVL25-RC28', 'HVL25-FLOW']) {
+      await page.getByLabel('Add a characteristic').selectOption(code);
+      await page.getByRole('button', { name: 'Add', exact: true }).click();
+    }
+    await page.getByRole('region', { name: /compressive strength · 28 d/ }).waitFor();
+    expect(await offScreen(page, ['Add', 'Remove HVL25-RC28', 'Remove HVL25-FLOW', 'Save 8 results'])).toEqual({ scrollsSideways: false, beyond: [] });
+    await screenshot(page, 'results-manual-entry-tablet');
+  });
+});
+
+describe('the lot page and the upload history', () => {
+  it('show times on the plant clock in its date format and figures to the characteristic decimals, whatever the browser zone', async ({ page }) => {
+    const lot = newLot();
+    const fileName = `plant-clock-${stamp}.csv`;
+    await signIn(page, 'technician', '/results/history');
+    await pageHeading(page, 'Upload history').waitFor();
+    // 19 July 2021 06:10 at the plant is 05:10 UTC (UK summer time, BST = UTC+1).
+    const created = await page.request.post(`${baseUrl()}/api/v1/uploads`, {
+      multipart: { file: { name: fileName, mimeType: 'text/csv', buffer: Buffer.from(`lot,product,line,produced_at,characteristic,value\n${lot},HVL25,L1,2021-07-19T06:10,HVL25-DENS,1950\n`) } },
+    });
+    expect(created.status()).toBe(201);
+    // The browser in New York: the page must not care.
+    const cdp = await page.context().newCDPSession(page);
+    await cdp.send('Emulation.setTimezoneOverride', { timezoneId: 'America/New_York' });
+
+    await page.goto(`${baseUrl()}/results/lots/${lot}`);
+    await pageHeading(page, `Lot ${lot}`).waitFor();
+    await page.getByText('19/07/2021 06:10', { exact: true }).waitFor();
+    await page.getByText(/Times are plant time \(Europe\/London, BST\)/).waitFor();
+    // Fresh density is kept to no decimals (its test method in shared/lab/test-methods.ts); thousands are grouped for reading.
+    const row = page.getByRole('row', { name: /HVL25-DENS/ });
+    expect(await row.getByRole('cell').nth(2).textContent()).toBe('1,950 kg/m³');
+    expect(await row.getByRole('cell').nth(1).textContent()).toContain('1,950');
+
+    await page.goto(`${baseUrl()}/results/history`);
+    const listed = (await (await page.request.get(`${baseUrl()}/api/v1/uploads?limit=500`)).json()) as { items: { fileName: string; uploadedAt: string }[] };
+    const uploadedAt = listed.items.find((u) => u.fileName === fileName)!.uploadedAt;
+    const historyRow = page.getByRole('row', { name: new RegExp(fileName) });
+    expect(await historyRow.getByRole('cell').first().textContent()).toContain(typed(uploadedAt));
+    await screenshot(page, 'results-history-plant-clock');
   });
 });
 

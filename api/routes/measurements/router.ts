@@ -5,7 +5,7 @@ import type { CanonicalRow } from '@shared/ingest';
 import type { Database } from '@api/db/client';
 import { characteristics, measurements, testMethods } from '@api/db/schema';
 import { recordAudit } from '@api/db/audit';
-import { badRequest, fieldError, notFound, parseBody } from '@api/http/errors';
+import { badRequest, fieldError, HttpError, notFound, parseBody } from '@api/http/errors';
 import { requirePermission, requireSession } from '@api/auth/session';
 import { importResults } from '@api/ingest/import';
 import type { ResultsChanged } from '@api/spc/results-changed';
@@ -31,7 +31,7 @@ async function manualRows(db: Database, entry: ManualEntry): Promise<CanonicalRo
         }
       }
       rows.push({
-        // Rows count characteristics and readings so that errors point at the form's own fields.
+        // Rows count characteristics and readings; each column is named by the form's own field, so a row's error is a field's.
         row: (i + 1) * 100 + r + 1,
         cells: {
           lot: entry.lot,
@@ -46,7 +46,19 @@ async function manualRows(db: Database, entry: ManualEntry): Promise<CanonicalRo
           operator: entry.operator,
           note: result.note,
         },
-        sourceColumn: { value: `results.${i}.replicates.${r}`, replicate: `results.${i}.replicates.${r}`, characteristic: `results.${i}.characteristic` },
+        sourceColumn: {
+          lot: 'lot',
+          product: 'product',
+          line: 'line',
+          produced_at: 'producedAt',
+          shift: 'shift',
+          operator: 'operator',
+          characteristic: `results.${i}.characteristic`,
+          value: `results.${i}.replicates.${r}`,
+          replicate: `results.${i}.replicates.${r}`,
+          tested_at: `results.${i}.testedAt`,
+          note: `results.${i}.note`,
+        },
       });
     });
   });
@@ -65,6 +77,11 @@ export function measurementsRouter(db: Database, resultsChanged: ResultsChanged)
       await resultsChanged({ characteristicIds: outcome.characteristicIds, because: 'upload', by: req.user!.id, judge: outcome.toJudge });
       res.status(201).json({ rowsImported: outcome.rowsImported, measurementIds: outcome.measurementIds });
       return;
+    }
+    if (outcome.kind === 'rejected') {
+      // A lot-level field repeats on every reading's row: its message is given once.
+      const details = [...new Map(outcome.errors.map((e) => [`${e.column}\n${e.message}`, { path: e.column, message: e.message }])).values()];
+      throw new HttpError(422, `Nothing was saved: ${details.length === 1 ? details[0].message : `${details.length} fields need correcting`}`, details);
     }
     respondToImport(res, outcome);
   });

@@ -56,7 +56,7 @@ const uploadColumns = {
 /** 201 for an import; a refusal is thrown as 409 (the same file before) or 422 (each row to correct as a detail). */
 export function respondToImport(res: Parameters<RequestHandler>[1], outcome: ImportOutcome): void {
   if (outcome.kind === 'duplicate-file') {
-    throw new HttpError(409, `This file was already imported as upload ${outcome.uploadId} on ${outcome.uploadedAt.toISOString()}`, undefined, { uploadId: outcome.uploadId });
+    throw new HttpError(409, `This file was already imported as upload ${outcome.uploadId} on ${outcome.uploadedAt} (plant time)`, undefined, { uploadId: outcome.uploadId });
   } else if (outcome.kind === 'rejected') {
     const rows = new Set(outcome.errors.map((e) => e.row)).size;
     const message = `Nothing was imported: ${rows} row${rows === 1 ? '' : 's'} need${rows === 1 ? 's' : ''} correcting`;

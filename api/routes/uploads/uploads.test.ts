@@ -75,7 +75,8 @@ describe('POST /api/v1/uploads', () => {
     const before = await liveCount();
     const again = await upload('quality_manager', csv, 'renamed.csv');
     expect(again.status).toBe(409);
-    expect(again.body.error).toMatch(/already imported as upload/);
+    // When, on the plant's clock and in its date format (the demo plant: dd/MM/yyyy).
+    expect(again.body.error).toMatch(/^This file was already imported as upload \d+ on \d{2}\/\d{2}\/\d{4} \d{2}:\d{2} \(plant time\)$/);
     // The one error shape, with the earlier upload named for the page's link.
     expect(again.body).toEqual({ error: expect.any(String), uploadId: first.body.id });
     expect(await liveCount()).toBe(before);
@@ -194,6 +195,42 @@ describe('POST /api/v1/uploads', () => {
     const report = await request(api.app).get(`/api/v1/uploads/${res.body.uploadId}/errors.csv`).set(await as('technician'));
     expect(report.status).toBe(200);
     expect(report.text).not.toMatch(/(^|,)=1\+1/m);
+  });
+
+  it('refuses a result from the future and a product on a line that does not make it, and stores nothing', async () => {
+    const lot = newLot();
+    // Three months ahead: far beyond the minutes allowed for a lab clock that runs fast.
+    const ahead = new Date(Date.now() + 90 * 86_400_000).toISOString().slice(0, 16);
+    const csv = [
+      header,
+      `${lot}-a,HVL25,L1,${ahead},HVL25-FLOW,146,,1,,,`,
+      `${lot}-b,HVL25,L1,2026-11-05T06:00:00Z,HVL25-FLOW,146,,1,${ahead},,`,
+      // HV Level 25 is made on line L1 (the demo catalogue, api/db/seed/scenario/plant.ts), not on L2.
+      `${lot}-c,HVL25,L2,2026-11-05T06:00:00Z,HVL25-FLOW,146,,1,,,`,
+      `${lot}-d,HVL25,L1,2026-11-05T06:00:00Z,HVL25-FLOW,146,,1,,,`,
+    ].join('\n');
+    const before = await liveCount();
+    const res = await upload('technician', csv);
+    expect(res.status).toBe(422);
+    expect(res.body.details.map((e: { row: number; column: string; message: string }) => [e.row, e.column, e.message])).toEqual([
+      [2, 'produced_at', expect.stringMatching(/^Production time ".*" is later than now: a lot cannot have been made in the future \(up to 15 minutes ahead/)],
+      [3, 'tested_at', expect.stringMatching(/^Test time ".*" is later than now/)],
+      [4, 'line', 'Product HVL25 is not made on line L2 (HVL25 is made on L1)'],
+    ]);
+    expect(await liveCount()).toBe(before);
+    expect(await api.db.select().from(lots).where(eq(lots.lotNumber, `${lot}-a`))).toHaveLength(0);
+  });
+
+  it('says plainly that a binary or unrelated file is not a results file, and why', async () => {
+    // The signature every PNG picture starts with (ISO/IEC 15948, 5.2), then its header chunk's length.
+    const png = Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0x00, 0x00, 0x00, 0x0d, 0x49, 0x48, 0x44, 0x52, 0x00, 0x00, 0x01, 0x00]);
+    const picture = await upload('technician', png, 'photo.csv');
+    expect(picture.status).toBe(422);
+    expect(picture.body.details).toEqual([{ path: 'row 1', row: 1, column: '', message: expect.stringMatching(/^This is not a results file: it holds binary content/) }]);
+    const letter = await upload('technician', 'Dear colleagues\nThe press is serviced on Monday\n', 'notice.csv');
+    expect(letter.body.details[0].message).toMatch(/^This is not a results file: no delimiter was found/);
+    const headless = await upload('technician', `${newLot()},HVL25,L1,2026-11-05T06:00:00Z,HVL25-FLOW,146\n${newLot()},HVL25,L1,2026-11-05T06:00:00Z,HVL25-FLOW,147\n`, 'no-header.csv');
+    expect(headless.body.details[0].message).toMatch(/^This is not a results file: it has no header/);
   });
 
   it('stores a formula-looking note verbatim as text', async () => {
@@ -399,6 +436,31 @@ describe('manual entry and corrections', () => {
     const values = (code: string) => detail.body.results.filter((r: { characteristicCode: string }) => r.characteristicCode === code).map((r: { value: number }) => r.value);
     expect(values('HVL25-RC28')).toEqual([25, 30, 27.5, 27.5, 28.75, 28.75]);
     expect(values('HVL25-RF28')).toEqual([7.5, 7.5, 7.5]);
+  });
+
+  it('names a future or out-of-order time and a product on the wrong line under the form fields, and stores nothing', async () => {
+    const lot = newLot();
+    const entry = (over: Record<string, unknown>, testedAt?: string) => ({
+      lot,
+      product: 'HVL25',
+      line: 'L1',
+      producedAt: '2026-11-09T06:20',
+      results: [{ characteristic: 'HVL25-FLOW', replicates: [146, 147], ...(testedAt ? { testedAt } : {}) }],
+      ...over,
+    });
+    const send = async (body: object) => request(api.app).post('/api/v1/measurements').set(await as('technician')).send(body);
+    const ahead = new Date(Date.now() + 30 * 86_400_000).toISOString();
+
+    const future = await send(entry({ producedAt: ahead }));
+    expect(future.status).toBe(422);
+    expect(future.body.details).toEqual([{ path: 'producedAt', message: expect.stringMatching(/is later than now: a lot cannot have been made in the future/) }]);
+    const early = await send(entry({}, '2026-11-08T06:20'));
+    expect(early.body.details).toEqual([{ path: 'results.0.testedAt', message: 'Test time is before the lot was produced' }]);
+    const line = await send(entry({ line: 'L2' }));
+    expect(line.body.details).toEqual([{ path: 'line', message: 'Product HVL25 is not made on line L2 (HVL25 is made on L1)' }]);
+    expect(line.body.error).toMatch(/^Nothing was saved/);
+    expect(await api.db.select().from(lots).where(eq(lots.lotNumber, lot))).toHaveLength(0);
+    expect((await send(entry({}))).status).toBe(201);
   });
 
   it('corrects a stored value only with a reason, and the audit trail keeps before and after', async () => {

@@ -3,7 +3,6 @@ import { http } from './http';
 import type { ManualEntry } from '@shared/ingest';
 import { chartKeys } from './query-keys';
 import { overviewKeys } from './query-keys';
-import { fileOutcome, type UploadOutcome } from './import-outcome';
 
 export interface LotResult {
   id: number;
@@ -48,18 +47,9 @@ export function useLot(lotNumber: string) {
   return useQuery(lotQueryOptions(lotNumber));
 }
 
-export type ManualEntryOutcome = { kind: 'imported'; rowsImported: number; measurementIds: number[] } | Extract<UploadOutcome, { kind: 'rejected' }>;
-
-/** POST /api/v1/measurements: one lot typed in; a 422 names the form's own fields. */
-export async function saveManualEntry(entry: ManualEntry): Promise<ManualEntryOutcome> {
-  try {
-    const saved = await http<{ rowsImported: number; measurementIds: number[] }>('/api/v1/measurements', { method: 'POST', body: entry });
-    return { kind: 'imported', ...saved };
-  } catch (error) {
-    const outcome = fileOutcome(error);
-    if (outcome?.kind === 'rejected') return outcome;
-    throw error;
-  }
+/** POST /api/v1/measurements: one lot typed in; a 422 names the form's own fields in its details. */
+export function saveManualEntry(entry: ManualEntry) {
+  return http<{ rowsImported: number; measurementIds: number[] }>('/api/v1/measurements', { method: 'POST', body: entry });
 }
 
 export function useSaveManualEntry() {

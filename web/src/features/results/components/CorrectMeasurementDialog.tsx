@@ -10,6 +10,7 @@ import { Alert } from '@web/components/ui/Alert';
 import { Button } from '@web/components/ui/Button';
 import { Dialog } from '@web/components/ui/Dialog';
 import { Field, Input } from '@web/components/ui/Field';
+import { formatQuantity } from '@shared/figures';
 
 export interface CorrectedReading {
   reading: LotResult;
@@ -64,7 +65,7 @@ export function CorrectMeasurementDialog({
         <p className="text-sm text-zinc-700">
           {reading.characteristicName}. Stored value:{' '}
           <span className="font-mono font-medium text-zinc-900" data-testid="stored-value">
-            {reading.value.toFixed(decimals)} {reading.unit}
+            {formatQuantity(reading.value, decimals, reading.unit)}
           </span>
         </p>
         <p className="text-sm text-zinc-600">

@@ -14,12 +14,15 @@ import { Badge } from '@web/components/ui/Badge';
 import { Button } from '@web/components/ui/Button';
 import { Field, Input, Select } from '@web/components/ui/Field';
 import { cx } from '@web/components/ui/cx';
+import { formatQuantity } from '@shared/figures';
 
 interface ManualResultCardProps {
   index: number;
   characteristic: Characteristic;
   /** The lot's production time, once typed: it picks the specification revision that judges the readings. */
   producedAtMs: number | null;
+  /** How the plant types a date and time, e.g. "dd/mm/yyyy hh:mm". */
+  dateTimeHint: string;
   method: TestMethodEntry | undefined;
   control: Control<ManualEntryInput, unknown, ManualEntry>;
   register: UseFormRegister<ManualEntryInput>;
@@ -34,7 +37,7 @@ const loadWords: Record<NonNullable<Characteristic['rawLoad']>, string> = {
 };
 
 /** One characteristic of the lot: its readings, what they give, the verdict against the specification, and the method's cautions. */
-export function ManualResultCard({ index, characteristic, producedAtMs, method, control, register, errors, onRemove }: ManualResultCardProps) {
+export function ManualResultCard({ index, characteristic, producedAtMs, dateTimeHint, method, control, register, errors, onRemove }: ManualResultCardProps) {
   const headingId = useId();
   const revisions = useSpecRevisions(characteristic.id);
   // The lot page judges a lot by the revision in force when it was made; the form shows the same verdict.
@@ -140,8 +143,10 @@ export function ManualResultCard({ index, characteristic, producedAtMs, method, 
         </div>
 
         <div className="grid gap-3 sm:grid-cols-2">
-          <Field label="Test time (optional)" hint="Plant time; left empty, the time of saving." error={fieldErrors?.testedAt?.message}>
-            {(ids) => <Input {...ids} type="datetime-local" {...register(`results.${index}.testedAt`, { setValueAs: blankAsUndefined })} />}
+          <Field label="Test time (optional)" hint={`${dateTimeHint}; left empty, the time of saving.`} error={fieldErrors?.testedAt?.message}>
+            {(ids) => (
+              <Input {...ids} autoComplete="off" inputMode="numeric" placeholder={dateTimeHint} className="font-mono" {...register(`results.${index}.testedAt`, { setValueAs: blankAsUndefined })} />
+            )}
           </Field>
           <Field label="Note (optional)" error={fieldErrors?.note?.message}>
             {(ids) => <Input {...ids} autoComplete="off" {...register(`results.${index}.note`, { setValueAs: blankAsUndefined })} />}
@@ -160,7 +165,7 @@ function ReadingOutcome({ characteristic: c, value, possible, converted }: { cha
   if (!converted && !remark) return null;
   return (
     <p className={cx('font-mono text-sm', remark ? 'text-red-700' : 'text-zinc-700')}>
-      {converted && `= ${value.toFixed(c.decimals)} ${c.unit}`} {remark}
+      {converted && `= ${formatQuantity(value, c.decimals, c.unit)}`} {remark}
     </p>
   );
 }
@@ -173,7 +178,7 @@ function SetSummary({ characteristic: c, set }: { characteristic: Characteristic
       <p className="flex flex-wrap items-center gap-x-3 gap-y-1">
         <span className="font-medium text-zinc-800">Result of the set:</span>
         <span className="font-mono text-lg font-medium" data-testid={`set-result-${c.code}`}>
-          {set.value === null ? '—' : `${set.value.toFixed(c.decimals)} ${c.unit}`}
+          {set.value === null ? '—' : formatQuantity(set.value, c.decimals, c.unit)}
         </span>
         {verdict && <Badge tone={verdict.tone}>{verdict.label}</Badge>}
         {status && <Badge tone={status.tone}>{status.label}</Badge>}

@@ -9,6 +9,8 @@ export function ingestCatalogue({ timeZone, products, lines, characteristics, te
     timeZone,
     lineCodes: new Set(lines.filter((l) => l.active).map((l) => l.code)),
     productCodes: new Set(products.filter((p) => p.active).map((p) => p.code)),
+    // A product's line, as the catalogue records it: rows of the product from another line are refused.
+    productLines: new Map(products.flatMap((p) => (p.active && p.lineCode ? [[p.code, new Set([p.lineCode])] as const] : []))),
     characteristics: new Map(
       characteristics.flatMap((c) => {
         const range = ranges.get(c.testMethodCode);

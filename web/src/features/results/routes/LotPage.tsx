@@ -2,8 +2,9 @@ import { useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { ApiError } from '@web/lib/http';
 import { useLot, type Lot, type LotResult } from '@web/lib/lots';
-import { useCharacteristics, usePlantTimeZone, type Characteristic } from '@web/lib/catalogue';
-import { formatPlantDateTime } from '@web/lib/plant-time';
+import { useCharacteristics, usePlantClock, type Characteristic } from '@web/lib/catalogue';
+import { DEFAULT_PLANT_DATE_FORMAT, formatPlantDateTime, plantTimeNote } from '@shared/time';
+import { formatFigure, formatQuantity } from '@shared/figures';
 import { specLimitsText, specVerdictBadge } from '@web/lib/spec';
 import { setResult, setStatusText, type SetResult } from '../lib/sets';
 import { useMay } from '@web/app/permissions';
@@ -47,7 +48,7 @@ export default function LotPage() {
   const { lotNumber = '' } = useParams();
   const lot = useLot(lotNumber);
   const characteristics = useCharacteristics();
-  const timeZone = usePlantTimeZone().data ?? 'UTC';
+  const clock = usePlantClock().data ?? { timeZone: 'UTC', dateFormat: DEFAULT_PLANT_DATE_FORMAT };
   // Whoever may enter results may correct them; auditors only read.
   const canCorrect = useMay('measurement.correct');
   const [correcting, setCorrecting] = useState<{ reading: LotResult; decimals: number } | null>(null);
@@ -75,15 +76,15 @@ export default function LotPage() {
         description={
           <>
             {data.productName} (<span className="font-mono">{data.productCode}</span>) on line <span className="font-mono">{data.lineCode}</span>, produced{' '}
-            <span className="font-mono">{formatPlantDateTime(data.producedAt, timeZone)}</span>
-            {data.shift ? `, ${data.shift} shift` : ''}
+            <span className="font-mono">{formatPlantDateTime(data.producedAt, clock)}</span>
+            {data.shift ? `, ${data.shift} shift` : ''}. {plantTimeNote(clock.timeZone, data.producedAt)}.
           </>
         }
       />
       {corrected && (
         <Alert tone="success" className="mb-4">
           Reading {corrected.reading.replicate} of <span className="font-mono">{corrected.reading.characteristicCode}</span> corrected from{' '}
-          <span className="font-mono">{corrected.from.toFixed(corrected.decimals)}</span> to <span className="font-mono">{corrected.to.toFixed(corrected.decimals)}</span> {corrected.reading.unit}. The old value, your
+          <span className="font-mono">{formatFigure(corrected.from, corrected.decimals)}</span> to <span className="font-mono">{formatFigure(corrected.to, corrected.decimals)}</span> {corrected.reading.unit}. The old value, your
           name and the reason are in the audit trail.
         </Alert>
       )}
@@ -118,7 +119,7 @@ export default function LotPage() {
                         <ul className="flex flex-wrap gap-x-4 gap-y-1">
                           {g.readings.map((r, i) => (
                             <li key={r.id} className="inline-flex items-center gap-1.5">
-                              <Reading value={r.value.toFixed(decimals)} discarded={discarded(i)} />
+                              <Reading value={formatFigure(r.value, decimals)} discarded={discarded(i)} />
                               <Button
                                 variant="quiet"
                                 size="sm"
@@ -134,14 +135,14 @@ export default function LotPage() {
                       ) : (
                         <span className="flex flex-wrap gap-x-3">
                           {g.readings.map((r, i) => (
-                            <Reading key={r.id} value={r.value.toFixed(decimals)} discarded={discarded(i)} />
+                            <Reading key={r.id} value={formatFigure(r.value, decimals)} discarded={discarded(i)} />
                           ))}
                         </span>
                       )}
                       {result && <SetNote result={result} />}
                     </td>
                     <td className="px-3 py-2 text-right font-mono whitespace-nowrap">
-                      {result?.value == null ? (result ? 'set rejected' : '—') : `${result.value.toFixed(decimals)} ${g.unit}`}
+                      {result?.value == null ? (result ? 'set rejected' : '—') : formatQuantity(result.value, decimals, g.unit)}
                     </td>
                     <td className="px-3 py-2">
                       {result?.value != null && <Verdict value={result.value} characteristic={g.characteristic!} />}

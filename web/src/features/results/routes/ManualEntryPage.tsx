@@ -2,11 +2,13 @@ import { useMemo, useState } from 'react';
 import { Link } from 'react-router-dom';
 import { useFieldArray, useForm, useWatch, type FieldPath } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { manualEntrySchema, parsePlantDateTime, type ManualEntryInput, type RowError } from '@shared/ingest';
+import type { ManualEntryInput } from '@shared/ingest';
+import { plantTimeNote, readPlantDateTime, type PlantClock } from '@shared/time';
 import { ApiError, errorMessage } from '@web/lib/http';
-import { useEntryCatalogue, type EntryCatalogue } from '@web/lib/catalogue';
+import { useEntryCatalogue, usePlantClock, type EntryCatalogue } from '@web/lib/catalogue';
 import { lotPath, useSaveManualEntry } from '@web/lib/lots';
 import { ManualResultCard } from '../components/ManualResultCard';
+import { manualEntryFormSchema, plantDateTimeHint } from '../lib/entry-form';
 import { characteristicLabel } from '@web/lib/names';
 import { blankAsUndefined } from '@web/lib/form-values';
 import { PageHeader } from '@web/components/ui/PageHeader';
@@ -19,6 +21,7 @@ import { ErrorState } from '@web/components/ui/ErrorState';
 
 export default function ManualEntryPage() {
   const catalogue = useEntryCatalogue();
+  const clock = usePlantClock();
   return (
     <>
       <PageHeader
@@ -27,26 +30,30 @@ export default function ManualEntryPage() {
       />
       {catalogue.error ? (
         <ErrorState title="Could not load the products and characteristics" error={catalogue.error} onRetry={catalogue.retry} />
-      ) : !catalogue.data ? (
+      ) : !catalogue.data || !clock.data ? (
         <Loading label="Loading products and characteristics…" />
       ) : (
-        <ManualEntryForm catalogue={catalogue.data} />
+        <>
+          <p className="-mt-3 mb-5 text-sm text-zinc-600">
+            {plantTimeNote(clock.data.timeZone)}; type dates and times as {plantDateTimeHint(clock.data)}.
+          </p>
+          <ManualEntryForm catalogue={catalogue.data} clock={clock.data} />
+        </>
       )}
     </>
   );
 }
 
-/** The import path names the columns of its canonical rows; in the form they are these fields. */
-const fieldOfColumn: Record<string, FieldPath<ManualEntryInput>> = { lot: 'lot', product: 'product', line: 'line', produced_at: 'producedAt', shift: 'shift', operator: 'operator' };
+const lotFields = new Set(['lot', 'product', 'line', 'producedAt', 'shift', 'operator']);
 
-function fieldFor(column: string): FieldPath<ManualEntryInput> | null {
-  if (fieldOfColumn[column]) return fieldOfColumn[column];
-  return /^results\.\d+\.(characteristic|replicates\.\d+)$/.test(column) ? (column as FieldPath<ManualEntryInput>) : null;
+/** The form field a detail of the API's refusal names, if it names one. */
+function fieldFor(path: string): FieldPath<ManualEntryInput> | null {
+  return lotFields.has(path) || /^results\.\d+\.(characteristic|testedAt|note|replicates\.\d+)$/.test(path) ? (path as FieldPath<ManualEntryInput>) : null;
 }
 
 const emptyEntry: ManualEntryInput = { lot: '', product: '', line: '', producedAt: '', results: [] };
 
-function ManualEntryForm({ catalogue }: { catalogue: EntryCatalogue }) {
+function ManualEntryForm({ catalogue, clock }: { catalogue: EntryCatalogue; clock: PlantClock }) {
   const save = useSaveManualEntry();
   const [saved, setSaved] = useState<{ lot: string; rows: number } | null>(null);
   const [serverErrors, setServerErrors] = useState<string[]>([]);
@@ -60,11 +67,11 @@ function ManualEntryForm({ catalogue }: { catalogue: EntryCatalogue }) {
     reset,
     getValues,
     formState: { errors },
-  } = useForm({ resolver: zodResolver(manualEntrySchema), defaultValues: emptyEntry });
+  } = useForm({ resolver: zodResolver(useMemo(() => manualEntryFormSchema(clock), [clock])), defaultValues: emptyEntry });
   const results = useFieldArray({ control, name: 'results' });
   const productCode = useWatch({ control, name: 'product' });
   const producedAt = useWatch({ control, name: 'producedAt' });
-  const producedAtMs = producedAt ? parsePlantDateTime(producedAt, catalogue.timeZone) : null;
+  const producedAtMs = producedAt ? (readPlantDateTime(producedAt, clock)?.getTime() ?? null) : null;
 
   const products = catalogue.products.filter((p) => p.active);
   const activeLines = catalogue.lines.filter((l) => l.active);
@@ -109,34 +116,22 @@ function ManualEntryForm({ catalogue }: { catalogue: EntryCatalogue }) {
     }
     save.mutate(entry, {
       onSuccess: (outcome) => {
-        if (outcome.kind === 'imported') {
-          setSaved({ lot: entry.lot, rows: outcome.rowsImported });
-          // The next lot is usually of the same product, line, shift and operator.
-          reset({ ...getValues(), lot: '', results: [] });
-          return;
-        }
-        setServerErrors(placeErrors(outcome.errors));
+        setSaved({ lot: entry.lot, rows: outcome.rowsImported });
+        // The next lot is usually of the same product, line, shift and operator.
+        reset({ ...getValues(), lot: '', results: [] });
       },
       onError: (error) => {
         const details = error instanceof ApiError ? error.details : [];
-        const placed = details.filter((d) => {
+        // Each message under its field; those that belong to no single field above the save button.
+        const unplaced = details.filter((d) => {
           const field = fieldFor(d.path);
           if (field) setError(field, { message: d.message });
-          return !!field;
+          return !field;
         });
-        if (placed.length === 0) setServerErrors([errorMessage(error)]);
+        if (unplaced.length > 0 || details.length === 0) setServerErrors(details.length === 0 ? [errorMessage(error)] : unplaced.map((d) => d.message));
       },
     });
   });
-
-  /** Puts each of the server's messages under its field; returns those that belong to no single field. */
-  const placeErrors = (rowErrors: RowError[]) =>
-    rowErrors.flatMap((e) => {
-      const field = fieldFor(e.column);
-      if (!field) return [e.message];
-      setError(field, { message: e.message });
-      return [];
-    });
 
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-5" aria-label="Results of one lot">
@@ -180,8 +175,8 @@ function ManualEntryForm({ catalogue }: { catalogue: EntryCatalogue }) {
           <Field label="Lot number" error={errors.lot?.message} hint="As printed on the bag or silo ticket.">
             {(ids) => <Input {...ids} autoComplete="off" className="font-mono" {...register('lot')} />}
           </Field>
-          <Field label="Production time" error={errors.producedAt?.message} hint={`Plant time (${catalogue.timeZone}). Results belong to when the lot was made, not when it was tested.`}>
-            {(ids) => <Input {...ids} type="datetime-local" {...register('producedAt')} />}
+          <Field label="Production time" error={errors.producedAt?.message} hint={`${plantDateTimeHint(clock)}. Results belong to when the lot was made, not when it was tested.`}>
+            {(ids) => <Input {...ids} autoComplete="off" inputMode="numeric" placeholder={plantDateTimeHint(clock)} className="font-mono" {...register('producedAt')} />}
           </Field>
           <Field label="Shift (optional)" error={errors.shift?.message}>
             {(ids) => (
@@ -208,6 +203,7 @@ function ManualEntryForm({ catalogue }: { catalogue: EntryCatalogue }) {
               index={index}
               characteristic={c}
               producedAtMs={producedAtMs}
+              dateTimeHint={plantDateTimeHint(clock)}
               method={methods.get(c.testMethodCode)}
               control={control}
               register={register}

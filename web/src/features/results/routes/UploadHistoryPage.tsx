@@ -4,8 +4,8 @@ import { createColumnHelper, getCoreRowModel, useReactTable } from '@tanstack/re
 import { useMay } from '@web/app/permissions';
 import type { UploadListItem, UploadStatus } from '@shared/schemas/uploads';
 import { uploadLinks, useUploads } from '../api/uploads';
-import { usePlantTimeZone } from '@web/lib/catalogue';
-import { formatPlantDateTime } from '@web/lib/plant-time';
+import { usePlantClock } from '@web/lib/catalogue';
+import { DEFAULT_PLANT_DATE_FORMAT, formatPlantDateTime, plantTimeNote } from '@shared/time';
 import { VoidUploadDialog } from '../components/VoidUploadDialog';
 import { DownloadLink } from '../components/DownloadLink';
 import { PageHeader } from '@web/components/ui/PageHeader';
@@ -38,7 +38,8 @@ export default function UploadHistoryPage() {
   const [params, setParams] = useSearchParams();
   const status = (statusFilters.find((f) => f.value === params.get('status'))?.value || undefined) as UploadStatus | undefined;
   const uploads = useUploads(status);
-  const timeZone = usePlantTimeZone().data ?? 'UTC';
+  const clockData = usePlantClock().data;
+  const clock = useMemo(() => clockData ?? { timeZone: 'UTC', dateFormat: DEFAULT_PLANT_DATE_FORMAT }, [clockData]);
   const [voiding, setVoiding] = useState<UploadListItem | null>(null);
   const [notice, setNotice] = useState<string | null>(null);
   const canVoid = useMay('upload.void');
@@ -50,7 +51,7 @@ export default function UploadHistoryPage() {
         header: 'Uploaded (plant time), by',
         cell: (info) => (
           <>
-            <span className="block font-mono text-sm whitespace-nowrap">{formatPlantDateTime(info.getValue(), timeZone)}</span>
+            <span className="block font-mono text-sm whitespace-nowrap">{formatPlantDateTime(info.getValue(), clock)}</span>
             <span className="block text-sm text-zinc-600">{info.row.original.uploadedByName ?? '—'}</span>
           </>
         ),
@@ -100,7 +101,7 @@ export default function UploadHistoryPage() {
         },
       }),
     ],
-    [timeZone, canVoid],
+    [clock, canVoid],
   );
 
   const table = useReactTable({ data: uploads.data ?? [], columns, enableSorting: false, getCoreRowModel: getCoreRowModel() });
@@ -109,7 +110,7 @@ export default function UploadHistoryPage() {
     <>
       <PageHeader
         title="Upload history"
-        description="Every file uploaded, who uploaded it and what became of it. A rejected file stored nothing; its error report lists the rows to correct."
+        description={`Every file uploaded, who uploaded it and what became of it. A rejected file stored nothing; its error report lists the rows to correct. ${plantTimeNote(clock.timeZone)}.`}
         actions={<DownloadLink href={uploadLinks.template}>Download the CSV template</DownloadLink>}
       />
       <div className="space-y-4">

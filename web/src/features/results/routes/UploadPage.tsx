@@ -1,5 +1,5 @@
 import { useMemo, useState } from 'react';
-import { decodeText, detectDialect, missingColumns, parseCsv, type CsvDialect } from '@shared/ingest';
+import { decodeText, detectDialect, missingColumns, notAResultsFile, parseCsv, type CsvDialect } from '@shared/ingest';
 import { useEntryCatalogue, type EntryCatalogue } from '@web/lib/catalogue';
 import { uploadLinks, useColumnMappings, useUploadResults, type SavedMapping } from '../api/uploads';
 import { ingestCatalogue } from '../lib/catalogue';
@@ -111,6 +111,12 @@ function UploadSteps({ catalogue }: { catalogue: EntryCatalogue }) {
       text = decodeText(new Uint8Array(await file.arrayBuffer()));
     } catch {
       return setReadError(`${file.name} could not be read. Choose it again, or copy it to this computer first.`);
+    }
+    // Binary content, no delimiter or no header: no mapping of columns could make rows of it, so it goes no further.
+    const notResults = notAResultsFile(text);
+    if (notResults) {
+      setSource(null);
+      return setReadError(`${file.name}: ${notResults}.`);
     }
     const detected = detectDialect(text);
     setSource({ file, text, detected });
