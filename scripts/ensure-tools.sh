@@ -1,15 +1,18 @@
 #!/usr/bin/env bash
 # Installs what a fresh Debian machine lacks: npm packages, the PostgreSQL server and (for tests) Chromium.
 # Usage: scripts/ensure-tools.sh [--browser]
+# Ends with one progress line in the shape of npm start's (scripts/lib/progress.ts).
 set -euo pipefail
 cd "$(dirname "$0")/.."
+
+step() { printf '  %s %-11s %s\n' "$1" "$2" "$3"; }
 
 apt_install() {
   if [ "$(id -u)" -ne 0 ]; then
     echo "Missing system packages: $*. Install them (as root: apt-get install -y $*) and run again." >&2
     exit 1
   fi
-  echo "Installing $* from Debian's packages…"
+  step … packages "installing $* from Debian's packages"
   apt-get update -qq
   DEBIAN_FRONTEND=noninteractive apt-get install -y -qq "$@" >/dev/null
 }
@@ -28,9 +31,11 @@ installed() {
   ' 2>/dev/null
 }
 
+npm_state="npm packages as in package-lock.json"
 if [ ! -d node_modules ] || ! installed; then
-  echo "Installing npm dependencies…"
+  step … packages "installing npm packages (npm ci)"
   npm ci --no-audit --no-fund --loglevel=error
+  npm_state="npm packages installed from package-lock.json"
 fi
 
 if ! ls /usr/lib/postgresql/*/bin/initdb >/dev/null 2>&1 && ! command -v initdb >/dev/null 2>&1; then
@@ -40,3 +45,8 @@ fi
 if [ "${1:-}" = "--browser" ] && [ ! -x /usr/bin/chromium ]; then
   apt_install chromium
 fi
+
+postgres=$(ls -d /usr/lib/postgresql/*/bin/initdb 2>/dev/null | sed 's#/usr/lib/postgresql/\([^/]*\)/.*#PostgreSQL \1#' | sort -V | tail -n 1)
+extra=""
+[ "${1:-}" = "--browser" ] && extra="; Chromium"
+step ✓ packages "$npm_state; ${postgres:-PostgreSQL}${extra}"

@@ -2,6 +2,7 @@
 // test cluster, seeded as the demo server seeds it, so that other test files' changes to the shared
 // demo database cannot move the counts.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { TZDate } from '@date-fns/tz';
 import { sql } from 'drizzle-orm';
 import { ensureDatabase, type Cluster } from '@scripts/lib/cluster';
 import { createDatabase, type Database } from '../client';
@@ -10,7 +11,7 @@ import { computeCharacteristicChart, limitRevisions } from '@api/spc/chart-load'
 import { DATA_CHANGED_NOTE } from '@api/spc/alarms';
 import { causeOf, causeNotes, HELD_LOT_DAYS, OPEN_DAYS } from './decisions';
 import { demoEndDate, seedDemo } from './index';
-import { plantedCausesFor, type PlantedCause } from './scenario';
+import { nextWorkingMorning, plantedCausesFor, processEventsFor, specificationIssuedAt, type PlantedCause } from './scenario';
 
 const DAY = 86_400_000;
 const cluster: Cluster = { root: process.env.PRISMLINE_TEST_PG_ROOT ?? '', port: Number(process.env.PRISMLINE_TEST_PG_PORT) };
@@ -119,5 +120,117 @@ describe('the seeded demo plant on the first morning', () => {
     const audited = await db.execute<{ n: number }>(sql`
       select count(*)::int as n from audit_events where entity = 'alarm' and action = 'close' and actor_id = ${managerId}`);
     expect(audited.rows[0].n).toBe(closed.filter((a) => a.resolution === 'by-user').length);
+  });
+});
+
+// The history tells its story at the story's moments: a person reading a limit revision, a
+// specification, a process event or a closed alarm sees when the story has it happen, not when the
+// seed ran. The plant's wall clock is read with @date-fns/tz (the IANA zone database), not with the
+// scenario's own calendar.
+describe('the seeded decisions are dated in the story', () => {
+  const london = (ms: number) => new TZDate(ms, 'Europe/London');
+  /** A working morning of the plant: Monday to Friday, 10:00 on the plant's clock. */
+  const isWorkingMorning = (ms: number) => {
+    const d = london(ms);
+    return d.getDay() >= 1 && d.getDay() <= 5 && d.getHours() === 10 && d.getMinutes() === 0 && d.getSeconds() === 0;
+  };
+  const idOf = async (code: string) => (await db.execute<{ id: number }>(sql`select id from characteristics where code = ${code}`)).rows[0].id;
+  const lastResult = async (characteristicId: number, from: Date, to: Date) =>
+    Number(
+      (
+        await db.execute<{ ms: number }>(sql`
+          select (extract(epoch from max(m.tested_at)) * 1000)::float8 as ms from measurements m join lots l on l.id = m.lot_id
+          where m.characteristic_id = ${characteristicId} and m.voided_at is null and l.produced_at between ${from} and ${to}`)
+      ).rows[0].ms,
+    );
+
+  it('issues the specifications when the quality manager issued them, before the history begins', async () => {
+    const issued = specificationIssuedAt(endMs);
+    const specs = (
+      await db.execute<{ characteristic_id: number; created_ms: number; effective_ms: number; created_by: number }>(sql`
+        select characteristic_id, (extract(epoch from created_at) * 1000)::float8 as created_ms, (extract(epoch from effective_from) * 1000)::float8 as effective_ms, created_by
+        from spec_limits`)
+    ).rows;
+    expect(specs.length).toBeGreaterThan(20);
+    for (const s of specs) expect({ created: Number(s.created_ms), effective: Number(s.effective_ms), by: s.created_by }).toEqual({ created: issued, effective: issued, by: managerId });
+    // 09:00 on the plant's clock, before the first lot of the history.
+    expect(london(issued).getHours()).toBe(9);
+    const [first] = (await db.execute<{ ms: number }>(sql`select (extract(epoch from min(produced_at)) * 1000)::float8 as ms from lots`)).rows;
+    expect(issued).toBeLessThan(Number(first.ms));
+    const audited = await db.execute<{ ms: number }>(sql`
+      select (extract(epoch from at) * 1000)::float8 as ms from audit_events where action = 'revise specification' and actor_id = ${managerId}`);
+    expect(audited.rows.map((r) => Number(r.ms))).toEqual(specs.map(() => issued));
+  });
+
+  it('freezes each chart on the working morning after its baseline was tested, and revises the flow limits after the sand source', async () => {
+    const revisions = (
+      await db.execute<{ id: number; characteristic_id: number; revision: number; from_ms: number; to_ms: number; created_ms: number; superseded_ms: number | null; created_by: number }>(sql`
+        select id, characteristic_id, revision, (extract(epoch from baseline_from) * 1000)::float8 as from_ms, (extract(epoch from baseline_to) * 1000)::float8 as to_ms,
+               (extract(epoch from created_at) * 1000)::float8 as created_ms, (extract(epoch from superseded_at) * 1000)::float8 as superseded_ms, created_by
+        from control_limit_revisions order by characteristic_id, revision`)
+    ).rows.map((r) => ({ ...r, from_ms: Number(r.from_ms), to_ms: Number(r.to_ms), created_ms: Number(r.created_ms), superseded_ms: r.superseded_ms === null ? null : Number(r.superseded_ms) }));
+    expect(revisions.length).toBeGreaterThan(20);
+    for (const r of revisions) {
+      const last = await lastResult(r.characteristic_id, new Date(r.from_ms), new Date(r.to_ms));
+      // The scenario's story date: the working morning after the baseline's last result.
+      expect(r.created_ms, `revision ${r.revision} of characteristic ${r.characteristic_id}`).toBe(nextWorkingMorning(last));
+      expect(isWorkingMorning(r.created_ms)).toBe(true);
+      expect(r.created_ms).toBeGreaterThan(last);
+      expect(r.created_ms - last).toBeLessThan(4 * DAY);
+      expect(r.created_ms).toBeLessThan(endMs);
+      expect(r.created_by).toBe(managerId);
+      const next = revisions.find((n) => n.characteristic_id === r.characteristic_id && n.revision === r.revision + 1);
+      expect(r.superseded_ms).toBe(next ? next.created_ms : null);
+      const [audit] = (
+        await db.execute<{ ms: number }>(sql`
+          select (extract(epoch from at) * 1000)::float8 as ms from audit_events
+          where action = 'freeze limits' and entity = 'characteristic' and entity_id = ${String(r.characteristic_id)} and (after ->> 'revision')::int = ${r.revision}`)
+      ).rows;
+      expect(Number(audit.ms)).toBe(r.created_ms);
+    }
+    // The sand-source revision: after the new level's first four weeks were tested, the same morning for both flow charts.
+    const sandMs = Date.parse(cause('sand-source').start);
+    const revised = revisions.filter((r) => r.revision === 2);
+    expect(revised.map((r) => r.characteristic_id).sort()).toEqual([await idOf('HVL25-FLOW'), await idOf('HVL25-FLOW30')].sort());
+    expect(new Set(revised.map((r) => r.created_ms)).size).toBe(1);
+    expect(revised[0].created_ms).toBeGreaterThan(sandMs + 28 * DAY);
+  });
+
+  it('logs each process event when it happened, by the person on hand', async () => {
+    const events = (
+      await db.execute<{ id: number; title: string; occurred_ms: number; created_ms: number; email: string }>(sql`
+        select e.id, e.title, (extract(epoch from e.occurred_at) * 1000)::float8 as occurred_ms, (extract(epoch from e.created_at) * 1000)::float8 as created_ms, u.email
+        from process_events e join users u on u.id = e.created_by order by e.occurred_at`)
+    ).rows;
+    const story = processEventsFor({ endDate: new Date(endMs) });
+    expect(events.map((e) => [e.title, Number(e.occurred_ms), Number(e.created_ms), e.email])).toEqual(
+      story.map((e) => [e.title, Date.parse(e.at), Date.parse(e.at), e.recordedBy === 'technician' ? 'technician@harrowvale.example' : 'manager@harrowvale.example']),
+    );
+    const audited = (await db.execute<{ entity_id: string; ms: number }>(sql`
+      select entity_id, (extract(epoch from at) * 1000)::float8 as ms from audit_events where action = 'record event' order by at`)).rows;
+    expect(audited.map((a) => [Number(a.entity_id), Number(a.ms)])).toEqual(events.map((e) => [e.id, Number(e.occurred_ms)]));
+  });
+
+  it('closes alarms and excludes the press sets on working mornings after the results were in', async () => {
+    const closedByManager = rows.filter((a) => a.resolution === 'by-user');
+    expect(closedByManager.length).toBeGreaterThan(100);
+    const closed = new Map(
+      (await db.execute<{ id: number; ms: number }>(sql`select id, (extract(epoch from closed_at) * 1000)::float8 as ms from alarms where resolution = 'by-user'`)).rows.map((r) => [r.id, Number(r.ms)]),
+    );
+    for (const a of closedByManager) {
+      const at = closed.get(a.id)!;
+      expect(at, `alarm ${a.id}`).toBeGreaterThan(a.tested_ms);
+      // The last working morning may lie after the history's end: such a closing is dated at the end.
+      expect(at).toBeLessThanOrEqual(endMs);
+      expect(isWorkingMorning(at) || at === endMs, `alarm ${a.id} closed ${new Date(at).toISOString()}`).toBe(true);
+    }
+    const audited = await db.execute<{ n: number }>(sql`
+      select count(*)::int as n from audit_events e join alarms a on a.id::text = e.entity_id
+      where e.entity = 'alarm' and e.action = 'close' and e.at = a.closed_at`);
+    expect(audited.rows[0].n).toBe(closedByManager.length);
+    const pressDone = Date.parse(cause('press-miscalibration').end!);
+    const exclusions = (await db.execute<{ ms: number }>(sql`select (extract(epoch from created_at) * 1000)::float8 as ms from point_exclusions`)).rows.map((r) => Number(r.ms));
+    expect(exclusions.length).toBeGreaterThan(0);
+    for (const ms of exclusions) expect(ms).toBe(nextWorkingMorning(pressDone));
   });
 });

@@ -4,9 +4,11 @@ import { testMethods as methodCatalogue } from '@shared/lab';
 import type { Role } from '@shared/schemas/users';
 import type { Database } from '../client';
 import { characteristics, plants, processEvents, productionLines, products, specLimits, testMethods, users } from '../schema';
+import { recordAudit } from '../audit';
 import { importResults } from '@api/ingest/import';
 import { recordManagerDecisions } from './decisions';
 import { dateDemoDetections, queueFirstMorningDigest, subscribeDemoManager } from './alarm-story';
+import { decidedAt } from './story-time';
 import * as scenario from './scenario';
 
 /** The demo sign-ins printed in the README. Demo mode only. */
@@ -46,9 +48,9 @@ export function demoEndDate(now = new Date()): Date {
 /**
  * Seeds the invented Harrow Vale plant when the database is empty, with the quality manager's
  * decisions on its history (decisions.ts); never touches existing data. `publicUrl` goes into the
- * links of any alarm e-mail the seed's SPC runs send.
+ * links of any alarm e-mail the seed's SPC runs send. Answers whether it seeded the plant now.
  */
-export async function seedDemo(db: Database, opts: { publicUrl: string; now?: Date }): Promise<void> {
+export async function seedDemo(db: Database, opts: { publicUrl: string; now?: Date }): Promise<boolean> {
   const now = opts.now ?? new Date();
   await ensureReferenceData(db);
   const [{ count }] = await db.select({ count: sql<number>`count(*)::int` }).from(users);
@@ -57,13 +59,16 @@ export async function seedDemo(db: Database, opts: { publicUrl: string; now?: Da
     await db.insert(users).values(demoUsers.map((u) => ({ ...u, passwordHash })));
   }
   const [existingPlant] = await db.select({ id: plants.id }).from(plants).limit(1);
-  if (existingPlant) return;
+  if (existingPlant) return false;
 
   const endDate = demoEndDate(now);
   const months = 6;
   const [admin] = await db.select({ id: users.id }).from(users).where(eq(users.email, demoUsers[0].email));
   const [manager] = await db.select({ id: users.id }).from(users).where(eq(users.email, demoUsers[1].email));
-  const windowStart = new Date(endDate.getTime() - 200 * 86_400_000);
+  const [technician] = await db.select({ id: users.id }).from(users).where(eq(users.email, demoUsers[2].email));
+  const recorder = { quality_manager: manager.id, technician: technician.id };
+  // The quality manager issued the specifications from the product data sheets before the history begins.
+  const specificationsIssued = new Date(scenario.specificationIssuedAt(endDate.getTime()));
 
   await db.transaction(async (tx) => {
     const [plant] = await tx.insert(plants).values({ code: scenario.plant.code, name: scenario.plant.name, timeZone: scenario.plant.timeZone }).returning();
@@ -97,31 +102,47 @@ export async function seedDemo(db: Database, opts: { publicUrl: string; now?: Da
       )
       .returning();
     const chId = new Map(chRows.map((c) => [c.code, c.id]));
-    await tx.insert(specLimits).values(
-      scenario.characteristics.map((c) => ({
-        characteristicId: chId.get(c.code)!,
-        revision: 1,
-        lsl: c.spec.lsl ?? null,
-        usl: c.spec.usl ?? null,
-        target: c.spec.target ?? null,
-        effectiveFrom: windowStart,
-        reason: 'Initial specification from the product data sheet',
-        createdBy: admin?.id ?? null,
-      })),
-    );
-    const events = scenario.processEventsFor({ endDate, months });
-    if (events.length) {
-      await tx.insert(processEvents).values(
-        events.map((e) => ({
-          plantId: plant.id,
-          lineId: e.lineCode ? lineId.get(e.lineCode)! : null,
-          productId: e.productCode ? productId.get(e.productCode)! : null,
-          occurredAt: new Date(e.at),
-          title: e.title,
-          description: e.description,
-          createdBy: admin?.id ?? null,
-        })),
+    await decidedAt(tx, specificationsIssued, async () => {
+      const rows = await tx
+        .insert(specLimits)
+        .values(
+          scenario.characteristics.map((c) => ({
+            characteristicId: chId.get(c.code)!,
+            revision: 1,
+            lsl: c.spec.lsl ?? null,
+            usl: c.spec.usl ?? null,
+            target: c.spec.target ?? null,
+            effectiveFrom: specificationsIssued,
+            reason: 'Initial specification from the product data sheet',
+            createdBy: manager.id,
+            createdAt: specificationsIssued,
+          })),
+        )
+        .returning();
+      await recordAudit(
+        tx,
+        rows.map((r) => ({ actorId: manager.id, action: 'revise specification', entity: 'characteristic', entityId: r.characteristicId, after: { revision: r.revision, lsl: r.lsl, usl: r.usl, target: r.target, effectiveFrom: r.effectiveFrom }, reason: r.reason }) as const),
       );
+    });
+    // Each process event is in the log from the moment it happened, written by the person on hand.
+    for (const e of scenario.processEventsFor({ endDate, months })) {
+      const at = new Date(e.at);
+      await decidedAt(tx, at, async () => {
+        const [row] = await tx
+          .insert(processEvents)
+          .values({
+            plantId: plant.id,
+            lineId: e.lineCode ? lineId.get(e.lineCode)! : null,
+            productId: e.productCode ? productId.get(e.productCode)! : null,
+            occurredAt: at,
+            title: e.title,
+            description: e.description,
+            createdBy: recorder[e.recordedBy],
+            createdAt: at,
+          })
+          .returning();
+        await recordAudit(tx, { actorId: row.createdBy, action: 'record event', entity: 'process event', entityId: row.id, after: { title: row.title, occurredAt: row.occurredAt, lineCode: e.lineCode, productCode: e.productCode ?? null } });
+      });
     }
   });
 
@@ -134,4 +155,5 @@ export async function seedDemo(db: Database, opts: { publicUrl: string; now?: Da
   await recordManagerDecisions(db, { endDate, months, managerId: manager.id, publicUrl: opts.publicUrl });
   await dateDemoDetections(db, now);
   await queueFirstMorningDigest(db, { endDate, publicUrl: opts.publicUrl });
+  return true;
 }

@@ -50,6 +50,30 @@ export function plantTime(endMs: number, daysBefore: number, hour: number): numb
   return plantWallToUtc(d.getUTCFullYear(), d.getUTCMonth(), d.getUTCDate(), hour);
 }
 
+/** The hour of the plant clock at which the quality manager's decisions are dated: a working morning. */
+export const DECISION_HOUR = 10;
+
+/**
+ * When the quality manager acts on something that happened at `afterMs`: 10:00 plant time on the
+ * first Monday to Friday after that plant day (the manager reviews the charts each working morning).
+ */
+export function nextWorkingMorning(afterMs: number): number {
+  for (let day = plantDayNumber(afterMs) + 1; ; day++) {
+    const date = new Date(day * DAY);
+    const weekday = date.getUTCDay();
+    if (weekday === 0 || weekday === 6) continue;
+    return plantWallToUtc(date.getUTCFullYear(), date.getUTCMonth(), date.getUTCDate(), DECISION_HOUR);
+  }
+}
+
+/** Days before the end of the history on which the products' specifications were issued, from their data sheets. */
+export const SPECIFICATION_DAYS_BEFORE = 200;
+
+/** When the first specification revision of every characteristic was issued and took effect: 09:00 plant time, before the history begins. */
+export function specificationIssuedAt(endMs: number): number {
+  return plantTime(endMs, SPECIFICATION_DAYS_BEFORE, 9);
+}
+
 export interface Lot {
   code: string;
   line: LineCode;

@@ -12,6 +12,8 @@ export interface ProcessEvent {
   productCode?: ProductCode;
   title: string;
   description: string;
+  /** Who wrote it in the log, when it happened: the lab technician on shift, or the quality manager for changes to the process. */
+  recordedBy: 'technician' | 'quality_manager';
 }
 
 export interface PlantedCause {
@@ -192,13 +194,13 @@ export function processEventsFor({ endDate, months = 6 }: ScenarioWindow): Proce
   const startMs = windowStart(endMs, months);
   const w = causeWindows(endMs);
   const log: Array<[number, Omit<ProcessEvent, 'at'>]> = [
-    [plantTime(endMs, 160, 9), { lineCode: null, title: 'Lab balances checked', description: 'Yearly check of the lab balances against reference weights; all within tolerance.' }],
-    [plantTime(endMs, 140, 7), { lineCode: 'L2', title: 'Mixer blades replaced', description: 'Worn ploughshare blades of the Line 2 mixer replaced during planned maintenance.' }],
-    [w.coldFrom + 6 * HOUR, { lineCode: null, title: 'Cold weather', description: 'A cold spell is forecast for the week; sand bays and powder silos well below 10 °C in the mornings.' }],
-    [plantTime(endMs, 95, 10), { lineCode: 'L1', title: 'Cement from second silo', description: 'Line 1 switched to the second cement silo; same cement type and supplier.' }],
-    [w.driftTo, { lineCode: 'L1', productCode: 'HVL25', title: 'New defoamer batch', description: 'Defoamer container for HV Level 25 replaced by a new batch.' }],
-    [w.sandFrom, { lineCode: 'L1', productCode: 'HVL25', title: 'New sand source', description: 'Quartz sand 0–0.5 mm for HV Level 25 now from a new quarry; grading certificate on file.' }],
-    [w.pressTo, { lineCode: null, title: 'Press recalibrated', description: 'Compression load cell of the testing press found reading high and recalibrated.' }],
+    [plantTime(endMs, 160, 9), { lineCode: null, recordedBy: 'technician', title: 'Lab balances checked', description: 'Yearly check of the lab balances against reference weights; all within tolerance.' }],
+    [plantTime(endMs, 140, 7), { lineCode: 'L2', recordedBy: 'quality_manager', title: 'Mixer blades replaced', description: 'Worn ploughshare blades of the Line 2 mixer replaced during planned maintenance.' }],
+    [w.coldFrom + 6 * HOUR, { lineCode: null, recordedBy: 'technician', title: 'Cold weather', description: 'A cold spell is forecast for the week; sand bays and powder silos well below 10 °C in the mornings.' }],
+    [plantTime(endMs, 95, 10), { lineCode: 'L1', recordedBy: 'quality_manager', title: 'Cement from second silo', description: 'Line 1 switched to the second cement silo; same cement type and supplier.' }],
+    [w.driftTo, { lineCode: 'L1', productCode: 'HVL25', recordedBy: 'technician', title: 'New defoamer batch', description: 'Defoamer container for HV Level 25 replaced by a new batch.' }],
+    [w.sandFrom, { lineCode: 'L1', productCode: 'HVL25', recordedBy: 'quality_manager', title: 'New sand source', description: 'Quartz sand 0–0.5 mm for HV Level 25 now from a new quarry; grading certificate on file.' }],
+    [w.pressTo, { lineCode: null, recordedBy: 'technician', title: 'Press recalibrated', description: 'Compression load cell of the testing press found reading high and recalibrated.' }],
   ];
   return log
     .filter(([ms]) => ms >= startMs && ms < endMs)

@@ -2,6 +2,7 @@ import { createHash } from 'node:crypto';
 import Papa from 'papaparse';
 import { linearRegression, mean } from 'simple-statistics';
 import { beforeAll, describe, expect, it } from 'vitest';
+import { TZDate } from '@date-fns/tz';
 import { classValue, isPhysicallyPossible, parseScreedDesignation, testMethod } from '@shared/lab';
 import {
   type DemoResultRow,
@@ -10,11 +11,13 @@ import {
   characteristics,
   generateDemoResults,
   lines,
+  nextWorkingMorning,
   plantOffsetMinutes,
   plantIso,
   plantedCausesFor,
   processEventsFor,
   products,
+  specificationIssuedAt,
   toCanonicalCsv,
 } from '.';
 
@@ -372,6 +375,33 @@ describe('toCanonicalCsv', () => {
   });
 });
 
+describe("the dates of the quality manager's decisions", () => {
+  // UK clocks went back on Sunday 25 October 2026 at 01:00 UTC (the last Sunday of October, UK
+  // summer-time rule); @date-fns/tz (IANA zone database) reads the plant's wall clock.
+  const wall = (ms: number) => {
+    const d = new TZDate(ms, 'Europe/London');
+    return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')} ${String(d.getHours()).padStart(2, '0')}:${String(d.getMinutes()).padStart(2, '0')} day ${d.getDay()}`;
+  };
+
+  it('falls on the next working morning, 10:00 on the plant clock, across weekends and a clock change', () => {
+    // Tuesday 23:30 BST (22:30 UTC) → Wednesday 10:00 BST.
+    expect(wall(nextWorkingMorning(Date.parse('2026-10-20T22:30:00Z')))).toBe('2026-10-21 10:00 day 3');
+    // Friday 15:00 BST → Monday 10:00 GMT, after the clock change: 10:00 UTC.
+    expect(nextWorkingMorning(Date.parse('2026-10-23T14:00:00Z'))).toBe(Date.parse('2026-10-26T10:00:00Z'));
+    // Saturday and Sunday → Monday.
+    expect(wall(nextWorkingMorning(Date.parse('2026-11-07T09:00:00Z')))).toBe('2026-11-09 10:00 day 1');
+    expect(wall(nextWorkingMorning(Date.parse('2026-11-08T23:59:00Z')))).toBe('2026-11-09 10:00 day 1');
+    // 00:30 BST on Thursday is still Wednesday in UTC: the plant's day counts → Friday.
+    expect(wall(nextWorkingMorning(Date.parse('2026-07-15T23:30:00Z')))).toBe('2026-07-17 10:00 day 5');
+  });
+
+  it('issues the specifications at 09:00 plant time, before the six months of history', () => {
+    const issued = specificationIssuedAt(endMs);
+    expect(wall(issued)).toMatch(/ 09:00 /);
+    expect(issued).toBeLessThan(Math.min(...rows.map((r) => Date.parse(r.produced_at))));
+  });
+});
+
 describe('the demo history stays the same', () => {
   // SHA-256 (FIPS 180-4, through node:crypto) of what the scenario gave before it was split into plant,
   // calendar, causes and generator files: the same end date must give the same history byte for byte,
@@ -381,7 +411,18 @@ describe('the demo history stays the same', () => {
   it('gives the same CSV, causes and process log for an end date', () => {
     expect(sha256(toCanonicalCsv(rows))).toBe('ddfefac4baf78b8f7589132c5d5309f41c7ca48383f612c80a5b1e2c3a0ec1ce');
     expect(sha256(JSON.stringify(causes))).toBe('d15da01919119f40d93c514bdbcec1a910d2f07da8d6f8d4a33cde859aaeeeda');
-    expect(sha256(JSON.stringify(processEventsFor({ endDate })))).toBe('f18cd6e079c3cdd3e1909534f3def5144c1625ef3b2edd805589dfcfd76139ac');
+    // The log as it was pinned, and who wrote each event (added so that the seeded log names them).
+    const log = processEventsFor({ endDate });
+    expect(sha256(JSON.stringify(log.map(({ recordedBy: _, ...e }) => e)))).toBe('f18cd6e079c3cdd3e1909534f3def5144c1625ef3b2edd805589dfcfd76139ac');
+    expect(log.map((e) => [e.title, e.recordedBy])).toEqual([
+      ['Lab balances checked', 'technician'],
+      ['Mixer blades replaced', 'quality_manager'],
+      ['Cold weather', 'technician'],
+      ['Cement from second silo', 'quality_manager'],
+      ['New defoamer batch', 'technician'],
+      ['New sand source', 'quality_manager'],
+      ['Press recalibrated', 'technician'],
+    ]);
   });
 
   it('gives the same CSV for another window and seed, across a spring clock change', () => {
