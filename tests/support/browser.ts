@@ -7,6 +7,7 @@ import { chromium, type BrowserContext, type Page } from 'playwright-core';
 import { test } from 'vitest';
 import { DEMO_PASSWORD, demoUsers } from '@api/db/seed';
 import type { Role } from '@shared/schemas/users';
+import { DEFAULT_PLANT_DATE_FORMAT, formatPlantDateTime } from '@shared/time';
 
 const CHROMIUM = '/usr/bin/chromium';
 const artifacts = resolve(import.meta.dirname, '..', '..', 'test-artifacts');
@@ -114,9 +115,7 @@ export function pageHeading(page: Page, name: string | RegExp) {
   return page.getByRole('heading', { level: 1, name });
 }
 
-/** An instant as the plant's wall clock, the way a datetime-local field takes it: "2026-11-30T06:15". The demo plant keeps Europe/London time (api/db/seed/scenario.ts). */
-export function plantInput(iso: string, timeZone = 'Europe/London'): string {
-  const parts = new Intl.DateTimeFormat('en-GB', { timeZone, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit' }).formatToParts(new Date(iso));
-  const get = (t: string) => parts.find((p) => p.type === t)!.value;
-  return `${get('year')}-${get('month')}-${get('day')}T${get('hour')}:${get('minute')}`;
+/** An instant typed as the demo plant writes it (Europe/London, dd/MM/yyyy; api/db/seed/scenario/plant.ts): "30/11/2026 06:15". */
+export function plantInput(iso: string): string {
+  return formatPlantDateTime(iso, { timeZone: 'Europe/London', dateFormat: DEFAULT_PLANT_DATE_FORMAT });
 }

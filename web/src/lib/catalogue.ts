@@ -46,11 +46,6 @@ export function useCharacteristics() {
   return useQuery(characteristicsQueryOptions());
 }
 
-/** The plant's time zone: production and test times are typed and shown in it. */
-export function usePlantTimeZone() {
-  return useQuery({ ...plantsQueryOptions(), select: (plants) => plants[0]?.timeZone ?? 'UTC' });
-}
-
 const selectClock = (plants: PlantView[]): PlantClock => ({ timeZone: plants[0]?.timeZone ?? 'UTC', dateFormat: plants[0]?.dateFormat ?? DEFAULT_PLANT_DATE_FORMAT });
 
 /** The plant's zone and date format: every time on a page is shown and typed with it (shared/time). */
@@ -72,15 +67,15 @@ export function useEntryCatalogue() {
   const lines = useLines();
   const characteristics = useCharacteristics();
   const testMethods = useTestMethods();
-  const timeZone = usePlantTimeZone();
-  const queries = [products, lines, characteristics, testMethods, timeZone];
+  const clock = usePlantClock();
+  const queries = [products, lines, characteristics, testMethods, clock];
   const failed = queries.find((q) => q.isError);
   const data = useMemo<EntryCatalogue | undefined>(
     () =>
-      products.data && lines.data && characteristics.data && testMethods.data && timeZone.data
-        ? { products: products.data, lines: lines.data, characteristics: characteristics.data, testMethods: testMethods.data, timeZone: timeZone.data }
+      products.data && lines.data && characteristics.data && testMethods.data && clock.data
+        ? { products: products.data, lines: lines.data, characteristics: characteristics.data, testMethods: testMethods.data, timeZone: clock.data.timeZone }
         : undefined,
-    [products.data, lines.data, characteristics.data, testMethods.data, timeZone.data],
+    [products.data, lines.data, characteristics.data, testMethods.data, clock.data],
   );
   return {
     data,

@@ -1,11 +1,6 @@
 // Query keys that more than one feature uses: a change in one area (a correction, a new specification
 // revision, a catalogue edit) refreshes the charts and the overview another area shows.
 
-export interface ChartRange {
-  from?: string;
-  to?: string;
-}
-
 export interface OverviewFilters {
   line?: string;
   family?: string;
@@ -16,7 +11,6 @@ export interface OverviewFilters {
 export const chartKeys = {
   all: ['charts'] as const,
   characteristic: (id: number) => [...chartKeys.all, id] as const,
-  chart: (id: number, range: ChartRange) => [...chartKeys.characteristic(id), 'chart', range] as const,
   revisions: (id: number) => [...chartKeys.characteristic(id), 'limit-revisions'] as const,
 };
 

@@ -2,7 +2,7 @@ import { useState } from 'react';
 import { Link } from 'react-router-dom';
 import type { AlarmStatus, AlarmView } from '@shared/schemas/alarms';
 import { formatFigure } from '@shared/figures';
-import { formatPlantDateTime, plantTimeNote, type PlantClock } from '@shared/time';
+import { formatPlantDateTime, type PlantClock } from '@shared/time';
 import { useAlarms } from '../api/alarms';
 import { usePlantClock } from '@web/lib/catalogue';
 import { lotPath } from '@web/lib/lots';
@@ -197,7 +197,7 @@ export default function AlarmsPage() {
         </form>
         <p className="text-sm text-zinc-600" data-testid="alarm-order">
           In order of what matters this morning: lots outside their specification first, then points beyond a control limit, then patterns of points;
-          the newest lot first within each. The signals of one lot on one characteristic stand together. {plantTimeNote(clock.timeZone)}.
+          the newest lot first within each. The signals of one lot on one characteristic stand together.
         </p>
         {alarms.isPending ? (
           <Loading label="Loading alarms…" />

@@ -2,11 +2,10 @@ import { useForm, type Resolver } from 'react-hook-form';
 import type { PlantClock } from '@shared/time';
 import { freezeLimitsSchema, type CharacteristicChart } from '@shared/schemas/charts';
 import { PHASE_ONE_MIN_POINTS } from '@shared/spc';
-import { parsePlantDateTime } from '@shared/ingest/values';
 import { showServerErrors } from '@web/lib/forms';
-import { plantDateTimeInput } from '@web/lib/plant-time';
+import { plantDateError, plantDateValue, readPlantInput } from '@web/lib/plant-dates';
 import { Dialog } from '@web/components/ui/Dialog';
-import { Field, Input } from '@web/components/ui/Field';
+import { PlantDateField } from '@web/components/PlantDateInput';
 import { Alert } from '@web/components/ui/Alert';
 import { useFreezeLimits } from '../api/chart';
 import type { ZoomWindow } from './ControlChart';
@@ -21,21 +20,21 @@ interface FreezeForm {
 const fields = ['baselineFrom', 'baselineTo', 'reason'] as const;
 
 /** The form's plant wall times as instants; text that is no date stays as it is and fails the schema. */
-function toBody(values: FreezeForm, timeZone: string) {
-  const instant = (text: string) => {
-    const ms = parsePlantDateTime(text, timeZone);
-    return ms === null ? text : new Date(ms).toISOString();
-  };
+function toBody(values: FreezeForm, clock: PlantClock) {
+  const instant = (text: string) => readPlantInput('dateTime', text, clock)?.toISOString() ?? text;
   return { baselineFrom: instant(values.baselineFrom), baselineTo: instant(values.baselineTo), reason: values.reason };
 }
 
 /** The shared schema judges the instants the form will post, not the wall-clock text typed. */
 const resolverFor =
-  (timeZone: string): Resolver<FreezeForm> =>
+  (clock: PlantClock): Resolver<FreezeForm> =>
   async (values) => {
-    const parsed = freezeLimitsSchema.safeParse(toBody(values, timeZone));
+    const parsed = freezeLimitsSchema.safeParse(toBody(values, clock));
     if (parsed.success) return { values, errors: {} };
     const errors: Record<string, { type: string; message: string }> = {};
+    for (const key of ['baselineFrom', 'baselineTo'] as const) {
+      if (!readPlantInput('dateTime', values[key], clock)) errors[key] = { type: 'format', message: plantDateError('dateTime', clock) };
+    }
     for (const issue of parsed.error.issues) {
       const key = String(issue.path[0] ?? 'root');
       errors[key] ??= { type: issue.code, message: issue.message };
@@ -53,29 +52,28 @@ interface FreezeLimitsDialogProps {
 }
 
 export function FreezeLimitsDialog({ chart, clock, view, onClose, onDone }: FreezeLimitsDialogProps) {
-  const timeZone = clock.timeZone;
   const freeze = useFreezeLimits(chart.characteristic.id);
   const points = chart.points;
   const first = points.find((p) => p.index >= (view?.first ?? -Infinity)) ?? points[0];
   const last = [...points].reverse().find((p) => p.index <= (view?.last ?? Infinity)) ?? points[points.length - 1];
   const form = useForm<FreezeForm>({
-    resolver: resolverFor(timeZone),
+    resolver: resolverFor(clock),
     defaultValues: {
-      baselineFrom: first ? plantDateTimeInput(new Date(first.producedAt), timeZone) : '',
-      baselineTo: last ? plantDateTimeInput(new Date(last.producedAt), timeZone) : '',
+      baselineFrom: first ? plantDateValue('dateTime', first.producedAt, clock) : '',
+      baselineTo: last ? plantDateValue('dateTime', last.producedAt, clock) : '',
       reason: '',
     },
   });
   const { errors } = form.formState;
 
-  const body = toBody(form.watch(), timeZone);
+  const body = toBody(form.watch(), clock);
   const fromMs = Date.parse(body.baselineFrom);
   const toMs = Date.parse(body.baselineTo);
   const inBaseline = Number.isFinite(fromMs) && Number.isFinite(toMs) ? points.filter((p) => Date.parse(p.producedAt) >= fromMs && Date.parse(p.producedAt) <= toMs) : [];
   const kept = inBaseline.filter((p) => !p.excluded).length;
 
   const onSubmit = form.handleSubmit((values) =>
-    freeze.mutate(toBody(values, timeZone), {
+    freeze.mutate(toBody(values, clock), {
       onSuccess: (revision) => onDone(`Limits frozen as revision ${revision.revision} from ${revision.baselinePoints} points. New points are judged against them from now on.`),
       onError: (error) => {
         showServerErrors(error, form.setError, fields);
@@ -89,16 +87,11 @@ export function FreezeLimitsDialog({ chart, clock, view, onClose, onDone }: Free
         <p className="text-sm text-zinc-600">
           The centre line and sigma within are estimated from the baseline period (excluded points left out) and frozen. The chart and the
           nightly run then judge every point against them until they are frozen again. Choose a period with no assignable cause left in it.
-          Times are plant time.
         </p>
         {errors.root && <Alert tone="error">{errors.root.message}</Alert>}
         <div className="grid gap-4 sm:grid-cols-2">
-          <Field label="Baseline from" error={errors.baselineFrom?.message}>
-            {(control) => <Input {...control} type="datetime-local" {...form.register('baselineFrom')} />}
-          </Field>
-          <Field label="Baseline to" error={errors.baselineTo?.message}>
-            {(control) => <Input {...control} type="datetime-local" {...form.register('baselineTo')} />}
-          </Field>
+          <PlantDateField label="Baseline from" kind="dateTime" error={errors.baselineFrom?.message} {...form.register('baselineFrom')} />
+          <PlantDateField label="Baseline to" kind="dateTime" error={errors.baselineTo?.message} {...form.register('baselineTo')} />
         </div>
         <p className="figures text-sm text-zinc-700" aria-live="polite" data-testid="baseline-count">
           {inBaseline.length} points in the baseline, {kept} of them kept{kept > 0 && kept < PHASE_ONE_MIN_POINTS ? ` — fewer than ${PHASE_ONE_MIN_POINTS} gives unsteady limits` : ''}.

@@ -3,7 +3,7 @@ import { Link, useParams, useSearchParams } from 'react-router-dom';
 import { ApiError } from '@web/lib/http';
 import { useMay } from '@web/app/permissions';
 import { usePlantClock } from '@web/lib/catalogue';
-import { DEFAULT_PLANT_DATE_FORMAT, formatPlantDate, formatPlantDateTime, plantTimeNote, type PlantClock } from '@shared/time';
+import { DEFAULT_PLANT_DATE_FORMAT, formatPlantDate, formatPlantDateTime, type PlantClock } from '@shared/time';
 import { useChart, type ChartQuery } from '../api/chart';
 import { ControlChart, type ZoomWindow } from '../components/ControlChart';
 import { ChartLegend } from '../components/ChartLegend';
@@ -173,7 +173,6 @@ export default function ChartPage() {
       />
 
       <div className="space-y-5" aria-busy={chart.isFetching || undefined}>
-        <p className="text-sm text-zinc-600">{plantTimeNote(clock.timeZone)}.</p>
         {notice && <Alert tone="success">{notice}</Alert>}
         {linkedMissing && (
           <p role="status" className="rounded-md border border-amber-200 bg-amber-50 px-4 py-3 text-amber-950">

@@ -7,7 +7,7 @@ import ChartsIndexPage from './ChartsIndexPage';
 // echarts comes with the page of one chart, not with the list of charts.
 const ChartPage = lazy(() => import('./ChartPage'));
 
-/** /charts (pick a characteristic) and /charts/:characteristicId (its chart, ?point=<index> to show one point). */
+/** /charts (pick a characteristic) and /charts/:characteristicId (its chart; ?lot=<lot number> opens it at that lot). */
 export default function ChartsArea() {
   return (
     <Suspense fallback={<Loading label="Loading the chart…" />}>

@@ -1,6 +1,6 @@
 import { useState } from 'react';
 import type { MailLogEntry } from '@shared/schemas/mail-log';
-import { formatPlantDateTime, plantTimeNote, type PlantClock } from '@shared/time';
+import { formatPlantDateTime, type PlantClock } from '@shared/time';
 import { useMailLog, useMailMessage } from '../api/mail-log';
 import { usePlantClock } from '@web/lib/catalogue';
 import { PageHeader } from '@web/components/ui/PageHeader';
@@ -60,7 +60,7 @@ export default function MailLogPage() {
     <>
       <PageHeader
         title="Sent e-mail"
-        description={`The alarm e-mails and morning digests Prismline sent, newest first, with whom they went to. A message that could not be sent yet stays here and is tried again. ${plantTimeNote(clock.timeZone)}.`}
+        description={`The alarm e-mails and morning digests Prismline sent, newest first, with whom they went to. A message that could not be sent yet stays here and is tried again.`}
       />
       {log.isPending ? (
         <Loading label="Loading the messages…" />

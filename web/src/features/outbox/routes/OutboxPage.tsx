@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import { formatPlantDateTime, plantTimeNote, type PlantClock } from '@shared/time';
+import { formatPlantDateTime, type PlantClock } from '@shared/time';
 import { useOutbox } from '../api/outbox';
 import { usePlantClock } from '@web/lib/catalogue';
 import { ApiError } from '@web/lib/http';
@@ -19,7 +19,7 @@ export default function OutboxPage() {
     <>
       <PageHeader
         title="Mail outbox"
-        description={`Without a mail relay (SMTP_URL), Prismline delivers its e-mail to a local test mail server on this machine. Here are the messages it has received, newest first; they are kept in memory until the server restarts. ${plantTimeNote(clock.timeZone)}.`}
+        description={`Without a mail relay (SMTP_URL), Prismline delivers its e-mail to a local test mail server on this machine. Here are the messages it has received, newest first; they are kept in memory until the server restarts.`}
       />
       {outbox.isPending ? (
         <Loading label="Loading messages…" />

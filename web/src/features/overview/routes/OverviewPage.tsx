@@ -3,7 +3,7 @@ import { useSearchParams } from 'react-router-dom';
 import { useOverview } from '../api/overview';
 import { usePlantClock } from '@web/lib/catalogue';
 import { CharacteristicTile } from '../components/CharacteristicTile';
-import { DEFAULT_PLANT_DATE_FORMAT, formatPlantDateTime, plantTimeNote, type PlantClock } from '@shared/time';
+import { DEFAULT_PLANT_DATE_FORMAT, formatPlantDateTime, type PlantClock } from '@shared/time';
 import { overviewPeriods, type OverviewItem } from '@shared/schemas/overview';
 import { PageHeader } from '@web/components/ui/PageHeader';
 import { Select } from '@web/components/ui/Field';
@@ -99,7 +99,7 @@ export default function OverviewPage() {
           data ? (
             <>
               Every active characteristic by line and product. Updated <span className="font-mono">{formatPlantDateTime(data.generatedAt, clock)}</span>; signals, out-of-specification lots and Cpk
-              for the period from <span className="font-mono">{formatPlantDateTime(data.from, clock)}</span>. {plantTimeNote(clock.timeZone)}.
+              for the period from <span className="font-mono">{formatPlantDateTime(data.from, clock)}</span>.
             </>
           ) : (
             'Every active characteristic by line and product.'

@@ -3,7 +3,7 @@ import { Link, useParams } from 'react-router-dom';
 import { ApiError } from '@web/lib/http';
 import { useLot, type Lot, type LotResult } from '@web/lib/lots';
 import { useCharacteristics, usePlantClock, type Characteristic } from '@web/lib/catalogue';
-import { DEFAULT_PLANT_DATE_FORMAT, formatPlantDateTime, plantTimeNote } from '@shared/time';
+import { DEFAULT_PLANT_DATE_FORMAT, formatPlantDateTime } from '@shared/time';
 import { formatFigure, formatQuantity } from '@shared/figures';
 import { specLimitsText, specVerdictBadge } from '@web/lib/spec';
 import { setResult, setStatusText, type SetResult } from '../lib/sets';
@@ -77,7 +77,7 @@ export default function LotPage() {
           <>
             {data.productName} (<span className="font-mono">{data.productCode}</span>) on line <span className="font-mono">{data.lineCode}</span>, produced{' '}
             <span className="font-mono">{formatPlantDateTime(data.producedAt, clock)}</span>
-            {data.shift ? `, ${data.shift} shift` : ''}. {plantTimeNote(clock.timeZone, data.producedAt)}.
+            {data.shift ? `, ${data.shift} shift` : ''}.
           </>
         }
       />

@@ -3,7 +3,7 @@ import { Link } from 'react-router-dom';
 import { useFieldArray, useForm, useWatch, type FieldPath } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import type { ManualEntryInput } from '@shared/ingest';
-import { plantTimeNote, readPlantDateTime, type PlantClock } from '@shared/time';
+import { readPlantDateTime, type PlantClock } from '@shared/time';
 import { ApiError, errorMessage } from '@web/lib/http';
 import { useEntryCatalogue, usePlantClock, type EntryCatalogue } from '@web/lib/catalogue';
 import { lotPath, useSaveManualEntry } from '@web/lib/lots';
@@ -35,7 +35,7 @@ export default function ManualEntryPage() {
       ) : (
         <>
           <p className="-mt-3 mb-5 text-sm text-zinc-600">
-            {plantTimeNote(clock.data.timeZone)}; type dates and times as {plantDateTimeHint(clock.data)}.
+            Type dates and times as {plantDateTimeHint(clock.data)}, on the plant's clock.
           </p>
           <ManualEntryForm catalogue={catalogue.data} clock={clock.data} />
         </>

@@ -5,7 +5,7 @@ import { useMay } from '@web/app/permissions';
 import type { UploadListItem, UploadStatus } from '@shared/schemas/uploads';
 import { uploadLinks, useUploads } from '../api/uploads';
 import { usePlantClock } from '@web/lib/catalogue';
-import { DEFAULT_PLANT_DATE_FORMAT, formatPlantDateTime, plantTimeNote } from '@shared/time';
+import { DEFAULT_PLANT_DATE_FORMAT, formatPlantDateTime } from '@shared/time';
 import { VoidUploadDialog } from '../components/VoidUploadDialog';
 import { DownloadLink } from '../components/DownloadLink';
 import { PageHeader } from '@web/components/ui/PageHeader';
@@ -48,7 +48,7 @@ export default function UploadHistoryPage() {
   const columns = useMemo(
     () => [
       column.accessor('uploadedAt', {
-        header: 'Uploaded (plant time), by',
+        header: 'Uploaded, by',
         cell: (info) => (
           <>
             <span className="block font-mono text-sm whitespace-nowrap">{formatPlantDateTime(info.getValue(), clock)}</span>
@@ -110,7 +110,7 @@ export default function UploadHistoryPage() {
     <>
       <PageHeader
         title="Upload history"
-        description={`Every file uploaded, who uploaded it and what became of it. A rejected file stored nothing; its error report lists the rows to correct. ${plantTimeNote(clock.timeZone)}.`}
+        description={`Every file uploaded, who uploaded it and what became of it. A rejected file stored nothing; its error report lists the rows to correct.`}
         actions={<DownloadLink href={uploadLinks.template}>Download the CSV template</DownloadLink>}
       />
       <div className="space-y-4">
