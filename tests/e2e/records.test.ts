@@ -302,7 +302,8 @@ describe('auditor', () => {
 
     await page.goto(`${baseUrl()}/results/lots/${lot}`);
     await pageHeading(page, `Lot ${lot}`).waitFor();
-    expect(await page.getByRole('row', { name: /HVR3-DENS/ }).textContent()).toContain('2081');
+    // Fresh density reads to no decimals, thousands grouped (shared/figures.ts).
+    expect(await page.getByRole('row', { name: /HVR3-DENS/ }).textContent()).toContain('2,081 kg/m³');
     expect(await page.getByRole('button', { name: /Correct/ }).count()).toBe(0);
 
     // The hidden controls are not the only guard: the API answers 403 to the auditor itself.
