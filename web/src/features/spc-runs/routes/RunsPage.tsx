@@ -71,20 +71,28 @@ export default function RunsPage() {
         ) : runs.data.length === 0 ? (
           <EmptyState title="No run yet">The first nightly run starts at the time set for the plant{mayStart ? ', or start one now' : ''}.</EmptyState>
         ) : (
-          <PlainTable caption="SPC runs, newest first" headings={['Run', 'Why', 'Status', 'Progress', 'Alarms', 'Started, took', '']}>
+          <PlainTable caption="SPC runs, newest first" headings={['Run', 'Why', 'Status', 'Progress', 'Alarms', 'Started, took']}>
                 {runs.data.map((run) => (
                   <Fragment key={run.id}>
                     <tr className="border-b border-zinc-100 align-top" data-run={run.id}>
                       <td className="px-3 py-2 font-mono">{run.id}</td>
                       <td className="px-3 py-2">
                         <span className="block">{triggerWords[run.trigger]}</span>
-                        <span className="block text-sm text-zinc-600">
+                        <span className="block text-sm text-zinc-600 [overflow-wrap:anywhere]">
                           {run.kind === 'full' ? 'All characteristics' : `${run.characteristics} characteristic${run.characteristics === 1 ? '' : 's'}`}
                           {run.requestedBy ? ` · ${run.requestedBy}` : ''}
                         </span>
                       </td>
-                      <td className="px-3 py-2">
+                      {/* The details button sits under the status it explains: a column of its own pushed a failed run's row past a tablet's width. */}
+                      <td className="space-y-1.5 px-3 py-2">
                         <Badge tone={statusWords[run.status].tone}>{statusWords[run.status].label}</Badge>
+                        {(run.failed > 0 || isActive(run)) && (
+                          <div>
+                            <Button variant="quiet" size="sm" aria-expanded={open === run.id} onClick={() => setOpen(open === run.id ? null : run.id)}>
+                              {open === run.id ? 'Hide details' : run.failed ? 'Show failures' : 'Details'}
+                            </Button>
+                          </div>
+                        )}
                       </td>
                       <td className="px-3 py-2">
                         <RunProgress run={run} />
@@ -98,17 +106,10 @@ export default function RunsPage() {
                         <PlantTime at={run.startedAt ?? run.createdAt} className="block" />
                         <span className="block text-zinc-600">{duration(run)}</span>
                       </td>
-                      <td className="px-3 py-2">
-                        {(run.failed > 0 || isActive(run)) && (
-                          <Button variant="quiet" size="sm" aria-expanded={open === run.id} onClick={() => setOpen(open === run.id ? null : run.id)}>
-                            {open === run.id ? 'Hide details' : run.failed ? 'Show failures' : 'Details'}
-                          </Button>
-                        )}
-                      </td>
                     </tr>
                     {open === run.id && (
                       <tr className="border-b border-zinc-100 bg-zinc-50">
-                        <td colSpan={7} className="px-5 py-3">
+                        <td colSpan={6} className="px-5 py-3">
                           <RunDetails id={run.id} />
                         </td>
                       </tr>
