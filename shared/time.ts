@@ -16,6 +16,9 @@ export interface PlantClock {
   dateFormat: PlantDateFormat;
 }
 
+/** The clock a page uses until the plant's own has loaded (and for a database with no plant yet). */
+export const FALLBACK_PLANT_CLOCK: PlantClock = { timeZone: 'UTC', dateFormat: DEFAULT_PLANT_DATE_FORMAT };
+
 /** How a user types a date in the plant's format, e.g. "dd/mm/yyyy" (a placeholder and an error message). */
 export function dateFormatHint(dateFormat: PlantDateFormat): string {
   return dateFormat.toLowerCase();

@@ -1,5 +1,5 @@
 import type { InputHTMLAttributes, Ref } from 'react';
-import { DEFAULT_PLANT_DATE_FORMAT, type PlantClock } from '@shared/time';
+import { FALLBACK_PLANT_CLOCK } from '@shared/time';
 import { usePlantClock } from '@web/lib/catalogue';
 import { plantDatePlaceholder, type PlantDateKind } from '@web/lib/plant-dates';
 import { Field, Input } from './ui/Field';
@@ -10,7 +10,6 @@ import { Field, Input } from './ui/Field';
 type InputProps = Omit<InputHTMLAttributes<HTMLInputElement>, 'type' | 'placeholder'> & { ref?: Ref<HTMLInputElement> };
 
 // Until the plant has loaded, the placeholder shows the default format; reading waits for the clock anyway.
-const fallbackClock: PlantClock = { timeZone: 'UTC', dateFormat: DEFAULT_PLANT_DATE_FORMAT };
 
 /** The bare text box, for a control that brings its own label (inside `<Field>`): `{(ids) => <PlantDateInput kind="date" {...ids} {...register('from')} />}`. */
 export function PlantDateInput({
@@ -20,7 +19,7 @@ export function PlantDateInput({
   className,
   ...rest
 }: InputProps & { kind: PlantDateKind; invalid?: boolean; describedBy?: string; id?: string }) {
-  const clock = usePlantClock().data ?? fallbackClock;
+  const clock = usePlantClock().data ?? FALLBACK_PLANT_CLOCK;
   return (
     <Input
       type="text"
@@ -51,7 +50,7 @@ export interface PlantDateFieldProps extends InputProps {
  * `value` / `onChange` into it, and read it with `plantDateText(kind, clock)` in the form's schema.
  */
 export function PlantDateField({ label, kind, error, hint, className, ...input }: PlantDateFieldProps) {
-  const clock = usePlantClock().data ?? fallbackClock;
+  const clock = usePlantClock().data ?? FALLBACK_PLANT_CLOCK;
   const format = `As ${plantDatePlaceholder(kind, clock)}.`;
   return (
     <Field label={label} error={error} hint={hint ? `${format} ${hint}` : format} className={className}>

@@ -3,7 +3,7 @@ import { queryOptions, useQuery } from '@tanstack/react-query';
 import { http } from './http';
 import type { CharacteristicView, LineView, PlantView, ProductView, SpecInForce } from '@shared/schemas/catalogue';
 import { useTestMethods, type TestMethodEntry } from './test-methods';
-import { DEFAULT_PLANT_DATE_FORMAT, type PlantClock } from '@shared/time';
+import { FALLBACK_PLANT_CLOCK, type PlantClock } from '@shared/time';
 
 // The catalogue as the API answers it (every role gets the same fields), by the names the screens use.
 export type Product = ProductView;
@@ -46,7 +46,7 @@ export function useCharacteristics() {
   return useQuery(characteristicsQueryOptions());
 }
 
-const selectClock = (plants: PlantView[]): PlantClock => ({ timeZone: plants[0]?.timeZone ?? 'UTC', dateFormat: plants[0]?.dateFormat ?? DEFAULT_PLANT_DATE_FORMAT });
+const selectClock = (plants: PlantView[]): PlantClock => ({ timeZone: plants[0]?.timeZone ?? FALLBACK_PLANT_CLOCK.timeZone, dateFormat: plants[0]?.dateFormat ?? FALLBACK_PLANT_CLOCK.dateFormat });
 
 /** The plant's zone and date format: every time on a page is shown and typed with it (shared/time). */
 export function usePlantClock() {

@@ -3,7 +3,7 @@ import { Link, useParams, useSearchParams } from 'react-router-dom';
 import { ApiError } from '@web/lib/http';
 import { useMay } from '@web/app/permissions';
 import { usePlantClock } from '@web/lib/catalogue';
-import { DEFAULT_PLANT_DATE_FORMAT, formatPlantDate, formatPlantDateTime, type PlantClock } from '@shared/time';
+import { FALLBACK_PLANT_CLOCK, formatPlantDate, formatPlantDateTime } from '@shared/time';
 import { useChart, type ChartQuery } from '../api/chart';
 import { ControlChart, type ZoomWindow } from '../components/ControlChart';
 import { ChartLegend } from '../components/ChartLegend';
@@ -35,7 +35,6 @@ const periodLabels: Record<ChartPeriod, string> = {
 };
 
 /** Until the plant is known: a stable object, so the chart is not rebuilt on every render. */
-const FALLBACK_CLOCK: PlantClock = { timeZone: 'UTC', dateFormat: DEFAULT_PLANT_DATE_FORMAT };
 
 const isPeriod = (value: string | null): value is ChartPeriod => (chartPeriods as readonly string[]).includes(value ?? '');
 
@@ -75,7 +74,7 @@ export default function ChartPage() {
     [periodParam, lotParam, legacyPoint],
   );
   const chart = useChart(id, request);
-  const clock = usePlantClock().data ?? FALLBACK_CLOCK;
+  const clock = usePlantClock().data ?? FALLBACK_PLANT_CLOCK;
   const canFreeze = useMay('limits.freeze');
   const canExclude = useMay('point.exclude');
 

@@ -3,7 +3,7 @@ import { useSearchParams } from 'react-router-dom';
 import { useOverview } from '../api/overview';
 import { usePlantClock } from '@web/lib/catalogue';
 import { CharacteristicTile } from '../components/CharacteristicTile';
-import { DEFAULT_PLANT_DATE_FORMAT, formatPlantDateTime, type PlantClock } from '@shared/time';
+import { FALLBACK_PLANT_CLOCK, formatPlantDateTime } from '@shared/time';
 import { overviewPeriods, type OverviewItem } from '@shared/schemas/overview';
 import { PageHeader } from '@web/components/ui/PageHeader';
 import { Select } from '@web/components/ui/Field';
@@ -11,7 +11,6 @@ import { ErrorState } from '@web/components/ui/ErrorState';
 import { EmptyState } from '@web/components/ui/EmptyState';
 import { Button } from '@web/components/ui/Button';
 
-const FALLBACK_CLOCK: PlantClock = { timeZone: 'UTC', dateFormat: DEFAULT_PLANT_DATE_FORMAT };
 
 const familyLabels: Record<string, string> = { levelling: 'Levelling compounds', 'tile-adhesive': 'Tile adhesives', repair: 'Repair mortars' };
 const periodLabel = (days: number) => (days === 182 ? 'Last 6 months' : `Last ${days} days`);
@@ -70,7 +69,7 @@ export default function OverviewPage() {
   const days = (overviewPeriods as readonly number[]).includes(daysParam) ? daysParam : 30;
   const order: Order = search.get('order') === 'catalogue' ? 'catalogue' : 'attention';
   const overview = useOverview({ line: line || undefined, family: family || undefined, days });
-  const clock = usePlantClock().data ?? FALLBACK_CLOCK;
+  const clock = usePlantClock().data ?? FALLBACK_PLANT_CLOCK;
 
   const set = (key: string, value: string) =>
     setSearch((s) => {

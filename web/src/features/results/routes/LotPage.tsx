@@ -3,7 +3,7 @@ import { Link, useParams } from 'react-router-dom';
 import { ApiError } from '@web/lib/http';
 import { useLot, type Lot, type LotResult } from '@web/lib/lots';
 import { useCharacteristics, usePlantClock, type Characteristic } from '@web/lib/catalogue';
-import { DEFAULT_PLANT_DATE_FORMAT, formatPlantDateTime } from '@shared/time';
+import { FALLBACK_PLANT_CLOCK, formatPlantDateTime } from '@shared/time';
 import { formatFigure, formatQuantity } from '@shared/figures';
 import { specLimitsText, specVerdictBadge } from '@web/lib/spec';
 import { setResult, setStatusText, type SetResult } from '../lib/sets';
@@ -48,7 +48,7 @@ export default function LotPage() {
   const { lotNumber = '' } = useParams();
   const lot = useLot(lotNumber);
   const characteristics = useCharacteristics();
-  const clock = usePlantClock().data ?? { timeZone: 'UTC', dateFormat: DEFAULT_PLANT_DATE_FORMAT };
+  const clock = usePlantClock().data ?? FALLBACK_PLANT_CLOCK;
   // Whoever may enter results may correct them; auditors only read.
   const canCorrect = useMay('measurement.correct');
   const [correcting, setCorrecting] = useState<{ reading: LotResult; decimals: number } | null>(null);

@@ -5,7 +5,7 @@ import { useMay } from '@web/app/permissions';
 import type { UploadListItem, UploadStatus } from '@shared/schemas/uploads';
 import { uploadLinks, useUploads } from '../api/uploads';
 import { usePlantClock } from '@web/lib/catalogue';
-import { DEFAULT_PLANT_DATE_FORMAT, formatPlantDateTime } from '@shared/time';
+import { FALLBACK_PLANT_CLOCK, formatPlantDateTime } from '@shared/time';
 import { VoidUploadDialog } from '../components/VoidUploadDialog';
 import { DownloadLink } from '../components/DownloadLink';
 import { PageHeader } from '@web/components/ui/PageHeader';
@@ -39,7 +39,7 @@ export default function UploadHistoryPage() {
   const status = (statusFilters.find((f) => f.value === params.get('status'))?.value || undefined) as UploadStatus | undefined;
   const uploads = useUploads(status);
   const clockData = usePlantClock().data;
-  const clock = useMemo(() => clockData ?? { timeZone: 'UTC', dateFormat: DEFAULT_PLANT_DATE_FORMAT }, [clockData]);
+  const clock = clockData ?? FALLBACK_PLANT_CLOCK;
   const [voiding, setVoiding] = useState<UploadListItem | null>(null);
   const [notice, setNotice] = useState<string | null>(null);
   const canVoid = useMay('upload.void');
