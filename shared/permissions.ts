@@ -32,14 +32,24 @@ export const permissions = {
   'point.exclude': managers,
   /** Start an SPC run by hand. */
   'spc-run.start': managers,
-  /** Read the alarms list. */
-  'alarm.read': reviewers,
+  /** Read the alarms, their comments and investigations (only managers triage them). */
+  'alarm.read': everyone,
   /** Acknowledge an alarm. */
   'alarm.acknowledge': managers,
   /** Close an alarm with a note. */
   'alarm.close': managers,
+  /** Triage alarms: investigate, close with an outcome, reopen, assign, comment, group under an investigation. */
+  'alarm.triage': managers,
+  /** Put a lot on hold, with a reason. */
+  'lot.hold': labStaff,
+  /** Release a held lot, with a reason. */
+  'lot.release': managers,
   /** Read nonconformance reports. */
-  'ncr.read': reviewers,
+  'ncr.read': everyone,
+  /** Raise an NCR, and add evidence to one (attachments, an action's evidence and done date). */
+  'ncr.raise': labStaff,
+  /** Assign, edit, approve, disposition lots of, move and close an NCR; add and change its actions. */
+  'ncr.manage': managers,
   /** Read reports and the audit trail. */
   'report.read': reviewers,
   /** Add, change, deactivate lines, products and characteristics. */

@@ -3,11 +3,14 @@
 // are stored as they stand; renaming one would split the trail of existing records.
 
 export const auditActions = {
-  alarm: ['acknowledge', 'close', 'close-automatically'],
+  alarm: ['acknowledge', 'close', 'close-automatically', 'investigate', 'reopen', 'assign', 'comment', 'group', 'raise falling capability'],
+  'alarm group': ['create', 'update'],
   'alarm subscription': ['subscribe', 'update', 'unsubscribe'],
   characteristic: ['create', 'update', 'deactivate', 'reactivate', 'revise specification', 'freeze limits', 'exclude point', 'include point'],
   'column mapping': ['create'],
+  lot: ['hold', 'hold automatically', 'release', 'disposition'],
   measurement: ['manual entry', 'correct'],
+  ncr: ['raise', 'update', 'transition', 'assign', 'approve', 'add lots', 'link alarms', 'disposition', 'add action', 'update action', 'attach file'],
   plant: ['update'],
   'process event': ['record event'],
   product: ['create', 'update', 'deactivate', 'reactivate'],

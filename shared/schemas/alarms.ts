@@ -1,11 +1,27 @@
 // The alarm as the API answers it and the alarms page reads it. Kept free of zod.
 import type { RuleId } from '../spc';
 
-export const alarmStatuses = ['open', 'acknowledged', 'closed'] as const;
+import type { CauseCategory } from './causes';
+
+/** open → acknowledged → investigating → closed; a person may open a closed alarm again with a reason. */
+export const alarmStatuses = ['open', 'acknowledged', 'investigating', 'closed'] as const;
 export type AlarmStatus = (typeof alarmStatuses)[number];
 
-/** A run rule, or a result outside the specification in force when the lot was produced. */
-export type AlarmRule = RuleId | 'out-of-spec';
+/** How a person closed an alarm: an assignable cause was found (with its category), none was, or the signal was false. */
+export const alarmOutcomes = ['assignable-cause', 'no-cause', 'false-alarm'] as const;
+export type AlarmOutcome = (typeof alarmOutcomes)[number];
+export const alarmOutcomeWords: Record<AlarmOutcome, string> = {
+  'assignable-cause': 'Assignable cause found',
+  'no-cause': 'No cause found',
+  'false-alarm': 'False alarm',
+};
+export type { CauseCategory };
+
+/**
+ * A run rule, a result outside the specification in force when the lot was produced, or the
+ * capability index falling below the characteristic's threshold (raised at the newest lot of the run).
+ */
+export type AlarmRule = RuleId | 'out-of-spec' | 'capability';
 /** The chart the signal is on: the lot means or values (location), or their ranges or deviations (dispersion). */
 export type AlarmChart = 'location' | 'dispersion';
 /** 'run': raised by an SPC run; 'ingest': an out-of-specification result, raised as soon as it was stored. */

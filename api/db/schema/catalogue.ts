@@ -17,6 +17,8 @@ export const plants = pgTable('plants', {
   nightlyRunCron: text('nightly_run_cron').notNull().default('0 2 * * *'),
   /** How people type and read dates at this plant (date-fns tokens, one of PLANT_DATE_FORMATS). */
   dateFormat: text('date_format').$type<PlantDateFormat>().notNull().default('dd/MM/yyyy'),
+  /** Falling-capability alarm below this Cpk (Ppk where the chart is not in control), unless the characteristic sets its own. */
+  capabilityThreshold: doublePrecision('capability_threshold').notNull().default(1.33),
 });
 
 export const productionLines = pgTable(
@@ -72,6 +74,8 @@ export const characteristics = pgTable('characteristics', {
   chartType: chartTypeEnum('chart_type').notNull(),
   ruleSet: ruleSetEnum('rule_set').notNull().default('we'),
   samplingPlan: text('sampling_plan'),
+  /** Its own falling-capability threshold; null: the plant's. */
+  capabilityThreshold: doublePrecision('capability_threshold'),
   active: boolean('active').notNull().default(true),
 });
 

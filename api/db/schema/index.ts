@@ -6,3 +6,4 @@ export * from './files';
 export * from './results';
 export * from './spc';
 export * from './mail';
+export * from './quality';

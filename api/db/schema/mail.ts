@@ -5,7 +5,7 @@ import { users } from './users';
 import { productionLines, products } from './catalogue';
 
 /** The kinds of message the outbox sends; each has its composer and its dedupe key. */
-export const mailKinds = ['alarm', 'digest'] as const;
+export const mailKinds = ['alarm', 'alarm-reopened', 'alarm-assigned', 'digest', 'lot-hold', 'lot-release', 'ncr', 'ncr-action'] as const;
 export type MailKind = (typeof mailKinds)[number];
 
 /** What a message is about, so that the messages of an alarm, a lot or a report can be found. */
@@ -13,6 +13,7 @@ export interface MailRefs {
   alarmIds?: number[];
   lotIds?: number[];
   ncrId?: number;
+  ncrActionId?: number;
 }
 
 export const mailStatusEnum = pgEnum('mail_status', ['pending', 'sent']);

@@ -7,7 +7,7 @@ import { lots } from './results';
 
 export const spcRunStatusEnum = pgEnum('spc_run_status', ['queued', 'running', 'succeeded', 'failed']);
 export const spcRunKindEnum = pgEnum('spc_run_kind', ['full', 'incremental']);
-export const alarmStatusEnum = pgEnum('alarm_status', ['open', 'acknowledged', 'closed']);
+export const alarmStatusEnum = pgEnum('alarm_status', ['open', 'acknowledged', 'investigating', 'closed']);
 
 /**
  * Control limits a quality manager froze from a baseline window (phase II). Revisions are kept: a new
@@ -133,6 +133,15 @@ export const spcSnapshots = pgTable('spc_snapshots', {
   reasons: jsonb('reasons').notNull(),
 });
 
+/** One investigation several alarms belong to: "five alarms on three characteristics after one raw-material delivery". */
+export const alarmGroups = pgTable('alarm_groups', {
+  id: serial('id').primaryKey(),
+  title: text('title').notNull(),
+  note: text('note'),
+  createdBy: integer('created_by').references(() => users.id),
+  createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+});
+
 /**
  * A signal someone must look at: a run-rule violation or an out-of-specification lot. One row per
  * characteristic, rule, chart and lot, so re-runs never duplicate; a signal the data no longer shows
@@ -176,11 +185,56 @@ export const alarms = pgTable(
     closedAt: timestamp('closed_at', { withTimezone: true }),
     closedBy: integer('closed_by').references(() => users.id),
     closeNote: text('close_note'),
+    /** How a person closed it: assignable-cause, no-cause or false-alarm (shared/schemas/alarms.ts alarmOutcomes). */
+    outcome: text('outcome'),
+    /** With an assignable cause: material, method, machine, people, measurement or environment; close_note holds the free text. */
+    causeCategory: text('cause_category'),
+    /** Who follows the alarm up. */
+    assigneeId: integer('assignee_id').references(() => users.id),
+    /** The investigation it belongs to, with other alarms of one cause. */
+    groupId: integer('group_id').references(() => alarmGroups.id),
+    investigatingAt: timestamp('investigating_at', { withTimezone: true }),
+    investigatingBy: integer('investigating_by').references(() => users.id),
+    /** The last time a person opened a closed alarm again, and why. */
+    reopenedAt: timestamp('reopened_at', { withTimezone: true }),
+    reopenedBy: integer('reopened_by').references(() => users.id),
+    reopenReason: text('reopen_reason'),
   },
   (t) => [
+    index('alarms_assignee_idx').on(t.assigneeId),
+    index('alarms_group_idx').on(t.groupId),
     uniqueIndex('alarms_dedupe_key').on(t.characteristicId, t.rule, t.chart, t.lotId),
     index('alarms_status_created_idx').on(t.status, t.createdAt),
     index('alarms_detected_idx').on(t.detectedAt),
     index('alarms_run_idx').on(t.runId),
   ],
 );
+
+/** A comment on an alarm, in order. */
+export const alarmComments = pgTable(
+  'alarm_comments',
+  {
+    id: serial('id').primaryKey(),
+    alarmId: integer('alarm_id').notNull().references(() => alarms.id),
+    authorId: integer('author_id').notNull().references(() => users.id),
+    body: text('body').notNull(),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('alarm_comments_alarm_idx').on(t.alarmId, t.createdAt)],
+);
+
+/**
+ * Whether a characteristic's capability index is below its threshold now, so a falling-capability
+ * alarm is raised once per crossing (below after being at or above), not at every run.
+ */
+export const capabilityWatch = pgTable('capability_watch', {
+  characteristicId: integer('characteristic_id').primaryKey().references(() => characteristics.id),
+  below: boolean('below').notNull(),
+  /** The index compared (Cpk, or Ppk where the chart is not in control) and its value at the last run. */
+  indexName: text('index_name').notNull(),
+  indexValue: doublePrecision('index_value'),
+  threshold: doublePrecision('threshold').notNull(),
+  /** When it last crossed (either way), and the alarm raised at the latest downward crossing. */
+  changedAt: timestamp('changed_at', { withTimezone: true }).notNull().defaultNow(),
+  alarmId: integer('alarm_id').references(() => alarms.id),
+});
