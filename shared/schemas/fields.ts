@@ -30,7 +30,8 @@ export const noteText = (what: string, o: { min?: number; max: number }) =>
     .trim()
     .min(o.min ?? 1, o.min && o.min > 1 ? `Write at least ${o.min} characters for ${what}` : `Give ${what}`)
     .max(o.max, `Keep ${what} under ${o.max} characters`)
-    .regex(/^[^\x00-\x08\x0b\x0c\x0e-\x1f\x7f]*$/, `${what[0].toUpperCase()}${what.slice(1)} may not contain control characters`);
+    // Any control character other than tab, line feed and carriage return (the class \p{Cc} less those).
+    .regex(/^(?:(?![\t\n\r])[^\p{Cc}]|[\t\n\r])*$/u, `${what[0].toUpperCase()}${what.slice(1)} may not contain control characters`);
 
 /** A calendar day at the plant, YYYY-MM-DD. */
 export const plantDay = (what: string) => z.iso.date({ message: `Give ${what} as a date (YYYY-MM-DD)` });
