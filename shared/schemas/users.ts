@@ -65,3 +65,10 @@ export interface PublicUser {
   active: boolean;
   createdAt: string;
 }
+
+/** GET /api/v1/people items: an active user someone may assign an alarm, an NCR or an action to. */
+export interface Person {
+  id: number;
+  name: string;
+  role: Role;
+}

@@ -50,6 +50,8 @@ const routes: ProtectedRoute[] = [
   { method: 'patch', path: '/api/v1/plants/0', permission: 'plant.manage', body: {} },
   // The lot search of the header: every signed-in role.
   { method: 'get', path: '/api/v1/lots?q=L&limit=1', permission: 'plant.read', allowed: 200 },
+  // The assignee and owner pick lists: every signed-in role.
+  { method: 'get', path: '/api/v1/people', permission: 'plant.read', allowed: 200 },
   { method: 'get', path: '/api/v1/users', permission: 'user.manage', allowed: 200 },
   { method: 'post', path: '/api/v1/users', permission: 'user.manage', body: {} },
   { method: 'patch', path: '/api/v1/users/0', permission: 'user.manage', body: {} },
