@@ -27,6 +27,7 @@ import { chartsRouter } from './routes/charts/router';
 import { overviewRouter } from './routes/overview/router';
 import { spcRunsRouter } from './routes/spc-runs/router';
 import { alarmsRouter } from './routes/alarms/router';
+import { alarmGroupsRouter } from './routes/alarm-groups/router';
 import { subscriptionsRouter } from './routes/subscriptions/router';
 import { devRouter } from './routes/dev/router';
 import { mailLogRouter } from './routes/mail-log/router';
@@ -94,7 +95,8 @@ export function createApp({ db, config, serveWeb = true, resultsChanged, spcQueu
   app.use('/api/v1/characteristics', chartsRouter(db, changed));
   app.use('/api/v1/overview', overviewRouter(db));
   app.use('/api/v1/spc-runs', spcRunsRouter(db, queue));
-  app.use('/api/v1/alarms', alarmsRouter(db, publicUrl));
+  app.use('/api/v1/alarms', alarmsRouter(db, publicUrl, changed));
+  app.use('/api/v1/alarm-groups', alarmGroupsRouter(db));
   app.use('/api/v1/subscriptions', subscriptionsRouter(db));
   app.use('/api/v1/mail-log', mailLogRouter(db));
   app.use('/api/v1/people', peopleRouter(db));

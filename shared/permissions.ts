@@ -34,11 +34,7 @@ export const permissions = {
   'spc-run.start': managers,
   /** Read the alarms, their comments and investigations (only managers triage them). */
   'alarm.read': everyone,
-  /** Acknowledge an alarm. */
-  'alarm.acknowledge': managers,
-  /** Close an alarm with a note. */
-  'alarm.close': managers,
-  /** Triage alarms: investigate, close with an outcome, reopen, assign, comment, group under an investigation. */
+  /** Triage alarms: acknowledge (one or many), investigate, close with an outcome, reopen, assign, comment, group under an investigation. */
   'alarm.triage': managers,
   /** Put a lot on hold, with a reason. */
   'lot.hold': labStaff,

@@ -9,8 +9,8 @@ import { composeDigest, composeLotMail, type LotMailFacts } from './compose';
 import { queueMail, type OutboxMail } from './outbox';
 import { alarmsInContext } from '../spc/alarms';
 
-/** Rules that e-mail subscribers at once; the rest wait for the morning digest. */
-export const IMMEDIATE_RULES: readonly string[] = ['out-of-spec', 'we1'];
+/** Rules that e-mail subscribers at once (a falling capability too: it concerns every lot to come); the rest wait for the morning digest. */
+export const IMMEDIATE_RULES: readonly string[] = ['out-of-spec', 'we1', 'capability'];
 
 /**
  * An immediate e-mail only for a signal whose lot's result was tested (or, without a test time,

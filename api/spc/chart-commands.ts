@@ -7,7 +7,7 @@ import type { Database } from '../db/client';
 import { controlLimitRevisions, lots, measurements, pointExclusions } from '../db/schema';
 import { buildChart } from './chart-assembly';
 import { limitRevisions, loadChartInputs, type LimitRevision } from './chart-load';
-import { CHARACTERISTIC_LOCK } from './db';
+import { CHARACTERISTIC_LOCK, type Executor } from './db';
 import { DomainError } from './errors';
 
 const requireReason = (reason: string) => {
@@ -94,8 +94,8 @@ export interface PointRequest {
   userId: number;
 }
 
-/** Leaves a lot's point out of the limits and the run rules of one characteristic (still plotted). */
-export async function excludePoint(db: Database, req: PointRequest): Promise<{ id: number }> {
+/** Leaves a lot's point out of the limits and the run rules of one characteristic (still plotted); inside a caller's transaction too (closing an alarm). */
+export async function excludePoint(db: Executor, req: PointRequest): Promise<{ id: number }> {
   const reason = requireReason(req.reason);
   return db.transaction(async (tx) => {
     await tx.execute(sql`select pg_advisory_xact_lock(${CHARACTERISTIC_LOCK}, ${req.characteristicId})`);

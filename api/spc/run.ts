@@ -11,6 +11,7 @@ import { findingsOf, reconcileAlarms, type PreviousSnapshot } from './alarms';
 import { settleRun } from './runs';
 import { arr, CHARACTERISTIC_LOCK, type Executor } from './db';
 import { queueRunMail } from '../mail/notify';
+import { capabilityThreshold, watchCapability } from './capability-alarm';
 
 export interface CharacteristicOutcome {
   skipped: boolean;
@@ -60,7 +61,9 @@ export async function runCharacteristic(db: Database, opts: RunCharacteristicOpt
     const now = new Date();
     const inputs = await loadChartInputs(tx, characteristicId, {}, now, { events: false });
     if (!inputs) throw new Error(`Characteristic ${characteristicId} does not exist`);
-    const fingerprint = `${chartFingerprint(inputs)}:${specAt(inputs.specs, now)?.revision ?? '-'}`;
+    // The capability threshold is an input too: changing it judges the capability again at the next run.
+    const threshold = await capabilityThreshold(tx, characteristicId);
+    const fingerprint = `${chartFingerprint(inputs)}:${specAt(inputs.specs, now)?.revision ?? '-'}:${threshold}`;
     const prevRes = await tx.execute<{ fingerprint: string; period_to: Date | null; computed_at: Date }>(sql`
       select fingerprint, period_to, computed_at from spc_snapshots where characteristic_id = ${characteristicId} for update`);
     const prev = prevRes.rows[0];
@@ -70,6 +73,7 @@ export async function runCharacteristic(db: Database, opts: RunCharacteristicOpt
       const { chart } = buildChart(inputs);
       const previous: PreviousSnapshot | null = prev ? { periodTo: prev.period_to ? new Date(prev.period_to) : null, computedAt: new Date(prev.computed_at) } : null;
       const reconciled = await reconcileAlarms(tx, { characteristicId, findings: findingsOf(chart, inputs, previous), runId });
+      const capabilityAlarm = await watchCapability(tx, { characteristicId, inputs, threshold, runId });
       const location = chart.points.map((pt) => pt.location);
       const dispersion = chart.points.map((pt) => pt.dispersion);
       const values = {
@@ -89,7 +93,7 @@ export async function runCharacteristic(db: Database, opts: RunCharacteristicOpt
           period_from = excluded.period_from, period_to = excluded.period_to, lot_ids = excluded.lot_ids, location = excluded.location, dispersion = excluded.dispersion,
           excluded_lot_ids = excluded.excluded_lot_ids, out_of_spec_lot_ids = excluded.out_of_spec_lot_ids, limits = excluded.limits, violations = excluded.violations,
           capability = excluded.capability, reasons = excluded.reasons`);
-      outcome = { skipped: false, changed: true, raised: reconciled.raised.length + reconciled.reopened.length, resolved: reconciled.resolved.length };
+      outcome = { skipped: false, changed: true, raised: reconciled.raised.length + reconciled.reopened.length + (capabilityAlarm === null ? 0 : 1), resolved: reconciled.resolved.length };
     }
     if (opts.pauseMs) await new Promise((r) => setTimeout(r, opts.pauseMs));
 

@@ -2,10 +2,26 @@
 import type { RuleId } from '../spc';
 
 import type { CauseCategory } from './causes';
+import type { LotStatus } from './lots';
 
 /** open → acknowledged → investigating → closed; a person may open a closed alarm again with a reason. */
 export const alarmStatuses = ['open', 'acknowledged', 'investigating', 'closed'] as const;
 export type AlarmStatus = (typeof alarmStatuses)[number];
+export const alarmStatusWords: Record<AlarmStatus, string> = { open: 'Open', acknowledged: 'Acknowledged', investigating: 'Investigating', closed: 'Closed' };
+
+/**
+ * The steps a person may take from each status: forward one step, or close at once (a false alarm is
+ * seen at a glance); a closed alarm only opens again, with a reason. The API refuses any other step
+ * with 409 naming these, and the alarm page offers exactly these buttons.
+ */
+export const alarmSteps: Record<AlarmStatus, readonly AlarmStatus[]> = {
+  open: ['acknowledged', 'closed'],
+  acknowledged: ['investigating', 'closed'],
+  investigating: ['closed'],
+  closed: ['open'],
+};
+/** The button of a step: what the person does. */
+export const alarmStepWords: Record<AlarmStatus, string> = { open: 'Reopen', acknowledged: 'Acknowledge', investigating: 'Investigate', closed: 'Close' };
 
 /** How a person closed an alarm: an assignable cause was found (with its category), none was, or the signal was false. */
 export const alarmOutcomes = ['assignable-cause', 'no-cause', 'false-alarm'] as const;
@@ -73,8 +89,65 @@ export interface AlarmView extends AlarmSignal {
   closedAt: string | null;
   closedBy: string | null;
   closeNote: string | null;
+  /** How a person closed it, and the cause category with an assignable cause. */
+  outcome: AlarmOutcome | null;
+  causeCategory: CauseCategory | null;
+  investigatingAt: string | null;
+  investigatingBy: string | null;
+  reopenedAt: string | null;
+  reopenedBy: string | null;
+  reopenReason: string | null;
+  assignee: { id: number; name: string } | null;
+  group: { id: number; title: string } | null;
   /** Address of the chart at the lot (`?lot=`), as the e-mails link it. */
   chartUrl: string;
+}
+
+/** One comment on an alarm. */
+export interface AlarmComment {
+  id: number;
+  author: string;
+  body: string;
+  createdAt: string;
+}
+
+/** One entry of an alarm's history, from the audit trail. */
+export interface AlarmHistoryEntry {
+  at: string;
+  /** Who did it; null for the SPC run. */
+  actor: string | null;
+  action: string;
+  reason: string | null;
+  before: unknown;
+  after: unknown;
+}
+
+/** An investigation several alarms belong to, with its members. */
+export interface AlarmGroupView {
+  id: number;
+  title: string;
+  note: string | null;
+  createdBy: string | null;
+  createdAt: string;
+  members: { id: number; characteristicCode: string; lotNumber: string; signal: string; status: AlarmStatus }[];
+}
+
+/** GET /api/v1/alarms/:id: the alarm with everything about its follow-up. */
+export interface AlarmDetail extends AlarmView {
+  comments: AlarmComment[];
+  group: AlarmGroupView | null;
+  history: AlarmHistoryEntry[];
+  ncrs: { id: number; number: string; status: string }[];
+  /** The lot's status now (released, on hold, rejected). */
+  lotStatus: LotStatus;
+  /** The steps a person may take now (alarmSteps of its status). */
+  nextSteps: readonly AlarmStatus[];
+}
+
+/** POST /api/v1/alarms/acknowledge: which alarms were acknowledged, and which were not open. */
+export interface BulkAcknowledgeResult {
+  acknowledged: number[];
+  skipped: number[];
 }
 
 /** GET /api/v1/alarms: the alarms of the filter in the order of what matters this morning, and the count of every status. */

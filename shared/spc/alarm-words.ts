@@ -15,6 +15,7 @@ export const signalNames: Record<string, string> = {
   alternating: 'Fourteen alternating up and down',
   hugging: 'Fifteen within 1 sigma',
   mixture: 'Eight beyond 1 sigma on both sides',
+  capability: 'Capability below threshold',
 };
 
 /** The signal's short name; an unknown rule reads as a plain "signal", never as its identifier. */
@@ -52,6 +53,28 @@ export interface AlarmWordsInput {
   decimals: number;
   /** Specification revision of an out-of-specification alarm. */
   specRevision?: number | null;
+}
+
+/** The facts of a falling-capability alarm: the index compared, its value, the threshold and the window. */
+export interface CapabilityWordsInput {
+  /** Cpk, or Ppk where the chart of the window is not in control. */
+  index: 'Cpk' | 'Ppk';
+  value: number;
+  threshold: number;
+  /** Lots and values of the window the index was computed over. */
+  lots: number;
+  values: number;
+  fromLot: string;
+  toLot: string;
+}
+
+/**
+ * The sentence of a falling-capability alarm, e.g. "Cpk 1.12 over the newest 60 lots (L1-0001 to
+ * L1-0060, 120 results) fell below the threshold 1.33." Indices read to two decimals (common practice).
+ */
+export function capabilitySentence(c: CapabilityWordsInput): string {
+  const why = c.index === 'Ppk' ? ' The chart of these lots is not in statistical control, so the performance index Ppk stands in for Cpk.' : '';
+  return `${c.index} ${formatFigure(c.value, 2)} over the newest ${c.lots} lots (${c.fromLot} to ${c.toLot}, ${c.values} results) fell below the threshold ${formatFigure(c.threshold, 2)}.${why}`;
 }
 
 /**

@@ -52,12 +52,14 @@ export { CHART_TYPES, chartTypeLabels, computeChart, PHASE_ONE_MIN_POINTS, point
 export type { ChartInput, ChartPoint, ChartResult, ChartType, FrozenLimits, Limits, LocationLimits, PointColumns, Reason, ReasonCode } from './charts';
 export { computeCapability, CAPABILITY_MIN_SUBGROUPS, CAPABILITY_MIN_VALUES } from './capability';
 export type { CapabilityInput, CapabilityNote, CapabilityNoteCode, CapabilityResult, Interval } from './capability';
+export { CAPABILITY_WINDOW_LOTS, capabilityCrossing, capabilityReading, DEFAULT_CAPABILITY_THRESHOLD } from './capability-watch';
+export type { CapabilityCrossing, CapabilityReading } from './capability-watch';
 export { andersonDarling, andersonDarlingPValue, NORMALITY_MIN_VALUES } from './normality';
 export type { NormalityResult } from './normality';
 export { EXTENDED_RULES, RULE_SETS, WESTERN_ELECTRIC_RULES, resolveRules, ruleDescriptions, ruleLabels, ruleSetLabels } from './rules';
 export type { ChartPart, RuleId, RuleSelection, RuleSetId, Violation } from './rules';
-export { alarmSentence, limitWords, signalName, signalNames, signalRank, statisticWords } from './alarm-words';
-export type { AlarmWordsInput } from './alarm-words';
+export { alarmSentence, capabilitySentence, limitWords, signalName, signalNames, signalRank, statisticWords } from './alarm-words';
+export type { AlarmWordsInput, CapabilityWordsInput } from './alarm-words';
 export { beyondStrictestLimits, brokenLimit, isOutOfSpec, lotResult, specAt, specVerdict } from './specification';
 export type { SpecificationLimits, SpecificationRevision, SpecVerdict } from './specification';
 export { A2, A3, B3, B4, c4, d2, d3, D3, D4, E2 } from './constants';

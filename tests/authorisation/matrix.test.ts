@@ -33,8 +33,14 @@ const routes: ProtectedRoute[] = [
   { method: 'post', path: '/api/v1/characteristics/0/exclusions', permission: 'point.exclude', body: {} },
   { method: 'delete', path: '/api/v1/characteristics/0/exclusions/0', permission: 'point.exclude', body: {} },
   { method: 'post', path: '/api/v1/spc-runs', permission: 'spc-run.start', body: { characteristicIds: [] } },
-  { method: 'post', path: '/api/v1/alarms/0/acknowledge', permission: 'alarm.acknowledge', body: {} },
-  { method: 'post', path: '/api/v1/alarms/0/close', permission: 'alarm.close', body: {} },
+  // Alarms: every role reads them; managers triage them.
+  { method: 'get', path: '/api/v1/alarms?limit=1', permission: 'alarm.read', allowed: 200 },
+  { method: 'get', path: '/api/v1/alarms/0', permission: 'alarm.read' },
+  { method: 'patch', path: '/api/v1/alarms/0', permission: 'alarm.triage', body: {} },
+  { method: 'post', path: '/api/v1/alarms/0/comments', permission: 'alarm.triage', body: {} },
+  { method: 'post', path: '/api/v1/alarms/acknowledge', permission: 'alarm.triage', body: {} },
+  { method: 'post', path: '/api/v1/alarm-groups', permission: 'alarm.triage', body: {} },
+  { method: 'get', path: '/api/v1/alarm-groups/0', permission: 'alarm.read' },
   { method: 'get', path: '/api/v1/mail-log?pageSize=1', permission: 'mail.read', allowed: 200 },
   { method: 'get', path: '/api/v1/mail-log/0', permission: 'mail.read' },
   { method: 'post', path: '/api/v1/lines', permission: 'catalogue.manage', body: {} },
@@ -102,7 +108,7 @@ describe('the map keeps the roles of the product brief', () => {
   });
 
   it('lets the quality manager triage alarms, freeze limits and maintain specifications, and not manage users or the catalogue', () => {
-    for (const action of ['alarm.acknowledge', 'alarm.close', 'limits.freeze', 'specification.revise'] as const) expect(may('quality_manager', action), action).toBe(true);
+    for (const action of ['alarm.triage', 'limits.freeze', 'specification.revise'] as const) expect(may('quality_manager', action), action).toBe(true);
     for (const action of ['user.manage', 'catalogue.manage'] as const) expect(may('quality_manager', action), action).toBe(false);
   });
 
