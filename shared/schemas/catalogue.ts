@@ -58,6 +58,13 @@ const name = (what: string) =>
     .max(120, 'Keep the name under 120 characters');
 
 /** Empty text means "none", stored as null. */
+/** A capability threshold (Cpk or Ppk): 1.00 to 3.00, two decimals at most (common practice: 1.33 or 1.67). */
+export const capabilityThreshold = z
+  .number({ message: 'Enter the threshold as a number, e.g. 1.33' })
+  .min(1, 'The threshold is at least 1.00')
+  .max(3, 'The threshold is at most 3.00')
+  .refine((v) => Math.abs(v * 100 - Math.round(v * 100)) < 1e-9, 'Give the threshold to two decimals at most');
+
 const optionalText = (max: number) =>
   z
     .string()
@@ -181,6 +188,8 @@ const characteristicFields = {
   ruleSet: z.enum(ruleSets, { message: 'Choose the Western Electric rules or the extended set' }),
   /** How and how often the lab samples, in a sentence; empty for none. */
   samplingPlan: optionalText(500),
+  /** The capability index below which the nightly run raises a falling-capability alarm; null: the plant's. */
+  capabilityThreshold: capabilityThreshold.nullable().optional(),
 };
 
 export interface CharacteristicRuleInput {
@@ -255,6 +264,8 @@ export interface PlantView {
   nightlyRunCron: string;
   /** How dates are typed and shown at the plant, e.g. "dd/MM/yyyy". */
   dateFormat: PlantDateFormat;
+  /** The capability index below which the nightly run raises a falling-capability alarm, unless a characteristic sets its own. */
+  capabilityThreshold: number;
 }
 
 /** GET /api/v1/lines items, and the answer of adding or changing a line. */
@@ -303,6 +314,8 @@ export interface CharacteristicView {
   chartType: ChartType;
   ruleSet: RuleSetId;
   samplingPlan: string | null;
+  /** The characteristic's own capability threshold; null: the plant's applies. */
+  capabilityThreshold: number | null;
   active: boolean;
   productId: number;
   productCode: string;

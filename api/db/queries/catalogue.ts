@@ -28,6 +28,7 @@ export async function listCharacteristics(db: Reader, id?: number): Promise<Char
       chartType: characteristics.chartType,
       ruleSet: characteristics.ruleSet,
       samplingPlan: characteristics.samplingPlan,
+      capabilityThreshold: characteristics.capabilityThreshold,
       active: characteristics.active,
       productId: products.id,
       productCode: products.code,

@@ -38,7 +38,7 @@ describe('the list other screens read', () => {
     const h = await as('technician');
     const flow = (await request(api.app).get('/api/v1/characteristics').set(h)).body.items.find((c: { code: string }) => c.code === 'HVL25-FLOW');
     expect(Object.keys(flow).sort()).toEqual(
-      ['active', 'ageDays', 'chartType', 'code', 'decimals', 'hasResults', 'id', 'lineCode', 'name', 'productCode', 'productFamily', 'productId', 'productName', 'rawLoad', 'ruleSet', 'samplingPlan', 'spec', 'standard', 'subgroupSize', 'testMethodCode', 'testMethodName', 'unit'].sort(),
+      ['active', 'ageDays', 'capabilityThreshold', 'chartType', 'code', 'decimals', 'hasResults', 'id', 'lineCode', 'name', 'productCode', 'productFamily', 'productId', 'productName', 'rawLoad', 'ruleSet', 'samplingPlan', 'spec', 'standard', 'subgroupSize', 'testMethodCode', 'testMethodName', 'unit'].sort(),
     );
     expect(flow).toMatchObject({ subgroupSize: 2, chartType: 'xbar-r', ageDays: null, hasResults: true });
   });
@@ -71,6 +71,21 @@ describe('characteristics', () => {
     expect(fresh.status).toBe(201);
     // EN 1015-7 gives the air content of fresh mortar in per cent by volume.
     expect(fresh.body).toMatchObject({ unit: '%', spec: null, ruleSet: 'extended', samplingPlan: null });
+  });
+
+  it('keep a capability threshold of their own, or none to follow the plant’s', async () => {
+    const product = await newProduct();
+    const created = await newCharacteristic(rc28(product.code, { capabilityThreshold: 1.67 }));
+    expect(created.status).toBe(201);
+    expect(created.body.capabilityThreshold).toBe(1.67);
+    const h = await admin();
+    const cleared = await request(api.app).patch(`/api/v1/characteristics/${created.body.id}`).set(h).send({ capabilityThreshold: null });
+    expect(cleared.status).toBe(200);
+    expect(cleared.body.capabilityThreshold).toBeNull();
+    const refused = await request(api.app).patch(`/api/v1/characteristics/${created.body.id}`).set(h).send({ capabilityThreshold: 0.8 });
+    expect(refused.status).toBe(400);
+    expect(refused.body.details[0]).toEqual({ path: 'capabilityThreshold', message: 'The threshold is at least 1.00' });
+    expect((await auditOf('characteristic', created.body.id)).map((e) => e.action)).toEqual(['create', 'update']);
   });
 
   it('refuse an unknown product or method (400) and a code in use (409)', async () => {

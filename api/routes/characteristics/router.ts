@@ -14,7 +14,7 @@ import { characteristicParamsSchema, createCharacteristicSchema, updateCharacter
 export type ChartSettingsChanged = (characteristicId: number, userId: number) => Promise<void>;
 
 /** The settings the SPC run computes a chart from. */
-const chartSettings = new Set(['chartType', 'subgroupSize', 'ruleSet']);
+const chartSettings = new Set(['chartType', 'subgroupSize', 'ruleSet', 'capabilityThreshold']);
 
 /**
  * The characteristics: a product × test method × age, with its chart settings and specification.
@@ -50,6 +50,7 @@ export function characteristicsRouter(db: Database, chartSettingsChanged: ChartS
           chartType: input.chartType,
           ruleSet: input.ruleSet,
           samplingPlan: input.samplingPlan,
+          capabilityThreshold: input.capabilityThreshold ?? null,
         })
         .returning({ id: characteristics.id });
       await recordAudit(tx, { actorId: req.user!.id, action: 'create', entity: 'characteristic', entityId: row.id, after: { ...settings, unit: method.unit, active: true } });
@@ -100,6 +101,7 @@ export function characteristicsRouter(db: Database, chartSettingsChanged: ChartS
         chartType: row.chartType,
         ruleSet: row.ruleSet,
         samplingPlan: row.samplingPlan,
+        capabilityThreshold: row.capabilityThreshold,
         active: row.active,
       };
       const changed = (Object.keys(input) as (keyof typeof input)[]).filter((key) => input[key] !== undefined && input[key] !== before[key]);

@@ -58,4 +58,22 @@ describe('PATCH /api/v1/plants/:id', () => {
     const [after] = await api.db.select().from(plants).where(eq(plants.id, plant.id));
     expect(after.timeZone).toBe('Europe/Berlin');
   });
+
+  it('sets the capability threshold of the falling-capability alarm, audited, two decimals from 1.00 to 3.00', async () => {
+    const [plant] = await api.db.insert(plants).values({ code: `${code}C`, name: 'Threshold works', timeZone: 'Europe/Berlin' }).returning();
+    // 1.33 is the usual minimum Cpk (common practice), the column's default.
+    expect(plant.capabilityThreshold).toBe(1.33);
+    const res = await request(api.app).patch(`/api/v1/plants/${plant.id}`).set(await admin()).send({ capabilityThreshold: 1.67 });
+    expect(res.status).toBe(200);
+    expect(res.body).toMatchObject({ capabilityThreshold: 1.67, dateFormat: 'dd/MM/yyyy' });
+    const audit = await api.db.select().from(auditEvents).where(and(eq(auditEvents.entity, 'plant'), eq(auditEvents.entityId, String(plant.id))));
+    expect(audit.map((a) => [a.before, a.after])).toEqual([[{ capabilityThreshold: 1.33 }, { capabilityThreshold: 1.67 }]]);
+    for (const bad of [0.5, 3.5, 1.333, 'high']) {
+      const refused = await request(api.app).patch(`/api/v1/plants/${plant.id}`).set(await admin()).send({ capabilityThreshold: bad });
+      expect(refused.status, String(bad)).toBe(400);
+      expect(refused.body.details[0].path).toBe('capabilityThreshold');
+    }
+    const manager = await request(api.app).patch(`/api/v1/plants/${plant.id}`).set({ authorization: `Bearer ${await api.tokenFor('quality_manager')}` }).send({ capabilityThreshold: 1.5 });
+    expect(manager.status).toBe(403);
+  });
 });

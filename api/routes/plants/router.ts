@@ -8,7 +8,7 @@ import { requirePermission, requireSession } from '@api/auth/session';
 import type { PlantView } from '@shared/schemas/catalogue';
 import { plantParamsSchema, updatePlantSchema } from './schema';
 
-/** The plants the product is configured with: every signed-in role reads them, an administrator sets their date format. */
+/** The plants the product is configured with: every signed-in role reads them, an administrator sets their date format and capability threshold. */
 export function plantsRouter(db: Database): Router {
   const router = Router();
   router.use(requireSession);
@@ -23,9 +23,11 @@ export function plantsRouter(db: Database): Router {
     const plant = await db.transaction(async (tx) => {
       const [before] = await tx.select().from(plants).where(eq(plants.id, id)).for('update');
       if (!before) throw notFound('Plant');
-      if (before.dateFormat === input.dateFormat) return before;
-      const [after] = await tx.update(plants).set({ dateFormat: input.dateFormat }).where(eq(plants.id, id)).returning();
-      await recordAudit(tx, { actorId: req.user!.id, action: 'update', entity: 'plant', entityId: id, before: { dateFormat: before.dateFormat }, after: { dateFormat: after.dateFormat } });
+      const changes = Object.fromEntries(Object.entries(input).filter(([key, value]) => value !== undefined && value !== before[key as keyof typeof input]));
+      if (!Object.keys(changes).length) return before;
+      const [after] = await tx.update(plants).set(changes).where(eq(plants.id, id)).returning();
+      const pick = (row: typeof before) => Object.fromEntries(Object.keys(changes).map((key) => [key, row[key as keyof typeof input]]));
+      await recordAudit(tx, { actorId: req.user!.id, action: 'update', entity: 'plant', entityId: id, before: pick(before), after: pick(after) });
       return after;
     });
     res.json(plant satisfies PlantView);

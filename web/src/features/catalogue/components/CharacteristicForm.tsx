@@ -27,6 +27,7 @@ const fields: FieldPath<CharacteristicFormValues>[] = [
   'chartType',
   'ruleSet',
   'samplingPlan',
+  'capabilityThreshold',
   'spec.lsl',
   'spec.target',
   'spec.usl',
@@ -53,6 +54,7 @@ function startingValues(characteristic: CharacteristicView | undefined, products
       chartType: 'imr',
       ruleSet: 'we',
       samplingPlan: '',
+      capabilityThreshold: '',
       spec: emptySpec,
     };
   }
@@ -66,6 +68,7 @@ function startingValues(characteristic: CharacteristicView | undefined, products
     chartType: characteristic.chartType,
     ruleSet: characteristic.ruleSet,
     samplingPlan: characteristic.samplingPlan ?? '',
+    capabilityThreshold: characteristic.capabilityThreshold === null ? '' : String(characteristic.capabilityThreshold),
     spec: emptySpec,
   };
 }
@@ -242,6 +245,14 @@ export function CharacteristicForm({
         )}
         <Field label="Sampling plan (optional)" hint="How often and what the lab samples, e.g. “First lot of each shift; a set of three prisms”." error={errors.samplingPlan?.message} className="mt-4">
           {(control) => <TextArea {...control} rows={2} {...register('samplingPlan')} />}
+        </Field>
+        <Field
+          label="Capability threshold (optional)"
+          hint="The nightly run raises an alarm when Cpk (Ppk while the chart is out of control) over the newest lots falls below it. Empty: the plant's threshold."
+          error={errors.capabilityThreshold?.message}
+          className="mt-4 max-w-sm"
+        >
+          {(control) => <Input {...control} inputMode="decimal" autoComplete="off" className="font-mono" placeholder="e.g. 1.33" {...register('capabilityThreshold')} />}
         </Field>
       </fieldset>
 

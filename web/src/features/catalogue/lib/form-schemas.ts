@@ -23,6 +23,7 @@ const settingsFields = {
   chartType: typed,
   ruleSet: typed,
   samplingPlan: typed,
+  capabilityThreshold: typed,
 };
 const specFields = { lsl: typed, target: typed, usl: typed, effectiveFrom: typed, reason: typed };
 
@@ -40,6 +41,8 @@ function settings(form: Omit<CharacteristicFormValues, 'spec'>): z.input<typeof 
     chartType: form.chartType as ChartType,
     ruleSet: form.ruleSet as RuleSetId,
     samplingPlan: form.samplingPlan,
+    // Blank: the plant's threshold applies.
+    capabilityThreshold: form.capabilityThreshold.trim() === '' ? null : (typedNumber(form.capabilityThreshold) ?? Number.NaN),
   };
 }
 

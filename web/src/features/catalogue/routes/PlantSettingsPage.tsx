@@ -4,6 +4,7 @@ import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { formatPlantDate, formatPlantDateTime, PLANT_DATE_FORMATS, zoneAbbreviation } from '@shared/time';
 import { updatePlantSchema } from '@shared/schemas/plants';
+import { capabilityThreshold } from '@shared/schemas/catalogue';
 import { plantsQueryOptions, type Plant } from '@web/lib/catalogue';
 import { showServerErrors } from '@web/lib/forms';
 import { useUpdatePlant } from '../api/catalogue';
@@ -11,7 +12,10 @@ import { PageHeader } from '@web/components/ui/PageHeader';
 import { Card } from '@web/components/ui/Card';
 import { Alert } from '@web/components/ui/Alert';
 import { Button } from '@web/components/ui/Button';
-import { Field, Select } from '@web/components/ui/Field';
+import { Field, Input, Select } from '@web/components/ui/Field';
+import { typedNumber } from '@web/lib/form-values';
+import { formatFigure } from '@shared/figures';
+import { z } from 'zod';
 import { Loading } from '@web/components/ui/Spinner';
 import { ErrorState } from '@web/components/ui/ErrorState';
 
@@ -91,6 +95,50 @@ function PlantCard({ plant }: { plant: Plant }) {
           Save date format
         </Button>
       </form>
+      <CapabilityThresholdForm plant={plant} />
     </Card>
+  );
+}
+
+const thresholdFormSchema = z.object({ capabilityThreshold: z.string() }).transform((v) => ({ capabilityThreshold: typedNumber(v.capabilityThreshold) ?? Number.NaN })).pipe(z.object({ capabilityThreshold }));
+
+/** The plant's capability threshold: the falling-capability alarm of every characteristic without its own. */
+function CapabilityThresholdForm({ plant }: { plant: Plant }) {
+  const update = useUpdatePlant();
+  const [saved, setSaved] = useState<string | null>(null);
+  const {
+    register,
+    handleSubmit,
+    setError,
+    formState: { errors },
+  } = useForm<z.input<typeof thresholdFormSchema>, unknown, z.output<typeof thresholdFormSchema>>({
+    resolver: zodResolver(thresholdFormSchema),
+    defaultValues: { capabilityThreshold: formatFigure(plant.capabilityThreshold, 2) },
+  });
+  const onSubmit = handleSubmit(async (input) => {
+    setSaved(null);
+    try {
+      const after = await update.mutateAsync({ id: plant.id, changes: input });
+      setSaved(`The nightly run now compares capability with ${formatFigure(after.capabilityThreshold, 2)} where a characteristic sets no threshold of its own. The change is in the audit trail.`);
+    } catch (error) {
+      showServerErrors(error, setError, ['capabilityThreshold']);
+    }
+  });
+  return (
+    <form onSubmit={onSubmit} noValidate className="mt-6 space-y-4 border-t border-zinc-200 pt-5" aria-label={`Capability threshold of ${plant.name}`}>
+      {errors.root && <Alert tone="error">{errors.root.message}</Alert>}
+      {saved && <Alert tone="success">{saved}</Alert>}
+      <Field
+        label="Capability threshold"
+        hint="The nightly run raises an alarm when a characteristic's Cpk (Ppk while its chart is out of control) over its newest lots falls below this. 1.33 is a common minimum."
+        error={errors.capabilityThreshold?.message}
+        className="max-w-sm"
+      >
+        {(ids) => <Input {...ids} inputMode="decimal" autoComplete="off" className="font-mono" {...register('capabilityThreshold')} />}
+      </Field>
+      <Button type="submit" busy={update.isPending}>
+        Save threshold
+      </Button>
+    </form>
   );
 }
