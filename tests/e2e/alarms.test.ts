@@ -50,8 +50,9 @@ describe('alarm triage', () => {
     await page.getByLabel('Signal').selectOption({ label: 'Beyond a control limit' });
     await page.waitForURL((url) => url.searchParams.get('product') === String(t.productId) && url.searchParams.get('rule') === 'we1');
     const row = page.locator(`tr[data-alarm="${alarmId}"]`);
+    // The list of the earlier filter stays until the new one has loaded.
+    await expect.poll(() => page.locator('tr[data-alarm]').count()).toBe(1);
     await row.waitFor();
-    expect(await page.locator('tr[data-alarm]').count()).toBe(1);
     expect(await row.getByRole('link', { name: 'Chart at this lot' }).getAttribute('href')).toBe(`/charts/${t.characteristicId}?lot=${t.lotNumber('A22')}`);
     expect(await row.getByRole('link', { name: t.lotNumber('A22') }).getAttribute('href')).toBe(lotPath(t.lotNumber('A22')));
     // The selection offers the bulk actions and an NCR from the chosen alarms.
@@ -72,7 +73,8 @@ describe('alarm triage', () => {
     await decide.getByRole('button', { name: 'Close' }).click();
     await page.getByLabel('Assignable cause found').check();
     await page.getByLabel('Cause category').selectOption('measurement');
-    await page.getByText('test equipment, calibration, specimen preparation').first().waitFor();
+    // The category's hint under the field (shared/schemas/causes.ts).
+    await page.locator('p', { hasText: 'test equipment, calibration, specimen preparation' }).waitFor();
     await page.getByLabel('What was checked and found').fill('Chipped prism on the flow table; replaced and retested');
     await page.getByRole('button', { name: 'Close the alarm' }).click();
     await decide.getByRole('button', { name: 'Reopen' }).waitFor();

@@ -77,29 +77,29 @@ describe('alarms page', () => {
     // After a full run of the demo plant the list is long: find the lot.
     await page.getByLabel('Lot or characteristic').fill(t.lotNumber('LOW'));
     await page.getByRole('button', { name: 'Find' }).click();
-    const card = page.locator('article[data-alarm-group]').filter({ hasText: t.lotNumber('LOW') });
-    const row = card.locator('li[data-alarm]').filter({ hasText: 'Out of specification' });
+    const row = page.locator('tr[data-alarm]').filter({ hasText: t.lotNumber('LOW') }).filter({ hasText: 'Out of specification' });
     await row.waitFor();
-    const text = await card.textContent();
+    const text = await row.textContent();
     expect(text).toContain(t.code);
     expect(text).toContain('Results 130, 131 mm');
-    expect(await row.textContent()).toContain('Lot result 131 mm (mean of 2 results: 130, 131) below the lower specification limit 135 mm');
-    expect(await card.getByRole('link', { name: 'Chart at this lot' }).getAttribute('href')).toBe(`/charts/${t.characteristicId}?lot=${t.lotNumber('LOW')}`);
+    expect(text).toContain('Lot result 131 mm (mean of 2 results: 130, 131) below the lower specification limit 135 mm');
+    expect(await row.getByRole('link', { name: 'Chart at this lot' }).getAttribute('href')).toBe(`/charts/${t.characteristicId}?lot=${t.lotNumber('LOW')}`);
     await screenshot(page, 'alarms-open');
 
-    await row.getByRole('button', { name: 'Acknowledge' }).click();
-    const dialog = page.getByRole('dialog', { name: 'Acknowledge the alarm' });
+    await row.getByRole('checkbox').check();
+    await page.getByRole('button', { name: 'Acknowledge selected' }).click();
+    const dialog = page.getByRole('dialog', { name: 'Acknowledge 1 open alarm' });
     await dialog.getByLabel('Note').fill('Water dose checked on the mixer log; retest of the retained sample ordered');
     await dialog.getByRole('button', { name: 'Acknowledge' }).click();
     await dialog.waitFor({ state: 'detached' });
     await row.waitFor({ state: 'detached' });
 
     await page.getByRole('tab', { name: /Acknowledged/ }).click();
-    await page.getByLabel('Lot or characteristic').fill(t.lotNumber('LOW'));
-    await page.getByRole('button', { name: 'Find' }).click();
-    const acknowledged = page.locator('article[data-alarm-group]').filter({ hasText: t.lotNumber('LOW') });
+    const acknowledged = page.locator('tr[data-alarm]').filter({ hasText: t.lotNumber('LOW') });
     await acknowledged.waitFor();
-    expect(await acknowledged.textContent()).toContain('Acknowledged by Demo Quality Manager: Water dose checked');
+    await acknowledged.getByRole('link', { name: 'Open the alarm' }).click();
+    await page.getByText('Acknowledged by Demo Quality Manager').waitFor();
+    expect(await page.locator('main').textContent()).toContain('Water dose checked on the mixer log');
     await screenshot(page, 'alarms-acknowledged');
   });
 });

@@ -1,6 +1,7 @@
 import { useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { alarmOutcomes, alarmOutcomeWords, alarmStepWords, type AlarmDetail, type AlarmOutcome, type AlarmStatus } from '@shared/schemas/alarms';
+import { formatFigure } from '@shared/figures';
 import { causeCategories, causeCategoryWords, type CauseCategory } from '@shared/schemas/causes';
 import { useAlarm, useCommentOnAlarm, usePatchAlarm } from '../api/alarms';
 import { alarmPath, chartPath, fieldMessages, raiseNcrPath, signalTone, statusTone, statusWord } from '../lib/alarm-words';
@@ -95,6 +96,28 @@ function AlarmDetailView({ alarm: a }: { alarm: AlarmDetail }) {
                 <dd>
                   <PlantTime at={a.detectedAt} />
                 </dd>
+                {a.values.length > 0 && (
+                  <>
+                    <dt className="text-zinc-600">Results</dt>
+                    <dd className="figures">
+                      {a.values.map((v) => formatFigure(v, c.decimals)).join(', ')} {c.unit}
+                    </dd>
+                  </>
+                )}
+                {a.acknowledgedBy && (
+                  <>
+                    <dt className="text-zinc-600">Acknowledged by {a.acknowledgedBy}</dt>
+                    <dd>{a.acknowledgeNote ?? <PlantTime at={a.acknowledgedAt!} />}</dd>
+                  </>
+                )}
+                {a.investigatingBy && (
+                  <>
+                    <dt className="text-zinc-600">Investigated by</dt>
+                    <dd>
+                      {a.investigatingBy}, since <PlantTime at={a.investigatingAt!} />
+                    </dd>
+                  </>
+                )}
                 {a.outcome && (
                   <>
                     <dt className="text-zinc-600">Outcome</dt>

@@ -1,6 +1,7 @@
 import { useMemo, useState } from 'react';
 import { Link, useSearchParams } from 'react-router-dom';
 import { alarmStatuses, type AlarmStatus, type AlarmView } from '@shared/schemas/alarms';
+import { formatFigure } from '@shared/figures';
 import { useAlarms, type AlarmFilter } from '../api/alarms';
 import { alarmPath, chartPath, raiseNcrPath, signalOptions, signalTone, statusTone, statusWord } from '../lib/alarm-words';
 import { AcknowledgeDialog, GroupDialog } from '../components/SelectionDialogs';
@@ -330,6 +331,11 @@ function AlarmRow({ alarm: a, selectable, selected, onToggle }: { alarm: AlarmVi
             {a.lot.lotNumber}
           </Link>
         </p>
+        {a.values.length > 0 && (
+          <p className="figures text-zinc-600">
+            Results {a.values.map((v) => formatFigure(v, c.decimals)).join(', ')} {c.unit}
+          </p>
+        )}
         {a.group && <p className="text-zinc-600">Investigation: {a.group.title}</p>}
       </td>
       <td className="figures px-3 py-2 text-sm whitespace-nowrap">
