@@ -47,7 +47,9 @@ async function removeOnce(db: Database, prefix: string): Promise<void> {
     await tx.execute(sql`
       create temporary table doomed_lots on commit drop as
       select id from lots where product_id in (select id from doomed_products) or line_id in (select id from doomed_lines)`);
-    for (const table of ['alarms', 'spc_snapshots', 'spc_run_items', 'point_exclusions', 'control_limit_revisions', 'spec_limits']) {
+    await tx.execute(sql`
+      delete from alarm_comments where alarm_id in (select id from alarms where characteristic_id in (select id from doomed_characteristics) or lot_id in (select id from doomed_lots))`);
+    for (const table of ['capability_watch', 'alarms', 'spc_snapshots', 'spc_run_items', 'point_exclusions', 'control_limit_revisions', 'spec_limits']) {
       await tx.execute(sql`delete from ${sql.identifier(table)} where characteristic_id in (select id from doomed_characteristics)`);
     }
     await tx.execute(sql`delete from alarms where lot_id in (select id from doomed_lots)`);

@@ -21,7 +21,7 @@ export const listAlarmsQuerySchema = z.object({
   /** What matters this morning (default), newest or oldest detection first. */
   sort: z.enum(['priority', 'newest', 'oldest'], { message: 'sort must be priority, newest or oldest' }).default('priority'),
   /** Part of a lot number or characteristic code. */
-  q: lineText('the search text', { max: 100 }).optional(),
+  q: z.preprocess((v) => (v === '' ? undefined : v), lineText('the search text', { max: 100 }).optional()),
   limit: z.coerce.number().int().min(1).max(1000).default(200),
 });
 
