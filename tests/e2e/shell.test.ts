@@ -114,7 +114,8 @@ describe('web app shell', () => {
     await pageHeading(page, 'Control charts').waitFor();
     expect(new URL(page.url()).pathname).toBe('/charts');
     const labels = await mainMenu(page).getByRole('link').allTextContents();
-    expect(labels).toEqual(['Plant overview', 'Control charts', 'Results & uploads', 'Test methods', 'Specifications & events', 'SPC runs', 'Alerts by e-mail']);
+    // Alarms and NCRs are read by every role (alarm.read, ncr.read); only managers act on them.
+    expect(labels).toEqual(['Plant overview', 'Control charts', 'Results & uploads', 'Test methods', 'Specifications & events', 'Alarms', 'SPC runs', 'Nonconformance reports', 'Alerts by e-mail']);
 
     await page.goto(`${baseUrl()}/admin/users`);
     await pageHeading(page, 'Not allowed for your role').waitFor();
