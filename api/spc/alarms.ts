@@ -347,6 +347,7 @@ export async function changeAlarm(tx: Tx, c: AlarmChange, publicUrl: string): Pr
     }
     await tx.execute(sql`update alarms set assignee_id = ${c.assigneeId}, updated_at = now() where id = ${c.id}`);
     await recordAudit(tx, { actorId: c.userId, action: 'assign', entity: 'alarm', entityId: c.id, before: { assigneeId: a.assignee_id }, after: { assigneeId: c.assigneeId }, reason: c.note ?? null });
+    // The new assignee is told, unless they took the alarm themselves.
     if (c.assigneeId !== null && c.assigneeId !== c.userId) await queueAssignedMail(tx, { alarmId: c.id, assigneeId: c.assigneeId, byUserId: c.userId, note: c.note ?? null, publicUrl });
   }
 
