@@ -34,6 +34,7 @@ export const lotStatusWords: Record<LotStatus, string> = { released: 'Released',
 /** Who put a lot on hold: the system for a result out of specification, a person, or an NCR's containment. */
 export const holdSources = ['out-of-spec', 'manual', 'ncr'] as const;
 export type HoldSource = (typeof holdSources)[number];
+export const holdSourceWords: Record<HoldSource, string> = { 'out-of-spec': 'Result out of specification', manual: 'Put on hold by hand', ncr: 'NCR containment' };
 
 /** One hold of a lot, open or released. */
 export interface LotHoldView {
