@@ -77,9 +77,9 @@ async function lotView(db: Executor, lotNumber: string): Promise<Json<LotView>> 
   return { ...lot, results, specs, holds: await holdsOfLot(db, lot.id), ncrs: lotNcrs };
 }
 
-/** The lot of a hold or release request, locked for the decision; 404 when there is none. */
+/** The lot of a hold or release request; 404 when there is none. The open-hold index and releaseHold's update settle a race. */
 async function lotToDecide(tx: Executor, lotNumber: string): Promise<{ id: number; lotNumber: string }> {
-  const res = await tx.execute<{ id: number; lot_number: string }>(sql`select id, lot_number from lots where lot_number = ${lotNumber} for update`);
+  const res = await tx.execute<{ id: number; lot_number: string }>(sql`select id, lot_number from lots where lot_number = ${lotNumber}`);
   const lot = res.rows[0];
   if (!lot) throw notFound(`Lot ${lotNumber}`);
   return { id: lot.id, lotNumber: lot.lot_number };

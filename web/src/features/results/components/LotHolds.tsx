@@ -25,8 +25,8 @@ export function OpenHoldNotice({ lot }: { lot: Lot }) {
       </p>
       {open.causeWithdrawn && (
         <p className="mt-1">
-          The result that caused this hold was corrected or voided since and the lot is now inside the specification. The hold stays until a quality
-          manager has checked why the first result was wrong and releases the lot.
+          The data no longer show the result that caused this hold outside the specification: it was corrected or voided since. The hold stays until a
+          quality manager has checked why the first result was wrong and releases the lot.
         </p>
       )}
       <p className="mt-1">Do not dispatch the lot until it is released.</p>
@@ -64,13 +64,13 @@ export function HoldHistory({ lot }: { lot: Lot }) {
                   )}
                 </span>
                 <span className="block [overflow-wrap:anywhere]">{h.reason}</span>
-                {h.causeWithdrawn && <span className="mt-1 block text-sm text-zinc-600">The result behind this hold was corrected or voided since.</span>}
+                {h.causeWithdrawn && <span className="mt-1 block text-sm text-zinc-600">The result behind this hold was corrected or voided since; it no longer shows the lot outside the specification.</span>}
               </td>
-              <td className="px-3 py-2 text-sm">
+              <td className="px-3 py-2">
                 {h.releasedAt ? (
                   <>
-                    <PlantTime at={h.releasedAt} className="block font-mono" />
-                    <span className="block text-zinc-600">{h.releasedBy}</span>
+                    <PlantTime at={h.releasedAt} className="block font-mono text-sm" />
+                    <span className="block text-sm text-zinc-600">{h.releasedBy}</span>
                     <span className="block [overflow-wrap:anywhere]">{h.releaseReason}</span>
                   </>
                 ) : (
