@@ -109,7 +109,7 @@ export function createApp({ db, config, serveWeb = true, resultsChanged, spcQueu
   app.use('/api/v1/products', productsRouter(db));
   // Beside the charts and specifications routers: each answers its own paths under /characteristics.
   app.use('/api/v1/characteristics', characteristicsRouter(db, chartSettingsChanged));
-  app.use('/api/v1/lots', lotsRouter(db));
+  app.use('/api/v1/lots', lotsRouter(db, publicUrl));
   app.use('/api/v1/test-methods', testMethodsRouter());
   app.use('/api', notFoundApi);
 

@@ -39,7 +39,7 @@ export interface Composed {
   html: string;
 }
 
-const escapeHtml = (s: string) => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
+export const escapeHtml = (s: string) => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
 const base = (publicUrl: string) => publicUrl.replace(/\/$/, '');
 
 /** The chart at the lot, whatever period it shows (the chart page honours `lot=`). */
@@ -70,10 +70,16 @@ export function composeLotMail(lot: LotMailFacts, publicUrl: string, scope: stri
     ['Detected', formatPlantDateTime(detected, clock)],
     ['Lot page', lotLink(publicUrl, lot.lotNumber)],
   ];
+  // A result out of specification puts the lot on hold in the transaction that raises the alarm
+  // (api/lots/holds.ts): this message tells the hold too, so that one event makes one message.
+  const outOfSpec = signals.some((s) => s.rule === 'out-of-spec');
+  if (outOfSpec) facts.splice(2, 0, ['Status', 'On hold: a result outside the specification puts the lot on hold automatically; a quality manager releases it.']);
   const lines = signalLines(lot);
   const footer = [
     plantTimeNote(clock.timeZone, lot.producedAt) + '.',
-    'Check the lot and the test, decide whether there is an assignable cause, and put the lot on hold if the specification requires it.',
+    outOfSpec
+      ? 'Check the lot and the test and decide whether there is an assignable cause; release the lot or raise an NCR on the lot page.'
+      : 'Check the lot and the test, decide whether there is an assignable cause, and put the lot on hold if the specification requires it.',
     JUDGEMENT_NOTE,
     `You receive this because you subscribed to immediate alerts for ${scope}. Change your subscriptions in Prismline under Alerts by e-mail: ${base(publicUrl)}/subscriptions`,
   ];

@@ -4,6 +4,7 @@ import { sql } from 'drizzle-orm';
 import { alarmSentence, brokenLimit, isOutOfSpec, lotResult, specAt, specVerdict } from '@shared/spc';
 import { alarmStatusWords, alarmSteps, type AlarmOutcome, type AlarmSignal, type AlarmResolution, type AlarmStatus, type CauseCategory } from '@shared/schemas/alarms';
 import { recordAudit } from '../db/audit';
+import { holdOutOfSpecLots } from '../lots/holds';
 import type { Database } from '../db/client';
 import { conflict, fieldError, notFound } from '../http/errors';
 import { queueAssignedMail, queueReopenedMail } from '../mail/alarm-triage-mail';
@@ -230,6 +231,8 @@ export async function reconcileAlarms(
         limit_value = ${f.limitValue}, description = ${f.description}, updated_at = now()
       where id = ${id}`);
   }
+  // A lot out of specification goes on hold with the alarm that says so (api/lots/holds.ts).
+  await holdOutOfSpecLots(tx, [...raised, ...toReopen.filter((r) => r.f.rule === OUT_OF_SPEC).map((r) => r.id)]);
   if (toResolve.length) {
     await tx.execute(sql`
       update alarms set status = 'closed', resolution = 'data-changed', closed_at = now(), close_note = ${DATA_CHANGED_NOTE}, updated_at = now()

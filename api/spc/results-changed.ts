@@ -14,6 +14,7 @@ import type { Database } from '../db/client';
 import type { Subgroup } from '../ingest/import';
 import { logger } from '../logger';
 import { queueLotMail } from '../mail/notify';
+import { holdOutOfSpecLots } from '../lots/holds';
 import { OUT_OF_SPEC, lateResultText, outOfSpecText } from './alarms';
 import { arr, type Executor } from './db';
 import type { SpcQueue } from './queue';
@@ -89,6 +90,8 @@ export async function raiseOutOfSpecAlarms(db: Database, subgroups: Subgroup[], 
         returning id`);
       if (ins.rows[0]) raised.push(ins.rows[0].id);
     }
+    // The lots out of specification go on hold in this transaction, with their alarms.
+    await holdOutOfSpecLots(tx, raised);
     // One e-mail per lot for what this import found; the run that follows mails only what it adds. The
     // transaction names the occasion: a signal reopened by a later import is told again.
     if (raised.length) {

@@ -1,4 +1,5 @@
 // The overview's periods and answer; free of zod, so the landing page loads without the validation library.
+import type { HoldSource } from './lots';
 import type { ChartType } from '../spc';
 
 /** Common practice: Cpk of at least 1.33 for a capable process, below 1.00 not capable. */
@@ -77,4 +78,20 @@ export interface Overview {
   lines: { code: string; name: string }[];
   families: string[];
   items: OverviewItem[];
+  /** Lots on hold now (of the line and family chosen): how many, and the first of them, oldest hold first. */
+  heldLots: { count: number; items: HeldLot[] };
 }
+
+/** A lot on hold, as the overview lists it. */
+export interface HeldLot {
+  lotNumber: string;
+  productCode: string;
+  lineCode: string;
+  reason: string;
+  source: HoldSource;
+  /** ISO 8601 instant the hold was placed. */
+  heldSince: string;
+}
+
+/** Held lots the overview lists at most; the lot list shows them all. */
+export const OVERVIEW_HELD_LOTS = 10;

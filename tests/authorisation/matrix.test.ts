@@ -56,6 +56,10 @@ const routes: ProtectedRoute[] = [
   { method: 'patch', path: '/api/v1/plants/0', permission: 'plant.manage', body: {} },
   // The lot search of the header: every signed-in role.
   { method: 'get', path: '/api/v1/lots?q=L&limit=1', permission: 'plant.read', allowed: 200 },
+  { method: 'get', path: '/api/v1/lots?status=on-hold&limit=1', permission: 'plant.read', allowed: 200 },
+  // Lab staff hold a lot; only a quality manager releases it. The empty reason is refused before the lot is looked up.
+  { method: 'post', path: '/api/v1/lots/NO-SUCH-LOT/hold', permission: 'lot.hold', body: {} },
+  { method: 'post', path: '/api/v1/lots/NO-SUCH-LOT/release', permission: 'lot.release', body: {} },
   // The assignee and owner pick lists: every signed-in role.
   { method: 'get', path: '/api/v1/people', permission: 'plant.read', allowed: 200 },
   { method: 'get', path: '/api/v1/users', permission: 'user.manage', allowed: 200 },

@@ -376,7 +376,7 @@ describe('roles', () => {
     await pageHeading(page, 'Upload history').waitFor();
     expect(new URL(page.url()).pathname).toBe('/results/history');
     const tabs = page.getByRole('navigation', { name: 'Results pages' });
-    expect(await tabs.getByRole('link').allTextContents()).toEqual(['Upload history']);
+    expect(await tabs.getByRole('link').allTextContents()).toEqual(['Upload history', 'Lots']);
     expect(await tabs.getByRole('link', { name: 'Upload history' }).getAttribute('aria-current')).toBe('page');
     expect(await page.getByText('Choose a CSV file').count()).toBe(0);
     expect(await page.getByRole('button', { name: 'Void…' }).count()).toBe(0);

@@ -97,6 +97,7 @@ export async function removeTestCharacteristics(db: Database): Promise<void> {
   await db.transaction(async (tx) => {
     await tx.execute(sql`delete from capability_watch where characteristic_id = any(${ch}::int[])`);
     await tx.execute(sql`delete from alarm_comments where alarm_id in (select id from alarms where characteristic_id = any(${ch}::int[]))`);
+    await tx.execute(sql`delete from lot_holds where lot_id in (select id from lots where product_id = any(${pr}::int[])) or alarm_id in (select id from alarms where characteristic_id = any(${ch}::int[]))`);
     await tx.execute(sql`delete from alarms where characteristic_id = any(${ch}::int[])`);
     await tx.execute(sql`delete from spc_snapshots where characteristic_id = any(${ch}::int[])`);
     await tx.execute(sql`delete from spc_run_items where characteristic_id = any(${ch}::int[])`);

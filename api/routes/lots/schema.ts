@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { lotStatuses } from '@shared/schemas/lots';
 
 // A lot number or product code is printable text: a control character (NUL among them) is refused
 // here with a plain message, before PostgreSQL would refuse it with a 500.
@@ -17,6 +18,10 @@ export const listLotsQuerySchema = z.object({
   q: printable('lot number').optional(),
   /** At most this many, newest first. */
   limit: z.coerce.number().int().min(1).max(200).default(50),
+  /** Lots skipped before this page. */
+  offset: z.coerce.number({ message: 'offset must be a number' }).int('offset must be a whole number').min(0, 'offset cannot be negative').max(100_000, 'offset must be at most 100000').default(0),
+  /** Only lots of this standing: released, on-hold or rejected. */
+  status: z.enum(lotStatuses, { message: `status must be one of ${lotStatuses.join(', ')}` }).optional(),
 });
 
 /** :lotNumber of /api/v1/lots/:lotNumber. */

@@ -1,10 +1,11 @@
 import { Router } from 'express';
-import { and, asc, eq, sql } from 'drizzle-orm';
+import { and, asc, eq, isNull, sql } from 'drizzle-orm';
 import type { Database } from '@api/db/client';
-import { alarms, characteristics, productionLines, products, testMethods } from '@api/db/schema';
+import { alarms, characteristics, lotHolds, lots, productionLines, products, testMethods } from '@api/db/schema';
 import { parseBody } from '@api/http/errors';
+import { lotStatusSql } from '@api/lots/holds';
 import { requireSession } from '@api/auth/session';
-import type { Overview, OverviewItem } from '@shared/schemas/overview';
+import { OVERVIEW_HELD_LOTS, type Overview, type OverviewItem } from '@shared/schemas/overview';
 import { chartCacheFor } from '../charts/chart-cache';
 import { summarise, type OverviewBase } from './summary';
 import { overviewQuerySchema } from './schema';
@@ -76,6 +77,31 @@ export function overviewRouter(db: Database): Router {
         .groupBy(alarms.characteristicId),
       cache.versions(rows.map((r) => r.id)),
     ]);
+    // Lots on hold by the one rule of a lot's standing, oldest hold first: the longest wait for a decision comes first.
+    const heldWhere = and(
+      isNull(lotHolds.releasedAt),
+      sql`${lotStatusSql(sql`${lots.id}`)} = 'on-hold'`,
+      q.line ? eq(productionLines.code, q.line) : undefined,
+      q.family ? eq(products.family, q.family) : undefined,
+    );
+    const [heldRows, [heldCount]] = await Promise.all([
+      db
+        .select({ lotNumber: lots.lotNumber, productCode: products.code, lineCode: productionLines.code, reason: lotHolds.reason, source: lotHolds.source, heldSince: lotHolds.placedAt })
+        .from(lotHolds)
+        .innerJoin(lots, eq(lots.id, lotHolds.lotId))
+        .innerJoin(products, eq(products.id, lots.productId))
+        .innerJoin(productionLines, eq(productionLines.id, lots.lineId))
+        .where(heldWhere)
+        .orderBy(asc(lotHolds.placedAt), asc(lotHolds.id))
+        .limit(OVERVIEW_HELD_LOTS),
+      db
+        .select({ n: sql<number>`count(*)::int` })
+        .from(lotHolds)
+        .innerJoin(lots, eq(lots.id, lotHolds.lotId))
+        .innerJoin(products, eq(products.id, lots.productId))
+        .innerJoin(productionLines, eq(productionLines.id, lots.lineId))
+        .where(heldWhere),
+    ]);
     const openAlarms = new Map(alarmRows.map((a) => [a.characteristicId, a.n]));
 
     const items: OverviewItem[] = await eachLimited(rows, PARALLEL, async (row) => {
@@ -92,6 +118,7 @@ export function overviewRouter(db: Database): Router {
       lines: lineRows,
       families: familyRows.map((f) => f.family),
       items,
+      heldLots: { count: heldCount.n, items: heldRows.map((h) => ({ ...h, heldSince: h.heldSince.toISOString() })) },
     };
     res.json(body);
   });

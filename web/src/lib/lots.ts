@@ -1,36 +1,14 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { http } from './http';
 import type { ManualEntry } from '@shared/ingest';
+import type { LotResultView, LotView } from '@shared/schemas/lots';
 import { chartKeys } from './query-keys';
 import { overviewKeys } from './query-keys';
 
-export interface LotResult {
-  id: number;
-  characteristicCode: string;
-  characteristicName: string;
-  unit: string;
-  replicate: number;
-  value: number;
-  testedAt: string | null;
-  operator: string | null;
-  note: string | null;
-  source: 'upload' | 'manual';
-  uploadId: number | null;
-  uploadFile: string | null;
-}
-
-export interface Lot {
-  id: number;
-  lotNumber: string;
-  producedAt: string;
-  shift: string | null;
-  productCode: string;
-  productName: string;
-  lineCode: string;
-  results: LotResult[];
-  /** Per characteristic code, the specification revision in force when the lot was produced. */
-  specs: Record<string, { revision: number; lsl: number | null; usl: number | null; target: number | null; effectiveFrom: string }>;
-}
+/** A stored result of a lot, as the lot page reads it. */
+export type LotResult = LotResultView;
+/** GET /api/v1/lots/:lotNumber: the lot, its results, standing, holds and NCRs. */
+export type Lot = LotView;
 
 export const lotKeys = {
   all: ['lots'] as const,

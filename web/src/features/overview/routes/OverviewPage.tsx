@@ -3,6 +3,7 @@ import { useSearchParams } from 'react-router-dom';
 import { useOverview } from '../api/overview';
 import { usePlantClock } from '@web/lib/catalogue';
 import { CharacteristicTile } from '../components/CharacteristicTile';
+import { HeldLots } from '../components/HeldLots';
 import { FALLBACK_PLANT_CLOCK, formatPlantDateTime } from '@shared/time';
 import { overviewPeriods, type OverviewItem } from '@shared/schemas/overview';
 import { PageHeader } from '@web/components/ui/PageHeader';
@@ -185,7 +186,11 @@ export default function OverviewPage() {
             <span>
               <span className="font-mono font-semibold">{counts.alarms}</span> open alarms
             </span>
+            <span>
+              <span className="font-mono font-semibold">{data.heldLots.count}</span> {data.heldLots.count === 1 ? "lot" : "lots"} on hold
+            </span>
           </p>
+          <HeldLots held={data.heldLots} />
           {groups.map((g) => (
             <section key={g.code} aria-labelledby={`line-${g.code}`} className="space-y-4">
               <h2 id={`line-${g.code}`} className="text-xl font-semibold tracking-tight">

@@ -16,6 +16,9 @@ import { Badge } from '@web/components/ui/Badge';
 import { Loading } from '@web/components/ui/Spinner';
 import { ErrorState } from '@web/components/ui/ErrorState';
 import { EmptyState } from '@web/components/ui/EmptyState';
+import { LotStatusBadge } from '@web/components/LotStatusBadge';
+import { LotDecisionDialog } from '../components/LotDecisionDialog';
+import { HoldHistory, LotNcrs, OpenHoldNotice } from '../components/LotHolds';
 
 interface CharacteristicResults {
   code: string;
@@ -53,6 +56,12 @@ export default function LotPage() {
   const canCorrect = useMay('measurement.correct');
   const [correcting, setCorrecting] = useState<{ reading: LotResult; decimals: number } | null>(null);
   const [corrected, setCorrected] = useState<CorrectedReading | null>(null);
+  // Lab staff put a lot on hold; a quality manager releases it.
+  const canHold = useMay('lot.hold');
+  const canRelease = useMay('lot.release');
+  const canRaiseNcr = useMay('ncr.raise');
+  const [deciding, setDeciding] = useState<'hold' | 'release' | null>(null);
+  const [decided, setDecided] = useState<string | null>(null);
 
   if (lot.isPending) return <Loading label={`Loading lot ${lotNumber}…`} />;
   if (lot.isError) {
@@ -80,7 +89,34 @@ export default function LotPage() {
             {data.shift ? `, ${data.shift} shift` : ''}.
           </>
         }
+        actions={
+          <>
+            {data.status === 'released' && canHold && (
+              <Button variant="secondary" onClick={() => setDeciding('hold')}>
+                Put on hold…
+              </Button>
+            )}
+            {data.status === 'on-hold' && canRelease && <Button onClick={() => setDeciding('release')}>Release lot…</Button>}
+            {canRaiseNcr && (
+              <Link
+                to={`/ncrs/new?${new URLSearchParams({ lot: data.lotNumber })}`}
+                className="inline-flex h-10 items-center rounded-md border border-zinc-300 bg-white px-4 font-medium text-zinc-900 hover:bg-zinc-50"
+              >
+                Raise NCR
+              </Link>
+            )}
+          </>
+        }
       />
+      <p className="-mt-3 mb-4 flex items-center gap-2" data-testid="lot-status">
+        <span className="text-sm font-medium text-zinc-700">Status</span> <LotStatusBadge status={data.status} />
+      </p>
+      {decided && (
+        <Alert tone="success" className="mb-4">
+          {decided}
+        </Alert>
+      )}
+      <OpenHoldNotice lot={data} />
       {corrected && (
         <Alert tone="success" className="mb-4">
           Reading {corrected.reading.replicate} of <span className="font-mono">{corrected.reading.characteristicCode}</span> corrected from{' '}
@@ -168,6 +204,19 @@ export default function LotPage() {
           onCorrected={(correction) => {
             setCorrecting(null);
             setCorrected(correction);
+          }}
+        />
+      )}
+      <HoldHistory lot={data} />
+      <LotNcrs lot={data} />
+      {deciding && (
+        <LotDecisionDialog
+          lot={data}
+          action={deciding}
+          onClose={() => setDeciding(null)}
+          onDone={() => {
+            setDecided(deciding === 'hold' ? `Lot ${data.lotNumber} is on hold. Subscribers of its line and product are told by e-mail.` : `Lot ${data.lotNumber} is released.`);
+            setDeciding(null);
           }}
         />
       )}

@@ -11,11 +11,13 @@ const UploadPage = lazy(() => import('./UploadPage'));
 const ManualEntryPage = lazy(() => import('./ManualEntryPage'));
 const UploadHistoryPage = lazy(() => import('./UploadHistoryPage'));
 const LotPage = lazy(() => import('./LotPage'));
+const LotListPage = lazy(() => import('./LotListPage'));
 
 const tabs = [
   { to: '/results/upload', label: 'Upload a file', permission: 'upload.create' },
   { to: '/results/enter', label: 'Enter a lot by hand', permission: 'measurement.create' },
   { to: '/results/history', label: 'Upload history', permission: 'plant.read' },
+  { to: '/results/lots', label: 'Lots', permission: 'plant.read' },
 ] as const satisfies readonly { to: string; label: string; permission: Permission }[];
 
 /** /results/*: upload and entry for the roles the permissions map allows them; the history and lots for every role. */
@@ -46,6 +48,7 @@ export default function ResultsArea() {
             }
           />
           <Route path="history" element={<UploadHistoryPage />} />
+          <Route path="lots" element={<LotListPage />} />
           <Route path="lots/:lotNumber" element={<LotPage />} />
           <Route path="*" element={<NotFoundPage />} />
         </Routes>
