@@ -3,6 +3,7 @@ import { useSearchParams } from 'react-router-dom';
 import { useOverview } from '../api/overview';
 import { usePlantClock } from '@web/lib/catalogue';
 import { CharacteristicTile } from '../components/CharacteristicTile';
+import { NcrActionsDue } from '../components/NcrActionsDue';
 import { FALLBACK_PLANT_CLOCK, formatPlantDateTime } from '@shared/time';
 import { overviewPeriods, type OverviewItem } from '@shared/schemas/overview';
 import { PageHeader } from '@web/components/ui/PageHeader';
@@ -105,6 +106,8 @@ export default function OverviewPage() {
           )
         }
       />
+
+      <NcrActionsDue />
 
       <form className="mb-5 flex flex-wrap items-end gap-4" aria-label="Overview filters" onSubmit={(e) => e.preventDefault()}>
         <div className="space-y-1">
