@@ -1,6 +1,7 @@
 import type { ReactNode } from 'react';
 import { ApiError, errorMessage } from '@web/lib/http';
 import { Alert } from '@web/components/ui/Alert';
+import { readRefusal } from '../lib/refusal';
 
 /** One part of the NCR record: a heading, what it holds, and (on screen only) the controls that change it. */
 export function Section({ id, title, children, aside }: { id: string; title: string; children: ReactNode; aside?: ReactNode }) {
@@ -19,14 +20,14 @@ export function Section({ id, title, children, aside }: { id: string; title: str
 
 /** A write the server refused: its message, and each detail it gave (the allowed states of a refused step, a refused field). */
 export function WriteError({ error }: { error: unknown }) {
-  const details = error instanceof ApiError ? error.details.filter((d) => !error.message.includes(d.message)) : [];
+  const { lead, points } = readRefusal(errorMessage(error), error instanceof ApiError ? error.details : []);
   return (
     <Alert tone="error" className="print:hidden">
-      <p>{errorMessage(error)}</p>
-      {details.length > 0 && (
-        <ul className="mt-1 list-disc pl-5 text-sm">
-          {details.map((d, i) => (
-            <li key={i}>{d.message}</li>
+      <p>{lead}</p>
+      {points.length > 0 && (
+        <ul className="mt-1 list-disc pl-5">
+          {points.map((p, i) => (
+            <li key={i}>{p}</li>
           ))}
         </ul>
       )}
