@@ -15,11 +15,11 @@ export function prefillFromAlarms(alarms: readonly AlarmView[]): RaisePrefill {
   if (alarms.length === 0) return { title: '', productCode: '', lotNumbers: [] };
   const lotNumbers = [...new Set(alarms.map((a) => a.lot.lotNumber))];
   const products = [...new Set(alarms.map((a) => a.characteristic.productCode))];
-  const characteristics = [...new Set(alarms.map((a) => a.characteristic.name))];
-  const what = characteristics.length === 1 ? `${characteristics[0]}: ${alarms.length === 1 ? alarms[0].signal.toLowerCase() : 'signals'}` : `Signals on ${characteristics.length} characteristics`;
+  const characteristics = [...new Set(alarms.map((a) => a.characteristic.code))];
+  const signals = alarms.length === 1 ? alarms[0].signal : `${alarms.length} signals`;
+  const what = characteristics.length === 1 ? `${characteristics[0]}: ${signals}` : `${signals} on ${characteristics.length} characteristics of ${products.join(', ')}`;
   const where = lotNumbers.length === 1 ? `lot ${lotNumbers[0]}` : `${lotNumbers.length} lots`;
-  const product = products.length === 1 ? `${products[0]}, ` : '';
-  return { title: `${what} — ${product}${where}`.slice(0, 200), productCode: products.length === 1 ? products[0] : '', lotNumbers };
+  return { title: `${what} — ${where}`.slice(0, 200), productCode: products.length === 1 ? products[0] : '', lotNumbers };
 }
 
 /** The alarm ids of `?alarms=1,2,3`: whole positive numbers, each once, at most 100 (what the API takes). */
