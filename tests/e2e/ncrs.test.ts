@@ -84,7 +84,7 @@ describe('an NCR run to closure by a quality manager', () => {
     const containment = section(page, 'Containment: lots concerned');
     const row = containment.locator(`tr[data-lot="${lot}"]`);
     expect(await row.getByText('On hold').isVisible()).toBe(true);
-    expect(await row.getByText('NCR containment').isVisible()).toBe(true);
+    expect(await row.getByText('Contained by this NCR').isVisible()).toBe(true);
     expect(await row.locator('td').nth(3).textContent()).toBe('12.5 t');
     expect(await row.getByRole('link', { name: lot }).getAttribute('href')).toBe(`/results/lots/${encodeURIComponent(lot)}`);
 

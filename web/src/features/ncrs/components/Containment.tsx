@@ -24,7 +24,7 @@ export function Containment({ ncr, mayManage }: { ncr: NcrView; mayManage: boole
         <PlainTable caption="Lots concerned" headings={['Lot', 'Product', 'Produced', 'Quantity', 'Standing', 'Hold']}>
           {ncr.lots.map((l) => (
             <tr key={l.lotId} className="border-b border-zinc-100 align-top last:border-b-0" data-lot={l.lotNumber}>
-              <td className="px-3 py-2 font-mono">
+              <td className="px-3 py-2 font-mono whitespace-nowrap">
                 <Link className="text-accent-800 underline" to={lotPath(l.lotNumber)}>
                   {l.lotNumber}
                 </Link>
@@ -40,8 +40,15 @@ export function Containment({ ncr, mayManage }: { ncr: NcrView; mayManage: boole
               <td className="px-3 py-2 text-sm">
                 {l.hold ? (
                   <>
-                    <span className="font-medium">{holdWords[l.hold.source]}</span>
-                    {l.hold.ncr && l.hold.ncr.id !== ncr.id && <> ({l.hold.ncr.number})</>}: {l.hold.reason}
+                    {/* This NCR's own containment needs no reason beside it: the NCR is the reason. */}
+                    {l.hold.ncr?.id === ncr.id ? (
+                      <span className="font-medium">Contained by this NCR</span>
+                    ) : (
+                      <>
+                        <span className="font-medium">{holdWords[l.hold.source]}</span>
+                        {l.hold.ncr && <> ({l.hold.ncr.number})</>}: {l.hold.reason}
+                      </>
+                    )}
                     <span className="block text-zinc-600">
                       since <PlantTime at={l.hold.placedAt} />
                       {l.hold.placedBy ? `, ${l.hold.placedBy}` : ''}

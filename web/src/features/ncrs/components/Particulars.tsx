@@ -10,7 +10,7 @@ import { Button } from '@web/components/ui/Button';
 import { Input, Select } from '@web/components/ui/Field';
 import { TextArea } from '@web/components/ui/TextArea';
 
-const raisedFromWords = { alarms: 'alarms', lot: 'a lot', direct: 'directly' } as const;
+const raisedFromWords = { alarms: 'from alarms', lot: 'from a lot', direct: 'directly' } as const;
 
 /** Who raised it and when, product, assignee; managers change title, description, severity, product and assignee here. */
 export function Particulars({ ncr, mayManage }: { ncr: NcrView; mayManage: boolean }) {
@@ -23,7 +23,7 @@ export function Particulars({ ncr, mayManage }: { ncr: NcrView; mayManage: boole
         <Fact label="Assignee">{ncr.assignee?.name ?? 'Nobody yet'}</Fact>
         <Fact label="Raised">
           <PlantTime at={ncr.createdAt} className="figures" />
-          {ncr.createdBy && ` by ${ncr.createdBy}`}, from {raisedFromWords[ncr.raisedFrom]}
+          {ncr.createdBy && ` by ${ncr.createdBy}`}, {raisedFromWords[ncr.raisedFrom]}
         </Fact>
         <Fact label="Last change">
           <PlantTime at={ncr.updatedAt} className="figures" />
