@@ -9,6 +9,7 @@ import { baseUrl, browserTest, demoEmailOf, pageHeading, screenshot, signIn } fr
 import { databaseUrl } from '../support/api';
 import { createDatabase } from '@api/db/client';
 import { DEMO_PASSWORD } from '@api/db/seed';
+import type { AlarmView } from '@shared/schemas/alarms';
 import type { NcrView } from '@shared/schemas/ncrs';
 import type { Role } from '@shared/schemas/users';
 
@@ -239,6 +240,29 @@ describe('an NCR run to closure by a quality manager', () => {
     await row.waitFor();
     expect(await page.getByLabel('Severity').inputValue()).toBe('critical');
     await screenshot(page, 'ncr-list');
+  });
+});
+
+describe('an NCR raised from alarms', () => {
+  it('shows the alarms, fills in their product, lot and a title, and links them on the NCR', async ({ page }) => {
+    const { items } = await api<{ items: AlarmView[] }>('quality_manager', 'GET', '/api/v1/alarms?status=open&limit=1');
+    const alarm = items[0];
+    await signIn(page, 'quality_manager', `/ncrs/new?alarms=${alarm.id}`);
+    const form = page.getByRole('form', { name: 'Raise an NCR' });
+    await form.getByRole('region', { name: 'Alarms it is raised from' }).getByText(alarm.description).waitFor();
+    expect(await form.getByLabel('Lot number').inputValue()).toBe(alarm.lot.lotNumber);
+    expect(await form.getByLabel('Product').locator('option:checked').textContent()).toMatch(new RegExp(`^${alarm.characteristic.productCode} · `));
+    expect(await form.getByLabel('Title').inputValue()).toBe(`${alarm.characteristic.code}: ${alarm.signal} — lot ${alarm.lot.lotNumber}`);
+    await form.getByLabel('Description').fill('Raised from the alarm after the retained sample was tested again with the same result.');
+    await form.getByLabel('Severity').selectOption('minor');
+    // Left out of containment here, so the lot keeps its standing for the other suites.
+    await form.getByLabel('Put these lots on hold now').uncheck();
+    await form.getByRole('button', { name: 'Raise NCR' }).click();
+    await page.waitForURL(/\/ncrs\/\d+$/);
+    const linked = section(page, 'Linked alarms').locator(`li[data-alarm="${alarm.id}"]`);
+    await linked.waitFor();
+    expect(await linked.getByRole('link', { name: 'Chart at this point' }).getAttribute('href')).toBe(alarm.chartUrl);
+    expect(await linked.getByRole('link', { name: `Alarm ${alarm.id}` }).getAttribute('href')).toBe(`/alarms/${alarm.id}`);
   });
 });
 
