@@ -3,7 +3,7 @@
 // the owner and the assignee). Plain text and simple HTML with the same content; times in plant time.
 import { sql } from 'drizzle-orm';
 import { ncrStatusWords, type NcrSeverity, type NcrStatus } from '@shared/schemas/ncrs';
-import { formatPlantDate, plantTimeNote, type PlantClock, type PlantDateFormat } from '@shared/time';
+import { formatPlantDate, type PlantClock, type PlantDateFormat } from '@shared/time';
 import type { Database } from '../db/client';
 import { arr } from '../db/sql';
 import { JUDGEMENT_NOTE, type Composed } from './compose';
@@ -106,7 +106,7 @@ export function composeNcrActionReminder(n: NcrMailFacts, a: NcrActionMailFacts,
   const { text, html } = render(
     `Action #${a.actionId} of ${n.number} ${state === 'overdue' ? 'is overdue' : 'is due soon'}`,
     facts,
-    ['When the action is done, record the done date and the evidence on the NCR page.', `${plantTimeNote(clock.timeZone)}.`],
+    ['When the action is done, record the done date and the evidence on the NCR page.'],
     ncrLink(publicUrl, n.id),
   );
   return { subject, text, html };

@@ -229,8 +229,9 @@ export async function loadNcrView(db: Executor, id: number, publicUrl: string, n
       hold_placed_by: string | null;
       hold_placed_at: Date | null;
     }>(sql`
+      -- lotStatusSql names its own ncr_lots nl and lot_holds h: the lot is named through l, which it does not shadow.
       select nl.lot_id, l.lot_number, p.code as product_code, l.produced_at, nl.quantity_t, nl.disposition, dp.id as downgrade_id, dp.code as downgrade_code, dp.name as downgrade_name,
-        nl.disposition_note, nl.disposed_at, ud.name as disposed_by, ${lotStatusSql(sql`nl.lot_id`)} as lot_status,
+        nl.disposition_note, nl.disposed_at, ud.name as disposed_by, ${lotStatusSql(sql`l.id`)} as lot_status,
         h.id as hold_id, h.source as hold_source, h.reason as hold_reason, h.alarm_id as hold_alarm_id, h.ncr_id as hold_ncr_id, hn.number as hold_ncr_number,
         uh.name as hold_placed_by, h.placed_at as hold_placed_at
       from ncr_lots nl
