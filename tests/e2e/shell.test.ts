@@ -114,7 +114,7 @@ describe('web app shell', () => {
     await pageHeading(page, 'Control charts').waitFor();
     expect(new URL(page.url()).pathname).toBe('/charts');
     const labels = await mainMenu(page).getByRole('link').allTextContents();
-    expect(labels).toEqual(['Plant overview', 'Control charts', 'Results & uploads', 'Test methods', 'Specifications & events', 'SPC runs', 'Alerts by e-mail']);
+    expect(labels).toEqual(['Plant overview', 'Control charts', 'Results & uploads', 'Test methods', 'Specifications & events', 'Alarms', 'SPC runs', 'Nonconformance reports', 'Alerts by e-mail']);
 
     await page.goto(`${baseUrl()}/admin/users`);
     await pageHeading(page, 'Not allowed for your role').waitFor();
@@ -148,8 +148,8 @@ describe('web app shell', () => {
     expect(await mainMenu(page).count()).toBe(0);
 
     await page.getByRole('button', { name: 'Menu' }).click();
-    await mainMenu(page).getByRole('link', { name: 'Nonconformance reports' }).click();
-    await pageHeading(page, 'Nonconformance reports').waitFor();
+    await mainMenu(page).getByRole('link', { name: 'Reports & audit trail' }).click();
+    await pageHeading(page, 'Reports & audit trail').waitFor();
     expect(await page.getByText('Not available yet').isVisible()).toBe(true);
     // Choosing a page closes the menu again.
     expect(await mainMenu(page).count()).toBe(0);
