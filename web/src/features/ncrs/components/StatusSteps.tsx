@@ -47,7 +47,7 @@ export function StatusSteps({ ncr, mayManage }: { ncr: NcrView; mayManage: boole
         ))}
       </ol>
       {mayManage && ncr.allowedTransitions.length > 0 && (
-        <div className="flex flex-wrap gap-2 print:hidden" aria-label="Next steps">
+        <div role="group" className="flex flex-wrap gap-2 print:hidden" aria-label="Next steps">
           {ncr.allowedTransitions.map((to) => (
             <Button key={to} size="sm" variant={ncrStatuses.indexOf(to) > at ? 'primary' : 'secondary'} busy={move.isPending && move.variables?.to === to} onClick={() => step(to)}>
               {stepButton[`${ncr.status}>${to}`] ?? `Move to ${ncrStatusWords[to].toLowerCase()}`}
