@@ -57,7 +57,7 @@ const section = (page: Page, name: string | RegExp) => page.getByRole('region', 
 const currentStep = (page: Page) => page.getByRole('list', { name: 'States of the NCR' }).locator('[aria-current="step"]');
 
 describe('an NCR run to closure by a quality manager', () => {
-  it('raises it from a lot with containment, adds and completes an action, decides the lot, approves, checks effectiveness and closes', async ({ page }) => {
+  it('raises it from a lot with containment, adds and completes an action, decides the lot, approves, checks effectiveness, closes, prints and reopens with a reason', async ({ page }) => {
     const lot = freeLots[0];
     await signIn(page, 'quality_manager', `/ncrs/new?lot=${encodeURIComponent(lot)}`);
     await pageHeading(page, 'Raise an NCR').waitFor();
@@ -202,6 +202,16 @@ describe('an NCR run to closure by a quality manager', () => {
     expect(box).not.toBeNull();
     expect(Number(box![1])).toBeCloseTo(595.28, -0.5);
     expect(Number(box![2])).toBeCloseTo(841.89, -0.5);
+
+    // Reopening asks why (shared/schemas/ncrs.ts ncrStepNeedsReason); the reason stands in the history.
+    await page.emulateMedia({ media: 'screen' });
+    await page.getByRole('button', { name: 'Reopen' }).click();
+    const dialog = page.getByRole('dialog', { name: 'Reopen' });
+    await dialog.getByLabel('Reason').fill('A customer reported low flow on a delivery of the same week.');
+    await dialog.getByRole('button', { name: 'Reopen' }).click();
+    await currentStep(page).getByText('Open').waitFor();
+    expect(await dialog.count()).toBe(0);
+    await section(page, 'History').locator('tbody tr').last().getByText('Reason: A customer reported low flow on a delivery of the same week.').waitFor();
   });
 
   it('lists the NCR under its state with the filter kept in the address', async ({ page }) => {
