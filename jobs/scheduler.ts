@@ -1,5 +1,5 @@
-// The nightly SPC run and the morning digest of each plant, with node-cron in the plant's time
-// zone. Several schedulers may share one database: the run's schedule key (plant and local date)
+// The nightly SPC run, the morning digest and the NCR action reminders of each plant, with node-cron
+// in the plant's time zone. Several schedulers may share one database: the run's schedule key (plant and local date)
 // and the digest's dedupe keys make the second one a no-op.
 import cron, { type ScheduledTask } from 'node-cron';
 import { asc } from 'drizzle-orm';
@@ -8,6 +8,7 @@ import { plants } from '@api/db/schema';
 import { logger } from '@api/logger';
 import { localDate, queueDigests } from '@api/mail/notify';
 import type { SpcQueue } from '@api/spc/queue';
+import { queueNcrReminders } from './ncr-reminders';
 import { startRun } from '@api/spc/runs';
 
 export interface PlantSchedule {
@@ -33,7 +34,7 @@ export interface Scheduler {
 }
 
 export function startScheduler(db: Database, queue: SpcQueue, opts: { digestCron: string; publicUrl: string; refreshMs?: number }): Scheduler {
-  const tasks = new Map<number, { signature: string; run: ScheduledTask; digest: ScheduledTask }>();
+  const tasks = new Map<number, { signature: string; run: ScheduledTask; digest: ScheduledTask; reminders: ScheduledTask }>();
 
   async function refresh() {
     const rows = await db.select({ id: plants.id, code: plants.code, timeZone: plants.timeZone, nightlyRunCron: plants.nightlyRunCron }).from(plants).orderBy(asc(plants.id));
@@ -43,6 +44,7 @@ export function startScheduler(db: Database, queue: SpcQueue, opts: { digestCron
       if (existing?.signature === signature) continue;
       existing?.run.destroy();
       existing?.digest.destroy();
+      existing?.reminders.destroy();
       if (!cron.validate(plant.nightlyRunCron)) {
         logger.error({ plant: plant.code, cron: plant.nightlyRunCron }, 'the plant has an invalid nightly run schedule; no nightly run');
         continue;
@@ -60,7 +62,16 @@ export function startScheduler(db: Database, queue: SpcQueue, opts: { digestCron
             .catch((err) => logger.error({ err: err.message }, 'morning digest not queued')),
         { timezone: plant.timeZone, name: `digest-${plant.code}`, noOverlap: true },
       );
-      tasks.set(plant.id, { signature, run, digest });
+      // With the digest: the reminders of NCR actions due within two days or overdue, once per action and due date.
+      const reminders = cron.schedule(
+        opts.digestCron,
+        () =>
+          queueNcrReminders(db, { plantId: plant.id, timeZone: plant.timeZone, now: new Date(), publicUrl: opts.publicUrl })
+            .then((n) => logger.info({ plant: plant.code, messages: n }, 'NCR action reminders queued'))
+            .catch((err) => logger.error({ err: err.message }, 'NCR action reminders not queued')),
+        { timezone: plant.timeZone, name: `ncr-reminders-${plant.code}`, noOverlap: true },
+      );
+      tasks.set(plant.id, { signature, run, digest, reminders });
     }
   }
 
@@ -78,6 +89,7 @@ export function startScheduler(db: Database, queue: SpcQueue, opts: { digestCron
       for (const t of tasks.values()) {
         t.run.destroy();
         t.digest.destroy();
+        t.reminders.destroy();
       }
       tasks.clear();
     },

@@ -27,3 +27,37 @@ export function detectContentType(bytes: Buffer): ContentType {
   const firstLine = lineEnd === -1 ? head : head.subarray(0, lineEnd);
   return firstLine.includes(0x2c) || firstLine.includes(0x3b) || firstLine.includes(0x09) ? 'text/csv' : 'text/plain';
 }
+
+/**
+ * Leading bytes of programs, which are refused whatever their name: Windows PE ("MZ", Microsoft PE/COFF
+ * specification), ELF (0x7F "ELF", System V ABI), Mach-O (FEEDFACE / FEEDFACF either byte order, and the
+ * fat header CAFEBABE, from Apple's loader.h and fat.h) and scripts ("#!", POSIX exec). From memory of
+ * those specifications; tests name them again.
+ */
+const programSignatures: readonly [string, Buffer][] = [
+  ['a Windows program', Buffer.from('MZ', 'latin1')],
+  ['a Linux program', Buffer.from([0x7f, 0x45, 0x4c, 0x46])],
+  ['a macOS program', Buffer.from([0xfe, 0xed, 0xfa, 0xce])],
+  ['a macOS program', Buffer.from([0xfe, 0xed, 0xfa, 0xcf])],
+  ['a macOS program', Buffer.from([0xce, 0xfa, 0xed, 0xfe])],
+  ['a macOS program', Buffer.from([0xcf, 0xfa, 0xed, 0xfe])],
+  ['a macOS program', Buffer.from([0xca, 0xfe, 0xba, 0xbe])],
+  ['a script', Buffer.from('#!', 'latin1')],
+];
+
+/** Markup a browser would run or draw (HTML, SVG, XML), looked for near the start of a text file. */
+const MARKUP = /^\s*<|<\s*(?:!doctype|html|head|body|script|svg|iframe|object|embed|\?xml)\b/i;
+const MARKUP_SCAN_BYTES = 4096;
+
+/**
+ * Why a file may not be kept as an attachment, in words ("a Windows program", "HTML or XML markup"), or
+ * null when nothing speaks against it. Checked before the type (detectContentType), on the bytes only.
+ */
+export function refusedContent(bytes: Buffer): string | null {
+  for (const [what, signature] of programSignatures) if (bytes.subarray(0, signature.length).equals(signature)) return what;
+  const type = detectContentType(bytes);
+  if (type !== 'text/plain' && type !== 'text/csv') return null;
+  // A UTF-8 byte-order mark before the markup changes nothing for a browser.
+  const head = bytes.subarray(0, MARKUP_SCAN_BYTES).toString('latin1').replace(/^\xef\xbb\xbf/, '');
+  return MARKUP.test(head) ? 'HTML, SVG or XML markup' : null;
+}

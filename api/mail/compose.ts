@@ -110,10 +110,80 @@ export function composeLotMail(lot: LotMailFacts, publicUrl: string, scope: stri
   return { subject, text, html };
 }
 
-/** The morning digest: the lots whose signals were detected in the period, each with its signals. */
-export function composeDigest(lots: LotMailFacts[], publicUrl: string, period: { from: Date; to: Date }, clock: PlantClock): Composed {
+/** One NCR as the digest lists it. */
+export interface DigestNcr {
+  id: number;
+  number: string;
+  title: string;
+  severity: string;
+  status: string;
+  productCode: string | null;
+}
+
+/** One overdue NCR action as the digest lists it; `dueDate` is the plant's calendar day, YYYY-MM-DD. */
+export interface DigestNcrAction {
+  ncrId: number;
+  ncrNumber: string;
+  actionId: number;
+  description: string;
+  ownerName: string;
+  dueDate: string;
+}
+
+/** The digest's NCR section: open NCRs, those raised in the period, overdue actions, each list bounded with its full count. */
+export interface DigestNcrFacts {
+  open: DigestNcr[];
+  openCount: number;
+  raised: DigestNcr[];
+  raisedCount: number;
+  overdue: DigestNcrAction[];
+  overdueCount: number;
+}
+
+const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`;
+const ncrPage = (publicUrl: string, id: number) => `${base(publicUrl)}/ncrs/${id}`;
+const ncrLine = (n: DigestNcr) => `${n.number} (${n.severity}, ${n.status}${n.productCode ? `, ${n.productCode}` : ''}): ${n.title}`;
+/** A plant calendar day in the plant's format: noon UTC of that day is that day in UTC. */
+const dayText = (day: string, clock: PlantClock) => formatPlantDate(new Date(`${day}T12:00:00Z`), { timeZone: 'UTC', dateFormat: clock.dateFormat });
+const actionLine = (a: DigestNcrAction, clock: PlantClock) => `Action #${a.actionId} of ${a.ncrNumber}, due ${dayText(a.dueDate, clock)}, owner ${a.ownerName}: ${a.description}`;
+const more = (shown: number, count: number) => (count > shown ? [`  … and ${count - shown} more`] : []);
+
+/** The NCR section as lines of text and as HTML. */
+function ncrSection(n: DigestNcrFacts, publicUrl: string, clock: PlantClock): { text: string[]; html: string[] } {
+  const text = [
+    'Nonconformance reports',
+    `  Raised in the period: ${n.raisedCount === 0 ? 'none' : n.raisedCount}`,
+    ...n.raised.map((r) => `  - ${ncrLine(r)} ${ncrPage(publicUrl, r.id)}`),
+    ...more(n.raised.length, n.raisedCount),
+    `  Open now: ${n.openCount === 0 ? 'none' : n.openCount}`,
+    ...n.open.map((r) => `  - ${ncrLine(r)} ${ncrPage(publicUrl, r.id)}`),
+    ...more(n.open.length, n.openCount),
+    `  Overdue actions: ${n.overdueCount === 0 ? 'none' : n.overdueCount}`,
+    ...n.overdue.map((a) => `  - ${actionLine(a, clock)} ${ncrPage(publicUrl, a.ncrId)}`),
+    ...more(n.overdue.length, n.overdueCount),
+    '',
+  ];
+  const li = (label: string, href: string) => `<li><a href="${escapeHtml(href)}">${escapeHtml(label)}</a></li>`;
+  const list = (items: string[], shown: number, count: number) => (items.length ? `<ul>${items.join('')}${count > shown ? `<li>… and ${count - shown} more</li>` : ''}</ul>` : '');
+  const html = [
+    '<h3 style="font-size:15px">Nonconformance reports</h3>',
+    `<p>Raised in the period: ${n.raisedCount === 0 ? 'none' : n.raisedCount}</p>`,
+    list(n.raised.map((r) => li(ncrLine(r), ncrPage(publicUrl, r.id))), n.raised.length, n.raisedCount),
+    `<p>Open now: ${n.openCount === 0 ? 'none' : n.openCount}</p>`,
+    list(n.open.map((r) => li(ncrLine(r), ncrPage(publicUrl, r.id))), n.open.length, n.openCount),
+    `<p>Overdue actions: ${n.overdueCount === 0 ? 'none' : n.overdueCount}</p>`,
+    list(n.overdue.map((a) => li(actionLine(a, clock), ncrPage(publicUrl, a.ncrId))), n.overdue.length, n.overdueCount),
+  ];
+  return { text, html };
+}
+
+/** The morning digest: the lots whose signals were detected in the period, each with its signals, then the NCRs when given. */
+export function composeDigest(lots: LotMailFacts[], publicUrl: string, period: { from: Date; to: Date }, clock: PlantClock, ncrs?: DigestNcrFacts): Composed {
   const count = lots.reduce((n, l) => n + l.signals.length, 0);
-  const subject = `Prismline morning digest ${formatPlantDate(period.to, clock)}: ${count} new signal${count === 1 ? '' : 's'} on ${lots.length} lot${lots.length === 1 ? '' : 's'}`;
+  const ncrNews = ncrs ? [...(ncrs.raisedCount ? [`${plural(ncrs.raisedCount, 'NCR')} raised`] : []), ...(ncrs.overdueCount ? [`${plural(ncrs.overdueCount, 'NCR action')} overdue`] : [])] : [];
+  const signalNews = count || !ncrNews.length ? `${count} new signal${count === 1 ? '' : 's'} on ${lots.length} lot${lots.length === 1 ? '' : 's'}` : 'no new signals';
+  const subject = `Prismline morning digest ${formatPlantDate(period.to, clock)}: ${[signalNews, ...ncrNews].join('; ')}`;
+  const section = ncrs ? ncrSection(ncrs, publicUrl, clock) : { text: [], html: [] };
   const intro = `Signals detected from ${formatPlantDateTime(period.from, clock)} to ${formatPlantDateTime(period.to, clock)}, newest lot first. ${plantTimeNote(clock.timeZone, period.to)}.`;
   const ordered = [...lots].sort((a, b) => b.producedAt.getTime() - a.producedAt.getTime() || a.lotNumber.localeCompare(b.lotNumber));
   const lotHead = (l: LotMailFacts) => `Lot ${l.lotNumber} (${l.productCode}, produced ${formatPlantDateTime(l.producedAt, clock)})`;
@@ -121,6 +191,7 @@ export function composeDigest(lots: LotMailFacts[], publicUrl: string, period: {
     intro,
     '',
     ...ordered.flatMap((l) => [lotHead(l), ...signalLines(l).map((s) => `  - ${s.head}: ${s.text}`), `  Lot page: ${lotLink(publicUrl, l.lotNumber)}`, '']),
+    ...section.text,
     JUDGEMENT_NOTE,
     `Change your subscriptions in Prismline under Alerts by e-mail: ${base(publicUrl)}/subscriptions`,
   ].join('\n');
@@ -134,6 +205,7 @@ export function composeDigest(lots: LotMailFacts[], publicUrl: string, period: {
           .map((s) => `<li><strong>${escapeHtml(`${s.characteristicCode} — ${signalName(s.rule)}`)}</strong>: ${escapeHtml(s.description)}${s.lateReason ? ` ${escapeHtml(s.lateReason)}` : ''} <a href="${escapeHtml(chartLink(publicUrl, s.characteristicId, l.lotNumber))}">Open the chart at this lot</a></li>`)
           .join('')}</ul>`,
     ),
+    ...section.html,
     `<p>${escapeHtml(JUDGEMENT_NOTE)}</p>`,
     '</body></html>',
   ].join('\n');

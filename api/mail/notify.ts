@@ -5,7 +5,7 @@ import { sql } from 'drizzle-orm';
 import { plantDay, type PlantDateFormat } from '@shared/time';
 import type { Database } from '../db/client';
 import { arr } from '../db/sql';
-import { composeDigest, composeLotMail, type LotMailFacts } from './compose';
+import { composeDigest, composeLotMail, type DigestNcr, type DigestNcrAction, type DigestNcrFacts, type LotMailFacts } from './compose';
 import { queueMail, type OutboxMail } from './outbox';
 import { alarmsInContext } from '../spc/alarms';
 
@@ -128,7 +128,43 @@ export async function queueRunMail(tx: Pick<Database, 'execute'>, runId: number,
 /** The plant's calendar date of an instant, yyyy-mm-dd (schedule and digest keys). */
 export const localDate = (at: Date, timeZone: string): string => plantDay(at, timeZone);
 
-/** Queues each digest subscriber's message of the plant's signals detected in the 24 hours before `now`. */
+/** NCRs and overdue actions the digest lists at most, each list; the counts say how many there are. */
+const DIGEST_NCR_ROWS = 20;
+
+/** The plant's NCR section of the digest: open NCRs, those raised in the period, and overdue actions (by the plant's day of `now`). */
+async function digestNcrFacts(db: Pick<Database, 'execute'>, plantId: number, from: Date, now: Date, timeZone: string): Promise<DigestNcrFacts> {
+  const ncrColumns = sql`n.id, n.number, n.title, n.severity::text as severity, n.status::text as status, p.code as product_code, count(*) over ()::int as total`;
+  type Row = { id: number; number: string; title: string; severity: string; status: string; product_code: string | null; total: number };
+  const toNcr = (r: Row): DigestNcr => ({ id: r.id, number: r.number, title: r.title, severity: r.severity, status: r.status, productCode: r.product_code });
+  const today = plantDay(now, timeZone);
+  const [open, raised, overdue] = await Promise.all([
+    db.execute<Row>(sql`select ${ncrColumns} from ncrs n left join products p on p.id = n.product_id
+      where n.plant_id = ${plantId} and n.status <> 'closed' and n.created_at <= ${now.toISOString()}::timestamptz order by n.created_at desc, n.id desc limit ${DIGEST_NCR_ROWS}`),
+    db.execute<Row>(sql`select ${ncrColumns} from ncrs n left join products p on p.id = n.product_id
+      where n.plant_id = ${plantId} and n.created_at > ${from.toISOString()}::timestamptz and n.created_at <= ${now.toISOString()}::timestamptz order by n.created_at desc, n.id desc limit ${DIGEST_NCR_ROWS}`),
+    db.execute<{ ncr_id: number; number: string; id: number; description: string; owner_name: string; due_date: string; total: number }>(sql`
+      select x.ncr_id, n.number, x.id, x.description, u.name as owner_name, x.due_date::text as due_date, count(*) over ()::int as total
+      from ncr_actions x join ncrs n on n.id = x.ncr_id join users u on u.id = x.owner_id
+      where n.plant_id = ${plantId} and n.status <> 'closed' and x.done_date is null and x.due_date < ${today}::date
+      order by x.due_date, x.id limit ${DIGEST_NCR_ROWS}`),
+  ]);
+  return {
+    open: open.rows.map(toNcr),
+    openCount: open.rows[0]?.total ?? 0,
+    raised: raised.rows.map(toNcr),
+    raisedCount: raised.rows[0]?.total ?? 0,
+    overdue: overdue.rows.map(
+      (r): DigestNcrAction => ({ ncrId: r.ncr_id, ncrNumber: r.number, actionId: r.id, description: r.description, ownerName: r.owner_name, dueDate: r.due_date }),
+    ),
+    overdueCount: overdue.rows[0]?.total ?? 0,
+  };
+}
+
+/**
+ * Queues each digest subscriber's message of the plant's signals detected in the 24 hours before `now`,
+ * with the plant's NCR section. A subscriber without signals gets the digest too when an NCR was raised
+ * in the period or an action is overdue.
+ */
 export async function queueDigests(db: Pick<Database, 'execute'>, opts: { plantId: number; timeZone: string; now: Date; publicUrl: string }): Promise<number> {
   const from = new Date(opts.now.getTime() - 24 * 3600 * 1000);
   const res = await db.execute<FactsRow>(
@@ -140,7 +176,16 @@ export async function queueDigests(db: Pick<Database, 'execute'>, opts: { plantI
     u.lots.push(g.lot);
     byUser.set(g.userId, u);
   }
-  const clock = { timeZone: opts.timeZone, dateFormat: res.rows[0]?.date_format ?? 'dd/MM/yyyy' };
+  const ncrs = await digestNcrFacts(db, opts.plantId, from, opts.now, opts.timeZone);
+  if (ncrs.raisedCount || ncrs.overdueCount) {
+    const subscribers = await db.execute<{ id: number; email: string }>(sql`
+      select distinct u.id, u.email from alarm_subscriptions s join users u on u.id = s.user_id and u.active
+      left join products p on p.id = s.product_id left join production_lines pl on pl.id = s.line_id
+      where s.digest and coalesce(p.plant_id, pl.plant_id) = ${opts.plantId} order by u.id`);
+    for (const u of subscribers.rows) if (!byUser.has(u.id)) byUser.set(u.id, { email: u.email, lots: [] });
+  }
+  const plant = await db.execute<{ date_format: PlantDateFormat }>(sql`select date_format from plants where id = ${opts.plantId}`);
+  const clock = { timeZone: opts.timeZone, dateFormat: res.rows[0]?.date_format ?? plant.rows[0]?.date_format ?? 'dd/MM/yyyy' };
   const day = localDate(opts.now, opts.timeZone);
   const mails: OutboxMail[] = [];
   for (const [userId, u] of byUser) {
@@ -148,7 +193,7 @@ export async function queueDigests(db: Pick<Database, 'execute'>, opts: { plantI
       kind: 'digest',
       dedupeKey: `digest:${opts.plantId}:${day}:user:${userId}`,
       to: { address: u.email, userId },
-      ...composeDigest(u.lots, opts.publicUrl, { from, to: opts.now }, clock),
+      ...composeDigest(u.lots, opts.publicUrl, { from, to: opts.now }, clock, ncrs),
       refs: { alarmIds: u.lots.flatMap((l) => l.signals.map((s) => s.alarmId)), lotIds: u.lots.map((l) => l.lotId) },
     });
   }

@@ -62,6 +62,17 @@ const routes: ProtectedRoute[] = [
   { method: 'post', path: '/api/v1/lots/NO-SUCH-LOT/release', permission: 'lot.release', body: {} },
   // The assignee and owner pick lists: every signed-in role.
   { method: 'get', path: '/api/v1/people', permission: 'plant.read', allowed: 200 },
+  // Nonconformance reports: every role reads; lab staff raise and add evidence; managers run them.
+  { method: 'get', path: '/api/v1/ncrs?limit=1', permission: 'ncr.read', allowed: 200 },
+  { method: 'get', path: '/api/v1/ncrs/overdue-actions?limit=1', permission: 'ncr.read', allowed: 200 },
+  { method: 'get', path: '/api/v1/ncrs/0', permission: 'ncr.read' },
+  { method: 'get', path: '/api/v1/ncrs/0/attachments/0', permission: 'ncr.read' },
+  { method: 'post', path: '/api/v1/ncrs', permission: 'ncr.raise', body: {} },
+  { method: 'post', path: '/api/v1/ncrs/0/attachments', permission: 'ncr.raise', body: {} },
+  { method: 'patch', path: '/api/v1/ncrs/0/actions/0', permission: 'ncr.raise', body: {} },
+  { method: 'patch', path: '/api/v1/ncrs/0', permission: 'ncr.manage', body: {} },
+  { method: 'post', path: '/api/v1/ncrs/0/transitions', permission: 'ncr.manage', body: {} },
+  { method: 'post', path: '/api/v1/ncrs/0/actions', permission: 'ncr.manage', body: {} },
   { method: 'get', path: '/api/v1/users', permission: 'user.manage', allowed: 200 },
   { method: 'post', path: '/api/v1/users', permission: 'user.manage', body: {} },
   { method: 'patch', path: '/api/v1/users/0', permission: 'user.manage', body: {} },

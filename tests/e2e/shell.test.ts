@@ -149,8 +149,8 @@ describe('web app shell', () => {
     expect(await mainMenu(page).count()).toBe(0);
 
     await page.getByRole('button', { name: 'Menu' }).click();
-    await mainMenu(page).getByRole('link', { name: 'Nonconformance reports' }).click();
-    await pageHeading(page, 'Nonconformance reports').waitFor();
+    await mainMenu(page).getByRole('link', { name: 'Reports & audit trail' }).click();
+    await pageHeading(page, 'Reports & audit trail').waitFor();
     expect(await page.getByText('Not available yet').isVisible()).toBe(true);
     // Choosing a page closes the menu again.
     expect(await mainMenu(page).count()).toBe(0);

@@ -20,6 +20,7 @@ const pages: Partial<Record<AreaId, LazyExoticComponent<ComponentType>>> = {
   methods: lazy(() => import('../features/test-methods/routes/TestMethodsArea')),
   records: lazy(() => import('../features/records/routes/RecordsArea')),
   alarms: lazy(() => import('../features/alarms/routes/AlarmsArea')),
+  ncrs: lazy(() => import('../features/ncrs/routes/NcrsArea')),
   runs: lazy(() => import('../features/spc-runs/routes/RunsPage')),
   subscriptions: lazy(() => import('../features/subscriptions/routes/SubscriptionsPage')),
   outbox: lazy(() => import('../features/outbox/routes/OutboxPage')),
@@ -29,7 +30,7 @@ const pages: Partial<Record<AreaId, LazyExoticComponent<ComponentType>>> = {
 };
 
 /** Areas whose page routes further pages below its address itself (/charts/12, /results/history, /test-methods/RC). */
-const withSubPages: ReadonlySet<AreaId> = new Set(['charts', 'results', 'methods', 'records', 'catalogue', 'alarms']);
+const withSubPages: ReadonlySet<AreaId> = new Set(['charts', 'results', 'methods', 'records', 'catalogue', 'alarms', 'ncrs']);
 
 // Its form library and schemas are not needed by someone already signed in.
 const SignInPage = lazy(() => import('../features/auth/routes/SignInPage'));

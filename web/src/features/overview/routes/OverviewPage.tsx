@@ -4,6 +4,7 @@ import { useOverview } from '../api/overview';
 import { usePlantClock } from '@web/lib/catalogue';
 import { CharacteristicTile } from '../components/CharacteristicTile';
 import { HeldLots } from '../components/HeldLots';
+import { NcrActionsDue } from '../components/NcrActionsDue';
 import { FALLBACK_PLANT_CLOCK, formatPlantDateTime } from '@shared/time';
 import { overviewPeriods, type OverviewItem } from '@shared/schemas/overview';
 import { PageHeader } from '@web/components/ui/PageHeader';
@@ -106,6 +107,8 @@ export default function OverviewPage() {
           )
         }
       />
+
+      <NcrActionsDue />
 
       <form className="mb-5 flex flex-wrap items-end gap-4" aria-label="Overview filters" onSubmit={(e) => e.preventDefault()}>
         <div className="space-y-1">
