@@ -346,7 +346,7 @@ async function tell(tx: Tx, opts: QualityStoryOptions): Promise<QualityStory> {
   }
 
   // Only the open NCR's lots stay on hold; the other holds were released when the manager closed their lots' alarms.
-  await releaseOtherHolds(tx, endMs, manager, story.heldLots);
+  await releaseOtherHolds(tx, { endMs, managerId: manager, keep: story.heldLots });
   story.groupId = await groupInvestigation(tx, { endMs, manager, technician, skipLots: story.heldLots });
   return story;
 }
@@ -363,6 +363,16 @@ async function setOutcome(tx: Tx, note: string | undefined, outcome: 'assignable
   await tx.execute(sql`
     update audit_events set after = coalesce(after, '{}'::jsonb) || jsonb_build_object('outcome', ${outcome}::text, 'causeCategory', ${category}::text)
     where entity = 'alarm' and action = 'close' and entity_id = any(${sql.param(ids)}::text[])`);
+}
+
+/**
+ * The holds the seed's SPC runs placed by themselves (a result out of specification), settled as the
+ * story has them: each dated at its alarm's detection and released as in releaseOtherHolds, but the
+ * kept lots'. What the story does first and last; exported for the test that stands in for those holds.
+ */
+export async function settleHolds(tx: Tx, o: { endMs: number; managerId: number; keep: string[] }): Promise<void> {
+  await dateAutomaticHolds(tx, o.endMs);
+  await releaseOtherHolds(tx, o);
 }
 
 /** A hold the system placed when an alarm was raised is dated at the alarm's detection, like the alarm itself. */
@@ -393,18 +403,20 @@ async function lowestFlowLot(tx: Tx, lots: LotRow[]): Promise<number | null> {
 }
 
 /**
- * Every open hold but the kept lots' is released: at the moment the manager closed the lot's
- * out-of-specification alarm, with the reason that alarm's closing gives; otherwise the working
- * morning after the hold (never after the history's end), the retest having passed.
+ * Every open hold of the history but the kept lots' is released: at the moment the manager closed the
+ * lot's out-of-specification alarm (its own first), with the reason that alarm's closing gives;
+ * otherwise the working morning after the hold (never after the history's end), the retest having
+ * passed. A hold placed at or after the end is the first morning's news and stays.
  */
-async function releaseOtherHolds(tx: Tx, endMs: number, manager: number, keep: string[]): Promise<void> {
+async function releaseOtherHolds(tx: Tx, o: { endMs: number; managerId: number; keep: string[] }): Promise<void> {
+  const { endMs, managerId: manager, keep } = o;
   const open = await tx.execute<{ lot_id: number; lot_number: string; placed_ms: number; closed_ms: number | null; close_note: string | null }>(sql`
     select h.lot_id, l.lot_number, (extract(epoch from h.placed_at) * 1000)::float8 as placed_ms,
            (extract(epoch from a.closed_at) * 1000)::float8 as closed_ms, a.close_note
     from lot_holds h join lots l on l.id = h.lot_id
     left join lateral (select a.closed_at, a.close_note from alarms a where a.lot_id = h.lot_id and a.rule = ${OUT_OF_SPEC} and a.resolution = 'by-user'
-                       order by a.closed_at desc limit 1) a on true
-    where h.released_at is null and l.lot_number <> all(${sql.param(keep)}::text[])
+                       order by a.id = h.alarm_id desc, a.closed_at desc limit 1) a on true
+    where h.released_at is null and h.placed_at < ${new Date(endMs)} and l.lot_number <> all(${sql.param(keep)}::text[])
     order by h.placed_at, h.id`);
   for (const h of open.rows) {
     const cause = Object.keys(releaseReasonOf).find((id) => causeNotes[id] === h.close_note);
