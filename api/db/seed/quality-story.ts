@@ -183,16 +183,15 @@ async function tell(tx: Tx, opts: QualityStoryOptions): Promise<QualityStory> {
 
   // 1. The new sand source: the first lots made with it contained, the cause found, actions done, closed.
   const sand = causes.find((c) => c.id === 'sand-source');
-  if (sand) {
-    const sandAlarms = (
-      await tx.execute<{ id: number; lot_id: number; tested_ms: number }>(sql`
-        select a.id, a.lot_id, (select (extract(epoch from max(m.tested_at)) * 1000)::float8 from measurements m where m.characteristic_id = a.characteristic_id and m.lot_id = a.lot_id and m.voided_at is null) as tested_ms
-        from alarms a where a.close_note = ${causeNotes['sand-source']} order by a.id`)
-    ).rows.map((r) => ({ ...r, tested_ms: Number(r.tested_ms) }));
-    if (sandAlarms.length) await sandStory(sandAlarms);
-  }
-  async function sandStory(sandAlarms: { id: number; lot_id: number; tested_ms: number }[]) {
-    const sandFrom = Date.parse(sand!.start);
+  const sandAlarms = sand
+    ? (
+        await tx.execute<{ id: number; lot_id: number; tested_ms: number }>(sql`
+          select a.id, a.lot_id, (select (extract(epoch from max(m.tested_at)) * 1000)::float8 from measurements m where m.characteristic_id = a.characteristic_id and m.lot_id = a.lot_id and m.voided_at is null) as tested_ms
+          from alarms a where a.close_note = ${causeNotes['sand-source']} order by a.id`)
+      ).rows.map((r) => ({ ...r, tested_ms: Number(r.tested_ms) }))
+    : [];
+  if (sand && sandAlarms.length) {
+    const sandFrom = Date.parse(sand.start);
     const hvl25 = await productId('HVL25');
     const firstSeen = Math.min(...sandAlarms.map((a) => a.tested_ms));
     const raisedAt = nextWorkingMorning(firstSeen);
@@ -208,7 +207,7 @@ async function tell(tx: Tx, opts: QualityStoryOptions): Promise<QualityStory> {
       title: 'HV Level 25: flow dropped after the change of sand source',
       description:
         'Flow and flow after 30 min of HV Level 25 fell to a lower level from the first lots made with the quartz sand 0–0.5 mm of the new quarry, ' +
-        'below the lower control limit on most lots. Still inside specification, but close to the lower limit for a 2–30 mm levelling compound. ' +
+        'below the lower control limit on most lots, though still inside specification. ' +
         'Lots made since the change held until the cause is known.',
     });
     raised.push({
