@@ -9,6 +9,7 @@ import { importResults } from '@api/ingest/import';
 import { recordManagerDecisions } from './decisions';
 import { dateDemoDetections, queueFirstMorningDigest, subscribeDemoManager } from './alarm-story';
 import { decidedAt } from './story-time';
+import { recordQualityStory } from './quality-story';
 import * as scenario from './scenario';
 
 /** The demo sign-ins printed in the README. Demo mode only. */
@@ -154,6 +155,7 @@ export async function seedDemo(db: Database, opts: { publicUrl: string; now?: Da
   }
   await recordManagerDecisions(db, { endDate, months, managerId: manager.id, publicUrl: opts.publicUrl });
   await dateDemoDetections(db, now);
+  await recordQualityStory(db, { endDate, months, managerId: manager.id, technicianId: technician.id });
   await queueFirstMorningDigest(db, { endDate, publicUrl: opts.publicUrl });
   return true;
 }
