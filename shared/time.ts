@@ -97,3 +97,15 @@ function readIn(text: string, pattern: string, timeZone: string): Date | null {
   return format(hourEarlier, pattern, { in: tz(timeZone) }) === format(read, pattern, { in: tz(timeZone) }) ? new Date(hourEarlier) : new Date(read.getTime());
 }
 
+
+// Due and done dates (NCR actions) are plant calendar days (YYYY-MM-DD), not instants: they are shown in the
+// plant's date format without passing through any zone.
+const isoDay = /^\d{4}-\d{2}-\d{2}$/;
+
+/** "2026-12-05" as the plant writes it ("05/12/2026"); a text that is no such day is shown as it is. */
+export function formatPlantDay(day: string, clock: PlantClock): string {
+  if (!isoDay.test(day)) return day;
+  const start = readPlantDate(day, { timeZone: clock.timeZone, dateFormat: 'yyyy-MM-dd' });
+  return start ? formatPlantDate(start, clock) : day;
+}
+

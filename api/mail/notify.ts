@@ -4,13 +4,16 @@
 import { sql } from 'drizzle-orm';
 import { plantDay, type PlantDateFormat } from '@shared/time';
 import type { Database } from '../db/client';
-import { arr } from '../db/sql';
+import { arr, inTurn } from '../db/sql';
 import { composeDigest, composeLotMail, type DigestNcr, type DigestNcrAction, type DigestNcrFacts, type LotMailFacts } from './compose';
 import { queueMail, type OutboxMail } from './outbox';
 import { alarmsInContext } from '../spc/alarms';
 
-/** Rules that e-mail subscribers at once (a falling capability too: it concerns every lot to come); the rest wait for the morning digest. */
-export const IMMEDIATE_RULES: readonly string[] = ['out-of-spec', 'we1', 'capability'];
+/**
+ * Rules that e-mail subscribers at once: a lot to stop. The rest wait for the morning digest, a falling
+ * capability among them (a trend over many lots; a first run would otherwise mail one per characteristic).
+ */
+export const IMMEDIATE_RULES: readonly string[] = ['out-of-spec', 'we1'];
 
 /**
  * An immediate e-mail only for a signal whose lot's result was tested (or, without a test time,
@@ -137,12 +140,12 @@ async function digestNcrFacts(db: Pick<Database, 'execute'>, plantId: number, fr
   type Row = { id: number; number: string; title: string; severity: string; status: string; product_code: string | null; total: number };
   const toNcr = (r: Row): DigestNcr => ({ id: r.id, number: r.number, title: r.title, severity: r.severity, status: r.status, productCode: r.product_code });
   const today = plantDay(now, timeZone);
-  const [open, raised, overdue] = await Promise.all([
-    db.execute<Row>(sql`select ${ncrColumns} from ncrs n left join products p on p.id = n.product_id
+  const [open, raised, overdue] = await inTurn([
+    () => db.execute<Row>(sql`select ${ncrColumns} from ncrs n left join products p on p.id = n.product_id
       where n.plant_id = ${plantId} and n.status <> 'closed' and n.created_at <= ${now.toISOString()}::timestamptz order by n.created_at desc, n.id desc limit ${DIGEST_NCR_ROWS}`),
-    db.execute<Row>(sql`select ${ncrColumns} from ncrs n left join products p on p.id = n.product_id
+    () => db.execute<Row>(sql`select ${ncrColumns} from ncrs n left join products p on p.id = n.product_id
       where n.plant_id = ${plantId} and n.created_at > ${from.toISOString()}::timestamptz and n.created_at <= ${now.toISOString()}::timestamptz order by n.created_at desc, n.id desc limit ${DIGEST_NCR_ROWS}`),
-    db.execute<{ ncr_id: number; number: string; id: number; description: string; owner_name: string; due_date: string; total: number }>(sql`
+    () => db.execute<{ ncr_id: number; number: string; id: number; description: string; owner_name: string; due_date: string; total: number }>(sql`
       select x.ncr_id, n.number, x.id, x.description, u.name as owner_name, x.due_date::text as due_date, count(*) over ()::int as total
       from ncr_actions x join ncrs n on n.id = x.ncr_id join users u on u.id = x.owner_id
       where n.plant_id = ${plantId} and n.status <> 'closed' and x.done_date is null and x.due_date < ${today}::date

@@ -23,7 +23,8 @@ import {
   type NcrView,
 } from '@shared/schemas/ncrs';
 import type { HoldSource, LotStatus } from '@shared/schemas/lots';
-import { plantDay, type PlantDateFormat } from '@shared/time';
+import { formatPlantDay, plantDay, type PlantClock, type PlantDateFormat } from '@shared/time';
+import { inTurn } from '@api/db/sql';
 import { lotStatusSql } from '@api/lots/holds';
 import { chartLink } from '@api/mail/compose';
 import type { Executor } from '@api/spc/db';
@@ -156,8 +157,14 @@ const fieldWords: Record<string, string> = {
 };
 
 /** One audit event of an NCR as a sentence for people. */
-export function historySentence(action: string, after: Record<string, unknown> | null, before: Record<string, unknown> | null): string {
+export function historySentence(
+  action: string,
+  after: Record<string, unknown> | null,
+  before: Record<string, unknown> | null,
+  ctx: { clock: PlantClock; actionName: (id: unknown) => string },
+): string {
   const a = after ?? {};
+  const day = (d: unknown) => (typeof d === 'string' ? formatPlantDay(d, ctx.clock) : text(d));
   switch (action) {
     case 'raise': {
       const from = a.raisedFrom === 'alarms' ? 'from alarms' : a.raisedFrom === 'lot' ? 'from a lot' : 'directly';
@@ -180,11 +187,11 @@ export function historySentence(action: string, after: Record<string, unknown> |
       return `Lot ${text(a.lotNumber)}: ${word}${a.downgradeProductCode ? ` (as ${text(a.downgradeProductCode)})` : ''}.`;
     }
     case 'add action':
-      return `${a.kind === 'preventive' ? 'Preventive' : 'Corrective'} action #${text(a.actionId)} added for ${text(a.ownerName)}, due ${text(a.dueDate)}: ${text(a.description)}`;
+      return `${a.kind === 'preventive' ? 'Preventive' : 'Corrective'} action added for ${text(a.ownerName)}, due ${day(a.dueDate)}: ${text(a.description)}`;
     case 'update action': {
-      if (a.doneDate && !before?.doneDate) return `Action #${text(a.actionId)} done on ${text(a.doneDate)}.`;
+      if (a.doneDate && !before?.doneDate) return `Action ${ctx.actionName(a.actionId)} done on ${day(a.doneDate)}.`;
       const changed = Object.keys(a).filter((k) => k !== 'actionId');
-      return `Action #${text(a.actionId)} changed: ${changed.map((k) => (k === 'doneDate' ? 'done date' : k === 'dueDate' ? 'due date' : k === 'ownerId' ? 'owner' : k)).join(', ')}.`;
+      return `Action ${ctx.actionName(a.actionId)} changed: ${changed.map((k) => (k === 'doneDate' ? 'done date' : k === 'dueDate' ? 'due date' : k === 'ownerId' ? 'owner' : k)).join(', ')}.`;
     }
     case 'attach file':
       return `File attached: ${text(a.fileName)}.`;
@@ -205,8 +212,8 @@ export async function loadNcrView(db: Executor, id: number, publicUrl: string, n
   if (!r) return null;
   const today = plantDay(now, r.time_zone);
 
-  const [lotRows, alarmRows, actionRows, attachmentRows, historyRows] = await Promise.all([
-    db.execute<{
+  const [lotRows, alarmRows, actionRows, attachmentRows, historyRows] = await inTurn([
+    () => db.execute<{
       lot_id: number;
       lot_number: string;
       product_code: string;
@@ -244,16 +251,16 @@ export async function loadNcrView(db: Executor, id: number, publicUrl: string, n
       left join users uh on uh.id = h.placed_by
       where nl.ncr_id = ${id}
       order by l.lot_number`),
-    db.execute<{ id: number; characteristic_id: number; code: string; name: string; lot_number: string; rule: string; description: string; status: string }>(sql`
+    () => db.execute<{ id: number; characteristic_id: number; code: string; name: string; lot_number: string; rule: string; description: string; status: string }>(sql`
       select a.id, a.characteristic_id, c.code, c.name, l.lot_number, a.rule, a.description, a.status
       from ncr_alarms na join alarms a on a.id = na.alarm_id join characteristics c on c.id = a.characteristic_id join lots l on l.id = a.lot_id
       where na.ncr_id = ${id} order by a.id`),
-    db.execute<ActionRow>(sql`${actionSelect} where x.ncr_id = ${id} order by x.due_date, x.id`),
-    db.execute<{ id: number; file_name: string; content_type: string; size_bytes: number; sha256: string; note: string | null; created_at: Date; created_by: string | null }>(sql`
+    () => db.execute<ActionRow>(sql`${actionSelect} where x.ncr_id = ${id} order by x.due_date, x.id`),
+    () => db.execute<{ id: number; file_name: string; content_type: string; size_bytes: number; sha256: string; note: string | null; created_at: Date; created_by: string | null }>(sql`
       select na.id, f.file_name, f.content_type, f.size_bytes, f.sha256, na.note, na.created_at, u.name as created_by
       from ncr_attachments na join stored_files f on f.id = na.file_id left join users u on u.id = na.created_by
       where na.ncr_id = ${id} order by na.id`),
-    db.execute<AuditRow>(sql`
+    () => db.execute<AuditRow>(sql`
       select e.at, u.name as actor, e.action, e.after, e.before, e.reason
       from audit_events e left join users u on u.id = e.actor_id
       where e.entity = 'ncr' and e.entity_id = ${String(id)} order by e.at, e.id`),
@@ -310,11 +317,18 @@ export async function loadNcrView(db: Executor, id: number, publicUrl: string, n
     createdBy: f.created_by,
     url: attachmentUrl(id, f.id),
   }));
+  const clock: PlantClock = { timeZone: r.time_zone, dateFormat: r.date_format };
+  const described = new Map(actions.map((x) => [x.id, x.description]));
+  // An action by the start of what it is, as the page lists it: ids are not shown to people.
+  const actionName = (id: unknown) => {
+    const d = described.get(Number(id));
+    return d ? `“${d.length > 60 ? `${d.slice(0, 59)}…` : d}”` : text(id);
+  };
   const history: NcrHistoryEntry[] = historyRows.rows.map((h) => ({
     at: isoOf(h.at),
     actor: h.actor,
     action: h.action,
-    summary: historySentence(h.action, h.after, h.before),
+    summary: historySentence(h.action, h.after, h.before, { clock, actionName }),
     reason: h.reason,
   }));
   const { lotNumbers: _lotNumbers, ...item } = listItem(r);

@@ -31,15 +31,22 @@ export interface Actor {
 
 type LotRow = { id: number; lot_number: string; product_id: number; plant_id: number };
 
-/** Lots by number, each once; 404 naming the first unknown one. */
-async function lotsByNumber(tx: Executor, numbers: string[]): Promise<LotRow[]> {
+/**
+ * Lots by number, each once; 404 naming the first unknown one, under its field of the request
+ * (`field`.N.lotNumber) when it was listed there, so a form shows it beside the lot.
+ */
+async function lotsByNumber(tx: Executor, numbers: string[], field: 'lots' | 'addLots', listed = numbers.length): Promise<LotRow[]> {
   const wanted = [...new Set(numbers)];
   if (!wanted.length) return [];
   const res = await tx.execute<LotRow>(sql`
     select l.id, l.lot_number, l.product_id, p.plant_id from lots l join products p on p.id = l.product_id where l.lot_number = any(${arr(wanted)}::text[])`);
   const found = new Map(res.rows.map((r) => [r.lot_number, r]));
   const missing = wanted.find((n) => !found.has(n));
-  if (missing !== undefined) throw notFound(`Lot ${missing}`);
+  if (missing !== undefined) {
+    const at = numbers.indexOf(missing);
+    const message = `Lot ${missing} not found`;
+    throw new HttpError(404, message, at < listed ? [{ path: `${field}.${at}.lotNumber`, message }] : undefined);
+  }
   return wanted.map((n) => found.get(n)!);
 }
 
@@ -110,7 +117,7 @@ export async function raiseNcr(db: Database, input: CreateNcrInput, actor: Actor
     const listed = input.lots ?? [];
     // An alarm's lot is concerned too, unless listed with its quantity already.
     const numbers = [...listed.map((l) => l.lotNumber), ...alarms.map((a) => a.lot_number)];
-    const lots = await lotsByNumber(tx, numbers);
+    const lots = await lotsByNumber(tx, numbers, 'lots', listed.length);
     const quantities = new Map(listed.map((l) => [l.lotNumber, l.quantityT ?? null]));
     const product = input.productId !== undefined ? await productById(tx, input.productId) : null;
     const productIds = [...new Set([...alarms.map((a) => a.product_id), ...lots.map((l) => l.product_id)])];
@@ -226,7 +233,7 @@ export async function updateNcr(db: Database, id: number, input: UpdateNcrInput,
       await queueNcrMail(tx, { ncrId: id, occasion: 'assigned', actorName: actor.name, publicUrl });
     }
     if (input.addLots?.length) {
-      const lots = await lotsByNumber(tx, input.addLots.map((l) => l.lotNumber));
+      const lots = await lotsByNumber(tx, input.addLots.map((l) => l.lotNumber), 'addLots');
       const { added, held } = await addLots(tx, n, lots, new Map(input.addLots.map((l) => [l.lotNumber, l.quantityT ?? null])), input.holdLots === true, actor);
       if (added.length || held.length) await recordAudit(tx, { actorId: actor.id, entity: 'ncr', action: 'add lots', entityId: id, after: { lotNumbers: added, held } });
     }

@@ -95,6 +95,14 @@ export async function removeTestCharacteristics(db: Database): Promise<void> {
   const ch = sql.param([...created.characteristics]);
   const pr = sql.param([...created.products]);
   await db.transaction(async (tx) => {
+    // NCRs that name a test lot or alarm go with them (their audit events stay, as the trail is append-only).
+    const found = await tx.execute<{ ncr_id: number }>(sql`
+      select ncr_id from ncr_alarms where alarm_id in (select id from alarms where characteristic_id = any(${ch}::int[]))
+      union select ncr_id from ncr_lots where lot_id in (select id from lots where product_id = any(${pr}::int[]))`);
+    const ncrIds = sql.param(found.rows.map((r) => r.ncr_id));
+    await tx.execute(sql`delete from lot_holds where ncr_id = any(${ncrIds}::int[])`);
+    for (const table of ['ncr_attachments', 'ncr_actions', 'ncr_alarms', 'ncr_lots']) await tx.execute(sql`delete from ${sql.identifier(table)} where ncr_id = any(${ncrIds}::int[])`);
+    await tx.execute(sql`delete from ncrs where id = any(${ncrIds}::int[])`);
     await tx.execute(sql`delete from capability_watch where characteristic_id = any(${ch}::int[])`);
     await tx.execute(sql`delete from alarm_comments where alarm_id in (select id from alarms where characteristic_id = any(${ch}::int[]))`);
     await tx.execute(sql`delete from lot_holds where lot_id in (select id from lots where product_id = any(${pr}::int[])) or alarm_id in (select id from alarms where characteristic_id = any(${ch}::int[]))`);

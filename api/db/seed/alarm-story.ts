@@ -41,7 +41,7 @@ export function nextNightlyRun(after: Date, cron: string, timeZone: string): Dat
 export async function dateDemoDetections(db: Pick<Database, 'execute'>, now: Date): Promise<void> {
   const res = await db.execute<{ id: number; result_ms: number; cron: string; time_zone: string }>(sql`
     select a.id, (extract(epoch from coalesce(
-             (select max(m.tested_at) from measurements m where m.lot_id = a.lot_id and m.characteristic_id = a.characteristic_id), l.produced_at)) * 1000)::float8 as result_ms,
+             (select max(m.tested_at) from measurements m where m.lot_id = a.lot_id and m.characteristic_id = a.characteristic_id and m.voided_at is null), l.produced_at)) * 1000)::float8 as result_ms,
            pt.nightly_run_cron as cron, pt.time_zone
     from alarms a join lots l on l.id = a.lot_id join characteristics c on c.id = a.characteristic_id join products p on p.id = c.product_id join plants pt on pt.id = p.plant_id
     where not exists (select from mail_outbox o where o.kind = 'alarm' and o.refs -> 'alarmIds' @> to_jsonb(a.id))`);

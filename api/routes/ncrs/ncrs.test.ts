@@ -137,6 +137,8 @@ describe('raising an NCR', () => {
     const unknownLot = await raise({ lots: [{ lotNumber: 'NO-SUCH-LOT-77' }] });
     expect(unknownLot.status).toBe(404);
     expect(unknownLot.body.error).toBe('Lot NO-SUCH-LOT-77 not found');
+    // Named under the lot's own field, so the form shows it there.
+    expect(unknownLot.body.details).toEqual([{ path: 'lots.0.lotNumber', message: 'Lot NO-SUCH-LOT-77 not found' }]);
     const unknownAlarm = await raise({ alarmIds: [2_000_000_000] });
     expect(unknownAlarm.status).toBe(404);
     const next = await raise({});
@@ -333,7 +335,10 @@ describe('actions', () => {
     const managersAction = v.actions[2].id;
     expect((await request(app).patch(`/api/v1/ncrs/${id}/actions/${managersAction}`).set(await as('technician')).send({ evidence: 'Not mine' })).status).toBe(403);
     expect((await request(app).patch(`/api/v1/ncrs/${id}/actions/2000000000`).set(await as('quality_manager')).send({ evidence: 'None' })).status).toBe(404);
-    expect(done.body.history.map((h: { summary: string }) => h.summary).at(-1)).toBe(`Action #${late.id} done on ${plantDayFromToday(0)}.`);
+    // People read the action by what it is and the day in the demo plant's format (dd/MM/yyyy), not by id and ISO.
+    const doneDescription = done.body.actions.find((a: { id: number }) => a.id === late.id).description as string;
+    const [y, m, d] = plantDayFromToday(0).split('-');
+    expect(done.body.history.map((h: { summary: string }) => h.summary).at(-1)).toBe(`Action “${doneDescription}” done on ${d}/${m}/${y}.`);
   });
 
   it('lists with filters, bounded by limit, with the total and the count of each state', async () => {

@@ -6,7 +6,7 @@ import { roles } from '@shared/schemas/users';
 // and the test methods, and everyone reads specifications and process events; everyone follows the
 // SPC runs and manages their own alert e-mails; the mail outbox is the administrator's.
 const expected = {
-  technician: ['overview', 'charts', 'results', 'methods', 'records', 'runs', 'subscriptions'],
+  technician: ['overview', 'charts', 'results', 'methods', 'records', 'alarms', 'runs', 'ncrs', 'subscriptions'],
   quality_manager: ['overview', 'charts', 'results', 'methods', 'records', 'alarms', 'runs', 'ncrs', 'reports', 'subscriptions', 'mail-log'],
   auditor: ['overview', 'charts', 'results', 'methods', 'records', 'alarms', 'runs', 'ncrs', 'reports', 'subscriptions'],
   admin: ['overview', 'charts', 'results', 'methods', 'records', 'alarms', 'runs', 'ncrs', 'reports', 'subscriptions', 'mail-log', 'users', 'catalogue', 'plant', 'outbox'],

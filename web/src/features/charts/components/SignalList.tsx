@@ -1,4 +1,5 @@
 import { useState } from 'react';
+import { Link } from 'react-router-dom';
 import { formatPlantDateTime, type PlantClock } from '@shared/time';
 import type { CharacteristicChart, ChartViolation } from '@shared/schemas/charts';
 import { Button } from '@web/components/ui/Button';
@@ -48,9 +49,21 @@ export function SignalList({ chart, clock, onReveal }: { chart: CharacteristicCh
                   ))}
                 </ul>
               </div>
-              <Button size="sm" variant="secondary" onClick={() => onReveal(index)} aria-label={`Show lot ${pointOf.get(index)?.lotNumber ?? ''} on the chart`}>
-                Show on chart
-              </Button>
+              <div className="flex flex-wrap items-center gap-2">
+                {p && (
+                  // The alarms raised at this lot, in every status, where they are triaged.
+                  <Link
+                    className="text-sm text-accent-800 underline underline-offset-2"
+                    to={`/alarms?${new URLSearchParams({ characteristic: String(chart.characteristic.id), q: p.lotNumber, status: 'all' })}`}
+                    aria-label={`Alarms of lot ${p.lotNumber}`}
+                  >
+                    Alarms
+                  </Link>
+                )}
+                <Button size="sm" variant="secondary" onClick={() => onReveal(index)} aria-label={`Show lot ${pointOf.get(index)?.lotNumber ?? ''} on the chart`}>
+                  Show on chart
+                </Button>
+              </div>
             </li>
           );
         })}
