@@ -20,7 +20,8 @@ let demoMail: { subject: string; text: string };
 let t: TestCharacteristic;
 let alarmId: number;
 beforeAll(async () => {
-  const res = await db.execute<{ subject: string; text_body: string }>(sql`select subject, text_body from mail_outbox where kind = 'digest' order by id limit 1`);
+  // The newest digest: the log lists newest first, and other test files add mail while this one runs.
+  const res = await db.execute<{ subject: string; text_body: string }>(sql`select subject, text_body from mail_outbox where kind = 'digest' order by created_at desc, id desc limit 1`);
   demoMail = { subject: res.rows[0].subject, text: res.rows[0].text_body };
   // A product of this test alone, with one point far beyond its upper control limit (lot A22).
   t = await createTestCharacteristic(db, { chartType: 'xbar-r', subgroupSize: 2 });

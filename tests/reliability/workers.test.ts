@@ -182,12 +182,13 @@ describe('worker processes', () => {
     // One message per lot and run for the one subscriber: three products, ten characteristics each, so three
     // messages of thirty signals — however often the killed items were tried.
     expect(whole.mails).toBe(3);
-    // The lot at 170 also drags each characteristic's capability below 1.33: one falling-capability alarm each, in the same messages.
+    // The lot at 170 also drags each characteristic's capability below 1.33: one falling-capability alarm each,
+    // left for the morning digest (a trend, not a lot to stop), so the messages list the other 90.
     const capability = await cluster.db.execute<{ n: number }>(sql`
       select count(*)::int as n from alarms a join lots l on l.id = a.lot_id where l.lot_number like '%-LATEST' and a.rule = 'capability'`);
     expect(capability.rows[0].n).toBe(30);
     const listed = await cluster.db.execute<{ n: number }>(sql`select sum(jsonb_array_length(refs -> 'alarmIds'))::int as n from mail_outbox where kind = 'alarm'`);
-    expect(listed.rows[0].n).toBe(120);
+    expect(listed.rows[0].n).toBe(90);
     const failing = async () => (await cluster!.db.execute<{ n: number }>(sql`select count(*)::int as n from mail_outbox where status = 'pending' and attempts >= 1 and last_error is not null`)).rows[0].n;
     const deadline = Date.now() + 15_000;
     while ((await failing()) === 0 && Date.now() < deadline) await new Promise((r) => setTimeout(r, 200));

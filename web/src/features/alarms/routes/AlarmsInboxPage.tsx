@@ -77,7 +77,9 @@ export default function AlarmsInboxPage() {
 
   /** Changes one filter in the address; the selection and the page length start again. */
   const set = (key: string, value: string) => {
-    const next = new URLSearchParams(params);
+    // From the address as it is now, not as it was at the last render: two filters changed in quick
+    // succession must both stay.
+    const next = new URLSearchParams(window.location.search);
     if (value) next.set(key, value);
     else next.delete(key);
     if (key === 'product') next.delete('characteristic');
