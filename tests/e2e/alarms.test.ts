@@ -16,13 +16,14 @@ import type { Role } from '@shared/schemas/users';
 const db = createDatabase(databaseUrl(), 2);
 const it = browserTest({ viewport: { width: 1280, height: 1000 }, timeout: 15_000 });
 
-let demoMail: { subject: string; text: string };
+let demoMail: { id: number; subject: string; text: string };
 let t: TestCharacteristic;
 let alarmId: number;
 beforeAll(async () => {
   // The newest digest: the log lists newest first, and other test files add mail while this one runs.
-  const res = await db.execute<{ subject: string; text_body: string }>(sql`select subject, text_body from mail_outbox where kind = 'digest' order by created_at desc, id desc limit 1`);
-  demoMail = { subject: res.rows[0].subject, text: res.rows[0].text_body };
+  const res = await db.execute<{ id: number; subject: string; text_body: string }>(sql`
+    select id, subject, text_body from mail_outbox where kind = 'digest' and to_address = 'manager@harrowvale.example' order by created_at desc, id desc limit 1`);
+  demoMail = { id: res.rows[0].id, subject: res.rows[0].subject, text: res.rows[0].text_body };
   // A product of this test alone, with one point far beyond its upper control limit (lot A22).
   t = await createTestCharacteristic(db, { chartType: 'xbar-r', subgroupSize: 2 });
   for (let i = 0; i < 24; i++) await t.addLot(`A${i}`, new Date(Date.UTC(2025, 9, 1 + i, 6)).toISOString(), i === 22 ? [172, 173] : [145 + ((i * 7) % 5) - 2, 145 + ((i * 3) % 7) - 3]);
@@ -107,7 +108,7 @@ describe('sent e-mail', () => {
   it('shows the quality manager the messages that went out, and the text of one', async ({ page }) => {
     await signInAt(page, 'quality_manager', '/mail-log');
     await pageHeading(page, 'Sent e-mail').waitFor();
-    const item = page.locator('li[data-mail]').filter({ hasText: demoMail.subject });
+    const item = page.locator(`li[data-mail="${demoMail.id}"]`).filter({ hasText: demoMail.subject });
     await item.waitFor();
     expect(await item.textContent()).toContain('Morning digest · to manager@harrowvale.example');
     await item.getByRole('button', { name: 'Show the text' }).click();
