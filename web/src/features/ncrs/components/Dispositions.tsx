@@ -59,9 +59,10 @@ function LotDecision({ ncr, lot, mayDecide }: { ncr: NcrView; lot: NcrLotView; m
           </p>
         </>
       )}
-      {mayDecide && !deciding && (
+      {/* A decision stands once recorded (the API refuses a change with 409), so only an open lot offers one. */}
+      {mayDecide && !deciding && !lot.disposition && (
         <Button size="sm" variant="secondary" className="mt-2 print:hidden" onClick={() => setDeciding(true)}>
-          {lot.disposition ? 'Change the decision' : 'Decide'}
+          Decide
         </Button>
       )}
       {deciding && <DecisionForm ncr={ncr} lot={lot} onDone={() => setDeciding(false)} />}
