@@ -46,8 +46,10 @@ export const permissions = {
   'ncr.raise': labStaff,
   /** Assign, edit, approve, disposition lots of, move and close an NCR; add and change its actions. */
   'ncr.manage': managers,
-  /** Read reports and the audit trail. */
+  /** Read capability reports: preview, PDF and CSV. */
   'report.read': reviewers,
+  /** Read, verify and export the audit trail, and download the audit pack that holds it. */
+  'audit.read': ['auditor', 'admin'],
   /** Add, change, deactivate lines, products and characteristics. */
   'catalogue.manage': admins,
   /** Set the plant's date format (its time zone is read-only). */

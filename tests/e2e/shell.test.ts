@@ -128,7 +128,7 @@ describe('web app shell', () => {
     await pageHeading(page, 'Page not found').waitFor();
     expect(await page.getByText('/no-such-page').isVisible()).toBe(true);
     const labels = await mainMenu(page).getByRole('link').allTextContents();
-    expect(labels).toEqual(['Plant overview', 'Control charts', 'Results & uploads', 'Test methods', 'Specifications & events', 'Alarms', 'SPC runs', 'Nonconformance reports', 'Reports & audit trail', 'Alerts by e-mail']);
+    expect(labels).toEqual(['Plant overview', 'Control charts', 'Results & uploads', 'Test methods', 'Specifications & events', 'Alarms', 'SPC runs', 'Nonconformance reports', 'Capability reports', 'Audit trail', 'Alerts by e-mail']);
 
     await page.getByRole('button', { name: 'Sign out' }).click();
     await page.waitForURL('**/sign-in');

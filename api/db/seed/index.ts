@@ -5,6 +5,7 @@ import type { Role } from '@shared/schemas/users';
 import type { Database } from '../client';
 import { characteristics, plants, processEvents, productionLines, products, specLimits, testMethods, users } from '../schema';
 import { recordAudit } from '../audit';
+import { withStoryDating } from '../audit-chain';
 import { importResults } from '@api/ingest/import';
 import { recordManagerDecisions } from './decisions';
 import { dateDemoDetections, queueFirstMorningDigest, subscribeDemoManager } from './alarm-story';
@@ -61,7 +62,13 @@ export async function seedDemo(db: Database, opts: { publicUrl: string; now?: Da
   }
   const [existingPlant] = await db.select({ id: plants.id }).from(plants).limit(1);
   if (existingPlant) return false;
+  // The story's decisions are dated when the story has them happen, then the audit chain is sealed again.
+  await withStoryDating(db, () => seedPlant(db, now, opts.publicUrl));
+  return true;
+}
 
+/** The plant, its catalogue, six months of results and the quality manager's history of decisions. */
+async function seedPlant(db: Database, now: Date, publicUrl: string): Promise<void> {
   const endDate = demoEndDate(now);
   const months = 6;
   const [admin] = await db.select({ id: users.id }).from(users).where(eq(users.email, demoUsers[0].email));
@@ -153,9 +160,8 @@ export async function seedDemo(db: Database, opts: { publicUrl: string; now?: Da
   if (outcome.kind !== 'imported') {
     throw new Error(`The demo history did not import: ${outcome.kind === 'rejected' ? JSON.stringify(outcome.errors.slice(0, 3)) : outcome.kind}`);
   }
-  await recordManagerDecisions(db, { endDate, months, managerId: manager.id, publicUrl: opts.publicUrl });
+  await recordManagerDecisions(db, { endDate, months, managerId: manager.id, publicUrl });
   await dateDemoDetections(db, now);
   await recordQualityStory(db, { endDate, months, managerId: manager.id, technicianId: technician.id });
-  await queueFirstMorningDigest(db, { endDate, publicUrl: opts.publicUrl });
-  return true;
+  await queueFirstMorningDigest(db, { endDate, publicUrl });
 }

@@ -1,7 +1,8 @@
 import { Router, type RequestHandler } from 'express';
 import multer from 'multer';
 import { and, desc, eq, sql } from 'drizzle-orm';
-import { canonicalColumns, looksLikeFormula, type RowError } from '@shared/ingest';
+import { canonicalColumns, type RowError } from '@shared/ingest';
+import { csvDocument } from '@shared/csv';
 import { rowErrorDetail } from '@shared/schemas/errors';
 import type { Database } from '@api/db/client';
 import { measurements, uploads, users } from '@api/db/schema';
@@ -27,14 +28,7 @@ const receiveFile: RequestHandler = (req, res, next) => {
   });
 };
 
-/** A CSV cell that a spreadsheet will not run as a formula. */
-const csvCell = (v: unknown) => {
-  const text = v == null ? '' : String(v);
-  const safe = looksLikeFormula(text) ? `'${text}` : text;
-  return /[",\r\n;]/.test(safe) ? `"${safe.replace(/"/g, '""')}"` : safe;
-};
-
-export const errorReportCsv = (errors: RowError[]) => ['row,column,message', ...errors.map((e) => [e.row, e.column, e.message].map(csvCell).join(','))].join('\r\n') + '\r\n';
+export const errorReportCsv = (errors: RowError[]) => csvDocument([['row', 'column', 'message'], ...errors.map((e) => [e.row, e.column, e.message])]);
 
 const uploadColumns = {
   id: uploads.id,

@@ -2,7 +2,7 @@ import type { Role } from '@shared/schemas/roles';
 import { may, type Permission } from '@shared/permissions';
 
 /** Every area of the app. The router builds its routes from this list and the menu shows it by role. */
-export type AreaId = 'overview' | 'charts' | 'results' | 'methods' | 'records' | 'alarms' | 'runs' | 'ncrs' | 'reports' | 'subscriptions' | 'mail-log' | 'users' | 'catalogue' | 'plant' | 'outbox';
+export type AreaId = 'overview' | 'charts' | 'results' | 'methods' | 'records' | 'alarms' | 'runs' | 'ncrs' | 'reports' | 'audit-trail' | 'subscriptions' | 'mail-log' | 'users' | 'catalogue' | 'plant' | 'outbox';
 
 export interface Area {
   id: AreaId;
@@ -91,10 +91,18 @@ export const areas: readonly Area[] = [
   {
     id: 'reports',
     path: '/reports',
-    label: 'Reports & audit trail',
+    label: 'Capability reports',
     purpose:
-      'Capability reports for a period and the audit trail of who entered or changed which record, and when — evidence for factory production control audits.',
+      'Capability of a characteristic or a whole product over a period, as PDF and CSV, and the audit pack — evidence for factory production control audits.',
     permission: 'report.read',
+    group: 'work',
+  },
+  {
+    id: 'audit-trail',
+    path: '/audit-trail',
+    label: 'Audit trail',
+    purpose: 'Who entered or changed which record, when and why, before and after; checked link by link against tampering, and exported as CSV.',
+    permission: 'audit.read',
     group: 'work',
   },
   {

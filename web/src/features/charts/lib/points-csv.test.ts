@@ -19,7 +19,9 @@ describe('points CSV', () => {
   it('is RFC 4180 that a CSV reader takes back unchanged, one row per point', () => {
     expect(parsed.errors).toEqual([]);
     expect(parsed.data).toHaveLength(2);
-    expect(text.split('\r\n')[0]).toBe(
+    // UTF-8 with a byte-order mark, so a spreadsheet reads the accents of names right.
+    expect(text.startsWith('\uFEFF')).toBe(true);
+    expect(text.slice(1).split('\r\n')[0]).toBe(
       'lot,produced_at,shift,n,value_1,value_2,value_3,mean,range,lcl,ucl,range_ucl,out_of_spec,excluded,exclusion_reason,rules',
     );
   });
@@ -28,6 +30,12 @@ describe('points CSV', () => {
     const [first, second] = parsed.data;
     expect(first).toMatchObject({ lot: 'L1-1', value_1: '30.1', value_2: '30.5', value_3: '29.8', rules: 'we1 we2', excluded: 'false' });
     expect(second).toMatchObject({ lot: 'L1-2', shift: '', value_3: '', out_of_spec: 'true', excluded: 'true', exclusion_reason: 'Press read high, "recalibrated", then retested' });
+  });
+
+  it('neutralises a reason a spreadsheet would run as a formula (OWASP CSV Injection)', () => {
+    const risky = { ...chart, points: [{ ...chart.points[1], exclusionReason: '=HYPERLINK("http://x.example","retest")' }] } as CharacteristicChart;
+    const [row] = Papa.parse<Record<string, string>>(pointsCsv(risky, 'Europe/London'), { header: true, skipEmptyLines: true }).data;
+    expect(row.exclusion_reason).toBe(`'=HYPERLINK("http://x.example","retest")`);
   });
 
   it('writes figures to the characteristic decimals without floating-point noise, and times as plant time with the offset', () => {

@@ -1,16 +1,11 @@
-// The chart's points as CSV (RFC 4180: comma, dot decimals, CRLF, quotes where needed), one row per
+// The chart's points as CSV (shared/csv.ts: RFC 4180, UTF-8 with BOM, formula cells neutralised), one row per
 // point with one column per replicate, for a spreadsheet or an audit file. A point is named by its lot
 // and production time (plant time with its offset); figures keep the characteristic's decimals, a mean
 // of several replicates and a range or standard deviation one more, as the chart shows them.
 import type { CharacteristicChart } from '@shared/schemas/charts';
 import { csvFigure } from '@shared/figures';
 import { plantIso } from '@shared/time';
-
-function field(value: string | number | boolean | null): string {
-  if (value === null) return '';
-  const text = String(value);
-  return /[",\r\n]|^\s|\s$/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
-}
+import { csvDocument, type CsvValue } from '@shared/csv';
 
 const columnNames = {
   'xbar-r': { location: 'mean', dispersion: 'range' },
@@ -40,31 +35,27 @@ export function pointsCsv(chart: CharacteristicChart, timeZone: string): string 
     'exclusion_reason',
     'rules',
   ];
-  const lines = [header.map(field).join(',')];
+  const rows: CsvValue[][] = [header];
   for (const p of chart.points) {
     const values = Array.from({ length: replicates }, (_, i) => (i < p.values.length ? csvFigure(p.values[i], decimals) : null));
-    lines.push(
-      [
-        p.lotNumber,
-        plantIso(p.producedAt, timeZone),
-        p.shift,
-        p.n,
-        ...values,
-        csvFigure(p.location, locationDecimals),
-        csvFigure(p.dispersion, dispersionDecimals),
-        csvFigure(p.lcl, locationDecimals),
-        csvFigure(p.ucl, locationDecimals),
-        csvFigure(p.dispersionUcl, dispersionDecimals),
-        p.outOfSpec,
-        p.excluded,
-        p.exclusionReason,
-        p.rules.join(' '),
-      ]
-        .map(field)
-        .join(','),
-    );
+    rows.push([
+      p.lotNumber,
+      plantIso(p.producedAt, timeZone),
+      p.shift,
+      p.n,
+      ...values,
+      csvFigure(p.location, locationDecimals),
+      csvFigure(p.dispersion, dispersionDecimals),
+      csvFigure(p.lcl, locationDecimals),
+      csvFigure(p.ucl, locationDecimals),
+      csvFigure(p.dispersionUcl, dispersionDecimals),
+      p.outOfSpec,
+      p.excluded,
+      p.exclusionReason,
+      p.rules.join(' '),
+    ]);
   }
-  return `${lines.join('\r\n')}\r\n`;
+  return csvDocument(rows);
 }
 
 /** Offers a text as a file download without a round trip to the server. */
