@@ -1,5 +1,5 @@
 #!/usr/bin/env bash
-# Installs what a fresh Debian machine lacks: npm packages, the PostgreSQL server and (for tests) Chromium and poppler-utils.
+# Installs what a fresh Debian machine lacks: npm packages, the PostgreSQL server and (for tests) Chromium, poppler-utils and unzip.
 # Usage: scripts/ensure-tools.sh [--browser]
 # Ends with one progress line in the shape of npm start's (scripts/lib/progress.ts).
 set -euo pipefail
@@ -46,12 +46,13 @@ if [ "${1:-}" = "--browser" ] && [ ! -x /usr/bin/chromium ]; then
   apt_install chromium
 fi
 
-# The report tests read the PDFs' text with poppler's pdftotext, a reader independent of the writer.
-if [ "${1:-}" = "--browser" ] && ! command -v pdftotext >/dev/null 2>&1; then
-  apt_install poppler-utils
+# The report tests read the PDFs with poppler's pdftotext and the audit packs with Info-ZIP's unzip: readers
+# independent of the writers.
+if [ "${1:-}" = "--browser" ] && { ! command -v pdftotext >/dev/null 2>&1 || ! command -v unzip >/dev/null 2>&1; }; then
+  apt_install poppler-utils unzip
 fi
 
 postgres=$(ls -d /usr/lib/postgresql/*/bin/initdb 2>/dev/null | sed 's#/usr/lib/postgresql/\([^/]*\)/.*#PostgreSQL \1#' | sort -V | tail -n 1)
 extra=""
-[ "${1:-}" = "--browser" ] && extra="; Chromium; poppler-utils"
+[ "${1:-}" = "--browser" ] && extra="; Chromium; poppler-utils; unzip"
 step ✓ packages "$npm_state; ${postgres:-PostgreSQL}${extra}"
