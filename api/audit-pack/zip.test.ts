@@ -26,14 +26,14 @@ describe('a ZIP with its checksums', () => {
         {
           name: 'folder/big.csv',
           write: async (o) => {
-            for (let i = 0; i < 3; i++) if (!o.write(big)) await new Promise((r) => o.once('drain', r));
+            for (let i = 0; i < 3; i++) if (!o.write(big)) await new Promise<void>((r) => o.once('drain', () => r()));
           },
         },
         { name: 'empty.txt', write: async () => undefined },
       ],
       out,
     );
-    await new Promise((r) => out.on('close', r));
+    await new Promise<void>((r) => out.on('close', () => r()));
     expect(files.map((f) => f.name)).toEqual(['a.txt', 'folder/big.csv', 'empty.txt']);
     expect(files[1].bytes).toBe(9_000_000);
     const tested = await run('unzip', ['-t', zipPath]);
