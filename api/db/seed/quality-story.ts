@@ -374,7 +374,10 @@ export async function settleHolds(tx: Tx, o: { endMs: number; managerId: number;
   await releaseOtherHolds(tx, o);
 }
 
-/** A hold the system placed when an alarm was raised is dated at the alarm's detection, like the alarm itself. */
+/**
+ * A hold the system placed when an alarm was raised is dated at the alarm's detection, like the alarm itself.
+ * Audit rows already dated so are left alone: a sealed row refuses even an update that changes nothing.
+ */
 async function dateAutomaticHolds(tx: Tx, endMs: number): Promise<void> {
   const moved = await tx.execute<{ id: number; placed_at: Date }>(sql`
     update lot_holds h set placed_at = a.detected_at from alarms a
@@ -382,7 +385,8 @@ async function dateAutomaticHolds(tx: Tx, endMs: number): Promise<void> {
     returning h.id, h.placed_at`);
   for (const h of moved.rows) {
     await tx.execute(sql`
-      update audit_events set at = ${h.placed_at} where entity = 'lot' and action = 'hold automatically' and (after ->> 'holdId')::int = ${h.id}`);
+      update audit_events set at = ${h.placed_at}
+      where entity = 'lot' and action = 'hold automatically' and (after ->> 'holdId')::int = ${h.id} and at is distinct from ${h.placed_at}`);
   }
 }
 
