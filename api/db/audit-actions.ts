@@ -16,8 +16,8 @@ export const auditActions = {
   product: ['create', 'update', 'deactivate', 'reactivate'],
   'production line': ['create', 'update', 'deactivate', 'reactivate'],
   'spc run': ['start'],
-  upload: ['import', 'void'],
-  user: ['sign-in', 'create', 'update', 'update (password reset)'],
+  upload: ['import', 'reject', 'void'],
+  user: ['sign-in', 'sign-in refused', 'sign-out', 'create', 'update', 'update (password reset)'],
 } as const satisfies Record<string, readonly string[]>;
 
 export type AuditEntity = keyof typeof auditActions;
