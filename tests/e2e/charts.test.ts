@@ -248,7 +248,8 @@ describe('overview and control charts', () => {
     // Plant-time stamps with their offset, figures to the characteristic decimals, no floating-point noise.
     const csv = readFileSync((await file.path())!, 'utf8');
     const [header, first] = csv.split('\r\n');
-    expect(header.startsWith('lot,produced_at,')).toBe(true);
+    // UTF-8 with its byte-order mark, so a spreadsheet reads the units' characters right (shared/csv.ts).
+    expect(header.startsWith('\ufefflot,produced_at,')).toBe(true);
     expect(first.split(',')[1]).toMatch(/^\d{4}-\d\d-\d\dT\d\d:\d\d:00\+0[01]:00$/);
     expect(csv).not.toMatch(/\d\.\d{5,}/);
     await partShot(page.getByRole('region', { name: 'Capability' }), 'charts-capability');

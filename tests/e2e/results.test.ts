@@ -138,7 +138,7 @@ describe('CSV upload', () => {
     const href = await report.getAttribute('href');
     expect(href).toMatch(/^\/api\/v1\/uploads\/\d+\/errors\.csv$/);
     const csv = await (await page.request.get(`${baseUrl()}${href}`)).text();
-    expect(csv.split('\r\n')[0]).toBe('row,column,message');
+    expect(csv.split('\r\n')[0]).toBe('\ufeffrow,column,message');
     expect(csv).toMatch(/^2,replicate,.*already stored/m);
     await screenshot(page, 'results-upload-server-rejected');
     expect(await storedValues(page, lot)).toEqual({ 'HVL25-AIR': [3.1] });

@@ -96,7 +96,8 @@ describe('POST /api/v1/uploads', () => {
     expect(stored).toHaveLength(0);
 
     const report = await request(api.app).get(`/api/v1/uploads/${res.body.uploadId}/errors.csv`).set(await as('technician'));
-    expect(report.text.split('\r\n')[0]).toBe('row,column,message');
+    // Every CSV the product writes starts with the UTF-8 byte-order mark (shared/csv.ts).
+    expect(report.text.split('\r\n')[0]).toBe('\ufeffrow,column,message');
     expect(report.text).toMatch(/^5,value,/m);
     const history = await request(api.app).get('/api/v1/uploads?status=rejected').set(await as('auditor'));
     expect(history.body.items.find((u: { id: number }) => u.id === res.body.uploadId)).toMatchObject({ status: 'rejected', rowsTotal: 6, rowsRejected: 1, rowsImported: 0 });
