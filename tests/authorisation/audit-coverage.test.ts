@@ -628,6 +628,19 @@ describe('every write leaves its audit event in its own transaction', () => {
   });
 });
 
+// The other side of the same rule: a request that changes nothing writes no row, so it owes no event.
+describe('a write that changes nothing', () => {
+  it('leaves the NCR row untouched and the trail without an event (PATCH with the title it has)', async () => {
+    const xmin = async () => (await db.execute<{ xmin: string }>(xminOf('ncrs', f.ncrId))).rows[0].xmin;
+    const before = await xmin();
+    const [{ mark }] = (await db.execute<{ mark: number }>(sql`select coalesce(max(id), 0)::int as mark from audit_events`)).rows;
+    const { title } = (await request(app).get(`/api/v1/ncrs/${f.ncrId}`).set(await as('auditor'))).body;
+    expect((await request(app).patch(`/api/v1/ncrs/${f.ncrId}`).set(await as('quality_manager')).send({ title })).status).toBe(200);
+    expect(await xmin()).toBe(before);
+    expect((await db.execute(sql`select id from audit_events where id > ${mark} and entity = 'ncr' and entity_id = ${String(f.ncrId)}`)).rows).toEqual([]);
+  });
+});
+
 // The auditor is read-only (/work/shared/product-brief.md, "The people and their day"): refused before any
 // body or id is read, so any id and an empty body do.
 describe('the auditor on every write route', () => {
