@@ -70,6 +70,15 @@ export const requireSession: RequestHandler = (req, res, next) => {
   })(req, res, next);
 };
 
+/** Sets req.user when the request carries a valid session and goes on either way (sign-out records who left). */
+export const readSession: RequestHandler = (req, res, next) => {
+  passport.authenticate('jwt', { session: false }, (err: unknown, user: Express.User | false) => {
+    if (err) return next(err);
+    if (user) req.user = user;
+    next();
+  })(req, res, next);
+};
+
 /** Allows the action to the roles the permissions map gives it; a signed-in user with another role gets 403. */
 export function requirePermission(action: Permission): RequestHandler {
   return (req, _res, next) => {

@@ -184,10 +184,18 @@ async function importOn(client: pg.PoolClient, reader: pg.PoolClient, req: Impor
   if (errors.length) {
     await fileKept.catch(() => undefined);
     await client.query('rollback');
-    // The rejected file is kept under the id taken for it: the rollback did not give the id back.
+    // The rejected file is kept under the id taken for it: the rollback did not give the id back. Its audit
+    // event commits with it; the row errors themselves stay on the upload (bounded there), not in the trail.
     if (uploadId !== null) {
       await client.query('begin');
       await insertUpload(client, req, sha256!, uploadId, fileId, 'rejected', rowsTotal, 0, errors);
+      await recordAudit(tx, {
+        actorId: req.actorId,
+        entity: 'upload',
+        action: 'reject',
+        entityId: uploadId,
+        after: { fileName: req.fileName, rowsTotal, rowsRejected: new Set(errors.map((e) => e.row)).size },
+      });
       await client.query('commit');
     }
     return { kind: 'rejected', uploadId, rowsTotal, errors };

@@ -212,6 +212,8 @@ export async function updateNcr(db: Database, id: number, input: UpdateNcrInput,
     const n = await lockNcr(tx, id);
     refuseClosed(n);
     const current = (await tx.execute<Record<string, unknown>>(sql`select * from ncrs where id = ${id}`)).rows[0];
+    // updated_at moves only with a change the trail records: a PATCH that changes nothing writes nothing.
+    let recorded = false;
     const before: Record<string, unknown> = {};
     const after: Record<string, unknown> = {};
     for (const [field, column] of Object.entries(fieldColumns) as [keyof typeof fieldColumns, string][]) {
@@ -225,30 +227,42 @@ export async function updateNcr(db: Database, id: number, input: UpdateNcrInput,
       const sets = Object.entries(after).map(([field, value]) => sql`${sql.identifier(fieldColumns[field as keyof typeof fieldColumns])} = ${value}`);
       await tx.execute(sql`update ncrs set ${sql.join(sets, sql`, `)} where id = ${id}`);
       await recordAudit(tx, { actorId: actor.id, entity: 'ncr', action: 'update', entityId: id, before, after });
+      recorded = true;
     }
     if (input.assigneeId !== undefined && input.assigneeId !== n.assignee_id) {
       const assignee = input.assigneeId === null ? null : await activeUser(tx, input.assigneeId, 'assigneeId');
       await tx.execute(sql`update ncrs set assignee_id = ${assignee?.id ?? null} where id = ${id}`);
       await recordAudit(tx, { actorId: actor.id, entity: 'ncr', action: 'assign', entityId: id, before: { assigneeId: n.assignee_id }, after: { assigneeId: assignee?.id ?? null, assigneeName: assignee?.name ?? null } });
       await queueNcrMail(tx, { ncrId: id, occasion: 'assigned', actorName: actor.name, publicUrl });
+      recorded = true;
     }
     if (input.addLots?.length) {
       const lots = await lotsByNumber(tx, input.addLots.map((l) => l.lotNumber), 'addLots');
       const { added, held } = await addLots(tx, n, lots, new Map(input.addLots.map((l) => [l.lotNumber, l.quantityT ?? null])), input.holdLots === true, actor);
-      if (added.length || held.length) await recordAudit(tx, { actorId: actor.id, entity: 'ncr', action: 'add lots', entityId: id, after: { lotNumbers: added, held } });
+      if (added.length || held.length) {
+        await recordAudit(tx, { actorId: actor.id, entity: 'ncr', action: 'add lots', entityId: id, after: { lotNumbers: added, held } });
+        recorded = true;
+      }
     }
     if (input.addAlarmIds?.length) {
       const alarms = await alarmsById(tx, input.addAlarmIds);
       const linked = await tx.execute<{ alarm_id: number }>(sql`
         insert into ncr_alarms (ncr_id, alarm_id) select ${id}, unnest(${arr(alarms.map((a) => a.id))}::int[]) on conflict do nothing returning alarm_id`);
-      if (linked.rows.length) await recordAudit(tx, { actorId: actor.id, entity: 'ncr', action: 'link alarms', entityId: id, after: { alarmIds: linked.rows.map((r) => r.alarm_id) } });
+      if (linked.rows.length) {
+        await recordAudit(tx, { actorId: actor.id, entity: 'ncr', action: 'link alarms', entityId: id, after: { alarmIds: linked.rows.map((r) => r.alarm_id) } });
+        recorded = true;
+      }
     }
-    for (const d of input.dispositions ?? []) await disposeLot(tx, n, d, actor);
+    for (const d of input.dispositions ?? []) {
+      await disposeLot(tx, n, d, actor);
+      recorded = true;
+    }
     if (input.approve) {
       await tx.execute(sql`update ncrs set approved_at = now(), approved_by = ${actor.id}, approval_note = ${input.approve.note} where id = ${id}`);
       await recordAudit(tx, { actorId: actor.id, entity: 'ncr', action: 'approve', entityId: id, after: { approvalNote: input.approve.note } });
+      recorded = true;
     }
-    await tx.execute(sql`update ncrs set updated_at = now() where id = ${id}`);
+    if (recorded) await tx.execute(sql`update ncrs set updated_at = now() where id = ${id}`);
   });
 }
 

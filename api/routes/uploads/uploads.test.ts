@@ -478,3 +478,27 @@ describe('manual entry and corrections', () => {
     expect((await request(api.app).patch(`/api/v1/measurements/${id}`).set(await as('auditor')).send({ value: 1, reason: 'auditor try' })).status).toBe(403);
   });
 });
+
+// A refused file is kept as evidence, so keeping it is a change the audit trail records, in the same
+// transaction as the kept upload (21 CFR 11.10(e): audit trails of actions that create electronic records).
+describe('the audit event of a rejected upload', () => {
+  it('records who sent the refused file, its name and counts, committed with the rejected upload itself', async () => {
+    const lot = newLot();
+    const rows = [
+      `${lot}-1,HVL25,L1,2026-11-05T06:30:00Z,HVL25-DENS,1950,early,1,,,`,
+      `${lot}-2,HVL25,L1,2026-11-05T06:30:00Z,HVL25-DENS,dense,early,1,,,`,
+      `${lot}-3,HVL25,L1,2026-11-05T06:30:00Z,HVL25-DENS,1951,early,1,,,`,
+      `${lot}-4,HVL25,L1,2026-11-05T06:30:00Z,NO-SUCH-CHAR,1952,early,1,,,`,
+    ];
+    const res = await upload('technician', `${header}\n${rows.join('\n')}\n`, 'night-shift-refused.csv');
+    expect(res.status).toBe(422);
+    const technician = (await api.db.execute<{ id: number }>(sql`select id from users where email = 'technician@harrowvale.example'`)).rows[0].id;
+    const trail = await api.db.execute<{ actor_id: number | null; action: string; after: unknown; seq: string | null; xmin: string }>(sql`
+      select actor_id, action, after, seq, xmin::text as xmin from audit_events where entity = 'upload' and entity_id = ${String(res.body.uploadId)}`);
+    expect(trail.rows).toEqual([
+      { actor_id: technician, action: 'reject', after: { fileName: 'night-shift-refused.csv', rowsTotal: 4, rowsRejected: 2 }, seq: expect.any(String), xmin: expect.any(String) },
+    ]);
+    const kept = await api.db.execute<{ status: string; xmin: string }>(sql`select status, xmin::text as xmin from uploads where id = ${res.body.uploadId}`);
+    expect(kept.rows[0]).toEqual({ status: 'rejected', xmin: trail.rows[0].xmin });
+  });
+});
