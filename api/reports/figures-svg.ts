@@ -65,6 +65,8 @@ export function controlChartSvg(chart: CharacteristicChart, width: number, heigh
         min: Number((lo - pad).toFixed(d + 1)),
         max: Number((hi + pad).toFixed(d + 1)),
         name: chart.characteristic.unit,
+        nameLocation: 'middle',
+        nameGap: 44,
         axisLabel: { ...text, formatter: (v: number) => formatFigure(v, d) },
         splitLine: { lineStyle: { color: '#dddddd', width: 0.5 } },
       },
@@ -73,8 +75,8 @@ export function controlChartSvg(chart: CharacteristicChart, width: number, heigh
           name: 'Subgroup value',
           type: 'line',
           data: chart.points.map((p) => [p.index + 1, p.location]),
-          showSymbol: chart.points.length <= 60,
-          symbol: 'circle',
+          // Symbols only where a few points leave room; signals and exclusions have their own marks.
+          symbol: chart.points.length <= 60 ? 'circle' : 'none',
           symbolSize: 3,
           lineStyle: style('values'),
           itemStyle: { color: '#000000' },
@@ -88,9 +90,9 @@ export function controlChartSvg(chart: CharacteristicChart, width: number, heigh
               }
             : undefined,
         },
-        { name: 'Centre line', type: 'line', step: 'middle', showSymbol: false, data: limitLine(chart, (p) => p.center), lineStyle: style('centre'), itemStyle: { color: lineKinds.centre.colour } },
-        { name: 'Control limits', type: 'line', step: 'middle', showSymbol: false, data: limitLine(chart, (p) => p.ucl), lineStyle: style('control'), itemStyle: { color: lineKinds.control.colour } },
-        { name: 'Control limits', type: 'line', step: 'middle', showSymbol: false, data: limitLine(chart, (p) => p.lcl), lineStyle: style('control'), itemStyle: { color: lineKinds.control.colour } },
+        { name: 'Centre line', type: 'line', step: 'middle', symbol: 'none', data: limitLine(chart, (p) => p.center), lineStyle: style('centre'), itemStyle: { color: lineKinds.centre.colour } },
+        { name: 'Control limits', type: 'line', step: 'middle', symbol: 'none', data: limitLine(chart, (p) => p.ucl), lineStyle: style('control'), itemStyle: { color: lineKinds.control.colour } },
+        { name: 'Control limits', type: 'line', step: 'middle', symbol: 'none', data: limitLine(chart, (p) => p.lcl), lineStyle: style('control'), itemStyle: { color: lineKinds.control.colour } },
         // Shapes, not colours, mark a point: a filled square for a signal, an open circle for an excluded point.
         { name: 'Signal', type: 'scatter', symbol: 'rect', symbolSize: 6, data: signalled.map((p) => [p.index + 1, p.location]), itemStyle: { color: '#000000' } },
         { name: 'Excluded', type: 'scatter', symbol: 'emptyCircle', symbolSize: 7, data: excluded.map((p) => [p.index + 1, p.location]), itemStyle: { color: '#000000', borderWidth: 1 } },
@@ -148,13 +150,13 @@ export function histogramSvg(chart: CharacteristicChart, width: number, height: 
         axisLabel: { ...text, formatter: (v: number) => formatFigure(v, d) },
         splitLine: { show: false },
       },
-      yAxis: { type: 'value', name: 'Count', axisLabel: text, minInterval: 1, splitLine: { lineStyle: { color: '#dddddd', width: 0.5 } } },
+      yAxis: { type: 'value', name: 'Count', nameLocation: 'middle', nameGap: 40, axisLabel: text, minInterval: 1, splitLine: { lineStyle: { color: '#dddddd', width: 0.5 } } },
       series: [
         {
           name: 'Results',
           type: 'line',
           data: outline,
-          showSymbol: false,
+          symbol: 'none',
           lineStyle: style('values'),
           itemStyle: { color: '#000000' },
           areaStyle: { color: '#d0d0d0' },
@@ -162,7 +164,7 @@ export function histogramSvg(chart: CharacteristicChart, width: number, height: 
             ? { symbol: 'none', silent: true, lineStyle: style('spec'), label: { ...text, formatter: (p: { name: string }) => p.name, position: 'end' }, data: specLines }
             : undefined,
         },
-        { name: 'Normal model (sigma overall)', type: 'line', smooth: true, showSymbol: false, data: model, lineStyle: style('model'), itemStyle: { color: lineKinds.model.colour } },
+        { name: 'Normal model (sigma overall)', type: 'line', smooth: true, symbol: 'none', data: model, lineStyle: style('model'), itemStyle: { color: lineKinds.model.colour } },
       ],
     },
     width,

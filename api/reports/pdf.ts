@@ -43,8 +43,9 @@ interface Context {
 const index = (v: number | null | undefined) => formatFigure(v, 2);
 const ci = (v: Interval | null | undefined) => (v ? `${index(v[0])} to ${index(v[1])}` : '–');
 
-function heading(doc: Doc, text: string, size = 12): void {
-  ensureRoom(doc, size * 3);
+/** A heading kept on one page with the first `keep` points of what follows it. */
+function heading(doc: Doc, text: string, size = 12, keep = 0): void {
+  ensureRoom(doc, size * 3 + keep);
   doc.moveDown(0.6).font('bold').fontSize(size).fillColor('#000000').text(text, MARGIN, doc.y, { width: WIDTH });
   doc.moveDown(0.2).font('regular').fontSize(9);
 }
@@ -199,7 +200,9 @@ function characteristicSection(ctx: Context, report: CapabilityReport, r: Charac
           formatFigure(cap?.ppmObserved, 0),
           '',
           'Normality (Anderson–Darling)',
-          cap?.normality?.p !== null && cap?.normality?.p !== undefined ? `A*² ${formatFigure(cap.normality.adjusted, 3)}, p ${formatFigure(cap.normality.p, 3)}` : (cap?.normality?.reason ?? '–'),
+          cap?.normality?.p !== null && cap?.normality?.p !== undefined
+            ? `A*² ${formatFigure(cap.normality.adjusted, 3)}, p ${cap.normality.p < 0.001 ? '< 0.001' : formatFigure(cap.normality.p, 3)}`
+            : (cap?.normality?.reason ?? '–'),
         ],
       ],
     );
@@ -207,9 +210,9 @@ function characteristicSection(ctx: Context, report: CapabilityReport, r: Charac
       heading(doc, 'Cautions', 10);
       for (const w of chart.reasons) paragraph(doc, `• ${w}`);
     }
-    heading(doc, 'Control chart', 10);
+    heading(doc, 'Control chart', 10, 216);
     figure(doc, controlChartSvg(chart, WIDTH, 210), 210);
-    heading(doc, 'Histogram against the specification', 10);
+    heading(doc, 'Histogram against the specification', 10, 190);
     figure(doc, histogramSvg(chart, WIDTH, 170), 170);
     lineKey(doc);
   }
@@ -237,7 +240,7 @@ function characteristicSection(ctx: Context, report: CapabilityReport, r: Charac
     );
 
   heading(doc, 'Control limit revisions', 10);
-  if (r.limitRevisions.length === 0) paragraph(doc, 'None: trial limits from the data.');
+  if (r.limitRevisions.length === 0) paragraph(doc, 'None frozen or in force in this period.');
   else
     table(
       doc,
