@@ -73,6 +73,10 @@ const routes: ProtectedRoute[] = [
   { method: 'patch', path: '/api/v1/ncrs/0', permission: 'ncr.manage', body: {} },
   { method: 'post', path: '/api/v1/ncrs/0/transitions', permission: 'ncr.manage', body: {} },
   { method: 'post', path: '/api/v1/ncrs/0/actions', permission: 'ncr.manage', body: {} },
+  // Capability reports: read by auditors, quality managers and administrators; no period is a 400.
+  { method: 'get', path: '/api/v1/reports/capability?product=1', permission: 'report.read' },
+  { method: 'get', path: '/api/v1/reports/capability.pdf?product=1', permission: 'report.read' },
+  { method: 'get', path: '/api/v1/reports/capability.csv?product=1', permission: 'report.read' },
   { method: 'get', path: '/api/v1/users', permission: 'user.manage', allowed: 200 },
   { method: 'post', path: '/api/v1/users', permission: 'user.manage', body: {} },
   { method: 'patch', path: '/api/v1/users/0', permission: 'user.manage', body: {} },

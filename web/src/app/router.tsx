@@ -27,6 +27,7 @@ const pages: Partial<Record<AreaId, LazyExoticComponent<ComponentType>>> = {
   'mail-log': lazy(() => import('../features/outbox/routes/MailLogPage')),
   catalogue: lazy(() => import('../features/catalogue/routes/CatalogueArea')),
   plant: lazy(() => import('../features/catalogue/routes/PlantSettingsPage')),
+  reports: lazy(() => import('../features/reports/routes/ReportsPage')),
 };
 
 /** Areas whose page routes further pages below its address itself (/charts/12, /results/history, /test-methods/RC). */
