@@ -33,6 +33,7 @@ import { devRouter } from './routes/dev/router';
 import { mailLogRouter } from './routes/mail-log/router';
 import { peopleRouter } from './routes/people/router';
 import { ncrsRouter } from './routes/ncrs/router';
+import { auditCsvRouter, auditEventsRouter } from './routes/audit-events/router';
 import { lazyQueue, type SpcQueue } from './spc/queue';
 import { resultsChanged as scheduleRun, type ResultsChanged } from './spc/results-changed';
 import type { FakeSmtp } from './mail/fake-smtp';
@@ -102,6 +103,8 @@ export function createApp({ db, config, serveWeb = true, resultsChanged, spcQueu
   app.use('/api/v1/mail-log', mailLogRouter(db));
   app.use('/api/v1/people', peopleRouter(db));
   app.use('/api/v1/ncrs', ncrsRouter(db, publicUrl));
+  app.use('/api/v1/audit-events', auditEventsRouter(db));
+  app.use('/api/v1', auditCsvRouter(db));
   if (fakeSmtp) app.use('/api/v1/dev', devRouter(fakeSmtp));
   app.use('/api/v1/characteristics', specificationsRouter(db));
   app.use('/api/v1/process-events', processEventsRouter(db));
