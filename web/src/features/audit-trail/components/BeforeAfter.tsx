@@ -1,0 +1,82 @@
+interface FieldChange {
+  field: string;
+  before: unknown;
+  after: unknown;
+  changed: boolean;
+}
+
+const isRecord = (v: unknown): v is Record<string, unknown> => v !== null && typeof v === 'object' && !Array.isArray(v);
+
+/** The fields of before and after, one row each in the order they first appear; a value that is no record is one row. */
+export function fieldChanges(before: unknown, after: unknown): FieldChange[] {
+  const same = (a: unknown, b: unknown) => JSON.stringify(a) === JSON.stringify(b);
+  if ((before === null || isRecord(before)) && (after === null || isRecord(after))) {
+    const b = before ?? {};
+    const a = after ?? {};
+    const fields = [...new Set([...Object.keys(b), ...Object.keys(a)])];
+    return fields.map((field) => ({ field, before: b[field], after: a[field], changed: !same(b[field], a[field]) }));
+  }
+  return [{ field: 'value', before, after, changed: !same(before, after) }];
+}
+
+/** A stored value as a person reads it: text as it is, nothing as a dash, anything else as compact JSON. */
+function shown(v: unknown): string {
+  if (v === undefined || v === null) return '—';
+  if (typeof v === 'string') return v;
+  return JSON.stringify(v);
+}
+
+/**
+ * Before and after side by side, a field a row. A changed field is said in words ("changed") and set in
+ * bold, with a tint only as a third cue: the change reads in print and without colour too.
+ */
+export function BeforeAfter({ before, after }: { before: unknown; after: unknown }) {
+  const rows = fieldChanges(before, after);
+  if (before === null && after === null) return <p className="text-sm text-zinc-600">This event records no values, only that it happened.</p>;
+  const changedCount = rows.filter((r) => r.changed).length;
+  return (
+    <div className="overflow-x-auto">
+      <table className="w-full table-fixed border-collapse text-left text-sm">
+        <caption className="mb-1 text-left text-sm text-zinc-600">
+          {changedCount} of {rows.length} field{rows.length === 1 ? '' : 's'} changed
+        </caption>
+        <colgroup>
+          <col className="w-1/5" />
+          <col className="w-2/5" />
+          <col className="w-2/5" />
+        </colgroup>
+        <thead className="bg-zinc-100/80 text-zinc-700">
+          <tr>
+            <th scope="col" className="border-b border-zinc-200 px-3 py-2 font-semibold">
+              Field
+            </th>
+            <th scope="col" className="border-b border-zinc-200 px-3 py-2 font-semibold">
+              Before
+            </th>
+            <th scope="col" className="border-b border-zinc-200 px-3 py-2 font-semibold">
+              After
+            </th>
+          </tr>
+        </thead>
+        <tbody>
+          {rows.map((r) => (
+              <tr key={r.field} className={r.changed ? 'bg-amber-50' : undefined} data-changed={r.changed || undefined}>
+                <th scope="row" className="border-b border-zinc-100 px-3 py-1.5 align-top font-normal [overflow-wrap:anywhere]">
+                  <span className={r.changed ? 'font-semibold' : undefined}>{r.field}</span>
+                  {r.changed && (
+                    <span className="ml-2 rounded-sm border border-amber-400 px-1 text-xs font-semibold tracking-wide text-amber-900 uppercase">changed</span>
+                  )}
+                </th>
+                <td className="border-b border-zinc-100 px-3 py-1.5 align-top font-mono text-xs whitespace-pre-wrap [overflow-wrap:anywhere]">
+                  {r.changed && r.before !== undefined ? <s className="decoration-zinc-500">{shown(r.before)}</s> : shown(r.before)}
+                </td>
+                <td className={`border-b border-zinc-100 px-3 py-1.5 align-top font-mono text-xs whitespace-pre-wrap [overflow-wrap:anywhere] ${r.changed ? 'font-bold' : ''}`}>
+                  {shown(r.after)}
+                </td>
+              </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}
