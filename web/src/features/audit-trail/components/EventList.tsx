@@ -16,7 +16,7 @@ function EventItem({ e }: { e: AuditEventView }) {
       <div className="flex flex-wrap items-start gap-x-4 gap-y-2 px-4 py-3">
         <div className="w-40 shrink-0 text-sm text-zinc-700">
           <PlantTime at={e.at} className="figures block font-medium text-zinc-900" />
-          <span className="figures block text-zinc-500">link {e.seq}</span>
+          <span className="figures block text-zinc-500">chain link {e.seq}</span>
         </div>
         <div className="min-w-0 flex-1 basis-72">
           <p className="font-medium [overflow-wrap:anywhere]">{e.sentence}</p>

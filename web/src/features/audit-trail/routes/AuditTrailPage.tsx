@@ -46,6 +46,7 @@ export default function AuditTrailPage() {
         }
       />
       <div className="space-y-6">
+        <ChainCheck />
         {/* Keyed by the filter so its fields start from the address again after Back or a bookmark. */}
         {clock ? (
           <AuditFilters key={filterKey} query={query} facets={facets.data} clock={clock} onApply={(q) => setSearch(new URLSearchParams(q as Record<string, string>))} />
@@ -78,7 +79,6 @@ export default function AuditTrailPage() {
             </>
           )}
         </section>
-        <ChainCheck />
       </div>
     </>
   );
