@@ -34,6 +34,8 @@ import { mailLogRouter } from './routes/mail-log/router';
 import { peopleRouter } from './routes/people/router';
 import { ncrsRouter } from './routes/ncrs/router';
 import { reportsRouter } from './routes/reports/router';
+import { auditPackRouter } from './routes/audit-pack/router';
+import { auditCsvRouter, auditEventsRouter } from './routes/audit-events/router';
 import { lazyQueue, type SpcQueue } from './spc/queue';
 import { resultsChanged as scheduleRun, type ResultsChanged } from './spc/results-changed';
 import type { FakeSmtp } from './mail/fake-smtp';
@@ -104,6 +106,9 @@ export function createApp({ db, config, serveWeb = true, resultsChanged, spcQueu
   app.use('/api/v1/people', peopleRouter(db));
   app.use('/api/v1/ncrs', ncrsRouter(db, publicUrl));
   app.use('/api/v1/reports', reportsRouter(db));
+  app.use('/api/v1/reports', auditPackRouter(db));
+  app.use('/api/v1/audit-events', auditEventsRouter(db));
+  app.use('/api/v1', auditCsvRouter(db));
   if (fakeSmtp) app.use('/api/v1/dev', devRouter(fakeSmtp));
   app.use('/api/v1/characteristics', specificationsRouter(db));
   app.use('/api/v1/process-events', processEventsRouter(db));

@@ -24,3 +24,49 @@ export interface AuditChainVerdict {
   /** When the check ran (ISO). */
   checkedAt: string;
 }
+
+/** Who did what an audit event records: a user as they stand now (name and role), or null for the system itself. */
+export interface AuditActor {
+  id: number;
+  name: string;
+  role: string;
+}
+
+/** One event of GET /api/v1/audit-events. */
+export interface AuditEventView {
+  /** The event's place in the chain: the list's order and its cursor. */
+  seq: number;
+  id: number;
+  /** When it happened (ISO, UTC); shown in the plant's zone. */
+  at: string;
+  /** Null: the system did it by itself (an automatic hold, an alarm closed because its signal went). */
+  actor: AuditActor | null;
+  entity: string;
+  entityId: string | null;
+  action: string;
+  /** What happened in one sentence of the trade's words. */
+  sentence: string;
+  before: unknown;
+  after: unknown;
+  reason: string | null;
+  /** The web page of what the event is about (a lot, an NCR, an alarm, a chart, the uploads), when there is one. */
+  link: string | null;
+}
+
+/** GET /api/v1/audit-events: newest first; `nextCursor` is the `after` of the next page, null on the last one. */
+export interface AuditEventPage {
+  items: AuditEventView[];
+  nextCursor: number | null;
+}
+
+/** GET /api/v1/audit-events/facets: what the trail holds, for the filter pick lists. */
+export interface AuditFacets {
+  /** Each entity present, with the actions recorded for it. */
+  entities: { entity: string; actions: string[] }[];
+  /** Each user who did something recorded, and whether the system did. */
+  actors: AuditActor[];
+  systemActs: boolean;
+  /** The oldest and newest events (ISO), for the period fields' hints; null when the trail is empty. */
+  first: string | null;
+  last: string | null;
+}

@@ -43,6 +43,10 @@ const routes: ProtectedRoute[] = [
   { method: 'get', path: '/api/v1/alarm-groups/0', permission: 'alarm.read' },
   { method: 'get', path: '/api/v1/mail-log?pageSize=1', permission: 'mail.read', allowed: 200 },
   { method: 'get', path: '/api/v1/mail-log/0', permission: 'mail.read' },
+  { method: 'get', path: '/api/v1/audit-events?limit=1', permission: 'audit.read', allowed: 200 },
+  { method: 'get', path: '/api/v1/audit-events/facets', permission: 'audit.read', allowed: 200 },
+  { method: 'get', path: '/api/v1/audit-events/verify', permission: 'audit.read', allowed: 200 },
+  { method: 'get', path: '/api/v1/audit-events.csv?entity=nothing', permission: 'audit.read' },
   { method: 'post', path: '/api/v1/lines', permission: 'catalogue.manage', body: {} },
   { method: 'patch', path: '/api/v1/lines/0', permission: 'catalogue.manage', body: {} },
   // Never deleted: an allowed role learns to deactivate instead (405).

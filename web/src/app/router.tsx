@@ -25,6 +25,7 @@ const pages: Partial<Record<AreaId, LazyExoticComponent<ComponentType>>> = {
   subscriptions: lazy(() => import('../features/subscriptions/routes/SubscriptionsPage')),
   outbox: lazy(() => import('../features/outbox/routes/OutboxPage')),
   'mail-log': lazy(() => import('../features/outbox/routes/MailLogPage')),
+  'audit-trail': lazy(() => import('../features/audit-trail/routes/AuditTrailPage')),
   catalogue: lazy(() => import('../features/catalogue/routes/CatalogueArea')),
   plant: lazy(() => import('../features/catalogue/routes/PlantSettingsPage')),
   reports: lazy(() => import('../features/reports/routes/ReportsPage')),
