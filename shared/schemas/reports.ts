@@ -52,6 +52,18 @@ export const capabilityReportQuerySchema = z
   });
 export type CapabilityReportQuery = z.infer<typeof capabilityReportQuerySchema>;
 
+/**
+ * GET /api/v1/reports/audit-pack.zip?product=<id>&from=&to= — a product and a period, read by the report's own
+ * rules (the pack holds the product's report); a single characteristic or a choice of them is not a pack.
+ */
+export const auditPackQuerySchema = capabilityReportQuerySchema
+  .refine((q) => q.product !== undefined && q.characteristic === undefined && q.characteristics === undefined, {
+    path: ['product'],
+    message: 'An audit pack is made for one product and all its characteristics: give product, from and to',
+  })
+  .transform((q) => ({ product: q.product!, from: q.from, to: q.to }));
+export type AuditPackQuery = z.infer<typeof auditPackQuerySchema>;
+
 /** The query as the web app puts it in a link (ids and plant days as text). */
 export function capabilityReportSearch(q: CapabilityReportQuery): string {
   const p = new URLSearchParams();

@@ -81,6 +81,8 @@ const routes: ProtectedRoute[] = [
   { method: 'get', path: '/api/v1/reports/capability?product=1', permission: 'report.read' },
   { method: 'get', path: '/api/v1/reports/capability.pdf?product=1', permission: 'report.read' },
   { method: 'get', path: '/api/v1/reports/capability.csv?product=1', permission: 'report.read' },
+  // The audit pack holds the audit trail: auditors and administrators only.
+  { method: 'get', path: '/api/v1/reports/audit-pack.zip?product=1', permission: 'audit.read' },
   { method: 'get', path: '/api/v1/users', permission: 'user.manage', allowed: 200 },
   { method: 'post', path: '/api/v1/users', permission: 'user.manage', body: {} },
   { method: 'patch', path: '/api/v1/users/0', permission: 'user.manage', body: {} },
