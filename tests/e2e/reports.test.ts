@@ -1,8 +1,10 @@
 // Capability reports in a real browser against the real server started by scripts/run-tests.ts: an
-// auditor picks a product and a period, reads the preview and takes the PDF and the CSV away. The PDF is
+// auditor picks a product and a period, reads the preview and takes the PDF, the CSV and the audit pack away. The PDF is
 // read back with Debian's poppler-utils (pdftotext), the CSV with papaparse.
 import { execFile } from 'node:child_process';
-import { readFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { promisify } from 'node:util';
 import Papa from 'papaparse';
 import { describe, expect } from 'vitest';
@@ -13,7 +15,7 @@ const it = browserTest({ viewport: { width: 1400, height: 1000 } });
 const run = promisify(execFile);
 
 describe('capability reports', () => {
-  it('lets an auditor preview a product’s report for a period and download it as PDF and CSV', async ({ page }) => {
+  it('lets an auditor preview a product’s report for a period and download it as PDF and CSV, and the audit pack', async ({ page }) => {
     await signIn(page, 'auditor', '/reports');
     await pageHeading(page, 'Capability reports').waitFor();
     await screenshot(page, 'reports-empty');
@@ -61,6 +63,26 @@ describe('capability reports', () => {
     expect([...bytes.subarray(0, 3)]).toEqual([0xef, 0xbb, 0xbf]);
     const rows = Papa.parse<string[]>(bytes.subarray(3).toString('utf8')).data;
     expect(rows.find((r) => r[0] === 'Input SHA-256')?.[1]).toBe(preview.inputHash);
+
+    // The audit pack of the same product and period: Info-ZIP's unzip tests it and lists its files, and GNU
+    // sha256sum checks every file against the pack's SHA256SUMS.
+    const packDownload = page.waitForEvent('download');
+    await page.getByRole('link', { name: 'Download audit pack (ZIP)' }).click();
+    const pack = await packDownload;
+    expect(pack.suggestedFilename()).toBe('audit-pack-HVL25-2026-09-01-2026-11-30.zip');
+    const dir = mkdtempSync(join(tmpdir(), 'e2e-pack-'));
+    try {
+      await run('unzip', ['-q', (await pack.path())!, '-d', dir]);
+      const { stdout: checked } = await run('sha256sum', ['-c', 'SHA256SUMS'], { cwd: dir });
+      const names = checked.trim().split('\n').map((line) => line.replace(/: OK$/, ''));
+      expect(names).toEqual(expect.arrayContaining(['README.txt', 'HVL25-capability-report.pdf', 'ncrs.csv', 'audit-trail.csv']));
+      expect(names.filter((n) => n.startsWith('characteristics/'))).toHaveLength(preview.characteristics.length);
+      // The pack's report is the one the page previewed: same input data, same hash.
+      const { stdout: packText } = await run('pdftotext', ['-layout', join(dir, 'HVL25-capability-report.pdf'), '-'], { maxBuffer: 64 * 1024 * 1024 });
+      expect(packText).toContain(preview.inputHash);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
   });
 
   it('refuses a period that ends before it starts under the field, and hides the audit pack from a quality manager', async ({ page }) => {
