@@ -239,6 +239,8 @@ describe('CSV injection', () => {
     const t = await createTestCharacteristic(api.db, { chartType: 'xbar-r', subgroupSize: 2, specs: [{ lsl: 120, usl: 170, effectiveFrom: testDay(0) }] });
     for (let i = 0; i < 6; i++) await t.addLot(`L${i}`, testDay(i + 1), [145 + (i % 3), 146 - (i % 2)]);
     const lots = await api.db.execute<{ id: number; lot_number: string }>(sql`select id, lot_number from lots where product_id = ${t.productId} order by produced_at`);
+    const query = `characteristic=${t.characteristicId}&from=2025-01-01&to=2025-01-31`;
+    const before = (await previewOf(query)).inputHash;
     const reasons = ['=HYPERLINK("http://x.example")', '+1+2', '-3+4', '@SUM(A1:A2)'];
     for (const [i, reason] of reasons.entries()) {
       const res = await request(api.app).post(`/api/v1/characteristics/${t.characteristicId}/exclusions`).set(await as('quality_manager')).send({ lotId: lots.rows[i].id, reason });
@@ -246,7 +248,9 @@ describe('CSV injection', () => {
     }
     // A reason is trimmed at the edge, so a leading tab or carriage return is planted in the test characteristic's own name.
     await api.db.update(characteristics).set({ name: '\tcmd\r' }).where(eq(characteristics.id, t.characteristicId));
-    const bytes = (await download(`/api/v1/reports/capability.csv?characteristic=${t.characteristicId}&from=2025-01-01&to=2025-01-31`)).body;
+    // The exclusions are part of the input: the hash that lets two copies be compared changes with them.
+    expect((await previewOf(query)).inputHash).not.toBe(before);
+    const bytes = (await download(`/api/v1/reports/capability.csv?${query}`)).body;
     const rows = readCsv(bytes);
     const cells = rows.flat();
     for (const reason of reasons) {
