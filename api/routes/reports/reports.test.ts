@@ -139,6 +139,11 @@ describe('one characteristic', () => {
     if (chart.spec?.lsl !== null) expect(flat).toContain(`LSL ${formatFigure(chart.spec!.lsl, d)} ${chart.characteristic.unit}`);
     if (chart.spec?.usl !== null) expect(flat).toContain(`USL ${formatFigure(chart.spec!.usl, d)} ${chart.characteristic.unit}`);
     expect(flat).toContain(demoChars[0].code);
+    // The frozen limits are named by the revision number the limit-revision history gives them, not by a row id.
+    expect(chart.limits.source).toBe('frozen');
+    const history = await request(api.app).get(`/api/v1/characteristics/${id}/limit-revisions`).set(await as());
+    const inForce = (history.body.items as { id: number; revision: number }[]).find((r) => r.id === chart.limits.revisionId)!;
+    expect(flat).toContain(`Control limits frozen, revision ${inForce.revision} by`);
     // pdfinfo's page count is the M of every footer, and page k says "Page k of M".
     expect(pdf.pageCount).toBeGreaterThanOrEqual(2);
     expect(pdf.pages).toHaveLength(pdf.pageCount);
