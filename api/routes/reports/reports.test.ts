@@ -47,12 +47,12 @@ async function download(path: string, role: Role = 'auditor') {
 
 let fileNo = 0;
 /** The PDF's text as poppler's pdftotext lays it out, and its page count from pdfinfo. */
-async function readPdf(bytes: Buffer): Promise<{ text: string; pages: string[]; pageCount: number }> {
+async function readPdf(bytes: Buffer): Promise<{ file: string; text: string; pages: string[]; pageCount: number }> {
   const file = join(dir, `report-${++fileNo}.pdf`);
   writeFileSync(file, bytes);
   const { stdout: text } = await run('pdftotext', ['-layout', file, '-'], { maxBuffer: 64 * 1024 * 1024 });
   const { stdout: info } = await run('pdfinfo', [file]);
-  return { text, pages: text.split('\f').filter((p) => p.trim()), pageCount: Number(/^Pages:\s+(\d+)/m.exec(info)?.[1]) };
+  return { file, text, pages: text.split('\f').filter((p) => p.trim()), pageCount: Number(/^Pages:\s+(\d+)/m.exec(info)?.[1]) };
 }
 
 /** The CSV parsed by papaparse, after checking and removing the UTF-8 byte-order mark. */
@@ -144,6 +144,11 @@ describe('one characteristic', () => {
     const history = await request(api.app).get(`/api/v1/characteristics/${id}/limit-revisions`).set(await as());
     const inForce = (history.body.items as { id: number; revision: number }[]).find((r) => r.id === chart.limits.revisionId)!;
     expect(flat).toContain(`Control limits frozen, revision ${inForce.revision} by`);
+    // poppler's pdffonts: the app's typefaces, every one embedded (no reader substitutes a font on another machine).
+    const { stdout: fontList } = await run('pdffonts', [pdf.file]);
+    const fontRows = fontList.split('\n').slice(2).filter((l) => l.trim());
+    expect(fontRows.map((l) => l.split(/\s+/)[0].replace(/^[A-Z]{6}\+/, '')).sort()).toEqual(['Inter-Bold', 'Inter-Regular', 'RobotoMono-Regular']);
+    for (const row of fontRows) expect(row).toMatch(/\byes\s+yes\s+yes\s+\d+\s+\d+$/);
     // pdfinfo's page count is the M of every footer, and page k says "Page k of M".
     expect(pdf.pageCount).toBeGreaterThanOrEqual(2);
     expect(pdf.pages).toHaveLength(pdf.pageCount);
