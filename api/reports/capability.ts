@@ -60,6 +60,8 @@ export interface CharacteristicReport {
   testMethod: { code: string; name: string; standard: string };
   specRevisions: ReportSpecRevision[];
   limitRevisions: LimitRevision[];
+  /** The revision number (as the limit-revision history numbers them) of the frozen limits the chart uses; null under trial limits. */
+  limitsRevision: number | null;
   exclusions: ReportExclusion[];
   signals: ReportSignal[];
   /** More signals than REPORT_MAX_SIGNALS: the list holds the first ones. */
@@ -118,7 +120,8 @@ export async function loadCharacteristicReport(db: Database, scope: ReportScope,
   ).rows.map((s) => ({ revision: s.revision, lsl: s.lsl, usl: s.usl, target: s.target, effectiveFrom: new Date(s.effective_from), reason: s.reason }));
 
   // Revisions that judged some of the period: frozen before its end and not replaced before its start.
-  const revisions = (await limitRevisions(db, characteristicId))
+  const allRevisions = await limitRevisions(db, characteristicId);
+  const revisions = allRevisions
     .filter((r) => r.createdAt <= to && (r.supersededAt === null || r.supersededAt >= from))
     .reverse();
 
@@ -176,6 +179,7 @@ export async function loadCharacteristicReport(db: Database, scope: ReportScope,
     testMethod: method,
     specRevisions,
     limitRevisions: revisions,
+    limitsRevision: chart.limits.revisionId === null ? null : (allRevisions.find((l) => l.id === chart.limits.revisionId)?.revision ?? null),
     exclusions,
     signals,
     signalsCut: signalRows.length > REPORT_MAX_SIGNALS,

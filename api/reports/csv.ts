@@ -50,7 +50,7 @@ function characteristicRows(r: CharacteristicReport, timeZone: string): CsvValue
     ['USL', figure(chart.spec?.usl)],
     ['Target', figure(chart.spec?.target)],
     ...r.specRevisions.map((s): CsvValue[] => [`Specification revision ${s.revision} in force from`, plantIso(s.effectiveFrom, timeZone), `LSL ${figure(s.lsl)}`, `USL ${figure(s.usl)}`]),
-    ['Control limits', chart.limits.source === 'frozen' ? `frozen (revision ${chart.limits.revisionId})` : 'trial (from the period)'],
+    ['Control limits', chart.limits.source === 'frozen' ? `frozen (revision ${r.limitsRevision})` : 'trial (from the period)'],
     ['Centre line', figure(chart.limits.location.center)],
     ['UCL', figure(chart.limits.location.ucl)],
     ['LCL', figure(chart.limits.location.lcl)],

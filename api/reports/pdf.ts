@@ -174,7 +174,7 @@ function characteristicSection(ctx: Context, report: CapabilityReport, r: Charac
     [
       'Control limits',
       chart.limits.source === 'frozen'
-        ? `frozen, revision ${chart.limits.revisionId} by ${chart.limits.frozenBy ?? 'unknown'}: centre ${q(chart.limits.location.center)}, UCL ${q(chart.limits.location.ucl)}, LCL ${q(chart.limits.location.lcl)}`
+        ? `frozen, revision ${r.limitsRevision} by ${chart.limits.frozenBy ?? 'unknown'}: centre ${q(chart.limits.location.center)}, UCL ${q(chart.limits.location.ucl)}, LCL ${q(chart.limits.location.lcl)}`
         : `trial, from the period: centre ${q(chart.limits.location.center)}, UCL ${q(chart.limits.location.ucl)}, LCL ${q(chart.limits.location.lcl)}`,
     ],
   ]);

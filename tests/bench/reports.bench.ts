@@ -5,6 +5,7 @@
 //   round asks for a window no request has computed yet) and warm (the charts cached);
 // - the server's peak memory while it writes those reports, against a 300 MB budget (the ingest one's).
 import { spawn } from 'node:child_process';
+import { once } from 'node:events';
 import { readFileSync, writeFileSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { sql } from 'drizzle-orm';
@@ -80,20 +81,26 @@ async function removeProduct(db: Database, productId: number): Promise<void> {
 export async function run(): Promise<BenchRow[]> {
   const databaseUrl = process.env.DATABASE_URL;
   if (!databaseUrl) throw new Error('DATABASE_URL is not set: run through npm run bench');
-  const port = await freePort();
-  const base = `http://127.0.0.1:${port}`;
   await buildServer();
-  const { command, args } = serverCommand();
   // No SPC workers or scheduler in the measured server: only the requests under test run there.
-  const server = spawn(command, args, {
-    cwd: root,
-    env: { ...process.env, PORT: String(port), PRISMLINE_MODE: 'demo', LOG_LEVEL: 'warn', JWT_SECRET: 'bench-secret-bench-secret-bench-secret-42', SPC_WORKER_CONCURRENCY: '0', PRISMLINE_SCHEDULER: '0' },
-    stdio: ['ignore', 'inherit', 'inherit'],
-  });
+  const env = { ...process.env, PRISMLINE_MODE: 'demo', LOG_LEVEL: 'warn', JWT_SECRET: 'bench-secret-bench-secret-bench-secret-42', SPC_WORKER_CONCURRENCY: '0', PRISMLINE_SCHEDULER: '0' };
+  const startServer = async () => {
+    const port = await freePort();
+    const { command, args } = serverCommand();
+    const child = spawn(command, args, { cwd: root, env: { ...env, PORT: String(port) }, stdio: ['ignore', 'inherit', 'inherit'] });
+    const url = `http://127.0.0.1:${port}`;
+    await waitForServer(url, child);
+    return { child, url };
+  };
+  // The first server seeds the demo plant and stops; the measured one starts on the seeded database, so its
+  // memory is the reports' and not the seed's leftovers.
+  const seeding = await startServer();
+  seeding.child.kill('SIGTERM');
+  await once(seeding.child, 'exit');
+  const { child: server, url: base } = await startServer();
   const db = createDatabase(databaseUrl, 2);
   let productId: number | null = null;
   try {
-    await waitForServer(base, server);
     const seeded = await seedProduct(db, `BRP${Date.now().toString(36).toUpperCase()}`);
     productId = seeded.productId;
     const login = (await fetch(`${base}/api/v1/auth/login`, {
@@ -127,6 +134,8 @@ export async function run(): Promise<BenchRow[]> {
       return seeded.ids.map((id) => `${base}/api/v1/characteristics/${id}/chart?${q}`);
     };
 
+    const rssBefore = peakRssMb(server.pid!);
+    // Restart the peak-RSS count (Linux clear_refs 5) so the figure is the reports', not the start's.
     writeFileSync(`/proc/${server.pid}/clear_refs`, '5');
     const cold = { report: [] as number[], charts: [] as number[] };
     const warm = { report: [] as number[], charts: [] as number[] };
@@ -162,7 +171,7 @@ export async function run(): Promise<BenchRow[]> {
         name: 'reports: server peak memory (MB)',
         ratio: rss / 300,
         target: '≤ 1 (300 MB)',
-        detail: `peak RSS while writing ${2 * ROUNDS} product PDFs and answering ${2 * ROUNDS * CHARACTERISTICS} charts: ${rss.toFixed(0)} MB`,
+        detail: `peak RSS while writing ${2 * ROUNDS} product PDFs and answering ${2 * ROUNDS * CHARACTERISTICS} charts: ${rss.toFixed(0)} MB (peak while starting, before them: ${rssBefore.toFixed(0)} MB)`,
       },
     ];
   } finally {

@@ -47,12 +47,12 @@ async function download(path: string, role: Role = 'auditor') {
 
 let fileNo = 0;
 /** The PDF's text as poppler's pdftotext lays it out, and its page count from pdfinfo. */
-async function readPdf(bytes: Buffer): Promise<{ text: string; pages: string[]; pageCount: number }> {
+async function readPdf(bytes: Buffer): Promise<{ file: string; text: string; pages: string[]; pageCount: number }> {
   const file = join(dir, `report-${++fileNo}.pdf`);
   writeFileSync(file, bytes);
   const { stdout: text } = await run('pdftotext', ['-layout', file, '-'], { maxBuffer: 64 * 1024 * 1024 });
   const { stdout: info } = await run('pdfinfo', [file]);
-  return { text, pages: text.split('\f').filter((p) => p.trim()), pageCount: Number(/^Pages:\s+(\d+)/m.exec(info)?.[1]) };
+  return { file, text, pages: text.split('\f').filter((p) => p.trim()), pageCount: Number(/^Pages:\s+(\d+)/m.exec(info)?.[1]) };
 }
 
 /** The CSV parsed by papaparse, after checking and removing the UTF-8 byte-order mark. */
@@ -139,6 +139,16 @@ describe('one characteristic', () => {
     if (chart.spec?.lsl !== null) expect(flat).toContain(`LSL ${formatFigure(chart.spec!.lsl, d)} ${chart.characteristic.unit}`);
     if (chart.spec?.usl !== null) expect(flat).toContain(`USL ${formatFigure(chart.spec!.usl, d)} ${chart.characteristic.unit}`);
     expect(flat).toContain(demoChars[0].code);
+    // The frozen limits are named by the revision number the limit-revision history gives them, not by a row id.
+    expect(chart.limits.source).toBe('frozen');
+    const history = await request(api.app).get(`/api/v1/characteristics/${id}/limit-revisions`).set(await as());
+    const inForce = (history.body.items as { id: number; revision: number }[]).find((r) => r.id === chart.limits.revisionId)!;
+    expect(flat).toContain(`Control limits frozen, revision ${inForce.revision} by`);
+    // poppler's pdffonts: the app's typefaces, every one embedded (no reader substitutes a font on another machine).
+    const { stdout: fontList } = await run('pdffonts', [pdf.file]);
+    const fontRows = fontList.split('\n').slice(2).filter((l) => l.trim());
+    expect(fontRows.map((l) => l.split(/\s+/)[0].replace(/^[A-Z]{6}\+/, '')).sort()).toEqual(['Inter-Bold', 'Inter-Regular', 'RobotoMono-Regular']);
+    for (const row of fontRows) expect(row).toMatch(/\byes\s+yes\s+yes\s+\d+\s+\d+$/);
     // pdfinfo's page count is the M of every footer, and page k says "Page k of M".
     expect(pdf.pageCount).toBeGreaterThanOrEqual(2);
     expect(pdf.pages).toHaveLength(pdf.pageCount);
@@ -239,6 +249,8 @@ describe('CSV injection', () => {
     const t = await createTestCharacteristic(api.db, { chartType: 'xbar-r', subgroupSize: 2, specs: [{ lsl: 120, usl: 170, effectiveFrom: testDay(0) }] });
     for (let i = 0; i < 6; i++) await t.addLot(`L${i}`, testDay(i + 1), [145 + (i % 3), 146 - (i % 2)]);
     const lots = await api.db.execute<{ id: number; lot_number: string }>(sql`select id, lot_number from lots where product_id = ${t.productId} order by produced_at`);
+    const query = `characteristic=${t.characteristicId}&from=2025-01-01&to=2025-01-31`;
+    const before = (await previewOf(query)).inputHash;
     const reasons = ['=HYPERLINK("http://x.example")', '+1+2', '-3+4', '@SUM(A1:A2)'];
     for (const [i, reason] of reasons.entries()) {
       const res = await request(api.app).post(`/api/v1/characteristics/${t.characteristicId}/exclusions`).set(await as('quality_manager')).send({ lotId: lots.rows[i].id, reason });
@@ -246,7 +258,9 @@ describe('CSV injection', () => {
     }
     // A reason is trimmed at the edge, so a leading tab or carriage return is planted in the test characteristic's own name.
     await api.db.update(characteristics).set({ name: '\tcmd\r' }).where(eq(characteristics.id, t.characteristicId));
-    const bytes = (await download(`/api/v1/reports/capability.csv?characteristic=${t.characteristicId}&from=2025-01-01&to=2025-01-31`)).body;
+    // The exclusions are part of the input: the hash that lets two copies be compared changes with them.
+    expect((await previewOf(query)).inputHash).not.toBe(before);
+    const bytes = (await download(`/api/v1/reports/capability.csv?${query}`)).body;
     const rows = readCsv(bytes);
     const cells = rows.flat();
     for (const reason of reasons) {
